@@ -1,0 +1,84 @@
+// The validated case, with defaults filled in and directions normalised.
+// Units throughout: mm, N, MPa (so fracture energy GF is in N/mm).
+
+export type Vec2 = [number, number];
+
+export type Hole =
+  | { kind: 'circle'; center: Vec2; radius: number }
+  | { kind: 'polygon'; points: Vec2[] };
+
+/** A notch from the specimen edge (or interior) with a width; width 0 is a sharp slit. */
+export interface Notch { from: Vec2; to: Vec2; width: number }
+
+export type Fix = 'x' | 'y' | 'xy';
+
+/** A support at a point or along a segment of the boundary; width spreads a point over a bearing strip. */
+export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix }
+
+/** Where the machine moves the specimen; direction is a unit vector. */
+export interface Load { at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2 }
+
+export type ControlKind = 'displacement' | 'cmod' | 'force';
+
+export interface Gauge { from: Vec2; to: Vec2 }
+
+export interface Control {
+  by: ControlKind;
+  gauge?: Gauge;
+  /** mm for displacement and cmod control, N for force control. */
+  target: number;
+  increments: number;
+  stopAtLoadFraction: number;
+}
+
+export type Softening = 'linear' | 'bilinear' | 'exponential';
+
+export interface Material {
+  E: number; nu: number; ft: number; GF: number;
+  softening: Softening;
+  /** β in the effective opening √(w² + β s²). */
+  shearWeight: number;
+}
+
+export interface CrackSettings {
+  start: 'notch-tips' | 'anywhere' | Vec2[];
+  criterion: 'principal-stress';
+  growthStep: number;
+  averagingRadius: number;
+}
+
+export interface MeshSettings {
+  size: number; tipSize: number; refineRadius: number;
+  coarsen: boolean; seed: number; lloyd: number;
+}
+
+export interface Probe { name: string; at: Vec2 }
+
+export interface OutputSettings {
+  frames: ('svg' | 'png')[];
+  every: number;
+  animation: 'gif' | 'webp' | 'none';
+  vtk: boolean;
+  /** Width of PNG pictures in pixels. */
+  pngWidth: number;
+}
+
+export interface CaseModel {
+  format: 1;
+  /** Short name used for the default output folder (from the file name). */
+  name: string;
+  title: string;
+  units: 'mm-N-MPa';
+  model: 'plane-stress' | 'plane-strain';
+  thickness: number;
+  geometry: { outline: Vec2[]; holes: Hole[]; notches: Notch[] };
+  material: Material;
+  supports: Support[];
+  loads: Load[];
+  control: Control;
+  /** Absent: elastic analysis, one step at control.target. */
+  crack?: CrackSettings;
+  mesh: MeshSettings;
+  probes: Probe[];
+  output: OutputSettings;
+}
