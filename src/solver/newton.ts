@@ -1,0 +1,120 @@
+// Newton–Raphson with line search for one load step under path-following control.
+// The load factor λ is an unknown beside the free displacements; one scalar constraint
+// closes the system (bordered solve with two back-substitutions per iteration):
+//   displacement: λ = target;  cmod: gauge(u) = target;  force: F(u) = target.
+import type { CohesiveParams } from '../cohesive/interface.js';
+import { SingularMatrixError } from '../errors.js';
+import type { System } from './system.js';
+
+export type ControlKind = 'displacement' | 'cmod' | 'force';
+
+export interface StepResult { converged: boolean; iterations: number; reason: string }
+
+export interface NewtonOptions {
+  maxIter: number;
+  /** Converged when the largest out-of-balance force is below tolF (N) … */
+  tolF: number;
+  /** … and the constraint is met to tolG (its own unit). */
+  tolG: number;
+  /** Stiffness floor per face area on cohesive pairs (N/mm³). */
+  floor: number;
+}
+
+/** Scratch vectors for one topology (allocated once, reused every iteration). */
+export class NewtonWork {
+  readonly u: Float64Array; readonly f: Float64Array; readonly z: Float64Array;
+  readonly r: Float64Array; readonly a: Float64Array; readonly b: Float64Array; readonly kfl: Float64Array;
+  readonly ufTry: Float64Array; readonly gf: Float64Array;
+  constructor(sys: System) {
+    const n = sys.nDof, m = sys.nFree;
+    this.u = new Float64Array(n); this.f = new Float64Array(n); this.z = new Float64Array(n);
+    this.r = new Float64Array(m); this.a = new Float64Array(m); this.b = new Float64Array(m); this.kfl = new Float64Array(m);
+    this.ufTry = new Float64Array(m); this.gf = new Float64Array(m);
+  }
+}
+
+export interface StepState { uf: Float64Array; lambda: number }
+
+/** Residuals at (uf, λ): fills w.r (free forces), returns ‖r‖∞ and the constraint value. */
+function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
+  kind: ControlKind, target: number, uf: Float64Array, lambda: number, w: NewtonWork, tangent: boolean, floor: number):
+  { rmax: number; g: number; F: number } {
+  sys.expand(uf, lambda, w.u);
+  sys.internal(w.u, coh, kappa, kappaTrial, w.f, tangent, floor);
+  let rmax = 0;
+  const fd = sys.freeDofs;
+  for (let i = 0; i < fd.length; i++) { const v = w.f[fd[i]]; w.r[i] = v; const av = Math.abs(v); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
+  const F = sys.loadForce(w.f);
+  const g = kind === 'displacement' ? lambda - target : kind === 'cmod' ? sys.gaugeReading(w.u) - target : F - target;
+  return { rmax, g, F };
+}
+
+export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
+  kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
+  const m = sys.nFree, fd = sys.freeDofs;
+  const { gauge, gaugeW } = sys.driven;
+  if (kind === 'displacement') st.lambda = target;
+  let res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor);
+  for (let it = 1; it <= opt.maxIter; it++) {
+    if (res.rmax <= opt.tolF && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: it - 1, reason: '' };
+    if (!Number.isFinite(res.rmax) || !Number.isFinite(res.g)) return { converged: false, iterations: it, reason: 'non-finite residual' };
+    let factor;
+    try { factor = sys.factorTangent(); } catch (e) {
+      if (e instanceof SingularMatrixError) return { converged: false, iterations: it, reason: 'singular tangent' };
+      throw e;
+    }
+    // a = −K⁻¹ r,  b = K⁻¹ k_fλ with k_fλ = kT[f, load]·w
+    for (let i = 0; i < m; i++) w.r[i] = -w.r[i];
+    factor.solve(w.r, w.a);
+    w.z.fill(0);
+    sys.expand(w.gf.fill(0), 1, w.z); // z = load pattern
+    matVecT(sys, w.z, w.f);           // f = kT z
+    let gl: number;
+    for (let i = 0; i < m; i++) w.kfl[i] = w.f[fd[i]];
+    factor.solve(w.kfl, w.b);
+    // constraint gradient (g_f over free dofs, g_λ)
+    w.gf.fill(0);
+    if (kind === 'displacement') gl = 1;
+    else if (kind === 'cmod') {
+      gl = 0;
+      for (let i = 0; i < gauge.length; i++) {
+        const fi = sys.freeOf[gauge[i]];
+        if (fi >= 0) w.gf[fi] += gaugeW[i]; else gl += gaugeW[i] * w.z[gauge[i]];
+      }
+    } else {
+      w.gf.set(w.kfl);
+      gl = sys.loadForce(w.f);
+    }
+    let ga = 0, gb = 0;
+    for (let i = 0; i < m; i++) { ga += w.gf[i] * w.a[i]; gb += w.gf[i] * w.b[i]; }
+    const den = gl - gb;
+    if (!(Math.abs(den) > 0)) return { converged: false, iterations: it, reason: 'the control does not determine the load (check the gauge and the load points)' };
+    const dl = -(res.g + ga) / den;
+    // du = a − b·dλ; backtracking line search on the out-of-balance force
+    const r0 = res.rmax;
+    let eta = 1, best = Infinity, bestEta = 1;
+    const lam0 = st.lambda;
+    for (let ls = 0; ls < 6; ls++) {
+      for (let i = 0; i < m; i++) w.ufTry[i] = st.uf[i] + eta * (w.a[i] - w.b[i] * dl);
+      const trial = residual(sys, coh, kappa, kappaTrial, kind, target, w.ufTry, lam0 + eta * dl, w, false, opt.floor);
+      if (trial.rmax < best) { best = trial.rmax; bestEta = eta; }
+      if (trial.rmax <= r0 || trial.rmax <= opt.tolF) break;
+      eta *= 0.5;
+    }
+    for (let i = 0; i < m; i++) st.uf[i] += bestEta * (w.a[i] - w.b[i] * dl);
+    st.lambda = lam0 + bestEta * dl;
+    res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor);
+  }
+  if (res.rmax <= opt.tolF && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: opt.maxIter, reason: '' };
+  return { converged: false, iterations: opt.maxIter, reason: `no convergence in ${opt.maxIter} iterations (out-of-balance ${res.rmax.toExponential(2)} N)` };
+}
+
+/** y = kT x on the full dofs (the tangent holds the cohesive part of the last evaluation). */
+function matVecT(sys: System, x: Float64Array, y: Float64Array): void {
+  const A = sys.kT, { rowPtr, colIdx, values } = A;
+  for (let i = 0; i < A.n; i++) {
+    let s = 0;
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) s += values[k] * x[colIdx[k]];
+    y[i] = s;
+  }
+}

@@ -1,0 +1,162 @@
+// One mesh topology's equations: bulk stiffness assembled once, cohesive pairs added per
+// iteration, supports eliminated, the load points driven by one load factor λ.
+// u_full = u_free (scattered) + λ·w on the load dofs + 0 on the supports.
+import type { PolyMesh } from '../mesh/polymesh.js';
+import { ElementWork, elementStiffness } from '../vem/element.js';
+import {
+  patternFromBlocks, assemblyMap, blockMapOffsets, matrixOnPattern, matVec, submatrix, submatrixInto,
+  analyze, factorize, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
+} from '../linalg/index.js';
+import { cohesivePoint, type CohesiveParams } from '../cohesive/interface.js';
+
+/** Crack-face node pair carrying the cohesive law (vertex ids are compact mesh indices here). */
+export interface PairGeom {
+  plus: Int32Array; minus: Int32Array;
+  /** Unit normal (pointing from the minus face to the plus face) and face area (mm²). */
+  nx: Float64Array; ny: Float64Array; area: Float64Array;
+}
+
+export interface DrivenDofs {
+  /** Constrained to zero (supports). */
+  fixed: Int32Array;
+  /** Driven by the load factor: u[dof] = λ·weight. */
+  load: Int32Array; loadW: Float64Array;
+  /** Linear gauge reading g = Σ coef·u[dof] (CMOD). */
+  gauge: Int32Array; gaugeW: Float64Array;
+}
+
+export class System {
+  readonly nDof: number;
+  readonly nFree: number;
+  /** Full dof → free index, −1 for fixed and driven dofs. */
+  readonly freeOf: Int32Array;
+  readonly freeDofs: Int32Array;
+  readonly kBulk: CsrMatrix;
+  readonly kT: CsrMatrix;
+  readonly kff: SubMatrix;
+  readonly sym: Symbolic;
+  factor: Factor | null = null;
+  private readonly pairMap: Int32Array;
+  private readonly pairOff: Int32Array;
+  private readonly nCellBlocks: number;
+  private readonly tr = new Float64Array(6);
+  private readonly m4 = new Float64Array(4);
+  readonly zLoad: Float64Array;
+
+  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs) {
+    const nv = mesh.xy.length >> 1, nc = mesh.cellStart.length - 1, np = pairs.plus.length;
+    this.nDof = 2 * nv;
+    this.nCellBlocks = nc;
+    // blocks: one per cell (2n dofs), one per pair (4 dofs)
+    const blockStart = new Int32Array(nc + np + 1);
+    for (let c = 0; c < nc; c++) blockStart[c + 1] = blockStart[c] + 2 * (mesh.cellStart[c + 1] - mesh.cellStart[c]);
+    for (let p = 0; p < np; p++) blockStart[nc + p + 1] = blockStart[nc + p] + 4;
+    const blockDofs = new Int32Array(blockStart[nc + np]);
+    let maxn = 3;
+    for (let c = 0; c < nc; c++) {
+      const s = mesh.cellStart[c], e = mesh.cellStart[c + 1];
+      maxn = Math.max(maxn, e - s);
+      for (let k = s; k < e; k++) { const o = blockStart[c] + 2 * (k - s); blockDofs[o] = 2 * mesh.cellVerts[k]; blockDofs[o + 1] = 2 * mesh.cellVerts[k] + 1; }
+    }
+    for (let p = 0; p < np; p++) {
+      const o = blockStart[nc + p];
+      blockDofs[o] = 2 * pairs.plus[p]; blockDofs[o + 1] = 2 * pairs.plus[p] + 1;
+      blockDofs[o + 2] = 2 * pairs.minus[p]; blockDofs[o + 3] = 2 * pairs.minus[p] + 1;
+    }
+    const pattern = patternFromBlocks(this.nDof, blockStart, blockDofs);
+    const map = assemblyMap(pattern, blockStart, blockDofs);
+    const off = blockMapOffsets(blockStart);
+    this.kBulk = matrixOnPattern(pattern);
+    const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn);
+    const vals = this.kBulk.values;
+    for (let c = 0; c < nc; c++) {
+      const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
+      elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+      const o = off[c];
+      for (let k = 0; k < m * m; k++) vals[map[o + k]] += Ke[k];
+    }
+    this.pairMap = map;
+    this.pairOff = off.subarray(nc);
+    this.kT = matrixOnPattern(pattern);
+
+    const freeOf = new Int32Array(this.nDof).fill(0);
+    for (const d of driven.fixed) freeOf[d] = -1;
+    for (const d of driven.load) freeOf[d] = -1;
+    let nf = 0;
+    const freeDofs: number[] = [];
+    for (let d = 0; d < this.nDof; d++) if (freeOf[d] === 0) { freeOf[d] = nf++; freeDofs.push(d); } else freeOf[d] = -1;
+    this.freeOf = freeOf; this.nFree = nf; this.freeDofs = Int32Array.from(freeDofs);
+    this.kff = submatrix(this.kT, freeOf, nf);
+    this.sym = analyze(this.kff);
+    this.zLoad = new Float64Array(this.nDof);
+    for (let i = 0; i < driven.load.length; i++) this.zLoad[driven.load[i]] = driven.loadW[i];
+  }
+
+  /** Full displacement from free values and the load factor. */
+  expand(uf: Float64Array, lambda: number, u: Float64Array): void {
+    u.fill(0);
+    const fd = this.freeDofs;
+    for (let i = 0; i < fd.length; i++) u[fd[i]] = uf[i];
+    const { load, loadW } = this.driven;
+    for (let i = 0; i < load.length; i++) u[load[i]] = lambda * loadW[i];
+  }
+
+  /**
+   * Internal force f = K u + f_coh(u) and the tangent kT (when wanted); trial histories
+   * go to kappaTrial. Returns nothing; f has the full dof length.
+   */
+  internal(u: Float64Array, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
+    f: Float64Array, wantTangent: boolean, floor: number): void {
+    matVec(this.kBulk, u, f);
+    if (wantTangent) this.kT.values.set(this.kBulk.values);
+    if (!coh) return;
+    const P = this.pairs, np = P.plus.length, tr = this.tr, vals = this.kT.values, map = this.pairMap;
+    for (let p = 0; p < np; p++) {
+      const a = P.plus[p], b = P.minus[p], nx = P.nx[p], ny = P.ny[p], A = P.area[p];
+      const dx = u[2 * a] - u[2 * b], dy = u[2 * a + 1] - u[2 * b + 1];
+      // local frame: n and t = (ny, −nx)
+      const w = dx * nx + dy * ny, s = dx * ny - dy * nx;
+      kappaTrial[p] = cohesivePoint(coh, w, s, kappa[p], tr);
+      const fx = A * (tr[0] * nx + tr[1] * ny), fy = A * (tr[0] * ny - tr[1] * nx);
+      f[2 * a] += fx; f[2 * a + 1] += fy; f[2 * b] -= fx; f[2 * b + 1] -= fy;
+      if (!wantTangent) continue;
+      // M = A·R C Rᵀ with R = [n t]; a small floor keeps fully open faces from a singular matrix
+      const c00 = tr[2], c01 = tr[3], c10 = tr[4], c11 = tr[5];
+      const m00 = A * (nx * nx * c00 + nx * ny * (c01 + c10) + ny * ny * c11) + floor * A;
+      const m01 = A * (nx * ny * c00 - nx * nx * c01 + ny * ny * c10 - nx * ny * c11);
+      const m10 = A * (nx * ny * c00 + ny * ny * c01 - nx * nx * c10 - nx * ny * c11);
+      const m11 = A * (ny * ny * c00 - nx * ny * (c01 + c10) + nx * nx * c11) + floor * A;
+      const o = this.pairOff[p];
+      const M = this.m4;
+      M[0] = m00; M[1] = m01; M[2] = m10; M[3] = m11;
+      for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) {
+        const sgn = (i < 2) === (j < 2) ? 1 : -1;
+        vals[map[o + 4 * i + j]] += sgn * M[2 * (i & 1) + (j & 1)];
+      }
+    }
+  }
+
+  /** Factorize the free–free block of the current tangent kT. */
+  factorTangent(): Factor {
+    submatrixInto(this.kT, this.kff);
+    this.factor = factorize(this.kff, this.sym, this.factor ?? undefined);
+    return this.factor;
+  }
+
+  /** Machine force along the load direction: Σ w·f over the driven dofs. */
+  loadForce(f: Float64Array): number {
+    const { load, loadW } = this.driven;
+    let F = 0;
+    for (let i = 0; i < load.length; i++) F += loadW[i] * f[load[i]];
+    return F;
+  }
+
+  gaugeReading(u: Float64Array): number {
+    const { gauge, gaugeW } = this.driven;
+    let g = 0;
+    for (let i = 0; i < gauge.length; i++) g += gaugeW[i] * u[gauge[i]];
+    return g;
+  }
+
+  get cellBlocks(): number { return this.nCellBlocks; }
+}
