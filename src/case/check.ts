@@ -1,0 +1,358 @@
+// Checks of a filled case that need no mesh: value ranges, a sound outline, holes and
+// notches inside it, supports, loads and gauge on the boundary, no rigid-body motion.
+import { InputError } from '../errors.js';
+import { dotted, fieldKey, inRange, mustBe, specOf } from './fields.js';
+import { describeValue, fmtNum, fmtPoint } from './messages.js';
+import type { CaseModel, Hole, Notch, Vec2 } from './model.js';
+import {
+  bbox, dist, edgeDist, inPolygon, nearestOnSegment, properCross, segDist, segSegDist, selfTouch, signedArea,
+} from './shapes.js';
+
+/** Largest mesh the checks let through (estimated polygons); beyond it a run would not finish. */
+export const MAX_POLYGONS = 2_000_000;
+
+type Path = (string | number)[];
+
+function fail(path: Path, found: string, by?: unknown): never {
+  throw new InputError(`${name(path)} ${mustBe(fieldKey(path), by)} (${found})`);
+}
+
+const name = (path: Path): string => dotted(path);
+
+function num(v: unknown, path: Path, by?: unknown): void {
+  const r = specOf(fieldKey(path)).range;
+  if (typeof v !== 'number' || (r && !inRange(v, r))) fail(path, `found ${describeValue(v)}`, by);
+}
+
+function checkNumbers(c: CaseModel): void {
+  num(c.thickness, ['thickness']);
+  const m = c.material;
+  num(m.E, ['material', 'E']); num(m.nu, ['material', 'nu']); num(m.ft, ['material', 'ft']);
+  num(m.GF, ['material', 'GF']); num(m.shearWeight, ['material', 'shearWeight']);
+  c.geometry.holes.forEach((h, i) => { if (h.kind === 'circle') num(h.radius, ['geometry', 'holes', i, 'circle', 'radius']); });
+  c.geometry.notches.forEach((n, i) => num(n.width, ['geometry', 'notches', i, 'width']));
+  c.supports.forEach((s, i) => num(s.width, ['supports', i, 'width']));
+  c.loads.forEach((l, i) => num(l.width, ['loads', i, 'width']));
+  num(c.control.target, ['control', 'target'], c.control.by);
+  num(c.control.increments, ['control', 'increments']);
+  num(c.control.stopAtLoadFraction, ['control', 'stopAtLoadFraction']);
+  if (c.crack) {
+    num(c.crack.growthStep, ['crack', 'growthStep']);
+    num(c.crack.averagingRadius, ['crack', 'averagingRadius']);
+  }
+  const g = c.mesh;
+  num(g.size, ['mesh', 'size']); num(g.tipSize, ['mesh', 'tipSize']); num(g.refineRadius, ['mesh', 'refineRadius']);
+  num(g.seed, ['mesh', 'seed']); num(g.lloyd, ['mesh', 'lloyd']);
+  if (g.tipSize > g.size) fail(['mesh', 'tipSize'], `found ${fmtNum(g.tipSize)}, mesh.size is ${fmtNum(g.size)}`);
+  num(c.output.every, ['output', 'every']); num(c.output.pngWidth, ['output', 'pngWidth']);
+}
+
+/** The specimen as the checks see it: outline, holes and notch cuts, with a length tolerance. */
+class Specimen {
+  readonly tol: number;
+  constructor(readonly outline: Vec2[], readonly holes: Hole[], readonly notches: Notch[]) {
+    const b = bbox(outline);
+    this.tol = 1e-6 * Math.hypot(b.x1 - b.x0, b.y1 - b.y0);
+  }
+
+  /** Index of the notch whose cut-out region holds p (its faces excluded), or -1. */
+  notchAt(p: Vec2): number {
+    const t = this.tol;
+    for (let i = 0; i < this.notches.length; i++) {
+      const n = this.notches[i]!;
+      const len = dist(n.from, n.to);
+      if (len === 0) continue;
+      const ux = (n.to[0] - n.from[0]) / len, uy = (n.to[1] - n.from[1]) / len;
+      const dx = p[0] - n.from[0], dy = p[1] - n.from[1];
+      const s = dx * ux + dy * uy, q = -dx * uy + dy * ux;
+      if (s > -t && s < len - t && Math.abs(q) < n.width / 2 - t) return i;
+    }
+    return -1;
+  }
+
+  inNotch(p: Vec2): boolean {
+    return this.notchAt(p) >= 0;
+  }
+
+  inHole(p: Vec2, margin: number): boolean {
+    for (const h of this.holes) {
+      if (h.kind === 'circle' ? dist(p, h.center) < h.radius - margin
+        : inPolygon(p, h.points) && edgeDist(p, h.points) > margin) return true;
+    }
+    return false;
+  }
+
+  /** Inside the material or on its boundary. */
+  contains(p: Vec2): boolean {
+    const t = this.tol;
+    const inOutline = inPolygon(p, this.outline) || edgeDist(p, this.outline) <= t;
+    return inOutline && !this.inHole(p, t) && !this.inNotch(p);
+  }
+
+  /** Straight boundary pieces: outline edges, polygon-hole edges, notch faces and tip ends. */
+  segments(): [Vec2, Vec2][] {
+    const out: [Vec2, Vec2][] = [];
+    const ring = (pts: Vec2[]) => pts.forEach((a, i) => out.push([a, pts[(i + 1) % pts.length]!]));
+    ring(this.outline);
+    for (const h of this.holes) if (h.kind === 'polygon') ring(h.points);
+    for (const n of this.notches) {
+      const len = dist(n.from, n.to);
+      if (len === 0) continue;
+      const h = n.width / 2;
+      const nx = (-(n.to[1] - n.from[1]) / len) * h, ny = ((n.to[0] - n.from[0]) / len) * h;
+      const f1: Vec2 = [n.from[0] + nx, n.from[1] + ny], f2: Vec2 = [n.from[0] - nx, n.from[1] - ny];
+      const t1: Vec2 = [n.to[0] + nx, n.to[1] + ny], t2: Vec2 = [n.to[0] - nx, n.to[1] - ny];
+      if (h === 0) out.push([n.from, n.to]);
+      else out.push([f1, t1], [f2, t2], [t1, t2]);
+    }
+    return out;
+  }
+
+  /** Nearest boundary point to p and its distance. */
+  nearestBoundary(p: Vec2): [Vec2, number] {
+    let best: Vec2 = p, bd = Infinity;
+    for (const [a, b] of this.segments()) {
+      const q = nearestOnSegment(p, a, b), d = dist(p, q);
+      if (d < bd) { bd = d; best = q; }
+    }
+    for (const h of this.holes) {
+      if (h.kind !== 'circle') continue;
+      const d = dist(p, h.center);
+      const q: Vec2 = d > 0 ? [h.center[0] + ((p[0] - h.center[0]) * h.radius) / d, h.center[1] + ((p[1] - h.center[1]) * h.radius) / d]
+        : [h.center[0] + h.radius, h.center[1]];
+      if (Math.abs(d - h.radius) < bd) { bd = Math.abs(d - h.radius); best = q; }
+    }
+    return [best, bd];
+  }
+
+  onBoundary(p: Vec2): boolean {
+    return this.nearestBoundary(p)[1] <= this.tol && !this.inNotch(p);
+  }
+
+  /** A bearing strip of the given width centred at p lies on one straight piece (or p is on a circular hole). */
+  stripFits(p: Vec2, width: number): boolean {
+    const t = this.tol;
+    if (this.holes.some((h) => h.kind === 'circle' && Math.abs(dist(p, h.center) - h.radius) <= t)) return true;
+    return this.segments().some(([a, b]) => {
+      const len = dist(a, b);
+      if (len === 0 || segDist(p, a, b) > t) return false;
+      const s = ((p[0] - a[0]) * (b[0] - a[0]) + (p[1] - a[1]) * (b[1] - a[1])) / len;
+      return s - width / 2 >= -t && s + width / 2 <= len + t;
+    });
+  }
+
+  /** Both ends on one straight boundary piece. */
+  onOneEdge(a: Vec2, b: Vec2): boolean {
+    if (this.inNotch(a) || this.inNotch(b)) return false;
+    return this.segments().some(([p, q]) => segDist(a, p, q) <= this.tol && segDist(b, p, q) <= this.tol);
+  }
+}
+
+function checkOutline(outline: Vec2[], path: Path, tol: number): void {
+  const clash = selfTouch(outline, tol);
+  if (clash) {
+    throw new InputError(`${name(path)} must be a simple polygon that does not touch or cross itself `
+      + `(found edge ${clash[0]} touching edge ${clash[1]} near ${fmtPoint(clash[2])} mm)`);
+  }
+  if (Math.abs(signedArea(outline)) <= tol * tol) fail(path, 'found a polygon of zero area');
+}
+
+/** Polygon stand-in for a hole, for hole–hole overlap tests. */
+function ring(h: Hole): Vec2[] {
+  if (h.kind === 'polygon') return h.points;
+  const pts: Vec2[] = [];
+  for (let k = 0; k < 64; k++) {
+    const a = (2 * Math.PI * k) / 64;
+    pts.push([h.center[0] + h.radius * Math.cos(a), h.center[1] + h.radius * Math.sin(a)]);
+  }
+  return pts;
+}
+
+function ringsOverlap(a: Vec2[], b: Vec2[], tol: number): boolean {
+  if (inPolygon(a[0]!, b) || inPolygon(b[0]!, a)) return true;
+  for (let i = 0; i < a.length; i++) {
+    for (let j = 0; j < b.length; j++) {
+      if (segSegDist(a[i]!, a[(i + 1) % a.length]!, b[j]!, b[(j + 1) % b.length]!) <= tol) return true;
+    }
+  }
+  return false;
+}
+
+function holeText(h: Hole): string {
+  return h.kind === 'circle' ? `a circle at ${fmtPoint(h.center)} with radius ${fmtNum(h.radius)} mm`
+    : `a polygon of ${h.points.length} points`;
+}
+
+function checkHoles(sp: Specimen): void {
+  const { outline, holes, tol } = sp;
+  holes.forEach((h, i) => {
+    const path: Path = ['geometry', 'holes', i];
+    if (h.kind === 'polygon') checkOutline(h.points, [...path, 'polygon'], tol);
+    const inside = h.kind === 'circle'
+      ? inPolygon(h.center, outline) && edgeDist(h.center, outline) > h.radius + tol
+      : h.points.every((p) => inPolygon(p, outline) && edgeDist(p, outline) > tol)
+        && h.points.every((p, k) => outline.every((q, e) =>
+          segSegDist(p, h.points[(k + 1) % h.points.length]!, q, outline[(e + 1) % outline.length]!) > tol));
+    if (!inside) throw new InputError(`${name(path)} must lie inside the outline without touching it (found ${holeText(h)})`);
+    for (let j = 0; j < i; j++) {
+      if (ringsOverlap(ring(h), ring(holes[j]!), tol)) {
+        throw new InputError(`${name(path)} must not touch or overlap geometry.holes[${j}] (found ${holeText(h)})`);
+      }
+    }
+  });
+}
+
+function checkNotches(sp: Specimen): void {
+  const { outline, tol } = sp;
+  sp.notches.forEach((n, i) => {
+    const path: Path = ['geometry', 'notches', i];
+    if (dist(n.from, n.to) <= tol) {
+      throw new InputError(`${name(path)} must have distinct from and to points (found both at ${fmtPoint(n.from)} mm)`);
+    }
+    const fromOk = inPolygon(n.from, outline) || edgeDist(n.from, outline) <= tol;
+    if (!fromOk) {
+      throw new InputError(`${name([...path, 'from'])} must be a point on the outline or inside it in mm (found ${fmtPoint(n.from)})`);
+    }
+    const toOk = inPolygon(n.to, outline) && edgeDist(n.to, outline) > tol && !sp.inHole(n.to, -tol);
+    if (!toOk) {
+      throw new InputError(`${name([...path, 'to'])} must be a point inside the specimen, off its boundary, in mm (found ${fmtPoint(n.to)})`);
+    }
+    const crosses = outline.some((a, e) => properCross(n.from, n.to, a, outline[(e + 1) % outline.length]!));
+    const mid: Vec2 = [(n.from[0] + n.to[0]) / 2, (n.from[1] + n.to[1]) / 2];
+    if (crosses || !inPolygon(mid, outline)) {
+      throw new InputError(`${name(path)} must run inside the outline from its mouth to its tip `
+        + `(found from ${fmtPoint(n.from)} to ${fmtPoint(n.to)} mm crossing the outline)`);
+    }
+  });
+}
+
+function onBoundary(sp: Specimen, p: Vec2, path: Path): void {
+  if (sp.onBoundary(p)) return;
+  const notch = sp.notchAt(p);
+  const [q] = sp.nearestBoundary(p);
+  const why = notch >= 0 ? `inside the cut of geometry.notches[${notch}]` : `the nearest boundary point is ${fmtPoint(q)}`;
+  throw new InputError(`${name(path)} must be a point on the specimen boundary in mm (found ${fmtPoint(p)}, ${why})`);
+}
+
+function placed(sp: Specimen, at: Vec2 | undefined, along: [Vec2, Vec2] | undefined, width: number, path: Path): void {
+  if (at) {
+    onBoundary(sp, at, [...path, 'at']);
+    if (width > 0 && !sp.stripFits(at, width)) {
+      throw new InputError(`${name([...path, 'width'])} must fit on one straight edge of the specimen around ${name([...path, 'at'])} in mm `
+        + `(found ${fmtNum(width)} at ${fmtPoint(at)})`);
+    }
+    return;
+  }
+  const [a, b] = along!;
+  if (dist(a, b) <= sp.tol) {
+    throw new InputError(`${name([...path, 'along'])} must be two distinct points in mm (found both at ${fmtPoint(a)})`);
+  }
+  if (!sp.onOneEdge(a, b)) {
+    throw new InputError(`${name([...path, 'along'])} must be two points on one straight edge of the specimen in mm `
+      + `(found ${fmtPoint(a)} to ${fmtPoint(b)})`);
+  }
+  if (width > 0) {
+    throw new InputError(`${name([...path, 'width'])} must be 0 for a support or load along an edge; `
+      + `a bearing width applies to a point (found ${fmtNum(width)})`);
+  }
+}
+
+/** Rows of the rigid-motion map (u = a − θ y, v = b + θ x) restrained by the supports must have rank 3. */
+function checkRigid(c: CaseModel, sp: Specimen): void {
+  const b = bbox(sp.outline);
+  const cx = (b.x0 + b.x1) / 2, cy = (b.y0 + b.y1) / 2, L = Math.hypot(b.x1 - b.x0, b.y1 - b.y0);
+  const rows: number[][] = [];
+  let hasX = false, hasY = false;
+  for (const s of c.supports) {
+    for (const p of s.at ? [s.at] : s.along!) {
+      const x = (p[0] - cx) / L, y = (p[1] - cy) / L;
+      if (s.fix !== 'y') { rows.push([1, 0, -y]); hasX = true; }
+      if (s.fix !== 'x') { rows.push([0, 1, x]); hasY = true; }
+    }
+  }
+  const why = !hasX ? 'found no support fixing x' : !hasY ? 'found no support fixing y'
+    : rank3(rows) < 3 ? 'found supports that leave a rotation free' : '';
+  if (why) {
+    throw new InputError(`supports must hold the specimen against rigid-body motion in x, y and rotation (${why})`);
+  }
+}
+
+function rank3(rows: number[][]): number {
+  const m = rows.map((r) => r.slice());
+  let rank = 0;
+  for (let col = 0; col < 3 && rank < m.length; col++) {
+    let piv = rank;
+    for (let r = rank + 1; r < m.length; r++) if (Math.abs(m[r]![col]!) > Math.abs(m[piv]![col]!)) piv = r;
+    if (Math.abs(m[piv]![col]!) < 1e-9) continue;
+    [m[rank], m[piv]] = [m[piv]!, m[rank]!];
+    for (let r = rank + 1; r < m.length; r++) {
+      const f = m[r]![col]! / m[rank]![col]!;
+      for (let k = col; k < 3; k++) m[r]![k]! -= f * m[rank]![k]!;
+    }
+    rank++;
+  }
+  return rank;
+}
+
+function checkMeshSize(c: CaseModel, sp: Specimen): void {
+  const area = Math.abs(signedArea(sp.outline));
+  const tips = Math.max(1, c.geometry.notches.length);
+  const { size, tipSize, refineRadius } = c.mesh;
+  const refined = Math.min(area, tips * Math.PI * refineRadius * refineRadius);
+  const estimate = area / (size * size) + refined / (tipSize * tipSize);
+  if (estimate > MAX_POLYGONS) {
+    throw new InputError(`mesh.size and mesh.tipSize must give at most ${MAX_POLYGONS} polygons `
+      + `(found about ${Math.round(estimate)} polygons with size ${fmtNum(size)} mm and tipSize ${fmtNum(tipSize)} mm)`);
+  }
+}
+
+/** Throws an InputError naming the first problem of a filled case; the order of checks is fixed. */
+export function checkCase(c: CaseModel): void {
+  checkNumbers(c);
+  const sp = new Specimen(c.geometry.outline, c.geometry.holes, c.geometry.notches);
+  checkOutline(c.geometry.outline, ['geometry', 'outline'], sp.tol);
+  checkHoles(sp);
+  checkNotches(sp);
+
+  c.supports.forEach((s, i) => placed(sp, s.at, s.along, s.width, ['supports', i]));
+  c.loads.forEach((l, i) => {
+    if (l.direction[0] === 0 && l.direction[1] === 0) fail(['loads', i, 'direction'], `found ${fmtPoint(l.direction)}`);
+    placed(sp, l.at, l.along, l.width, ['loads', i]);
+  });
+  checkRigid(c, sp);
+
+  const { control } = c;
+  if (control.by === 'cmod' && !control.gauge) throw new InputError('control.gauge is required when control.by is cmod');
+  if (control.gauge) {
+    const g = control.gauge;
+    onBoundary(sp, g.from, ['control', 'gauge', 'from']);
+    onBoundary(sp, g.to, ['control', 'gauge', 'to']);
+    if (dist(g.from, g.to) <= sp.tol) {
+      throw new InputError(`control.gauge must have distinct from and to points (found both at ${fmtPoint(g.from)} mm)`);
+    }
+  }
+
+  if (c.crack) {
+    const s = c.crack.start;
+    if (s === 'notch-tips' && c.geometry.notches.length === 0) {
+      throw new InputError('crack.start must be anywhere or a list of [x, y] points in mm when the geometry has no notches (found "notch-tips")');
+    }
+    if (Array.isArray(s)) {
+      s.forEach((p, i) => {
+        if (!sp.contains(p)) throw new InputError(`crack.start[${i}] must be a point in the specimen in mm (found ${fmtPoint(p)})`);
+      });
+    }
+  }
+
+  const names = new Set<string>();
+  c.probes.forEach((p, i) => {
+    if (typeof p.name !== 'string' || p.name.trim() === '') fail(['probes', i, 'name'], `found ${describeValue(p.name)}`);
+    if (names.has(p.name)) {
+      throw new InputError(`probes[${i}].name must be a name no other probe uses (found ${JSON.stringify(p.name)} twice)`);
+    }
+    names.add(p.name);
+    if (!sp.contains(p.at)) throw new InputError(`probes[${i}].at must be a point in the specimen in mm (found ${fmtPoint(p.at)})`);
+  });
+
+  checkMeshSize(c, sp);
+}

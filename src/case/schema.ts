@@ -1,0 +1,101 @@
+// Shape and types of a case file as written (before defaults). Messages come from the
+// field table (fields.ts), so the schema only states structure; value ranges and
+// geometry are checked afterwards on the filled model (check.ts).
+import { z } from 'zod';
+import type { Vec2 } from './model.js';
+
+const num = z.number();
+const isPoint = (v: unknown): v is Vec2 =>
+  Array.isArray(v) && v.length === 2 && Number.isFinite(v[0]) && Number.isFinite(v[1]);
+const point = z.custom<Vec2>(isPoint);
+const pointList = z.array(point).min(3);
+const pair = z.array(point).length(2);
+
+/** Exactly one of two keys must be present (at/along, circle/polygon). */
+function oneOf<T extends object>(a: keyof T, b: keyof T) {
+  return (v: T, ctx: z.RefinementCtx) => {
+    if ((v[a] === undefined) === (v[b] === undefined)) ctx.addIssue({ code: 'custom', message: 'one of', path: [] });
+  };
+}
+
+const hole = z
+  .strictObject({
+    circle: z.strictObject({ center: point, radius: num }).optional(),
+    polygon: pointList.optional(),
+  })
+  .superRefine(oneOf('circle', 'polygon'));
+
+const notch = z.strictObject({ from: point, to: point, width: num.optional() });
+
+const support = z
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']) })
+  .superRefine(oneOf('at', 'along'));
+
+const load = z
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point })
+  .superRefine(oneOf('at', 'along'));
+
+const gauge = z.strictObject({ from: point, to: point });
+
+const control = z.strictObject({
+  by: z.enum(['displacement', 'cmod', 'force']).optional(),
+  gauge: gauge.optional(),
+  target: num,
+  increments: num.optional(),
+  stopAtLoadFraction: num.optional(),
+});
+
+const crack = z.strictObject({
+  start: z.union([z.enum(['notch-tips', 'anywhere']), z.array(point).min(1)]).optional(),
+  criterion: z.literal('principal-stress').optional(),
+  growthStep: num.optional(),
+  averagingRadius: num.optional(),
+});
+
+const mesh = z.strictObject({
+  size: num.optional(),
+  tipSize: num.optional(),
+  refineRadius: num.optional(),
+  coarsen: z.boolean().optional(),
+  seed: num.optional(),
+  lloyd: num.optional(),
+});
+
+const output = z.strictObject({
+  frames: z.array(z.enum(['svg', 'png'])).optional(),
+  every: num.optional(),
+  animation: z.enum(['gif', 'webp', 'none']).optional(),
+  vtk: z.boolean().optional(),
+  pngWidth: num.optional(),
+});
+
+export const caseSchema = z.strictObject({
+  format: z.literal(1),
+  title: z.string().optional(),
+  units: z.literal('mm-N-MPa'),
+  model: z.enum(['plane-stress', 'plane-strain']).optional(),
+  thickness: num,
+  geometry: z.strictObject({
+    outline: pointList,
+    holes: z.array(hole).optional(),
+    notches: z.array(notch).optional(),
+  }),
+  material: z.strictObject({
+    E: num,
+    nu: num,
+    ft: num,
+    GF: num,
+    softening: z.enum(['linear', 'bilinear', 'exponential']).optional(),
+    shearWeight: num.optional(),
+  }),
+  supports: z.array(support).min(1),
+  loads: z.array(load).min(1),
+  control,
+  crack: crack.optional(),
+  mesh: mesh.optional(),
+  probes: z.array(z.strictObject({ name: z.string().min(1), at: point })).optional(),
+  output: output.optional(),
+});
+
+/** A case as written, structurally valid, before defaults. */
+export type CaseInput = z.infer<typeof caseSchema>;
