@@ -1,0 +1,451 @@
+// Pictures of a plate: cells coloured by a field, deformed shape, cracks, cohesive segments, supports and loads.
+
+import type { PolyMesh } from '../mesh/polymesh.js';
+import { cellCount, vertexCount } from '../mesh/polymesh.js';
+import { colorAt, damageMap, diverging, sequential } from './colormap.js';
+import { el, layer, n, n1, polyPath, svgDocument, text } from './svg.js';
+import { formatTicks, formatValue, niceTicks } from './ticks.js';
+
+export interface FieldPicture {
+  mesh: PolyMesh;
+  /** One value per cell. */
+  values?: Float64Array;
+  /** e.g. "σ₁ / ft". */
+  valueLabel?: string;
+  range?: [number, number];
+  /** Signed map, white at zero (two slopes when the range straddles zero). */
+  diverging?: boolean;
+  /** Two per vertex, mm. */
+  displacement?: Float64Array;
+  magnification?: number;
+  showMesh?: boolean;
+  cracks?: { points: [number, number][]; kind: 'notch' | 'crack' }[];
+  cohesive?: { x1: number; y1: number; x2: number; y2: number; damage: number }[];
+  supports?: { x: number; y: number; fix: 'x' | 'y' | 'xy' }[];
+  loads?: { x: number; y: number; dx: number; dy: number }[];
+  title?: string;
+  caption?: string[];
+  widthPx?: number;
+}
+
+const LEVELS = 64;
+const INK = '#1b1b1b';
+const MUTED = '#4a4f55';
+
+/** Value → [0, 1]: linear, or two slopes meeting at zero for a signed map. */
+function normaliser(lo: number, hi: number, twoSlope: boolean): (v: number) => number {
+  if (twoSlope && lo < 0 && hi > 0) return (v) => (v < 0 ? 0.5 - 0.5 * (v / lo) : 0.5 + 0.5 * (v / hi));
+  const span = hi - lo || 1;
+  return (v) => (v - lo) / span;
+}
+
+/** Largest 1, 2 or 5 × 10^k not above x. */
+function roundDown125(x: number): number {
+  const p = Math.pow(10, Math.floor(Math.log10(x)));
+  const m = x / p;
+  return (m >= 5 ? 5 : m >= 2 ? 2 : 1) * p;
+}
+
+/** Magnification that makes the largest displacement about 6 % of the specimen size. */
+export function autoMagnification(mesh: PolyMesh, displacement: Float64Array): number {
+  const [x0, y0, x1, y1] = bbox(mesh.xy);
+  let umax = 0;
+  for (let i = 0; i + 1 < displacement.length; i += 2) umax = Math.max(umax, Math.hypot(displacement[i], displacement[i + 1]));
+  if (!(umax > 0)) return 1;
+  return Math.max(1, roundDown125((0.06 * Math.max(x1 - x0, y1 - y0)) / umax));
+}
+
+function bbox(xy: ArrayLike<number>): [number, number, number, number] {
+  let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
+  for (let i = 0; i + 1 < xy.length; i += 2) {
+    const x = xy[i], y = xy[i + 1];
+    if (x < x0) x0 = x; if (x > x1) x1 = x;
+    if (y < y0) y0 = y; if (y > y1) y1 = y;
+  }
+  if (!(x1 >= x0)) return [0, 0, 1, 1];
+  return [x0, y0, x1, y1];
+}
+
+/** Edges of the mesh once each, and which of them are on the boundary (used by one cell only). */
+function meshEdges(mesh: PolyMesh): { a: Int32Array; b: Int32Array; boundary: Uint8Array } {
+  const nv = vertexCount(mesh), nc = cellCount(mesh);
+  const { cellStart, cellVerts } = mesh;
+  const keys = new Float64Array(cellVerts.length);
+  for (let c = 0, k = 0; c < nc; c++) {
+    const s = cellStart[c], e = cellStart[c + 1];
+    for (let q = s; q < e; q++) {
+      const i = cellVerts[q], j = cellVerts[q + 1 < e ? q + 1 : s];
+      keys[k++] = i < j ? i * nv + j : j * nv + i;
+    }
+  }
+  keys.sort();
+  const a: number[] = [], b: number[] = [], bd: number[] = [];
+  for (let k = 0; k < keys.length; ) {
+    let m = k + 1;
+    while (m < keys.length && keys[m] === keys[k]) m++;
+    const i = Math.floor(keys[k] / nv);
+    a.push(i); b.push(keys[k] - i * nv); bd.push(m - k === 1 ? 1 : 0);
+    k = m;
+  }
+  return { a: Int32Array.from(a), b: Int32Array.from(b), boundary: Uint8Array.from(bd) };
+}
+
+/** The edges picked by mask joined into polylines (vertex lists), so dashes run on and files stay small. */
+function chainEdges(a: Int32Array, b: Int32Array, mask: Uint8Array, nv: number): number[][] {
+  const deg = new Int32Array(nv + 1);
+  for (let e = 0; e < a.length; e++) if (mask[e]) { deg[a[e] + 1]++; deg[b[e] + 1]++; }
+  for (let i = 0; i < nv; i++) deg[i + 1] += deg[i];
+  const adj = new Int32Array(deg[nv]), fill = deg.slice(0, nv);
+  for (let e = 0; e < a.length; e++) if (mask[e]) { adj[fill[a[e]]++] = e; adj[fill[b[e]]++] = e; }
+  const used = new Uint8Array(a.length), lines: number[][] = [];
+  const walk = (e0: number, from: number): number[] => {
+    const line = [from];
+    let e = e0, v = from;
+    while (e >= 0 && !used[e]) {
+      used[e] = 1;
+      v = a[e] === v ? b[e] : a[e];
+      line.push(v);
+      e = -1;
+      for (let q = deg[v]; q < deg[v + 1]; q++) if (!used[adj[q]]) { e = adj[q]; break; }
+    }
+    return line;
+  };
+  // open chains first (from vertices of odd degree), then the closed loops
+  for (let v = 0; v < nv; v++) {
+    if ((deg[v + 1] - deg[v]) % 2 === 0) continue;
+    for (let q = deg[v]; q < deg[v + 1]; q++) if (!used[adj[q]]) lines.push(walk(adj[q], v));
+  }
+  for (let e = 0; e < a.length; e++) if (mask[e] && !used[e]) lines.push(walk(e, a[e]));
+  return lines;
+}
+
+/** Displacement at a model point: the mean over the nearest vertices (both faces of a crack), via a bucket grid. */
+function pointMover(mesh: PolyMesh, disp: Float64Array, mag: number): (x: number, y: number) => [number, number] {
+  const xy = mesh.xy, nv = vertexCount(mesh);
+  const [x0, y0, x1, y1] = bbox(xy);
+  const h = Math.max(Math.sqrt(((x1 - x0) * (y1 - y0) || 1) / Math.max(1, nv)) * 2, 1e-9);
+  const gx = Math.max(1, Math.ceil((x1 - x0) / h) + 1), gy = Math.max(1, Math.ceil((y1 - y0) / h) + 1);
+  const start = new Int32Array(gx * gy + 1), items = new Int32Array(nv);
+  const cellOf = (i: number): number =>
+    Math.min(gx - 1, Math.floor((xy[2 * i] - x0) / h)) + gx * Math.min(gy - 1, Math.floor((xy[2 * i + 1] - y0) / h));
+  for (let i = 0; i < nv; i++) start[cellOf(i) + 1]++;
+  for (let c = 0; c < gx * gy; c++) start[c + 1] += start[c];
+  const fill = start.slice(0, gx * gy);
+  for (let i = 0; i < nv; i++) items[fill[cellOf(i)]++] = i;
+  const tol = 1e-7 * Math.max(x1 - x0, y1 - y0, 1);
+  const visit = (x: number, y: number, r: number, f: (i: number) => void): void => {
+    const cx = Math.floor((x - x0) / h), cy = Math.floor((y - y0) / h);
+    for (let j = Math.max(0, cy - r); j <= Math.min(gy - 1, cy + r); j++)
+      for (let i = Math.max(0, cx - r); i <= Math.min(gx - 1, cx + r); i++)
+        for (let q = start[i + gx * j]; q < start[i + gx * j + 1]; q++) f(items[q]);
+  };
+  return (x, y) => {
+    if (nv === 0) return [x, y];
+    let best = Infinity;
+    for (let r = 0; r <= gx + gy; r++) {
+      visit(x, y, r, (i) => { best = Math.min(best, Math.hypot(xy[2 * i] - x, xy[2 * i + 1] - y)); });
+      if (best < r * h) break;
+    }
+    let ux = 0, uy = 0, cnt = 0;
+    visit(x, y, Math.ceil((best + tol) / h) + 1, (i) => {
+      if (Math.hypot(xy[2 * i] - x, xy[2 * i + 1] - y) <= best + tol) { ux += disp[2 * i]; uy += disp[2 * i + 1]; cnt++; }
+    });
+    return cnt ? [x + (mag * ux) / cnt, y + (mag * uy) / cnt] : [x, y];
+  };
+}
+
+/** A support symbol drawn pointing down from its apex, turned away from the body. */
+function supportSymbol(x: number, y: number, fix: 'x' | 'y' | 'xy', angle: number, u: number): string {
+  const w = 8 * u, h = 13 * u, parts: string[] = [];
+  parts.push(el('path', { d: `M0 0L${n(-w)} ${n(h)}L${n(w)} ${n(h)}Z`, fill: '#ffffff', stroke: INK, 'stroke-width': 1.4 * u, 'stroke-linejoin': 'round' }));
+  let ground = h;
+  if (fix !== 'xy') {
+    // a roller: free along the ground line
+    const r = 2.6 * u;
+    parts.push(el('circle', { cx: -w / 2, cy: h + r + 0.6 * u, r, fill: '#ffffff', stroke: INK, 'stroke-width': 1.2 * u }));
+    parts.push(el('circle', { cx: w / 2, cy: h + r + 0.6 * u, r, fill: '#ffffff', stroke: INK, 'stroke-width': 1.2 * u }));
+    ground = h + 2 * r + 1.2 * u;
+  }
+  const gw = w + 4 * u;
+  let hatch = `M${n(-gw)} ${n(ground)}L${n(gw)} ${n(ground)}`;
+  for (let k = 0; k < 5; k++) {
+    const x0 = -gw + ((k + 0.5) * 2 * gw) / 5;
+    hatch += `M${n(x0)} ${n(ground)}l${n(-3.5 * u)} ${n(4.5 * u)}`;
+  }
+  parts.push(el('path', { d: hatch, fill: 'none', stroke: INK, 'stroke-width': 1.2 * u, 'stroke-linecap': 'round' }));
+  return el('g', { transform: `translate(${n(x)} ${n(y)}) rotate(${angle})`, class: `support fix-${fix}` }, parts);
+}
+
+/** An arrow from (x0, y0) to its tip (x1, y1). */
+function arrow(x0: number, y0: number, x1: number, y1: number, u: number, color: string): string {
+  const L = Math.hypot(x1 - x0, y1 - y0) || 1, ex = (x1 - x0) / L, ey = (y1 - y0) / L;
+  const hl = 11 * u, hw = 5 * u;
+  const bx = x1 - ex * hl, by = y1 - ey * hl;
+  const head = `M${n(x1)} ${n(y1)}L${n(bx - ey * hw)} ${n(by + ex * hw)}L${n(bx + ey * hw)} ${n(by - ex * hw)}Z`;
+  return el('g', { class: 'load' }, [
+    el('path', { d: `M${n(x0)} ${n(y0)}L${n(bx)} ${n(by)}`, stroke: '#ffffff', 'stroke-width': 6 * u, 'stroke-linecap': 'round', opacity: 0.8 }),
+    el('path', { d: `M${n(x0)} ${n(y0)}L${n(bx + ex * u)} ${n(by + ey * u)}`, stroke: color, 'stroke-width': 2.8 * u, 'stroke-linecap': 'round' }),
+    el('path', { d: head, fill: color, stroke: color, 'stroke-width': 0.8 * u, 'stroke-linejoin': 'round' }),
+  ]);
+}
+
+/** Ticks for a colour bar: round values on each side of zero for a two-slope map. */
+function barTicks(lo: number, hi: number, twoSlope: boolean): number[] {
+  if (twoSlope && lo < 0 && hi > 0) {
+    const neg = niceTicks(lo, 0, 4), pos = niceTicks(0, hi, 4);
+    return [...neg.filter((v) => v < 0), 0, ...pos.filter((v) => v > 0)];
+  }
+  return niceTicks(lo, hi, 6);
+}
+
+/** The picture of a field on the mesh, as SVG text. */
+export function fieldSvg(p: FieldPicture): string {
+  const mesh = p.mesh, nv = vertexCount(mesh), nc = cellCount(mesh);
+  const { cellStart, cellVerts } = mesh;
+  if (p.values && p.values.length !== nc) throw new Error(`fieldSvg: ${p.values.length} values for ${nc} cells`);
+  if (p.displacement && p.displacement.length !== 2 * nv) throw new Error(`fieldSvg: displacement needs 2 × ${nv} entries, got ${p.displacement.length}`);
+  const W = p.widthPx ?? 1000, u = W / 1000;
+  const fs = 16 * u; // label font size: readable when the picture spans an A4 text width
+
+  // deformed positions
+  const mag = p.displacement ? p.magnification ?? autoMagnification(mesh, p.displacement) : 1;
+  const pos = new Float64Array(mesh.xy);
+  if (p.displacement) for (let i = 0; i < pos.length; i++) pos[i] += mag * p.displacement[i];
+  const move = p.displacement ? pointMover(mesh, p.displacement, mag) : (x: number, y: number): [number, number] => [x, y];
+
+  const bU = bbox(mesh.xy), bD = bbox(pos);
+  const bx0 = Math.min(bU[0], bD[0]), by0 = Math.min(bU[1], bD[1]), bx1 = Math.max(bU[2], bD[2]), by1 = Math.max(bU[3], bD[3]);
+  const bw = Math.max(bx1 - bx0, 1e-9), bh = Math.max(by1 - by0, 1e-9);
+  const midX = (bU[0] + bU[2]) / 2, midY = (bU[1] + bU[3]) / 2;
+
+  // layout: room for symbols only on the sides that carry them
+  const pad = 22 * u;
+  const titleH = p.title ? 36 * u : 0;
+  const side = { l: 6 * u, r: 6 * u, t: 6 * u, b: 6 * u };
+  const want = (k: keyof typeof side, m: number): void => { side[k] = Math.max(side[k], m); };
+  for (const q of p.supports ?? []) {
+    if (q.fix === 'x') want(q.x <= midX ? 'l' : 'r', 30 * u);
+    else want(q.y <= midY ? 'b' : 't', 30 * u);
+  }
+  for (const l of p.loads ?? []) {
+    const L = Math.hypot(l.dx, l.dy);
+    if (!(L > 0)) continue;
+    const ex = l.dx / L, ey = l.dy / L;
+    const outward = ex * (l.x - midX) + ey * (l.y - midY) > 0;
+    const ox = outward ? ex : -ex, oyy = outward ? ey : -ey; // where the arrow's far end goes
+    const nearX = Math.min(l.x - bU[0], bU[2] - l.x) < 0.25 * bw, nearY = Math.min(l.y - bU[1], bU[3] - l.y) < 0.25 * bh;
+    if (Math.abs(ox) >= Math.abs(oyy)) { if (nearX) want(ox < 0 ? 'l' : 'r', 58 * u); }
+    else if (nearY) want(oyy > 0 ? 't' : 'b', 58 * u);
+  }
+  const hasBar = !!p.values;
+  const horizontalBar = bw / bh >= 1.5;
+  const labelW = (p.valueLabel ?? 'value').length * 0.62 * 16 * u;
+  const vBarW = hasBar && !horizontalBar ? Math.max(110 * u, labelW + 30 * u) : 0;
+  const availW = W - 2 * pad - side.l - side.r - vBarW;
+  const s = Math.min(availW / bw, (1.25 * W) / bh);
+  const bodyW = bw * s, bodyH = bh * s;
+  const ox = pad + side.l + (availW - bodyW) / 2, oy = pad + titleH + side.t;
+  const X = (x: number): number => ox + (x - bx0) * s;
+  const Y = (y: number): number => oy + (by1 - y) * s;
+  const footY = oy + bodyH + side.b + 10 * u;
+  const footH = 72 * u;
+  const captionLines = [...(p.caption ?? [])];
+  if (p.displacement && !captionLines.some((l) => /magnif/i.test(l))) captionLines.push(`Displacements magnified ×${formatValue(mag, 3)}; dashed line: undeformed outline.`);
+  const capY = footY + footH;
+  const H = capY + captionLines.length * 22 * u + pad;
+
+  const sx = new Float64Array(nv), sy = new Float64Array(nv);
+  for (let i = 0; i < nv; i++) { sx[i] = X(pos[2 * i]); sy[i] = Y(pos[2 * i + 1]); }
+  const cellPath = (c: number): string => {
+    let d = '';
+    for (let q = cellStart[c]; q < cellStart[c + 1]; q++) d += (q === cellStart[c] ? 'M' : 'L') + n1(sx[cellVerts[q]]) + ' ' + n1(sy[cellVerts[q]]);
+    return d + 'Z';
+  };
+
+  const body: string[] = [];
+  if (p.title) body.push(layer('title', [text(pad, pad + 22 * u, p.title, { 'font-size': 22 * u, 'font-weight': 'bold', fill: INK })]));
+
+  // cells: one path per colour level keeps 50k cells small and fast
+  const cells: string[] = [];
+  let lo = 0, hi = 1, norm = (v: number): number => v;
+  const twoSlope = p.diverging === true;
+  const map = twoSlope ? diverging : sequential;
+  if (p.values) {
+    if (p.range) {
+      lo = Math.min(p.range[0], p.range[1]); hi = Math.max(p.range[0], p.range[1]);
+    } else {
+      lo = Infinity; hi = -Infinity;
+      for (let c = 0; c < nc; c++) { const v = p.values[c]; if (Number.isFinite(v)) { if (v < lo) lo = v; if (v > hi) hi = v; } }
+      if (!(hi >= lo)) { lo = 0; hi = 1; }
+    }
+    if (twoSlope && lo >= 0) lo = -hi; // zero stays white when all values share a sign
+    if (twoSlope && hi <= 0) hi = -lo;
+    if (lo === hi) { lo -= 0.5; hi += 0.5; }
+    norm = normaliser(lo, hi, twoSlope);
+    const buckets: string[][] = Array.from({ length: LEVELS + 1 }, () => []);
+    for (let c = 0; c < nc; c++) {
+      const v = p.values[c];
+      const k = Number.isFinite(v) ? Math.min(LEVELS - 1, Math.max(0, Math.floor(norm(v) * LEVELS))) : LEVELS;
+      buckets[k].push(cellPath(c));
+    }
+    for (let k = 0; k <= LEVELS; k++) {
+      if (!buckets[k].length) continue;
+      const col = k === LEVELS ? colorAt(map, NaN) : colorAt(map, (k + 0.5) / LEVELS);
+      // a hairline stroke in the fill colour closes anti-aliasing seams between neighbours
+      cells.push(el('path', { d: buckets[k].join(''), fill: col, stroke: col, 'stroke-width': 0.6 * u, 'stroke-linejoin': 'round', class: `level-${k}` }));
+    }
+  } else {
+    const all: string[] = [];
+    for (let c = 0; c < nc; c++) all.push(cellPath(c));
+    cells.push(el('path', { d: all.join(''), fill: '#eef1f4' }));
+  }
+  body.push(layer('cells', cells));
+
+  const edges = meshEdges(mesh);
+  const loops = chainEdges(edges.a, edges.b, edges.boundary, nv);
+  const loopPath = (px: (i: number) => number, py: (i: number) => number): string => {
+    const d: string[] = [];
+    for (const line of loops) {
+      const closed = line.length > 2 && line[0] === line[line.length - 1];
+      let t = '';
+      for (let k = 0; k < (closed ? line.length - 1 : line.length); k++) t += (k ? 'L' : 'M') + n1(px(line[k])) + ' ' + n1(py(line[k]));
+      d.push(closed ? t + 'Z' : t);
+    }
+    return d.join('');
+  };
+  if (p.displacement) {
+    const d = loopPath((i) => X(mesh.xy[2 * i]), (i) => Y(mesh.xy[2 * i + 1]));
+    body.push(layer('undeformed', [el('path', { d, fill: 'none', stroke: '#8a9099', 'stroke-width': 1 * u, 'stroke-dasharray': `${n(5 * u)} ${n(3.5 * u)}` })]));
+  }
+  const showMesh = p.showMesh ?? !p.values;
+  let meshD = '';
+  if (showMesh) {
+    // interior edges joined into long polylines: about half the text of separate segments
+    const inner = edges.boundary.map((b) => 1 - b);
+    const d: string[] = [];
+    for (const line of chainEdges(edges.a, edges.b, inner, nv)) {
+      let t = '';
+      for (let k = 0; k < line.length; k++) t += (k ? 'L' : 'M') + n1(sx[line[k]]) + ' ' + n1(sy[line[k]]);
+      d.push(t);
+    }
+    meshD = d.join('');
+  }
+  const outD = loopPath((i) => sx[i], (i) => sy[i]);
+  const meshStroke = p.values ? { stroke: '#000000', 'stroke-opacity': 0.28, 'stroke-width': 0.5 * u } : { stroke: '#5b6470', 'stroke-width': 0.6 * u };
+  body.push(layer('mesh', meshD ? [el('path', { d: meshD, fill: 'none', 'stroke-linejoin': 'round', ...meshStroke })] : []));
+  body.push(layer('outline', [el('path', { d: outD, fill: 'none', stroke: INK, 'stroke-width': 1.3 * u, 'stroke-linejoin': 'round' })]));
+
+  // cohesive segments, bucketed by damage
+  const coh: string[] = [];
+  if (p.cohesive?.length) {
+    const buckets: string[][] = Array.from({ length: 16 }, () => []);
+    const halo: string[] = [];
+    for (const c of p.cohesive) {
+      const [ax, ay] = move(c.x1, c.y1), [bx, by] = move(c.x2, c.y2);
+      const seg = `M${n1(X(ax))} ${n1(Y(ay))}L${n1(X(bx))} ${n1(Y(by))}`;
+      halo.push(seg);
+      buckets[Math.min(15, Math.max(0, Math.floor((Number.isFinite(c.damage) ? c.damage : 0) * 16)))].push(seg);
+    }
+    coh.push(el('path', { d: halo.join(''), fill: 'none', stroke: '#ffffff', 'stroke-width': 6 * u, 'stroke-linecap': 'round', opacity: 0.85 }));
+    buckets.forEach((b, k) => {
+      if (b.length) coh.push(el('path', { d: b.join(''), fill: 'none', stroke: colorAt(damageMap, (k + 0.5) / 16), 'stroke-width': 3.4 * u, 'stroke-linecap': 'round', class: `damage-${k}` }));
+    });
+  }
+
+  // cracks and notches: dark polylines with a white halo so they read on any colour
+  const cracks: string[] = [];
+  for (const c of p.cracks ?? []) {
+    if (c.points.length < 2) continue;
+    const pts: number[] = [];
+    for (const [x, y] of c.points) { const [mx, my] = move(x, y); pts.push(X(mx), Y(my)); }
+    const d = polyPath(pts);
+    const notch = c.kind === 'notch';
+    cracks.push(el('g', { class: c.kind }, [
+      el('path', { d, fill: 'none', stroke: '#ffffff', 'stroke-width': (notch ? 6 : 6.5) * u, 'stroke-linecap': 'round', 'stroke-linejoin': 'round', opacity: 0.85 }),
+      el('path', { d, fill: 'none', stroke: notch ? '#5a5f66' : '#0d0d0d', 'stroke-width': (notch ? 3.2 : 3) * u, 'stroke-linecap': 'round', 'stroke-linejoin': 'round' }),
+    ]));
+  }
+  body.push(layer('cracks', cracks));
+  body.push(layer('cohesive', coh));
+
+  const sup: string[] = [];
+  for (const q of p.supports ?? []) {
+    const [mx, my] = move(q.x, q.y);
+    const angle = q.fix === 'x' ? (q.x <= midX ? 90 : -90) : q.y <= midY ? 0 : 180;
+    sup.push(supportSymbol(X(mx), Y(my), q.fix, angle, u));
+  }
+  body.push(layer('supports', sup));
+
+  const loads: string[] = [];
+  for (const l of p.loads ?? []) {
+    const L = Math.hypot(l.dx, l.dy);
+    if (!(L > 0)) continue;
+    const [mx, my] = move(l.x, l.y);
+    const px = X(mx), py = Y(my), ex = l.dx / L, ey = -l.dy / L, len = 46 * u, gap = 2 * u;
+    // pushing loads end at the point, pulling loads start there
+    const outward = ex * (px - X(midX)) + ey * (py - Y(midY)) > 0;
+    loads.push(outward ? arrow(px + ex * gap, py + ey * gap, px + ex * (len + gap), py + ey * (len + gap), u, INK)
+      : arrow(px - ex * (len + gap), py - ey * (len + gap), px - ex * gap, py - ey * gap, u, INK));
+  }
+  body.push(layer('loads', loads));
+
+  // colour bar
+  const bar: string[] = [];
+  if (p.values) {
+    const ticks = barTicks(lo, hi, twoSlope), labels = formatTicks(ticks);
+    const label = p.valueLabel ?? 'value';
+    const tickAt = (v: number): number => Math.min(1, Math.max(0, norm(v)));
+    if (horizontalBar) {
+      const x0 = pad + 16 * u, y0 = footY + 24 * u, len = Math.min(420 * u, W * 0.45), th = 14 * u;
+      bar.push(text(pad, y0 - 8 * u, label, { 'font-size': fs, fill: INK }));
+      for (let k = 0; k < LEVELS; k++) bar.push(el('rect', { x: x0 + (k * len) / LEVELS, y: y0, width: len / LEVELS + 0.5 * u, height: th, fill: colorAt(map, (k + 0.5) / LEVELS) }));
+      bar.push(el('rect', { x: x0, y: y0, width: len, height: th, fill: 'none', stroke: INK, 'stroke-width': 0.8 * u }));
+      ticks.forEach((v, i) => {
+        const x = x0 + tickAt(v) * len;
+        bar.push(el('path', { d: `M${n(x)} ${n(y0 + th)}v${n(4 * u)}`, stroke: INK, 'stroke-width': 0.9 * u }));
+        bar.push(text(x, y0 + th + 18 * u, labels[i], { 'font-size': 14 * u, 'text-anchor': 'middle', fill: INK }));
+      });
+    } else {
+      const x0 = W - pad - vBarW + 20 * u, y0 = oy + 26 * u, len = Math.max(140 * u, Math.min(bodyH * 0.85 - 26 * u, 520 * u)), tw = 16 * u;
+      bar.push(text(x0, y0 - 10 * u, label, { 'font-size': fs, fill: INK }));
+      for (let k = 0; k < LEVELS; k++) bar.push(el('rect', { x: x0, y: y0 + len - ((k + 1) * len) / LEVELS, width: tw, height: len / LEVELS + 0.5 * u, fill: colorAt(map, (k + 0.5) / LEVELS) }));
+      bar.push(el('rect', { x: x0, y: y0, width: tw, height: len, fill: 'none', stroke: INK, 'stroke-width': 0.8 * u }));
+      ticks.forEach((v, i) => {
+        const y = y0 + len - tickAt(v) * len;
+        bar.push(el('path', { d: `M${n(x0 + tw)} ${n(y)}h${n(4 * u)}`, stroke: INK, 'stroke-width': 0.9 * u }));
+        bar.push(text(x0 + tw + 8 * u, y + 5 * u, labels[i], { 'font-size': 14 * u, fill: INK }));
+      });
+    }
+  }
+  body.push(layer('colorbar', bar));
+
+  // damage key for the cohesive segments
+  if (p.cohesive?.length) {
+    const len = 120 * u, x0 = horizontalBar && hasBar ? pad + Math.min(420 * u, W * 0.45) + 70 * u : pad + 8 * u, y0 = footY + 24 * u;
+    const key: string[] = [text(x0, y0 - 8 * u, 'cohesive damage', { 'font-size': 14 * u, fill: INK })];
+    for (let k = 0; k < 16; k++) key.push(el('rect', { x: x0 + (k * len) / 16, y: y0, width: len / 16 + 0.5 * u, height: 8 * u, fill: colorAt(damageMap, (k + 0.5) / 16) }));
+    key.push(text(x0, y0 + 26 * u, '0', { 'font-size': 13 * u, fill: INK, 'text-anchor': 'middle' }));
+    key.push(text(x0 + len, y0 + 26 * u, '1', { 'font-size': 13 * u, fill: INK, 'text-anchor': 'middle' }));
+    body.push(layer('damagebar', key));
+  }
+
+  // scale bar in model millimetres
+  const Lmm = roundDown125(bw * 0.22);
+  const Lpx = Lmm * s, sbx = W - pad - Lpx - (vBarW ? 0 : 0), sby = footY + 24 * u, sbh = 7 * u;
+  body.push(layer('scalebar', [
+    el('rect', { x: sbx, y: sby, width: Lpx / 2, height: sbh, fill: INK }),
+    el('rect', { x: sbx + Lpx / 2, y: sby, width: Lpx / 2, height: sbh, fill: '#ffffff', stroke: INK, 'stroke-width': 0.9 * u }),
+    el('rect', { x: sbx, y: sby, width: Lpx, height: sbh, fill: 'none', stroke: INK, 'stroke-width': 0.9 * u }),
+    text(sbx + Lpx / 2, sby + sbh + 18 * u, `${formatValue(Lmm, 3).replace('−', '-')} mm`, { 'font-size': 14 * u, 'text-anchor': 'middle', fill: INK }),
+  ]));
+
+  body.push(layer('caption', captionLines.map((line, i) => text(pad, capY + (i + 0.8) * 22 * u, line, { 'font-size': 15 * u, fill: MUTED }))));
+
+  return svgDocument(W, H, body, { title: p.title });
+}
+
+/** The mesh alone (for a mesh preview): white-grey cells with their edges, plus the same annotations as fieldSvg. */
+export function meshSvg(mesh: PolyMesh, opts: Omit<FieldPicture, 'mesh' | 'values' | 'valueLabel' | 'range' | 'diverging' | 'showMesh'> = {}): string {
+  const caption = opts.caption ?? [`${cellCount(mesh)} polygons, ${vertexCount(mesh)} vertices.`];
+  return fieldSvg({ ...opts, mesh, showMesh: true, caption });
+}

@@ -1,0 +1,64 @@
+// Raster output through sharp: SVG to PNG, and PNG frames to an animation.
+
+import { readFileSync } from 'node:fs';
+import sharp from 'sharp';
+import { writeFileAtomic } from './files.js';
+
+/** The width in px that an SVG document declares (its width attribute, else its viewBox). */
+export function svgWidth(svg: string): number {
+  const head = svg.slice(0, 2000);
+  const m = /<svg\b[^>]*?\swidth="([\d.]+)(px)?"/.exec(head);
+  if (m) return Number(m[1]);
+  const v = /<svg\b[^>]*?\sviewBox="[\d.\-]+[ ,]+[\d.\-]+[ ,]+([\d.]+)/.exec(head);
+  return v ? Number(v[1]) : 1000;
+}
+
+/** Render SVG text to a PNG file of the given width (default: the SVG's own width), written atomically. */
+export async function svgToPng(svg: string, path: string, widthPx?: number): Promise<void> {
+  const w0 = svgWidth(svg);
+  const width = Math.max(1, Math.round(widthPx ?? w0));
+  // rasterise at the density that gives the requested width, so lines and text stay sharp
+  const density = Math.min(2400, Math.max(1, (72 * width) / w0));
+  const buf = await sharp(Buffer.from(svg), { density, limitInputPixels: false })
+    .resize({ width, kernel: 'lanczos3' })
+    .flatten({ background: '#ffffff' })
+    .png({ compressionLevel: 9, adaptiveFiltering: true })
+    .toBuffer();
+  writeFileAtomic(path, buf);
+}
+
+/** Evenly spaced frame indices, always keeping the first and the last. */
+export function pickFrames(count: number, maxFrames: number): number[] {
+  if (count <= maxFrames) return Array.from({ length: count }, (_, i) => i);
+  if (maxFrames <= 1) return [count - 1];
+  const out: number[] = [];
+  for (let k = 0; k < maxFrames; k++) out.push(Math.round((k * (count - 1)) / (maxFrames - 1)));
+  return [...new Set(out)];
+}
+
+/** Join PNG frames (all brought to the first frame's size) into a looping GIF or WebP animation. */
+export async function framesToAnimation(
+  pngPaths: string[],
+  path: string,
+  opts: { delayMs?: number; holdLastMs?: number; maxFrames?: number; format?: 'gif' | 'webp' } = {},
+): Promise<void> {
+  if (pngPaths.length === 0) throw new Error('framesToAnimation: no frames');
+  const delay = Math.round(opts.delayMs ?? 120), hold = Math.round(opts.holdLastMs ?? 1500);
+  const pick = pickFrames(pngPaths.length, Math.max(1, opts.maxFrames ?? 120));
+  const format = opts.format ?? (path.toLowerCase().endsWith('.webp') ? 'webp' : 'gif');
+  const first = await sharp(readFileSync(pngPaths[pick[0]])).metadata();
+  const width = first.width ?? 1, height = first.height ?? 1;
+  // frames from a growing crack can differ in height; pad them onto one white page size
+  const frames = await Promise.all(pick.map((i) =>
+    sharp(readFileSync(pngPaths[i]))
+      .resize({ width, height, fit: 'contain', position: 'top', background: '#ffffff' })
+      .flatten({ background: '#ffffff' })
+      .png()
+      .toBuffer()));
+  const delays = pick.map((_, k) => (k === pick.length - 1 ? Math.max(delay, hold) : delay));
+  const joined = sharp(frames, { join: { animated: true } });
+  const buf = format === 'webp'
+    ? await joined.webp({ loop: 0, delay: delays, quality: 90, effort: 4 }).toBuffer()
+    : await joined.gif({ loop: 0, delay: delays, effort: 7 }).toBuffer();
+  writeFileAtomic(path, buf);
+}

@@ -1,0 +1,68 @@
+import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import sharp from 'sharp';
+import { afterAll, describe, expect, it } from 'vitest';
+import { polyMeshFrom } from '../src/mesh/polymesh.js';
+import { fieldSvg } from '../src/output/field.js';
+import { plotSvg } from '../src/output/plot.js';
+import { framesToAnimation, pickFrames, svgToPng, svgWidth } from '../src/output/png.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'rupta-png-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+const mesh = polyMeshFrom([[0, 0], [100, 0], [200, 0], [0, 60], [100, 60], [200, 60]], [[0, 1, 4, 3], [1, 2, 5, 4]]);
+
+describe('svgToPng', () => {
+  it('renders a field picture at the requested width', async () => {
+    const svg = fieldSvg({ mesh, values: Float64Array.from([0.2, 0.9]), valueLabel: 'σ₁ / ft', title: 'Two cells', widthPx: 800 });
+    expect(svgWidth(svg)).toBe(800);
+    const p = join(dir, 'field.png');
+    await svgToPng(svg, p, 640);
+    const meta = await sharp(p).metadata();
+    expect(meta.format).toBe('png');
+    expect(meta.width).toBe(640);
+    // a coloured cell, not a blank page: the lighter cell's centre is far from white
+    const { data, info } = await sharp(p).raw().toBuffer({ resolveWithObject: true });
+    let nonWhite = 0;
+    for (let k = 0; k < data.length; k += info.channels) if (data[k] + data[k + 1] + data[k + 2] < 600) nonWhite++;
+    expect(nonWhite / (info.width * info.height)).toBeGreaterThan(0.1);
+  });
+  it('renders a plot at its own width by default, and leaves no temp files', async () => {
+    const svg = plotSvg({ series: [{ label: 'a', x: [0, 1, 2], y: [0, 2, 1] }], xLabel: 'x (mm)', yLabel: 'F (N)', widthPx: 500 });
+    await svgToPng(svg, join(dir, 'plot.png'));
+    expect((await sharp(join(dir, 'plot.png')).metadata()).width).toBe(500);
+    expect(readdirSync(dir).filter((f) => f.endsWith('.tmp'))).toEqual([]);
+  });
+});
+
+describe('framesToAnimation', () => {
+  it('joins frames of different heights into a looping GIF and WebP with a held last frame', async () => {
+    const frames: string[] = [];
+    for (let k = 0; k < 4; k++) {
+      const m = polyMeshFrom([[0, 0], [100, 0], [100, 50 + 10 * k], [0, 50 + 10 * k]], [[0, 1, 2, 3]]);
+      const p = join(dir, `step-${k}.png`);
+      await svgToPng(fieldSvg({ mesh: m, values: Float64Array.from([k]), range: [0, 3], widthPx: 300 }), p);
+      frames.push(p);
+    }
+    const gif = join(dir, 'animation.gif');
+    await framesToAnimation(frames, gif, { delayMs: 100, holdLastMs: 1000 });
+    const g = await sharp(gif, { animated: true }).metadata();
+    expect(g.format).toBe('gif');
+    expect(g.pages).toBe(4);
+    expect(g.width).toBe(300);
+    expect(g.delay).toEqual([100, 100, 100, 1000]);
+    expect(g.loop).toBe(0);
+
+    const webp = join(dir, 'animation.webp');
+    await framesToAnimation(frames, webp, { maxFrames: 3, format: 'webp' });
+    const w = await sharp(webp, { animated: true }).metadata();
+    expect(w.format).toBe('webp');
+    expect(w.pages).toBe(3);
+  });
+  it('thins long runs evenly, keeping first and last', () => {
+    expect(pickFrames(5, 10)).toEqual([0, 1, 2, 3, 4]);
+    expect(pickFrames(101, 5)).toEqual([0, 25, 50, 75, 100]);
+    expect(pickFrames(7, 1)).toEqual([6]);
+  });
+});
