@@ -17,8 +17,8 @@ export const defaultCut: CutOptions = { snapFraction: 0.2, snapAngle: 0.12 };
 export interface CutResult {
   /** Vertex ids along the cut, the first being the start. */
   path: number[];
-  /** 'length': stopped at about the asked length; 'boundary': left the material. */
-  end: 'length' | 'boundary';
+  /** 'length': stopped at about the asked length; 'boundary': left the material; 'crack': met a crack face. */
+  end: 'length' | 'boundary' | 'crack';
 }
 
 /** Cell around vertex p that the ray along (dx, dy) enters, or an interior edge it runs along. */
@@ -81,24 +81,30 @@ export function cutRay(wm: WorkMesh, start: number, dx: number, dy: number, leng
       step = hit.t;
       if (travelled > 0 && travelled + step - length > length - travelled) return { path, end: 'length' };
       const { a, b, s } = hit;
+      const nb = wm.neighbourAcross(cell, a, b);
       const elen = Math.hypot(wm.x[b] - wm.x[a], wm.y[b] - wm.y[a]);
       if (s * elen <= opt.snapFraction * elen) q = a;
       else if ((1 - s) * elen <= opt.snapFraction * elen) q = b;
       else {
         q = wm.addVertex(wm.x[a] + s * (wm.x[b] - wm.x[a]), wm.y[a] + s * (wm.y[b] - wm.y[a]), [a, b], [1 - s, s]);
-        const nb = wm.neighbourAcross(cell, a, b);
         wm.insertOnEdge(cell, a, b, q);
         if (nb >= 0) wm.insertOnEdge(nb, a, b, q);
       }
       if (q === p) return { path, end: 'boundary' };
+      // meeting the face of a crack ends the cut there
+      const hitsFace = nb < 0 && wm.face[a] === 1 && wm.face[b] === 1;
       const vs = wm.cells[cell]!, n = vs.length, k = vs.indexOf(p);
       if (vs[(k + 1) % n] !== q && vs[(k + n - 1) % n] !== q) splitCell(wm, cell, p, q);
       step = Math.hypot(wm.x[q] - wm.x[p], wm.y[q] - wm.y[p]);
+      if (hitsFace || wm.face[q] === 1) { path.push(q); return { path, end: 'crack' }; }
     }
     path.push(q);
     travelled += step;
     p = q;
-    if (travelled >= length * (1 - 1e-9)) return { path, end: 'length' };
+    if (travelled >= length * (1 - 1e-9)) {
+      // a cut that ends on the outline with nothing ahead of it has gone through
+      return { path, end: enteredCell(wm, p, dx, dy, opt.snapAngle).cell < 0 ? 'boundary' : 'length' };
+    }
   }
   throw new Error('internal: the cut did not end');
 }
@@ -162,6 +168,7 @@ export function twinAlong(
       wm.setCell(c, vs);
     }
     wm.pinned[v] = 1; wm.pinned[twin] = 1;
+    wm.face[v] = 1; wm.face[twin] = 1;
     out.push([v, twin]);
   }
   return out;

@@ -14,6 +14,8 @@ export class WorkMesh {
   families: { children: number[]; open: boolean; parentId: number; parentFamily: number }[] = [];
   /** Vertices that must stay (named points, crack vertices): never pruned. */
   pinned: Uint8Array = new Uint8Array(0);
+  /** Vertices on crack faces (set when twinned). */
+  face: Uint8Array = new Uint8Array(16);
   /** Cells that touch a crack face: never refined or merged. */
   cracked: boolean[] = [];
   private v2c: number[][] | null = null;
@@ -28,6 +30,7 @@ export class WorkMesh {
       w.cracked.push(false);
     }
     w.pinned = new Uint8Array(Math.max(16, nv * 2));
+    w.face = new Uint8Array(w.pinned.length);
     return w;
   }
 
@@ -55,6 +58,7 @@ export class WorkMesh {
     const id = this.x.length - 1;
     this.from[id] = fromV ? { v: fromV, w: fromW! } : null;
     if (id >= this.pinned.length) { const p = new Uint8Array(this.pinned.length * 2); p.set(this.pinned); this.pinned = p; }
+    if (id >= this.face.length) { const f = new Uint8Array(Math.max(16, this.pinned.length)); f.set(this.face); this.face = f; }
     if (this.v2c) this.v2c[id] = [];
     return id;
   }

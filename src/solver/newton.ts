@@ -18,6 +18,8 @@ export interface NewtonOptions {
   tolG: number;
   /** Stiffness floor per face area on cohesive pairs (N/mm³). */
   floor: number;
+  /** Iterate on the secant of the cohesive law instead of its tangent (slower, but cannot cycle). */
+  secant?: boolean;
 }
 
 /** Scratch vectors for one topology (allocated once, reused every iteration). */
@@ -37,10 +39,10 @@ export interface StepState { uf: Float64Array; lambda: number }
 
 /** Residuals at (uf, λ): fills w.r (free forces), returns ‖r‖∞ and the constraint value. */
 function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
-  kind: ControlKind, target: number, uf: Float64Array, lambda: number, w: NewtonWork, tangent: boolean, floor: number):
+  kind: ControlKind, target: number, uf: Float64Array, lambda: number, w: NewtonWork, tangent: boolean, floor: number, secant = false):
   { rmax: number; g: number; F: number } {
   sys.expand(uf, lambda, w.u);
-  sys.internal(w.u, coh, kappa, kappaTrial, w.f, tangent, floor);
+  sys.internal(w.u, coh, kappa, kappaTrial, w.f, tangent, floor, secant);
   let rmax = 0;
   const fd = sys.freeDofs;
   for (let i = 0; i < fd.length; i++) { const v = w.f[fd[i]]; w.r[i] = v; const av = Math.abs(v); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
@@ -54,8 +56,10 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
   const m = sys.nFree, fd = sys.freeDofs;
   const { gauge, gaugeW } = sys.driven;
   if (kind === 'displacement') st.lambda = target;
-  let res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor);
+  const sec = opt.secant ?? false;
+  let res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
   for (let it = 1; it <= opt.maxIter; it++) {
+    if (process.env.RUPTA_DEBUG === '2') process.stderr.write(`  it ${it} r ${res.rmax.toExponential(3)} g ${res.g.toExponential(3)} lam ${st.lambda.toExponential(4)}\n`);
     if (res.rmax <= opt.tolF && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: it - 1, reason: '' };
     if (!Number.isFinite(res.rmax) || !Number.isFinite(res.g)) return { converged: false, iterations: it, reason: 'non-finite residual' };
     let factor;
@@ -90,20 +94,21 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     const den = gl - gb;
     if (!(Math.abs(den) > 0)) return { converged: false, iterations: it, reason: 'the control does not determine the load (check the gauge and the load points)' };
     const dl = -(res.g + ga) / den;
-    // du = a − b·dλ; backtracking line search on the out-of-balance force
-    const r0 = res.rmax;
+    // du = a − b·dλ; backtracking on the out-of-balance force, but only against a real
+    // divergence: the first iteration of a step starts from balance and must move off it
+    const r0 = Math.max(res.rmax, 100 * opt.tolF);
     let eta = 1, best = Infinity, bestEta = 1;
     const lam0 = st.lambda;
     for (let ls = 0; ls < 6; ls++) {
       for (let i = 0; i < m; i++) w.ufTry[i] = st.uf[i] + eta * (w.a[i] - w.b[i] * dl);
       const trial = residual(sys, coh, kappa, kappaTrial, kind, target, w.ufTry, lam0 + eta * dl, w, false, opt.floor);
       if (trial.rmax < best) { best = trial.rmax; bestEta = eta; }
-      if (trial.rmax <= r0 || trial.rmax <= opt.tolF) break;
+      if (trial.rmax <= 2 * r0) break;
       eta *= 0.5;
     }
     for (let i = 0; i < m; i++) st.uf[i] += bestEta * (w.a[i] - w.b[i] * dl);
     st.lambda = lam0 + bestEta * dl;
-    res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor);
+    res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
   }
   if (res.rmax <= opt.tolF && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: opt.maxIter, reason: '' };
   return { converged: false, iterations: opt.maxIter, reason: `no convergence in ${opt.maxIter} iterations (out-of-balance ${res.rmax.toExponential(2)} N)` };

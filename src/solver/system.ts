@@ -106,7 +106,7 @@ export class System {
    * go to kappaTrial. Returns nothing; f has the full dof length.
    */
   internal(u: Float64Array, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
-    f: Float64Array, wantTangent: boolean, floor: number): void {
+    f: Float64Array, wantTangent: boolean, floor: number, secant = false): void {
     matVec(this.kBulk, u, f);
     if (wantTangent) this.kT.values.set(this.kBulk.values);
     if (!coh) return;
@@ -120,6 +120,12 @@ export class System {
       const fx = A * (tr[0] * nx + tr[1] * ny), fy = A * (tr[0] * ny - tr[1] * nx);
       f[2 * a] += fx; f[2 * a + 1] += fy; f[2 * b] -= fx; f[2 * b + 1] -= fy;
       if (!wantTangent) continue;
+      if (secant) {
+        // secant stiffness of the current state: positive, so Newton cannot cycle on it
+        const bs = coh.beta * s, den = w * (w > 0 ? w : 0) + bs * s;
+        const Dsec = den > 1e-30 ? (tr[0] * (w > 0 ? w : 0) + tr[1] * s) / den : tr[5] / coh.beta;
+        tr[2] = w < 0 ? tr[2] : Dsec; tr[3] = 0; tr[4] = 0; tr[5] = Dsec * coh.beta;
+      }
       // M = A·R C Rᵀ with R = [n t]; a small floor keeps fully open faces from a singular matrix
       const c00 = tr[2], c01 = tr[3], c10 = tr[4], c11 = tr[5];
       const m00 = A * (nx * nx * c00 + nx * ny * (c01 + c10) + ny * ny * c11) + floor * A;

@@ -1,0 +1,143 @@
+// Timing of the sparse LDLᵀ solver on a Matrix Market file, and a grid stiffness to feed it.
+// Usage: node .build/cli/bench-matrix.js FILE  |  node .build/cli/bench-matrix.js --grid NX NY FILE
+
+import { pathToFileURL } from 'node:url';
+import {
+  amdOrder,
+  analyze,
+  assemblyMap,
+  blockMapOffsets,
+  factorize,
+  matVec,
+  matrixOnPattern,
+  patternFromBlocks,
+  readMatrixMarket,
+  writeMatrixMarket,
+  type CsrMatrix,
+} from '../src/linalg/index.js';
+
+export interface BenchResult {
+  n: number;
+  nnzL: number;
+  /** ordering + symbolic + numeric, seconds */
+  factor_s: number;
+  ordering_s: number;
+  symbolic_s: number;
+  numeric_s: number;
+  solve_s: number;
+  /** ‖Ax − b‖∞ / ‖b‖∞ with b all ones */
+  residual: number;
+}
+
+/** Factor and solve the matrix in file with b = 1; residual is the relative infinity norm. */
+export function benchMatrix(file: string): BenchResult {
+  const A = readMatrixMarket(file);
+  const n = A.n;
+  const t0 = performance.now();
+  const perm = amdOrder(A);
+  const t1 = performance.now();
+  const sym = analyze(A, { ordering: perm });
+  const t2 = performance.now();
+  const F = factorize(A, sym);
+  const t3 = performance.now();
+  const b = new Float64Array(n).fill(1);
+  const x = new Float64Array(n);
+  F.solve(b, x);
+  const t4 = performance.now();
+  const r = matVec(A, x, new Float64Array(n));
+  let res = 0;
+  for (let i = 0; i < n; i++) res = Math.max(res, Math.abs(r[i] - b[i]));
+  return {
+    n,
+    nnzL: F.nnzL,
+    factor_s: (t3 - t0) / 1000,
+    ordering_s: (t1 - t0) / 1000,
+    symbolic_s: (t2 - t1) / 1000,
+    numeric_s: (t3 - t2) / 1000,
+    solve_s: (t4 - t3) / 1000,
+    residual: n > 0 ? res : 0,
+  };
+}
+
+/** Stiffness of a unit square, bilinear, plane stress (E = 1, ν = 0.3, thickness 1), row-major 8×8. */
+function q4Stiffness(): Float64Array {
+  const nu = 0.3;
+  const c = 1 / (1 - nu * nu);
+  const D = [c, c * nu, 0, c * nu, c, 0, 0, 0, (c * (1 - nu)) / 2];
+  const xi = [-1, 1, 1, -1];
+  const eta = [-1, -1, 1, 1];
+  const g = 1 / Math.sqrt(3);
+  const K = new Float64Array(64);
+  const B = new Float64Array(24);
+  for (const gx of [-g, g]) {
+    for (const gy of [-g, g]) {
+      B.fill(0);
+      for (let a = 0; a < 4; a++) {
+        // d/dx = 2 d/dξ on a unit square; detJ = 1/4
+        const dx = (xi[a] * (1 + eta[a] * gy)) / 2;
+        const dy = (eta[a] * (1 + xi[a] * gx)) / 2;
+        B[0 * 8 + 2 * a] = dx;
+        B[1 * 8 + 2 * a + 1] = dy;
+        B[2 * 8 + 2 * a] = dy;
+        B[2 * 8 + 2 * a + 1] = dx;
+      }
+      for (let p = 0; p < 8; p++) {
+        for (let q = 0; q < 8; q++) {
+          let s = 0;
+          for (let u = 0; u < 3; u++) for (let v = 0; v < 3; v++) s += B[u * 8 + p] * D[u * 3 + v] * B[v * 8 + q];
+          K[p * 8 + q] += s * 0.25;
+        }
+      }
+    }
+  }
+  return K;
+}
+
+/** Plane-stress stiffness of an nx×ny grid of unit bilinear squares, left edge clamped ((nx)(ny+1)·2 dofs); clamp = false leaves it free. */
+export function gridStiffnessQ4(nx: number, ny: number, clamp = true): CsrMatrix {
+  const first = clamp ? 1 : 0;
+  const perRow = nx + 1 - first;
+  const dof = (i: number, j: number, c: number): number => (i < first ? -1 : (j * perRow + (i - first)) * 2 + c);
+  const n = perRow * (ny + 1) * 2;
+  const ne = nx * ny;
+  const blockStart = new Int32Array(ne + 1);
+  const blockDofs = new Int32Array(8 * ne);
+  let b = 0;
+  for (let ey = 0; ey < ny; ey++) {
+    for (let ex = 0; ex < nx; ex++) {
+      const nodes = [ex, ey, ex + 1, ey, ex + 1, ey + 1, ex, ey + 1];
+      for (let a = 0; a < 4; a++) {
+        blockDofs[8 * b + 2 * a] = dof(nodes[2 * a], nodes[2 * a + 1], 0);
+        blockDofs[8 * b + 2 * a + 1] = dof(nodes[2 * a], nodes[2 * a + 1], 1);
+      }
+      b++;
+      blockStart[b] = 8 * b;
+    }
+  }
+  const A = matrixOnPattern(patternFromBlocks(n, blockStart, blockDofs));
+  const map = assemblyMap(A, blockStart, blockDofs);
+  const off = blockMapOffsets(blockStart);
+  const Ke = q4Stiffness();
+  for (let e = 0; e < ne; e++) {
+    const o = off[e];
+    for (let k = 0; k < 64; k++) {
+      const t = map[o + k];
+      if (t >= 0) A.values[t] += Ke[k];
+    }
+  }
+  return A;
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const args = process.argv.slice(2);
+  if (args[0] === '--grid' && args.length === 4) {
+    const A = gridStiffnessQ4(Number(args[1]), Number(args[2]));
+    writeMatrixMarket(A, args[3], `plane-stress bilinear grid ${args[1]}x${args[2]}, left edge clamped`);
+    console.log(JSON.stringify({ file: args[3], n: A.n, nnz: A.colIdx.length }));
+  } else if (args.length === 1) {
+    console.log(JSON.stringify(benchMatrix(args[0])));
+  } else {
+    console.error('usage: bench-matrix FILE | bench-matrix --grid NX NY FILE');
+    process.exit(2);
+  }
+}

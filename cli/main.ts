@@ -1,0 +1,98 @@
+// The rupta command line: a thin layer over the library (no physics here).
+// Exit codes: 0 done, 2 a mistake in the input, 3 a run that stopped early, 1 a fault of ours.
+import { Command, CommanderError } from 'commander';
+import { join } from 'node:path';
+import { loadCase, describeCase } from '../src/case/index.js';
+import { InputError, RunStopped } from '../src/errors.js';
+import { runCase, meshCase } from '../src/run.js';
+import { meshStats } from '../src/mesh/stats.js';
+import { meshSvg } from '../src/output/field.js';
+import { specimenSymbols } from '../src/output/runfiles.js';
+import { ensureDir, writeFileAtomic } from '../src/output/files.js';
+import { Analysis } from '../src/fracture/analysis.js';
+import { Progress } from './progress.js';
+
+const program = new Command();
+program
+  .name('rupta')
+  .description('Cohesive crack paths and load–opening curves of notched quasi-brittle plates.')
+  .showHelpAfterError('(run rupta --help for the commands)')
+  .exitOverride();
+
+program
+  .command('run')
+  .description('run the analysis of a case file and write curve.csv, summary.json, frames and pictures')
+  .argument('<case>', 'case file (YAML or JSON)')
+  .option('--out <dir>', 'output folder (default out/<case name>)')
+  .option('--force', 'overwrite an existing output folder')
+  .option('--quiet', 'no progress on stderr')
+  .option('--json', 'print the summary as JSON on stdout')
+  .option('--export-matrix <file>', 'also write the constrained stiffness matrix (Matrix Market)')
+  .action(async (file: string, o: { out?: string; force?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string }) => {
+    const c = loadCase(file);
+    const progress = new Progress(!o.quiet, c);
+    let interrupted = false;
+    const onSignal = () => { interrupted = true; };
+    process.on('SIGINT', onSignal);
+    process.on('SIGTERM', onSignal);
+    const { dir, result, summary } = await runCase(c, {
+      out: o.out, force: o.force, exportMatrix: o.exportMatrix,
+      onStep: (e, t) => progress.step(e.row, t),
+      stopRequested: () => interrupted,
+    });
+    progress.done();
+    if (o.json) process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
+    else if (!o.quiet) {
+      const p = result.peak;
+      process.stdout.write(`${result.status}: ${result.reason}\n`);
+      process.stdout.write(`peak load ${p.load_N.toFixed(1)} N at step ${p.step} (displacement ${p.displacement_mm.toFixed(4)} mm${p.cmod_mm !== null ? `, CMOD ${p.cmod_mm.toFixed(4)} mm` : ''})\n`);
+      process.stdout.write(`results in ${dir}\n`);
+    }
+    if (result.status !== 'complete') process.exitCode = 3;
+  });
+
+program
+  .command('check')
+  .description('validate a case file, print the model summary and the number of dofs')
+  .argument('<case>', 'case file (YAML or JSON)')
+  .action((file: string) => {
+    const c = loadCase(file);
+    const { mesh, seconds } = meshCase(c);
+    const a = new Analysis(c, mesh);
+    const st = meshStats(mesh);
+    process.stdout.write(describeCase(c) + '\n');
+    process.stdout.write(`Mesh: ${st.polygons} polygons, ${st.vertices} vertices (${seconds.toFixed(2)} s); ${2 * st.vertices} dofs, ${a.freeDofs} free.\n`);
+  });
+
+program
+  .command('mesh')
+  .description('mesh a case, write mesh.svg into the output folder and print mesh statistics')
+  .argument('<case>', 'case file (YAML or JSON)')
+  .option('--out <dir>', 'output folder (default out/<case name>)')
+  .action((file: string, o: { out?: string }) => {
+    const c = loadCase(file);
+    const { mesh, seconds } = meshCase(c);
+    const dir = o.out ?? join('out', c.name);
+    ensureDir(dir);
+    writeFileAtomic(join(dir, 'mesh.svg'), meshSvg(mesh, { ...specimenSymbols(c), title: `${c.title}: mesh` }));
+    const st = meshStats(mesh);
+    process.stdout.write(`${st.polygons} polygons, ${st.vertices} vertices, ${2 * st.vertices} dofs, made in ${seconds.toFixed(2)} s\n`);
+    process.stdout.write(`cell area ${st.minArea.toPrecision(3)}–${st.maxArea.toPrecision(3)} mm², edge ${st.minEdge.toPrecision(3)}–${st.maxEdge.toPrecision(3)} mm, up to ${st.maxVerticesPerCell} vertices per cell\n`);
+    process.stdout.write(`wrote ${join(dir, 'mesh.svg')}\n`);
+  });
+
+async function main(): Promise<void> {
+  try {
+    await program.parseAsync(process.argv);
+  } catch (e) {
+    if (e instanceof CommanderError) { process.exitCode = e.exitCode === 0 ? 0 : 2; return; }
+    if (e instanceof InputError) { process.stderr.write(`rupta: ${e.message}\n`); process.exitCode = 2; return; }
+    if (e instanceof RunStopped) { process.stderr.write(`rupta: the run stopped: ${e.message}\n`); process.exitCode = 3; return; }
+    const msg = e instanceof Error ? e.message : String(e);
+    process.stderr.write(`rupta: internal error: ${msg}\n(set RUPTA_DEBUG=1 for the details)\n`);
+    if (process.env.RUPTA_DEBUG && e instanceof Error) process.stderr.write(`${e.stack}\n`);
+    process.exitCode = 1;
+  }
+}
+
+await main();

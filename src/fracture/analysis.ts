@@ -1,0 +1,518 @@
+// The staggered loop: solve equilibrium at the control level, check the tips, grow and
+// re-solve at the same level until no tip meets the criterion, then advance the control.
+import type { CaseModel } from '../case/model.js';
+import type { PolyMesh } from '../mesh/polymesh.js';
+import { makeLaw } from '../cohesive/laws.js';
+import { interfaceEnergy, penaltyFor, type CohesiveParams } from '../cohesive/interface.js';
+import { elasticMatrix } from '../vem/material.js';
+import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
+import { System, type PairGeom, type DrivenDofs } from '../solver/system.js';
+import { NewtonWork, solveStep, type StepState, type NewtonOptions } from '../solver/newton.js';
+import { selectDriven, boundaryVertices, type Driven } from '../solver/driven.js';
+import { RunStopped } from '../errors.js';
+import { submatrixInto, type CsrMatrix } from '../linalg/index.js';
+import { WorkMesh } from './workmesh.js';
+import { cutRay, twinAlong, defaultCut } from './cut.js';
+import { refineAround, coarsenAway } from './adapt.js';
+import { tipStress, growthDirection } from './criterion.js';
+
+export interface StepRow {
+  step: number; control: number; load_N: number; displacement_mm: number; cmod_mm: number | null;
+  crack_length_mm: number; tip_x_mm: number | null; tip_y_mm: number | null;
+  external_work_Nmm: number; elastic_energy_Nmm: number; dissipated_Nmm: number; iterations: number;
+}
+
+export interface ProbeRow { step: number; probe: string; x_mm: number; y_mm: number; ux_mm: number; uy_mm: number; sxx_MPa: number; syy_MPa: number; sxy_MPa: number; s1_MPa: number }
+
+export interface CohesiveSegment { x1: number; y1: number; x2: number; y2: number; damage: number }
+
+/** What a picture of one state needs. */
+export interface Snapshot {
+  step: number; mesh: PolyMesh; u: Float64Array; cellStress: Float64Array;
+  cracks: { points: [number, number][]; kind: 'notch' | 'crack' }[];
+  cohesive: CohesiveSegment[];
+  row: StepRow;
+}
+
+export interface StepEvent { row: StepRow; probes: ProbeRow[]; snapshot: () => Snapshot }
+
+interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
+interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean }
+
+export interface AnalysisOptions {
+  /** Refuse meshes above this many dofs. */
+  maxDofs?: number;
+  /** Growth events allowed at one control level before the load advances anyway. */
+  maxGrowthPerStep?: number;
+}
+
+export interface AnalysisResult {
+  status: 'complete' | 'stopped' | 'interrupted';
+  reason: string;
+  rows: StepRow[];
+  peak: { load_N: number; displacement_mm: number; cmod_mm: number | null; step: number };
+  crackPaths: [number, number][][];
+  dofs: { initial: number; final: number; max: number };
+  mesh: { polygons: number; vertices: number };
+  probes: ProbeRow[];
+  timings_s: { solve: number };
+}
+
+export class Analysis {
+  readonly wm: WorkMesh;
+  readonly cracks: Crack[] = [];
+  readonly tips: Tip[] = [];
+  private readonly D: Float64Array;
+  private readonly coh: CohesiveParams;
+  private readonly driven: Driven;
+  private readonly kappa = new Map<number, number>();
+  private uw: Float64Array;
+  private lambda = 0;
+  private sys!: System;
+  private work!: NewtonWork;
+  private compact!: ReturnType<WorkMesh['toPolyMesh']>;
+  private pairPlus: number[] = [];
+  private kap = new Float64Array(0);
+  private kapTrial = new Float64Array(0);
+  private uf = new Float64Array(0);
+  private dirty = true;
+  readonly rows: StepRow[] = [];
+  private W = 0;
+  private lastF = 0;
+  private lastLambda = 0;
+  private iterations = 0;
+  readonly dofs = { initial: 0, final: 0, max: 0 };
+  private probeVerts: number[] = [];
+  private solveTime = 0;
+  private lastProbes: ProbeRow[] = [];
+  private readonly fScale: number;
+  stopRequested: (() => boolean) | null = null;
+
+  constructor(readonly c: CaseModel, initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
+    this.wm = WorkMesh.fromPolyMesh(initial);
+    for (let v = 0; v < this.wm.vertexCount; v++) this.wm.pinned[v] = 1;
+    this.D = elasticMatrix(c.material.E, c.material.nu, c.model);
+    this.coh = { law: makeLaw(c.material.softening, c.material.ft, c.material.GF), penalty: penaltyFor(c.material.E, c.mesh.tipSize), beta: c.material.shearWeight };
+    const ext = extent(initial);
+    this.driven = selectDriven(c, initial, 1e-6 * ext);
+    this.fScale = c.material.ft * c.thickness * ext;
+    this.uw = new Float64Array(2 * this.wm.vertexCount);
+    for (const p of c.probes) this.probeVerts.push(nearestVertex(initial, p.at[0], p.at[1]));
+    this.insertNotchSlits(initial);
+    this.placeTips();
+  }
+
+  /** Width-0 notches are cut into the mesh as traction-free cracks. */
+  private insertNotchSlits(initial: PolyMesh): void {
+    const on = boundaryVertices(initial);
+    for (const n of this.c.geometry.notches) {
+      if (n.width > 0) continue;
+      const a = nearestVertex(initial, n.from[0], n.from[1]);
+      const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
+      const dx = (n.to[0] - n.from[0]) / L, dy = (n.to[1] - n.from[1]) / L;
+      const cut = cutRay(this.wm, a, dx, dy, L, { ...defaultCut, snapFraction: 0.1 });
+      const startOnBoundary = on[a] === 1;
+      const tw = twinAlong(this.wm, cut.path, null, startOnBoundary, cut.end === 'boundary');
+      this.cracks.push({ kind: 'notch', path: cut.path, twins: tw.map((t) => t[1]) });
+    }
+  }
+
+  /** A cohesive crack cut in before loading, from a boundary point straight to another (tests, pre-cracked specimens). */
+  addCohesiveCut(from: [number, number], to: [number, number]): void {
+    const a = this.nearestLive(from[0], from[1]);
+    const L = Math.hypot(to[0] - from[0], to[1] - from[1]);
+    const cut = cutRay(this.wm, a, (to[0] - from[0]) / L, (to[1] - from[1]) / L, L, { ...defaultCut, snapFraction: 0.1 });
+    const tw = twinAlong(this.wm, cut.path, null, true, cut.end === 'boundary');
+    this.cracks.push({ kind: 'cohesive', path: cut.path, twins: tw.map((t) => t[1]) });
+    this.dirty = true;
+  }
+
+  private placeTips(): void {
+    const c = this.c, crack = c.crack;
+    if (!crack) return;
+    if (crack.start === 'notch-tips') {
+      let slit = 0;
+      for (const n of c.geometry.notches) {
+        const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
+        const dx = (n.to[0] - n.from[0]) / L, dy = (n.to[1] - n.from[1]) / L;
+        if (n.width > 0) {
+          this.tips.push({ crack: -1, v: this.nearestLive(n.to[0], n.to[1]), dx, dy, back: null, active: true });
+        } else {
+          const k = this.cracks.filter((q) => q.kind === 'notch')[slit++];
+          const end = k.path[k.path.length - 1];
+          if (k.twins[k.twins.length - 1] < 0) {
+            const prev = k.path[k.path.length - 2];
+            this.tips.push({ crack: -1, v: end, dx, dy, back: [this.wm.x[prev], this.wm.y[prev]], active: true });
+          }
+          if (k.twins[0] < 0) {
+            const next = k.path[1];
+            this.tips.push({ crack: -1, v: k.path[0], dx: -dx, dy: -dy, back: [this.wm.x[next], this.wm.y[next]], active: true });
+          }
+        }
+      }
+    } else if (Array.isArray(crack.start)) {
+      for (const p of crack.start) this.tips.push({ crack: -1, v: this.nearestLive(p[0], p[1]), dx: 0, dy: 0, back: null, active: true });
+    }
+    for (const t of this.tips) refineAround(this.wm, this.wm.x[t.v], this.wm.y[t.v], c.mesh.refineRadius, c.mesh.tipSize);
+  }
+
+  private nearestLive(x: number, y: number): number {
+    let best = -1, bd = Infinity;
+    for (let v = 0; v < this.wm.vertexCount; v++) {
+      if (this.wm.cellsOf(v).length === 0) continue;
+      const d = Math.hypot(this.wm.x[v] - x, this.wm.y[v] - y);
+      if (d < bd) { bd = d; best = v; }
+    }
+    return best;
+  }
+
+  /** Rebuild the equations after a mesh change; displacements and histories carry over. */
+  private rebuild(): void {
+    this.uw = this.wm.extendField(this.uw, 2);
+    const cp = this.wm.toPolyMesh();
+    this.compact = cp;
+    const co = cp.compactOf;
+    const nd = 2 * cp.vertexOf.length;
+    if (this.opt.maxDofs && nd > this.opt.maxDofs) throw new RunStopped(`the mesh grew to ${nd} dofs, above the limit of ${this.opt.maxDofs}`);
+    const dof = (d: { v: number; comp: number }) => 2 * co[d.v] + d.comp;
+    const dd: DrivenDofs = {
+      fixed: Int32Array.from(this.driven.fixed.filter((d) => co[d.v] >= 0).map(dof)),
+      load: Int32Array.from(this.driven.load.filter((d) => co[d.v] >= 0).map(dof)),
+      loadW: Float64Array.from(this.driven.load.filter((d) => co[d.v] >= 0).map((d) => d.w)),
+      gauge: Int32Array.from(this.driven.gauge.filter((d) => co[d.v] >= 0).map(dof)),
+      gaugeW: Float64Array.from(this.driven.gauge.filter((d) => co[d.v] >= 0).map((d) => d.w)),
+    };
+    const pg = this.pairGeometry(co);
+    this.sys = new System(cp.mesh, this.D, this.c.thickness, pg, dd);
+    this.work = new NewtonWork(this.sys);
+    this.uf = new Float64Array(this.sys.nFree);
+    const fd = this.sys.freeDofs, vo = cp.vertexOf;
+    for (let i = 0; i < fd.length; i++) this.uf[i] = this.uw[2 * vo[fd[i] >> 1] + (fd[i] & 1)];
+    this.kap = Float64Array.from(this.pairPlus.map((v) => this.kappa.get(v) ?? 0));
+    this.kapTrial = this.kap.slice();
+    if (this.dofs.initial === 0) this.dofs.initial = nd;
+    this.dofs.max = Math.max(this.dofs.max, nd);
+    this.dofs.final = nd;
+    this.dirty = false;
+  }
+
+  /** Node pairs of the cohesive cracks with their normals and tributary face areas. */
+  private pairGeometry(co: Int32Array): PairGeom {
+    const plus: number[] = [], minus: number[] = [], nx: number[] = [], ny: number[] = [], area: number[] = [];
+    const { x, y } = this.wm;
+    for (const k of this.cracks) {
+      if (k.kind !== 'cohesive') continue;
+      const P = k.path, n = P.length;
+      for (let i = 0; i < n; i++) {
+        if (k.twins[i] < 0) continue;
+        const a = i > 0 ? P[i - 1] : P[i], b = i + 1 < n ? P[i + 1] : P[i];
+        const tx = x[b] - x[a], ty = y[b] - y[a], L = Math.hypot(tx, ty);
+        const len = 0.5 * ((i > 0 ? Math.hypot(x[P[i]] - x[P[i - 1]], y[P[i]] - y[P[i - 1]]) : 0)
+          + (i + 1 < n ? Math.hypot(x[P[i + 1]] - x[P[i]], y[P[i + 1]] - y[P[i]]) : 0));
+        plus.push(co[P[i]]); minus.push(co[k.twins[i]]);
+        // plus = left face; its normal points from the minus (right) face to it
+        nx.push(-ty / L); ny.push(tx / L); area.push(len * this.c.thickness);
+      }
+    }
+    this.pairPlus = [];
+    for (const k of this.cracks) if (k.kind === 'cohesive') k.path.forEach((v, i) => { if (k.twins[i] >= 0) this.pairPlus.push(v); });
+    return { plus: Int32Array.from(plus), minus: Int32Array.from(minus), nx: Float64Array.from(nx), ny: Float64Array.from(ny), area: Float64Array.from(area) };
+  }
+
+  private newtonOptions(target: number): NewtonOptions {
+    const kind = this.c.control.by;
+    const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);
+    return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty };
+  }
+
+  /** Solve at one control level from the current state; false (state restored) on failure. */
+  private solveAt(target: number): { ok: boolean; reason: string } {
+    if (this.dirty) this.rebuild();
+    let st: StepState = { uf: this.uf.slice(), lambda: this.lambda };
+    const t0 = performance.now();
+    let r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, this.c.control.by, target, st, this.newtonOptions(target), this.work);
+    if (!r.converged && this.sys.pairs.plus.length > 0) {
+      // points switching between loading and unloading can make Newton cycle: fall back to the secant
+      this.iterations += r.iterations;
+      st = { uf: this.uf.slice(), lambda: this.lambda };
+      r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, this.c.control.by, target, st, { ...this.newtonOptions(target), maxIter: 300, secant: true }, this.work);
+    }
+    this.solveTime += performance.now() - t0;
+    this.iterations += r.iterations;
+    if (process.env.RUPTA_DEBUG) process.stderr.write(`solve ${this.c.control.by} ${target.toExponential(3)} it ${r.iterations} ${r.converged ? "ok" : r.reason}\n`);
+    if (!r.converged) return { ok: false, reason: r.reason };
+    this.uf.set(st.uf); this.lambda = st.lambda;
+    // carry the solution to the stable vertex ids
+    const u = this.work.u, vo = this.compact.vertexOf;
+    for (let i = 0; i < vo.length; i++) { this.uw[2 * vo[i]] = u[2 * i]; this.uw[2 * vo[i] + 1] = u[2 * i + 1]; }
+    const F = this.sys.loadForce(this.work.f);
+    this.W += 0.5 * (F + this.lastF) * (this.lambda - this.lastLambda);
+    this.lastF = F; this.lastLambda = this.lambda;
+    return { ok: true, reason: '' };
+  }
+
+  /** Largest softening of any cohesive point in the trial state, as a fraction of ft; the
+   * step that takes a point over its peak counts five times, so the peak load is caught. */
+  private softeningJump(): number {
+    const law = this.coh.law, l0 = law.ft / this.coh.penalty;
+    const tau = (k: number) => (k <= l0 ? this.coh.penalty * k : law.stress(k - l0));
+    let worst = 0;
+    for (let p = 0; p < this.kap.length; p++) {
+      const k0 = this.kap[p], k1 = this.kapTrial[p];
+      if (k1 <= l0 || k1 <= k0) continue;
+      const drop = k0 <= l0 ? 10 * (law.ft - tau(k1)) : tau(k0) - tau(k1);
+      if (drop > worst) worst = drop;
+    }
+    return worst / law.ft;
+  }
+
+  private saveState() {
+    return { uf: this.uf.slice(), lambda: this.lambda, W: this.W, lastF: this.lastF, lastLambda: this.lastLambda, uw: this.uw.slice() };
+  }
+
+  private restoreState(s: ReturnType<Analysis['saveState']>): void {
+    this.uf.set(s.uf); this.lambda = s.lambda; this.W = s.W; this.lastF = s.lastF; this.lastLambda = s.lastLambda;
+    this.uw = s.uw; this.kapTrial.set(this.kap);
+  }
+
+  /** Check every active tip; grow those that meet the criterion. Returns how many grew. */
+  private grow(): number {
+    const crack = this.c.crack!;
+    const m = this.sys.mesh;
+    const stress = cellStresses(m, this.work.u, this.D);
+    const areas = cellAreas(m);
+    const nc = m.cellStart.length - 1, cent = new Float64Array(2 * nc);
+    for (let c = 0; c < nc; c++) {
+      const cc = this.wm.centroid(this.compact.cellOf[c]);
+      cent[2 * c] = cc[0]; cent[2 * c + 1] = cc[1];
+    }
+    let grown = 0;
+    for (const t of this.tips) {
+      if (!t.active) continue;
+      const tx = this.wm.x[t.v], ty = this.wm.y[t.v];
+      const ts = tipStress(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius);
+      if (ts.s1 < this.c.material.ft) continue;
+      let [gx, gy] = growthDirection(ts, t.dx, t.dy);
+      // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
+      if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
+      const cut = cutRay(this.wm, t.v, gx, gy, crack.growthStep);
+      if (cut.path.length < 2) { t.active = false; continue; }
+      if (t.crack < 0) { this.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = this.cracks.length - 1; }
+      const k = this.cracks[t.crack];
+      const through = cut.end === 'boundary';
+      if (cut.end === 'crack') t.active = false;
+      const tw = twinAlong(this.wm, cut.path, t.back, true, through);
+      k.twins[k.twins.length - 1] = tw[0][1];
+      for (let i = 1; i < cut.path.length; i++) { k.path.push(cut.path[i]); k.twins.push(tw[i][1]); }
+      const end = cut.path[cut.path.length - 1], prev = cut.path[cut.path.length - 2];
+      t.back = [this.wm.x[prev], this.wm.y[prev]];
+      const L = Math.hypot(this.wm.x[end] - tx, this.wm.y[end] - ty);
+      t.dx = (this.wm.x[end] - tx) / L; t.dy = (this.wm.y[end] - ty) / L;
+      t.v = end;
+      if (through) t.active = false;
+      else refineAround(this.wm, this.wm.x[end], this.wm.y[end], this.c.mesh.refineRadius, this.c.mesh.tipSize);
+      grown++;
+    }
+    if (grown > 0) {
+      const at = this.tips.filter((t) => t.active).map((t) => [this.wm.x[t.v], this.wm.y[t.v]] as [number, number]);
+      if (this.c.mesh.coarsen && at.length > 0) {
+        coarsenAway(this.wm, at, 2 * this.c.mesh.refineRadius + 2 * this.c.mesh.size);
+      }
+      this.dirty = true;
+    }
+    return grown;
+  }
+
+  private commit(): void {
+    this.kap.set(this.kapTrial);
+    this.pairPlus.forEach((v, i) => this.kappa.set(v, this.kapTrial[i]));
+  }
+
+  private energies(): { elastic: number; dissipated: number } {
+    const sys = this.sys, u = this.work.u, f = new Float64Array(sys.nDof);
+    sys.internal(u, null, this.kap, this.kapTrial, f, false, 0);
+    let e = 0;
+    for (let i = 0; i < u.length; i++) e += 0.5 * u[i] * f[i];
+    let d = 0;
+    const P = sys.pairs;
+    for (let p = 0; p < P.plus.length; p++) {
+      const a = P.plus[p], b = P.minus[p];
+      const dx = u[2 * a] - u[2 * b], dy = u[2 * a + 1] - u[2 * b + 1];
+      const w = dx * P.nx[p] + dy * P.ny[p], s = dx * P.ny[p] - dy * P.nx[p];
+      const en = interfaceEnergy(this.coh, w, s, this.kap[p]);
+      e += en.stored * P.area[p];
+      d += en.dissipated * P.area[p];
+    }
+    return { elastic: e, dissipated: d };
+  }
+
+  private crackLength(): number {
+    let L = 0;
+    for (const k of this.cracks) if (k.kind === 'cohesive') for (let i = 1; i < k.path.length; i++) {
+      L += Math.hypot(this.wm.x[k.path[i]] - this.wm.x[k.path[i - 1]], this.wm.y[k.path[i]] - this.wm.y[k.path[i - 1]]);
+    }
+    return L;
+  }
+
+  private record(step: number, control: number): StepEvent {
+    const en = this.energies();
+    const F = this.sys.loadForce(this.work.f);
+    const gauge = this.driven.gaugeVerts ? this.sys.gaugeReading(this.work.u) : null;
+    const tip = this.tips.find((t) => this.cracks[t.crack]?.kind === 'cohesive') ?? this.tips[0];
+    const row: StepRow = {
+      step, control, load_N: F, displacement_mm: this.lambda, cmod_mm: gauge,
+      crack_length_mm: this.crackLength(),
+      tip_x_mm: tip ? this.wm.x[tip.v] : null, tip_y_mm: tip ? this.wm.y[tip.v] : null,
+      external_work_Nmm: this.W, elastic_energy_Nmm: en.elastic, dissipated_Nmm: en.dissipated,
+      iterations: this.iterations,
+    };
+    this.iterations = 0;
+    this.rows.push(row);
+    const m = this.sys.mesh, u = this.work.u.slice();
+    const cs = cellStresses(m, u, this.D);
+    const vs = vertexStresses(m, cs, cellAreas(m));
+    const probes: ProbeRow[] = this.c.probes.map((p, i) => {
+      const v = this.compact.compactOf[this.probeVerts[i]];
+      const sxx = vs[3 * v], syy = vs[3 * v + 1], sxy = vs[3 * v + 2];
+      return {
+        step, probe: p.name, x_mm: m.xy[2 * v], y_mm: m.xy[2 * v + 1], ux_mm: u[2 * v], uy_mm: u[2 * v + 1],
+        sxx_MPa: sxx, syy_MPa: syy, sxy_MPa: sxy, s1_MPa: (sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy),
+      };
+    });
+    this.lastProbes = probes;
+    const kap = this.kap.slice();
+    const snapshot = (): Snapshot => ({
+      step, mesh: m, u, cellStress: cs, row,
+      cracks: this.crackPolylines(),
+      cohesive: this.cohesiveSegments(m, kap),
+    });
+    return { row, probes, snapshot };
+  }
+
+  crackPolylines(): { points: [number, number][]; kind: 'notch' | 'crack' }[] {
+    return this.cracks.map((k) => ({ kind: k.kind === 'notch' ? 'notch' as const : 'crack' as const, points: k.path.map((v) => [this.wm.x[v], this.wm.y[v]] as [number, number]) }));
+  }
+
+  private cohesiveSegments(m: PolyMesh, kap: Float64Array): CohesiveSegment[] {
+    const out: CohesiveSegment[] = [];
+    const l0 = this.coh.law.ft / this.coh.penalty, wc = this.coh.law.wc;
+    const dmg = new Map<number, number>();
+    this.pairPlus.forEach((v, i) => dmg.set(v, Math.min(1, Math.max(0, (kap[i] - l0) / wc))));
+    for (const k of this.cracks) {
+      if (k.kind !== 'cohesive') continue;
+      for (let i = 1; i < k.path.length; i++) {
+        const a = k.path[i - 1], b = k.path[i];
+        out.push({ x1: this.wm.x[a], y1: this.wm.y[a], x2: this.wm.x[b], y2: this.wm.y[b], damage: ((dmg.get(a) ?? 0) + (dmg.get(b) ?? 0)) / 2 });
+      }
+    }
+    void m;
+    return out;
+  }
+
+  /** The constrained bulk stiffness of the current mesh (free dofs only), e.g. for export. */
+  stiffnessMatrix(): CsrMatrix {
+    if (this.dirty) this.rebuild();
+    this.sys.kT.values.set(this.sys.kBulk.values);
+    return submatrixInto(this.sys.kT, this.sys.kff);
+  }
+
+  /** Free dofs of the current mesh. */
+  get freeDofs(): number { if (this.dirty) this.rebuild(); return this.sys.nFree; }
+
+  /** Run the whole analysis; onStep sees every converged step (step 0 is the unloaded state). */
+  async run(onStep: (e: StepEvent) => void | Promise<void>): Promise<AnalysisResult> {
+    const c = this.c, ctl = c.control;
+    const elastic = !c.crack;
+    this.rebuild();
+    await onStep(this.record(0, 0));
+    let status: AnalysisResult['status'] = 'complete', reason = '';
+    const nInc = elastic ? 1 : ctl.increments;
+    let done = 0; // control level reached so far
+    const full = ctl.target;
+    let peak = { load_N: 0, displacement_mm: 0, cmod_mm: null as number | null, step: 0 };
+    let step = 0;
+    const maxGrowth = this.opt.maxGrowthPerStep ?? 60;
+    try {
+      outer: for (let inc = 1; inc <= nInc; inc++) {
+        const goal = full * inc / nInc;
+        // advance to goal, cutting the increment when Newton fails
+        let frac = 1;
+        while (done < goal - 1e-12 * Math.abs(full)) {
+          if (this.stopRequested?.()) { status = 'interrupted'; reason = 'interrupted by a signal'; break outer; }
+          const target = done + Math.min(frac * (goal - done), goal - done);
+          if (this.dirty) this.rebuild();
+          const saved = this.saveState();
+          const r = this.solveAt(target);
+          // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak)
+          if (r.ok && !elastic && frac > 1 / 64 && this.softeningJump() > 0.05) {
+            this.restoreState(saved);
+            frac /= 2;
+            continue;
+          }
+          if (!r.ok) {
+            frac /= 2;
+            if (frac < 1 / 64) {
+              if (ctl.by === 'force' && peak.load_N > 0) { reason = `the load cannot be raised above ${peak.load_N.toFixed(1)} N under force control (peak reached)`; break outer; }
+              throw new RunStopped(`step ${step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
+            }
+            continue;
+          }
+          // staggered growth at this control level
+          if (!elastic) {
+            for (let g = 0; g < maxGrowth; g++) {
+              if (this.grow() === 0) break;
+              const rr = this.solveAt(target);
+              if (!rr.ok) throw new RunStopped(`step ${step + 1} did not converge after the crack grew at ${ctl.by} ${target.toPrecision(4)}: ${rr.reason}`);
+            }
+          }
+          this.commit();
+          done = target;
+          step++;
+          const ev = this.record(step, target);
+          if (Math.abs(ev.row.load_N) > Math.abs(peak.load_N)) peak = { load_N: ev.row.load_N, displacement_mm: ev.row.displacement_mm, cmod_mm: ev.row.cmod_mm, step };
+          await onStep(ev);
+          if (frac < 1) frac = Math.min(1, frac * 2);
+          if (!elastic && ctl.stopAtLoadFraction > 0 && step > peak.step && Math.abs(ev.row.load_N) <= ctl.stopAtLoadFraction * Math.abs(peak.load_N)) {
+            reason = `the load fell to ${(100 * ctl.stopAtLoadFraction).toFixed(1)} % of the peak`;
+            break outer;
+          }
+        }
+      }
+      if (!reason) reason = elastic ? 'elastic analysis at the control target' : 'control target reached';
+    } catch (e) {
+      if (!(e instanceof RunStopped)) throw e;
+      status = 'stopped'; reason = e.message;
+    }
+    return {
+      status, reason, rows: this.rows, peak,
+      crackPaths: this.cracks.filter((k) => k.kind === 'cohesive').map((k) => k.path.map((v) => [this.wm.x[v], this.wm.y[v]] as [number, number])),
+      dofs: this.dofs,
+      mesh: { polygons: this.compact.mesh.cellStart.length - 1, vertices: this.compact.vertexOf.length },
+      probes: this.lastProbes,
+      timings_s: { solve: this.solveTime / 1000 },
+    };
+  }
+}
+
+/** Largest turn of a grown crack per growth step (rad). */
+const MAX_TURN = Math.PI / 6;
+
+/** Direction (gx, gy) turned back toward (dx, dy) so that it deviates by at most maxTurn. */
+function limitTurn(dx: number, dy: number, gx: number, gy: number, maxTurn: number): [number, number] {
+  const a = Math.atan2(dx * gy - dy * gx, dx * gx + dy * gy);
+  if (Math.abs(a) <= maxTurn) return [gx, gy];
+  const b = Math.atan2(dy, dx) + Math.sign(a) * maxTurn;
+  return [Math.cos(b), Math.sin(b)];
+}
+
+function extent(m: PolyMesh): number {
+  let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
+  for (let i = 0; i < m.xy.length; i += 2) { x0 = Math.min(x0, m.xy[i]); x1 = Math.max(x1, m.xy[i]); y0 = Math.min(y0, m.xy[i + 1]); y1 = Math.max(y1, m.xy[i + 1]); }
+  return Math.max(x1 - x0, y1 - y0);
+}
+
+function nearestVertex(m: PolyMesh, x: number, y: number): number {
+  let best = 0, bd = Infinity;
+  for (let v = 0; v < m.xy.length >> 1; v++) { const d = Math.hypot(m.xy[2 * v] - x, m.xy[2 * v + 1] - y); if (d < bd) { bd = d; best = v; } }
+  return best;
+}

@@ -1,0 +1,22 @@
+// Sparse symmetric linear algebra: CSR assembly, ordering, supernodal LDLᵀ, Matrix Market files.
+
+export {
+  type CsrPattern,
+  type CsrMatrix,
+  type SubMatrix,
+  patternFromBlocks,
+  assemblyMap,
+  blockMapOffsets,
+  findEntry,
+  matrixOnPattern,
+  zeroValues,
+  matVec,
+  submatrix,
+  submatrixInto,
+  csrFromTriplets,
+  toDense,
+} from './csr.js';
+export { amdOrder } from './amd.js';
+export { type Symbolic, type AnalyzeOptions, analyze } from './symbolic.js';
+export { type Factor, factorize } from './ldlt.js';
+export { readMatrixMarket, writeMatrixMarket } from './mtx.js';

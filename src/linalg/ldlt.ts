@@ -1,0 +1,387 @@
+// Supernodal multifrontal LDLᵀ without pivoting (D diagonal, negative pivots allowed) and its solves.
+// Each supernode's block of L is a column-major m×k array; update matrices live on one stack.
+
+import { SingularMatrixError } from '../errors.js';
+import type { CsrMatrix } from './csr.js';
+import type { Symbolic } from './symbolic.js';
+
+/** A factorization P A Pᵀ = L D Lᵀ ready to solve with. */
+export interface Factor {
+  readonly n: number;
+  /** Stored entries of L (with D on its diagonal). */
+  readonly nnzL: number;
+  /** Number of negative entries of D (the inertia's negative count). */
+  negativePivots: number;
+  /** x = A⁻¹ b; allocates only when x is not given. */
+  solve(b: Float64Array, x?: Float64Array): Float64Array;
+}
+
+/** Pivots smaller than this times the largest diagonal entry of A count as zero. */
+const PIVOT_TOLERANCE = 1e-12;
+
+class SupernodalFactor implements Factor {
+  readonly n: number;
+  readonly nnzL: number;
+  negativePivots = 0;
+  readonly lx: Float64Array;
+  readonly d: Float64Array;
+  readonly stack: Float64Array;
+  readonly work: Float64Array;
+  readonly childPos: Int32Array;
+  readonly stacked: Int32Array;
+
+  constructor(readonly sym: Symbolic) {
+    this.n = sym.n;
+    this.nnzL = sym.nnzL;
+    this.lx = new Float64Array(sym.lSize);
+    this.d = new Float64Array(sym.n);
+    if (sym.stackSize >= 2 ** 31) throw new RangeError(`the update stack would need ${sym.stackSize} entries, more than this solver can index`);
+    this.stack = new Float64Array(Math.max(1, sym.stackSize));
+    this.work = new Float64Array(sym.n);
+    this.childPos = new Int32Array(sym.nsuper);
+    this.stacked = new Int32Array(sym.nsuper);
+  }
+
+  solve(b: Float64Array, x?: Float64Array): Float64Array {
+    const sym = this.sym;
+    const n = this.n;
+    if (b.length < n) throw new RangeError(`right-hand side has ${b.length} entries for ${n} equations`);
+    const out = x ?? new Float64Array(n);
+    const y = this.work;
+    const { perm, superStart, rowPtr, rowIdx, lPtr, nsuper } = sym;
+    const lx = this.lx;
+    const d = this.d;
+    for (let i = 0; i < n; i++) y[i] = b[perm[i]];
+    // forward: L y = b
+    for (let s = 0; s < nsuper; s++) {
+      const f = superStart[s];
+      const k = superStart[s + 1] - f;
+      const r0 = rowPtr[s];
+      const m = rowPtr[s + 1] - r0;
+      const lp = lPtr[s];
+      for (let j = 0; j < k; j++) {
+        const yj = y[f + j];
+        if (yj === 0) continue;
+        const cb = lp + j * m;
+        for (let i = j + 1; i < k; i++) y[f + i] -= lx[cb + i] * yj;
+        for (let i = k; i < m; i++) y[rowIdx[r0 + i]] -= lx[cb + i] * yj;
+      }
+    }
+    for (let i = 0; i < n; i++) y[i] /= d[i];
+    // backward: Lᵀ x = y
+    for (let s = nsuper - 1; s >= 0; s--) {
+      const f = superStart[s];
+      const k = superStart[s + 1] - f;
+      const r0 = rowPtr[s];
+      const m = rowPtr[s + 1] - r0;
+      const lp = lPtr[s];
+      for (let j = k - 1; j >= 0; j--) {
+        const cb = lp + j * m;
+        let t = y[f + j];
+        for (let i = j + 1; i < k; i++) t -= lx[cb + i] * y[f + i];
+        for (let i = k; i < m; i++) t -= lx[cb + i] * y[rowIdx[r0 + i]];
+        y[f + j] = t;
+      }
+    }
+    for (let i = 0; i < n; i++) out[perm[i]] = y[i];
+    return out;
+  }
+}
+
+/** Numeric LDLᵀ of A on the analysed pattern; refactorizes into reuse's storage when it was made with the same analysis. */
+export function factorize(A: CsrMatrix, sym: Symbolic, reuse?: Factor): Factor {
+  if (A.n !== sym.n || A.colIdx.length !== sym.nnzA) {
+    throw new RangeError(`matrix (order ${A.n}, ${A.colIdx.length} entries) does not match the analysed pattern (order ${sym.n}, ${sym.nnzA} entries)`);
+  }
+  const F = reuse instanceof SupernodalFactor && reuse.sym === sym ? reuse : new SupernodalFactor(sym);
+  numeric(A, sym, F);
+  return F;
+}
+
+/** Multifrontal sweep in postorder: assemble A, extend-add the children, factor the panel, push the Schur complement. */
+function numeric(A: CsrMatrix, sym: Symbolic, F: SupernodalFactor): void {
+  const n = sym.n;
+  const { superStart, superParent, rowPtr, lPtr, relPtr, relIdx, aMap, perm, nsuper } = sym;
+  const lx = F.lx;
+  const dd = F.d;
+  const stack = F.stack;
+  const childPos = F.childPos;
+  const av = A.values;
+
+  // scale for the zero-pivot test
+  let maxDiag = 0;
+  for (let i = 0; i < n; i++) {
+    for (let q = A.rowPtr[i]; q < A.rowPtr[i + 1]; q++) {
+      if (A.colIdx[q] === i) {
+        const a = Math.abs(av[q]);
+        if (a > maxDiag) maxDiag = a;
+      }
+    }
+  }
+  const tiny = PIVOT_TOLERANCE * maxDiag;
+
+  lx.fill(0);
+  for (let q = 0; q < aMap.length; q++) {
+    const t = aMap[q];
+    if (t >= 0) lx[t] += av[q];
+  }
+
+  let top = 0;
+  let negatives = 0;
+  const onStack = F.stacked; // supernodes whose update matrices wait on the stack, bottom first
+  let nStacked = 0;
+  for (let s = 0; s < nsuper; s++) {
+    const f = superStart[s];
+    const k = superStart[s + 1] - f;
+    const m = rowPtr[s + 1] - rowPtr[s];
+    const r = m - k;
+    const lp = lPtr[s];
+
+    // children are the topmost stacked supernodes whose parent is s
+    let firstChild = nStacked;
+    while (firstChild > 0 && superParent[onStack[firstChild - 1]] === s) firstChild--;
+    const base = firstChild < nStacked ? childPos[onStack[firstChild]] : top;
+    const up = top; // own update matrix goes above the children for now
+    const uEnd = up + r * r;
+    stack.fill(0, up, uEnd);
+
+    // extend-add the children's update matrices
+    for (let t = firstChild; t < nStacked; t++) {
+      const c = onStack[t];
+      const rc = rowPtr[c + 1] - rowPtr[c] - (superStart[c + 1] - superStart[c]);
+      extendAdd(stack, childPos[c], rc, relIdx, relPtr[c], lx, lp, m, k, up, r);
+    }
+    nStacked = firstChild;
+
+    // dense LDLᵀ of the supernode's columns
+    negatives += factorPanel(lx, lp, m, k, dd, f, tiny, perm);
+
+    // Schur complement into the own update matrix, then slide it down over the children
+    if (r > 0) {
+      rankUpdate(lx, lp + k, m, k, dd, f, stack, up, r, r, r);
+      if (base !== up) stack.copyWithin(base, up, uEnd);
+      childPos[s] = base;
+      top = base + r * r;
+      onStack[nStacked++] = s;
+    } else {
+      top = base;
+    }
+  }
+  F.negativePivots = negatives;
+}
+
+/** Add a child's update (rc×rc, column-major, lower part) into the parent's L block and update matrix. */
+function extendAdd(
+  stack: Float64Array,
+  cp: number,
+  rc: number,
+  relIdx: Int32Array,
+  rp: number,
+  lx: Float64Array,
+  lp: number,
+  m: number,
+  k: number,
+  up: number,
+  r: number,
+): void {
+  for (let j = 0; j < rc; j++) {
+    const pj = relIdx[rp + j];
+    const src = cp + j * rc;
+    if (pj < k) {
+      const dst = lp + pj * m;
+      for (let i = j; i < rc; i++) lx[dst + relIdx[rp + i]] += stack[src + i];
+    } else {
+      const dst = up + (pj - k) * r - k;
+      for (let i = j; i < rc; i++) stack[dst + relIdx[rp + i]] += stack[src + i];
+    }
+  }
+}
+
+/** Columns factored together before their update is applied to the rest of the panel. */
+const PANEL_BLOCK = 32;
+
+/** Blocked LDLᵀ of the m×k panel (column-major, leading dimension m); returns the count of negative pivots. */
+function factorPanel(
+  lx: Float64Array,
+  lp: number,
+  m: number,
+  k: number,
+  dd: Float64Array,
+  f: number,
+  tiny: number,
+  perm: Int32Array,
+): number {
+  let neg = 0;
+  for (let j0 = 0; j0 < k; j0 += PANEL_BLOCK) {
+    const j1 = Math.min(k, j0 + PANEL_BLOCK);
+    // left-looking inside the block: earlier blocks are already applied
+    for (let j = j0; j < j1; j++) {
+      const cj = lp + j * m;
+      let p = j0;
+      for (; p + 3 < j; p += 4) {
+        const c0 = lp + p * m;
+        const c1 = c0 + m;
+        const c2 = c1 + m;
+        const c3 = c2 + m;
+        const w0 = lx[c0 + j] * dd[f + p];
+        const w1 = lx[c1 + j] * dd[f + p + 1];
+        const w2 = lx[c2 + j] * dd[f + p + 2];
+        const w3 = lx[c3 + j] * dd[f + p + 3];
+        for (let i = j; i < m; i++) lx[cj + i] -= lx[c0 + i] * w0 + lx[c1 + i] * w1 + lx[c2 + i] * w2 + lx[c3 + i] * w3;
+      }
+      for (; p < j; p++) {
+        const c0 = lp + p * m;
+        const w0 = lx[c0 + j] * dd[f + p];
+        for (let i = j; i < m; i++) lx[cj + i] -= lx[c0 + i] * w0;
+      }
+      const dj = lx[cj + j];
+      if (!(Math.abs(dj) > tiny)) {
+        const eq = perm[f + j];
+        throw new SingularMatrixError(
+          `the stiffness matrix is singular at equation ${eq}: pivot ${dj} — the specimen is not held against rigid-body motion, or a part of it is disconnected`,
+          eq,
+        );
+      }
+      if (dj < 0) neg++;
+      dd[f + j] = dj;
+      lx[cj + j] = 1;
+      const inv = 1 / dj;
+      for (let i = j + 1; i < m; i++) lx[cj + i] *= inv;
+    }
+    // the block's update of the remaining columns of the panel
+    if (j1 < k) rankUpdate(lx, lp + j0 * m + j1, m, j1 - j0, dd, f + j0, lx, lp + j1 * m + j1, m, m - j1, k - j1);
+  }
+  return neg;
+}
+
+/**
+ * Lower trapezoid update U −= S D Sᵀ: U has R rows and C ≤ R columns (leading dimension ldu, rows i ≥ column j);
+ * S has np columns at src + p·lds, whose rows 0..R−1 line up with U's rows; D = dd[dOff..dOff+np).
+ */
+function rankUpdate(
+  x: Float64Array,
+  src: number,
+  lds: number,
+  np: number,
+  dd: Float64Array,
+  dOff: number,
+  u: Float64Array,
+  up: number,
+  ldu: number,
+  R: number,
+  C: number,
+): void {
+  let p = 0;
+  for (; p + 3 < np; p += 4) {
+    const c0 = src + p * lds;
+    const c1 = c0 + lds;
+    const c2 = c1 + lds;
+    const c3 = c2 + lds;
+    const d0 = dd[dOff + p];
+    const d1 = dd[dOff + p + 1];
+    const d2 = dd[dOff + p + 2];
+    const d3 = dd[dOff + p + 3];
+    let j = 0;
+    // four target columns at a time; their top 3×3 triangle first, then full rows
+    for (; j + 3 < C; j += 4) {
+      const uj = up + j * ldu;
+      for (let jj = j; jj < j + 3; jj++) {
+        const w0 = x[c0 + jj] * d0;
+        const w1 = x[c1 + jj] * d1;
+        const w2 = x[c2 + jj] * d2;
+        const w3 = x[c3 + jj] * d3;
+        const ujj = up + jj * ldu;
+        for (let i = jj; i < j + 3; i++) u[ujj + i] -= x[c0 + i] * w0 + x[c1 + i] * w1 + x[c2 + i] * w2 + x[c3 + i] * w3;
+      }
+      const w0 = x[c0 + j] * d0;
+      const w1 = x[c1 + j] * d1;
+      const w2 = x[c2 + j] * d2;
+      const w3 = x[c3 + j] * d3;
+      const v0 = x[c0 + j + 1] * d0;
+      const v1 = x[c1 + j + 1] * d1;
+      const v2 = x[c2 + j + 1] * d2;
+      const v3 = x[c3 + j + 1] * d3;
+      const t0 = x[c0 + j + 2] * d0;
+      const t1 = x[c1 + j + 2] * d1;
+      const t2 = x[c2 + j + 2] * d2;
+      const t3 = x[c3 + j + 2] * d3;
+      const s0 = x[c0 + j + 3] * d0;
+      const s1 = x[c1 + j + 3] * d1;
+      const s2 = x[c2 + j + 3] * d2;
+      const s3 = x[c3 + j + 3] * d3;
+      const uj1 = uj + ldu;
+      const uj2 = uj1 + ldu;
+      const uj3 = uj2 + ldu;
+      for (let i = j + 3; i < R; i++) {
+        const a0 = x[c0 + i];
+        const a1 = x[c1 + i];
+        const a2 = x[c2 + i];
+        const a3 = x[c3 + i];
+        u[uj + i] -= a0 * w0 + a1 * w1 + a2 * w2 + a3 * w3;
+        u[uj1 + i] -= a0 * v0 + a1 * v1 + a2 * v2 + a3 * v3;
+        u[uj2 + i] -= a0 * t0 + a1 * t1 + a2 * t2 + a3 * t3;
+        u[uj3 + i] -= a0 * s0 + a1 * s1 + a2 * s2 + a3 * s3;
+      }
+    }
+    for (; j < C; j++) {
+      const w0 = x[c0 + j] * d0;
+      const w1 = x[c1 + j] * d1;
+      const w2 = x[c2 + j] * d2;
+      const w3 = x[c3 + j] * d3;
+      const uj = up + j * ldu;
+      for (let i = j; i < R; i++) u[uj + i] -= x[c0 + i] * w0 + x[c1 + i] * w1 + x[c2 + i] * w2 + x[c3 + i] * w3;
+    }
+  }
+  if (p + 1 < np) {
+    // two source columns left (supernodes of two-dof nodes often end so)
+    const c0 = src + p * lds;
+    const c1 = c0 + lds;
+    const d0 = dd[dOff + p];
+    const d1 = dd[dOff + p + 1];
+    let j = 0;
+    for (; j + 3 < C; j += 4) {
+      for (let jj = j; jj < j + 3; jj++) {
+        const w0 = x[c0 + jj] * d0;
+        const w1 = x[c1 + jj] * d1;
+        const ujj = up + jj * ldu;
+        for (let i = jj; i < j + 3; i++) u[ujj + i] -= x[c0 + i] * w0 + x[c1 + i] * w1;
+      }
+      const w0 = x[c0 + j] * d0;
+      const w1 = x[c1 + j] * d1;
+      const v0 = x[c0 + j + 1] * d0;
+      const v1 = x[c1 + j + 1] * d1;
+      const t0 = x[c0 + j + 2] * d0;
+      const t1 = x[c1 + j + 2] * d1;
+      const s0 = x[c0 + j + 3] * d0;
+      const s1 = x[c1 + j + 3] * d1;
+      const uj = up + j * ldu;
+      const uj1 = uj + ldu;
+      const uj2 = uj1 + ldu;
+      const uj3 = uj2 + ldu;
+      for (let i = j + 3; i < R; i++) {
+        const a0 = x[c0 + i];
+        const a1 = x[c1 + i];
+        u[uj + i] -= a0 * w0 + a1 * w1;
+        u[uj1 + i] -= a0 * v0 + a1 * v1;
+        u[uj2 + i] -= a0 * t0 + a1 * t1;
+        u[uj3 + i] -= a0 * s0 + a1 * s1;
+      }
+    }
+    for (; j < C; j++) {
+      const w0 = x[c0 + j] * d0;
+      const w1 = x[c1 + j] * d1;
+      const uj = up + j * ldu;
+      for (let i = j; i < R; i++) u[uj + i] -= x[c0 + i] * w0 + x[c1 + i] * w1;
+    }
+    p += 2;
+  }
+  for (; p < np; p++) {
+    const c0 = src + p * lds;
+    const d0 = dd[dOff + p];
+    for (let j = 0; j < C; j++) {
+      const w0 = x[c0 + j] * d0;
+      const uj = up + j * ldu;
+      for (let i = j; i < R; i++) u[uj + i] -= x[c0 + i] * w0;
+    }
+  }
+}

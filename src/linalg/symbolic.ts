@@ -1,0 +1,377 @@
+// Symbolic analysis for supernodal LDLᵀ: ordering, elimination tree, postorder, column counts,
+// fundamental supernodes with relaxed amalgamation, row structures and the storage layout.
+
+import type { CsrPattern } from './csr.js';
+import { amdOrder } from './amd.js';
+
+/** Everything the numeric factorization needs that depends only on the pattern. */
+export interface Symbolic {
+  readonly n: number;
+  /** Stored entries of the pattern it was built for (a check against other patterns). */
+  readonly nnzA: number;
+  /** Final elimination order, new → old. */
+  readonly perm: Int32Array;
+  /** old → new. */
+  readonly iperm: Int32Array;
+  /** Elimination tree on the new numbering (−1 for roots). */
+  readonly parent: Int32Array;
+  /** Entries of L (with D on its diagonal) counted column by column without amalgamation. */
+  readonly nnzLExact: number;
+  /** Stored entries of L: lower trapezoids of all supernodes, including zeros added by amalgamation. */
+  readonly nnzL: number;
+  readonly nsuper: number;
+  /** First column of each supernode; superStart[nsuper] = n. */
+  readonly superStart: Int32Array;
+  /** Parent supernode (−1 for roots). */
+  readonly superParent: Int32Array;
+  /** Row list of supernode s in rowIdx[rowPtr[s]..rowPtr[s+1]): its own columns, then the rows below, ascending. */
+  readonly rowPtr: Int32Array;
+  readonly rowIdx: Int32Array;
+  /** Offset of supernode s's column-major m×k block in the L values. */
+  readonly lPtr: Int32Array;
+  /** Size of the L values array (Σ m·k). */
+  readonly lSize: number;
+  /** Positions in the parent's row list of the rows below supernode s's columns: relIdx[relPtr[s]..relPtr[s+1]). */
+  readonly relPtr: Int32Array;
+  readonly relIdx: Int32Array;
+  /** For every stored entry of A: its place in the L values, or −1 for the upper triangle. */
+  readonly aMap: Int32Array;
+  /** Largest update-matrix stack the multifrontal sweep needs (doubles). */
+  readonly stackSize: number;
+  /** Largest row count of a supernode. */
+  readonly maxRows: number;
+  /** Largest column count of a supernode. */
+  readonly maxCols: number;
+}
+
+export interface AnalyzeOptions {
+  /** 'amd' (default), 'natural', or a permutation new → old. */
+  ordering?: 'amd' | 'natural' | Int32Array;
+  /** Relaxed amalgamation on (default true). */
+  amalgamate?: boolean;
+}
+
+/** Elimination tree of the pattern permuted by perm (iperm its inverse). */
+function etree(p: CsrPattern, perm: Int32Array, iperm: Int32Array): Int32Array {
+  const n = p.n;
+  const { rowPtr, colIdx } = p;
+  const parent = new Int32Array(n);
+  const ancestor = new Int32Array(n);
+  for (let k = 0; k < n; k++) {
+    parent[k] = -1;
+    ancestor[k] = -1;
+    const old = perm[k];
+    for (let q = rowPtr[old]; q < rowPtr[old + 1]; q++) {
+      let i = iperm[colIdx[q]];
+      while (i !== -1 && i < k) {
+        const inext = ancestor[i];
+        ancestor[i] = k;
+        if (inext === -1) parent[i] = k;
+        i = inext;
+      }
+    }
+  }
+  return parent;
+}
+
+/** Depth-first postorder of a forest, children visited in ascending order. */
+function postorder(parent: Int32Array): Int32Array {
+  const n = parent.length;
+  const head = new Int32Array(n).fill(-1);
+  const next = new Int32Array(n);
+  for (let j = n - 1; j >= 0; j--) {
+    const pj = parent[j];
+    if (pj === -1) continue;
+    next[j] = head[pj];
+    head[pj] = j;
+  }
+  const post = new Int32Array(n);
+  const stack = new Int32Array(n);
+  let k = 0;
+  for (let r = 0; r < n; r++) {
+    if (parent[r] !== -1) continue;
+    let top = 0;
+    stack[0] = r;
+    while (top >= 0) {
+      const v = stack[top];
+      const c = head[v];
+      if (c === -1) {
+        top--;
+        post[k++] = v;
+      } else {
+        head[v] = next[c];
+        stack[++top] = c;
+      }
+    }
+  }
+  return post;
+}
+
+/** Entries of a lower trapezoid with k columns and m rows (first k rows form the triangle). */
+function trapezoid(k: number, m: number): number {
+  return k * m - (k * (k - 1)) / 2;
+}
+
+/** Whether merging is worth its zeros (size limits and zero fractions as commonly used for relaxed supernodes). */
+function acceptMerge(cols: number, zeros: number, entries: number): boolean {
+  const z = zeros / entries;
+  return cols <= 4 || (cols <= 16 && z < 0.8) || (cols <= 48 && z < 0.1) || z < 0.05;
+}
+
+/** Symbolic analysis of a symmetric pattern; reusable for every matrix on the same pattern. */
+export function analyze(p: CsrPattern, opts: AnalyzeOptions = {}): Symbolic {
+  const n = p.n;
+  const { rowPtr: aPtr, colIdx: aCol } = p;
+  const ordering = opts.ordering ?? 'amd';
+  let perm0: Int32Array;
+  if (ordering === 'amd') perm0 = amdOrder(p);
+  else if (ordering === 'natural') {
+    perm0 = new Int32Array(n);
+    for (let i = 0; i < n; i++) perm0[i] = i;
+  } else {
+    perm0 = ordering;
+    if (perm0.length !== n) throw new RangeError(`ordering has ${perm0.length} entries for a matrix of order ${n}`);
+  }
+  let iperm = new Int32Array(n).fill(-1);
+  for (let k = 0; k < n; k++) {
+    const o = perm0[k];
+    if (o < 0 || o >= n || iperm[o] !== -1) throw new RangeError(`ordering is not a permutation (entry ${k} = ${o})`);
+    iperm[o] = k;
+  }
+
+  // postorder the elimination tree so that supernodes are contiguous
+  const post = postorder(etree(p, perm0, iperm));
+  const perm = new Int32Array(n);
+  for (let k = 0; k < n; k++) perm[k] = perm0[post[k]];
+  iperm = new Int32Array(n);
+  for (let k = 0; k < n; k++) iperm[perm[k]] = k;
+  const parent = etree(p, perm, iperm);
+
+  // column counts of L by marking row subtrees
+  const cc = new Int32Array(n).fill(1);
+  const mark = new Int32Array(n).fill(-1);
+  for (let i = 0; i < n; i++) {
+    mark[i] = i;
+    const old = perm[i];
+    for (let q = aPtr[old]; q < aPtr[old + 1]; q++) {
+      let j = iperm[aCol[q]];
+      while (j < i && mark[j] !== i) {
+        cc[j]++;
+        mark[j] = i;
+        j = parent[j];
+      }
+    }
+  }
+  let nnzLExact = 0;
+  for (let j = 0; j < n; j++) nnzLExact += cc[j];
+
+  // fundamental supernodes
+  const nchild = new Int32Array(n);
+  for (let j = 0; j < n; j++) if (parent[j] !== -1) nchild[parent[j]]++;
+  const fStart: number[] = n > 0 ? [0] : [];
+  for (let j = 1; j < n; j++) {
+    const join = parent[j - 1] === j && cc[j - 1] === cc[j] + 1 && nchild[j] === 1;
+    if (!join) fStart.push(j);
+  }
+  fStart.push(n);
+  const nf = fStart.length - 1;
+  const colSuperF = new Int32Array(n);
+  for (let s = 0; s < nf; s++) for (let j = fStart[s]; j < fStart[s + 1]; j++) colSuperF[j] = s;
+  const fParent = new Int32Array(nf);
+  for (let s = 0; s < nf; s++) {
+    const pl = parent[fStart[s + 1] - 1];
+    fParent[s] = pl === -1 ? -1 : colSuperF[pl];
+  }
+
+  // relaxed amalgamation: absorb a chain of supernodes into the next one when it is their parent
+  const amalgamate = opts.amalgamate ?? true;
+  const sStart: number[] = [];
+  {
+    let gFirst = 0;
+    let gCols = fStart[1] - fStart[0];
+    let gRows = cc[fStart[0]];
+    let gZeros = 0;
+    let gLast = 0;
+    for (let t = 1; t <= nf; t++) {
+      if (t < nf && amalgamate && fParent[gLast] === t) {
+        const tCols = fStart[t + 1] - fStart[t];
+        const tRows = cc[fStart[t]];
+        const cols = gCols + tCols;
+        const rows = gCols + tRows;
+        const entries = trapezoid(cols, rows);
+        const zeros = entries - (trapezoid(gCols, gRows) - gZeros) - trapezoid(tCols, tRows);
+        if (acceptMerge(cols, zeros, entries)) {
+          gCols = cols;
+          gRows = rows;
+          gZeros = zeros;
+          gLast = t;
+          continue;
+        }
+      }
+      sStart.push(fStart[gFirst]);
+      if (t < nf) {
+        gFirst = t;
+        gLast = t;
+        gCols = fStart[t + 1] - fStart[t];
+        gRows = cc[fStart[t]];
+        gZeros = 0;
+      }
+    }
+    sStart.push(n);
+  }
+  const nsuper = sStart.length - 1;
+  const superStart = Int32Array.from(sStart);
+  const colSuper = new Int32Array(n);
+  for (let s = 0; s < nsuper; s++) for (let j = superStart[s]; j < superStart[s + 1]; j++) colSuper[j] = s;
+  const superParent = new Int32Array(nsuper);
+  for (let s = 0; s < nsuper; s++) {
+    const pl = parent[superStart[s + 1] - 1];
+    superParent[s] = pl === -1 ? -1 : colSuper[pl];
+  }
+
+  // children lists of the supernodal tree
+  const chHead = new Int32Array(nsuper).fill(-1);
+  const chNext = new Int32Array(nsuper).fill(-1);
+  for (let s = nsuper - 1; s >= 0; s--) {
+    const ps = superParent[s];
+    if (ps === -1) continue;
+    chNext[s] = chHead[ps];
+    chHead[ps] = s;
+  }
+
+  // row structures: own columns, rows of A below them, rows of the children's structures
+  const rowPtr = new Int32Array(nsuper + 1);
+  let rowBuf = new Int32Array(Math.max(16, nnzLExact >> 2));
+  mark.fill(-1);
+  let used = 0;
+  for (let s = 0; s < nsuper; s++) {
+    const f = superStart[s];
+    const l = superStart[s + 1];
+    const s0 = used;
+    const need = used + (l - f) + (n - l);
+    if (need > rowBuf.length) {
+      const grown = new Int32Array(Math.max(need, rowBuf.length * 2));
+      grown.set(rowBuf.subarray(0, used));
+      rowBuf = grown;
+    }
+    for (let j = f; j < l; j++) {
+      rowBuf[used++] = j;
+      mark[j] = s;
+    }
+    const below = used;
+    for (let j = f; j < l; j++) {
+      const old = perm[j];
+      for (let q = aPtr[old]; q < aPtr[old + 1]; q++) {
+        const i = iperm[aCol[q]];
+        if (i >= l && mark[i] !== s) {
+          mark[i] = s;
+          rowBuf[used++] = i;
+        }
+      }
+    }
+    for (let c = chHead[s]; c !== -1; c = chNext[c]) {
+      const cEnd = rowPtr[c + 1];
+      for (let q = rowPtr[c] + (superStart[c + 1] - superStart[c]); q < cEnd; q++) {
+        const i = rowBuf[q];
+        if (mark[i] !== s) {
+          mark[i] = s;
+          rowBuf[used++] = i;
+        }
+      }
+    }
+    rowBuf.subarray(below, used).sort();
+    rowPtr[s] = s0;
+    rowPtr[s + 1] = used;
+  }
+  const rowIdx = rowBuf.slice(0, used);
+
+  // storage layout and sizes
+  const lOff = new Float64Array(nsuper + 1);
+  let nnzL = 0;
+  let maxRows = 0;
+  let maxCols = 0;
+  for (let s = 0; s < nsuper; s++) {
+    const k = superStart[s + 1] - superStart[s];
+    const m = rowPtr[s + 1] - rowPtr[s];
+    lOff[s + 1] = lOff[s] + m * k;
+    nnzL += trapezoid(k, m);
+    if (m > maxRows) maxRows = m;
+    if (k > maxCols) maxCols = k;
+  }
+  const lSize = lOff[nsuper];
+  if (lSize >= 2 ** 31) throw new RangeError(`the factor would need ${lSize} entries, more than this solver can index`);
+  // integer offsets keep index arithmetic in the kernels on small integers
+  const lPtr = Int32Array.from(lOff);
+
+  // relative indices of each supernode's lower rows in its parent's row list
+  const relPtr = new Int32Array(nsuper + 1);
+  for (let s = 0; s < nsuper; s++) {
+    const k = superStart[s + 1] - superStart[s];
+    relPtr[s + 1] = relPtr[s] + (rowPtr[s + 1] - rowPtr[s] - k);
+  }
+  const relIdx = new Int32Array(relPtr[nsuper]);
+  const pos = new Int32Array(n);
+  for (let s = 0; s < nsuper; s++) {
+    if (chHead[s] === -1) continue;
+    for (let q = rowPtr[s]; q < rowPtr[s + 1]; q++) pos[rowIdx[q]] = q - rowPtr[s];
+    for (let c = chHead[s]; c !== -1; c = chNext[c]) {
+      const k = superStart[c + 1] - superStart[c];
+      let r = relPtr[c];
+      for (let q = rowPtr[c] + k; q < rowPtr[c + 1]; q++) relIdx[r++] = pos[rowIdx[q]];
+    }
+  }
+
+  // where every lower entry of A lands in L
+  const aMap = new Int32Array(aCol.length).fill(-1);
+  for (let s = 0; s < nsuper; s++) {
+    const f = superStart[s];
+    const l = superStart[s + 1];
+    const m = rowPtr[s + 1] - rowPtr[s];
+    for (let q = rowPtr[s]; q < rowPtr[s + 1]; q++) pos[rowIdx[q]] = q - rowPtr[s];
+    for (let j = f; j < l; j++) {
+      const base = lPtr[s] + (j - f) * m;
+      const old = perm[j];
+      for (let q = aPtr[old]; q < aPtr[old + 1]; q++) {
+        const i = iperm[aCol[q]];
+        if (i >= j) aMap[q] = base + pos[i];
+      }
+    }
+  }
+
+  // stack of update matrices in the multifrontal sweep (postorder: children sit on top when the parent comes)
+  const updSize = new Float64Array(nsuper);
+  let top = 0;
+  let stackSize = 0;
+  for (let s = 0; s < nsuper; s++) {
+    const k = superStart[s + 1] - superStart[s];
+    const r = rowPtr[s + 1] - rowPtr[s] - k;
+    const own = r * r;
+    stackSize = Math.max(stackSize, top + own);
+    for (let c = chHead[s]; c !== -1; c = chNext[c]) top -= updSize[c];
+    updSize[s] = own;
+    top += own;
+  }
+
+  return {
+    n,
+    nnzA: aCol.length,
+    perm,
+    iperm,
+    parent,
+    nnzLExact,
+    nnzL,
+    nsuper,
+    superStart,
+    superParent,
+    rowPtr,
+    rowIdx,
+    lPtr,
+    lSize,
+    relPtr,
+    relIdx,
+    aMap,
+    stackSize,
+    maxRows,
+    maxCols,
+  };
+}

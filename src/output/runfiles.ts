@@ -1,0 +1,199 @@
+// The files of one run: curve and probe tables that grow row by row, a frame per step,
+// and at the end the summary, the curve plots, the mesh and the field pictures.
+import { existsSync, readdirSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
+import type { CaseModel } from '../case/model.js';
+import type { PolyMesh } from '../mesh/polymesh.js';
+import type { AnalysisResult, Snapshot, StepEvent, StepRow } from '../fracture/analysis.js';
+import { InputError } from '../errors.js';
+import { RowWriter, ensureDir, writeFileAtomic } from './files.js';
+import { fieldSvg, meshSvg, type FieldPicture } from './field.js';
+import { plotSvg, type Series } from './plot.js';
+import { svgToPng, framesToAnimation } from './png.js';
+
+export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
+export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
+
+export interface RunFilesOptions { force?: boolean; resume?: boolean }
+
+/** Symbols of the supports and loads for pictures. */
+export function specimenSymbols(c: CaseModel): Pick<FieldPicture, 'supports' | 'loads'> {
+  const supports: NonNullable<FieldPicture['supports']> = [];
+  for (const s of c.supports) {
+    if (s.at) supports.push({ x: s.at[0], y: s.at[1], fix: s.fix });
+    else if (s.along) for (let k = 0; k <= 4; k++) {
+      const t = k / 4;
+      supports.push({ x: s.along[0][0] + t * (s.along[1][0] - s.along[0][0]), y: s.along[0][1] + t * (s.along[1][1] - s.along[0][1]), fix: s.fix });
+    }
+  }
+  const loads: NonNullable<FieldPicture['loads']> = [];
+  for (const l of c.loads) {
+    if (l.at) loads.push({ x: l.at[0], y: l.at[1], dx: l.direction[0], dy: l.direction[1] });
+    else if (l.along) for (let k = 0; k <= 4; k++) {
+      const t = k / 4;
+      loads.push({ x: l.along[0][0] + t * (l.along[1][0] - l.along[0][0]), y: l.along[0][1] + t * (l.along[1][1] - l.along[0][1]), dx: l.direction[0], dy: l.direction[1] });
+    }
+  }
+  return { supports, loads };
+}
+
+/** Major principal stress per cell divided by ft. */
+export function s1OverFt(cellStress: Float64Array, ft: number): Float64Array {
+  const n = cellStress.length / 3, out = new Float64Array(n);
+  for (let c = 0; c < n; c++) {
+    const sxx = cellStress[3 * c], syy = cellStress[3 * c + 1], sxy = cellStress[3 * c + 2];
+    out[c] = ((sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy)) / ft;
+  }
+  return out;
+}
+
+const fmtLoad = (F: number) => (Math.abs(F) >= 1000 ? `${(F / 1000).toFixed(2)} kN` : `${F.toFixed(1)} N`);
+
+export class RunFiles {
+  private curve: RowWriter;
+  private probes: RowWriter;
+  private framePngs: string[] = [];
+  private pending: Promise<void>[] = [];
+  readonly framesDir: string;
+
+  constructor(readonly dir: string, readonly c: CaseModel, opt: RunFilesOptions = {}) {
+    if (existsSync(dir) && readdirSync(dir).length > 0 && !opt.force && !opt.resume) {
+      throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it or --out to choose another folder`);
+    }
+    if (opt.force && existsSync(join(dir, 'frames'))) rmSync(join(dir, 'frames'), { recursive: true, force: true });
+    ensureDir(dir);
+    this.framesDir = join(dir, 'frames');
+    if (c.crack && c.output.frames.length > 0) ensureDir(this.framesDir);
+    this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: opt.resume });
+    this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: opt.resume });
+  }
+
+  /** Rows at once; the frame is drawn now and rasterised in the background. */
+  step(ev: StepEvent): void {
+    const r = ev.row;
+    this.curve.append([r.step, r.control, r.load_N, r.displacement_mm, r.cmod_mm, r.crack_length_mm, r.tip_x_mm, r.tip_y_mm,
+      r.external_work_Nmm, r.elastic_energy_Nmm, r.dissipated_Nmm, r.iterations]);
+    for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
+    const o = this.c.output;
+    if (!this.c.crack || o.frames.length === 0 || r.step % o.every !== 0) return;
+    const svg = this.frameSvg(ev.snapshot());
+    const name = `step-${String(r.step).padStart(4, '0')}`;
+    if (o.frames.includes('svg')) writeFileAtomic(join(this.framesDir, `${name}.svg`), svg);
+    if (o.frames.includes('png')) {
+      const png = join(this.framesDir, `${name}.png`);
+      this.framePngs.push(png);
+      this.pending.push(svgToPng(svg, png, o.pngWidth));
+      if (this.pending.length > 4) { const p = this.pending; this.pending = [Promise.all(p).then(() => undefined)]; }
+    }
+  }
+
+  frameSvg(s: Snapshot): string {
+    const r = s.row;
+    const caption = [
+      `Step ${r.step}: load ${fmtLoad(r.load_N)}, load-point displacement ${r.displacement_mm.toFixed(4)} mm` +
+        (r.cmod_mm !== null ? `, CMOD ${r.cmod_mm.toFixed(4)} mm` : '') + `, crack length ${r.crack_length_mm.toFixed(1)} mm.`,
+    ];
+    return fieldSvg({
+      mesh: s.mesh, values: s1OverFt(s.cellStress, this.c.material.ft), valueLabel: 'σ₁ / ft', range: [-1, 1], diverging: true,
+      displacement: s.u, showMesh: true, cracks: s.cracks, cohesive: s.cohesive, ...specimenSymbols(this.c),
+      title: this.c.title, caption, widthPx: 1000,
+    });
+  }
+
+  /** Everything written once the analysis has ended. */
+  async finish(result: AnalysisResult, extra: { meshSeconds: number; totalSeconds: number; initialMesh: PolyMesh; final: Snapshot | null }): Promise<Record<string, unknown>> {
+    this.curve.close();
+    this.probes.close();
+    const c = this.c;
+    // mesh picture of the initial mesh
+    writeFileAtomic(join(this.dir, 'mesh.svg'), meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` }));
+    if (extra.final) {
+      const f = extra.final;
+      const svg = fieldSvg({
+        mesh: f.mesh, values: s1OverFt(f.cellStress, c.material.ft), valueLabel: 'σ₁ / ft', diverging: true,
+        displacement: f.u, cracks: f.cracks, cohesive: f.cohesive, ...specimenSymbols(c),
+        title: `${c.title}: major principal stress`, caption: [`Step ${f.row.step}, load ${fmtLoad(f.row.load_N)}.`], widthPx: 1000,
+      });
+      writeFileAtomic(join(this.dir, 'field-s1.svg'), svg);
+      this.pending.push(svgToPng(svg, join(this.dir, 'field-s1.png'), c.output.pngWidth));
+    }
+    if (result.rows.length > 1) {
+      const svg = curveSvg(c, result.rows);
+      writeFileAtomic(join(this.dir, 'curve.svg'), svg);
+      this.pending.push(svgToPng(svg, join(this.dir, 'curve.png'), c.output.pngWidth));
+    }
+    await Promise.all(this.pending);
+    if (c.crack && c.output.animation !== 'none' && this.framePngs.length > 1) {
+      await framesToAnimation(this.framePngs, join(this.dir, `animation.${c.output.animation}`), { format: c.output.animation });
+    }
+    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
+    writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
+    return summary;
+  }
+}
+
+/** Load against load-point displacement, and against CMOD when there is a gauge. */
+export function curveSvg(c: CaseModel, rows: StepRow[], more: Series[] = []): string {
+  const hasGauge = rows.some((r) => r.cmod_mm !== null);
+  const x = rows.map((r) => (hasGauge ? r.cmod_mm! : r.displacement_mm));
+  const y = rows.map((r) => r.load_N);
+  let ip = 0;
+  for (let i = 1; i < y.length; i++) if (Math.abs(y[i]) > Math.abs(y[ip])) ip = i;
+  return plotSvg({
+    series: [{ label: 'rupta prediction', x, y }, ...more],
+    xLabel: hasGauge ? 'CMOD (mm)' : 'Load-point displacement (mm)', yLabel: 'Load (N)', title: c.title,
+    marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }],
+  });
+}
+
+/** Work of fracture: the work of the machine over the ligament area (RILEM TC 50-FMC, no self-weight term). */
+export function workOfFractureEstimate(c: CaseModel, result: AnalysisResult): { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string } | null {
+  const last = result.rows[result.rows.length - 1];
+  if (!c.crack || !last) return null;
+  // ligament: from each notch tip straight ahead to the far boundary
+  let lig = 0;
+  for (const n of c.geometry.notches) lig += ligamentLength(c, n.to, [n.to[0] - n.from[0], n.to[1] - n.from[1]]);
+  if (!(lig > 0)) lig = last.crack_length_mm;
+  const A = lig * c.thickness;
+  const W = last.external_work_Nmm;
+  const frac = result.peak.load_N !== 0 ? last.load_N / result.peak.load_N : 0;
+  return {
+    W_Nmm: W, ligamentArea_mm2: A, GF_Nmm: A > 0 ? W / A : 0,
+    note: `run ended at ${(100 * frac).toFixed(1)} % of the peak load; the tail beyond it is not counted, so the estimate is a lower bound`,
+  };
+}
+
+function ligamentLength(c: CaseModel, p: [number, number], d: [number, number]): number {
+  const L = Math.hypot(d[0], d[1]);
+  const ux = d[0] / L, uy = d[1] / L;
+  const o = c.geometry.outline;
+  let best = Infinity;
+  for (let i = 0; i < o.length; i++) {
+    const a = o[i], b = o[(i + 1) % o.length];
+    const ex = b[0] - a[0], ey = b[1] - a[1], den = ux * ey - uy * ex;
+    if (Math.abs(den) < 1e-12) continue;
+    const wx = a[0] - p[0], wy = a[1] - p[1];
+    const t = (wx * ey - wy * ex) / den, s = (wx * uy - wy * ux) / den;
+    if (t > 1e-9 && s >= 0 && s <= 1) best = Math.min(best, t);
+  }
+  return Number.isFinite(best) ? best : 0;
+}
+
+export function summaryOf(c: CaseModel, r: AnalysisResult, meshSeconds: number, totalSeconds: number): Record<string, unknown> {
+  return {
+    format: 1,
+    title: c.title,
+    status: r.status,
+    reason: r.reason,
+    peak: r.peak,
+    crackPaths: r.crackPaths,
+    steps: Math.max(0, r.rows.length - 1),
+    dofs: r.dofs,
+    mesh: r.mesh,
+    probes: r.probes,
+    timings_s: { mesh: round(meshSeconds), solve: round(r.timings_s.solve), total: round(totalSeconds) },
+    workOfFracture: workOfFractureEstimate(c, r),
+  };
+}
+
+const round = (x: number) => Math.round(x * 1000) / 1000;

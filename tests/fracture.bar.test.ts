@@ -1,0 +1,65 @@
+// Bar in tension with one cohesive crack across the section, traced under CMOD control:
+// the load–elongation curve follows δ = σL/E + w(σ) (Hillerborg, Modéer, Petersson 1976,
+// fictitious crack model), including the snap-back of a bar longer than about l_ch.
+import { describe, expect, it } from 'vitest';
+import { parseCase } from '../src/case/index.js';
+import { Analysis } from '../src/fracture/analysis.js';
+import { makeLaw } from '../src/cohesive/laws.js';
+import { gridMesh } from './support/grid.js';
+
+const L = 100, H = 10, T = 10, E = 30000, FT = 3;
+
+function barCase(law: string, GF: number, target: number) {
+  return parseCase(`
+format: 1
+title: cohesive bar
+units: mm-N-MPa
+thickness: ${T}
+geometry: {outline: [[0,0],[${L},0],[${L},${H}],[0,${H}]]}
+material: {E: ${E}, nu: 0.2, ft: ${FT}, GF: ${GF}, softening: ${law}}
+supports: [{along: [[0,0],[0,${H}]], fix: x}, {at: [0,0], fix: y}]
+loads: [{along: [[${L},0],[${L},${H}]], direction: [1, 0]}]
+control: {by: cmod, gauge: {from: [${L / 2 - 1}, 0], to: [${L / 2 + 1}, 0]}, target: ${target}, increments: 80, stopAtLoadFraction: 0}
+crack: {start: [[0, 0]], growthStep: 1, averagingRadius: 2}
+mesh: {size: 1, tipSize: 1, refineRadius: 1, coarsen: false}
+output: {frames: []}
+`, 'bar.yaml');
+}
+
+async function runBar(law: 'linear' | 'bilinear' | 'exponential', GF: number) {
+  const sl = makeLaw(law, FT, GF);
+  const cm = barCase(law, GF, sl.wc * 1.02);
+  const a = new Analysis(cm, gridMesh(0, 0, L, H, 100, 10));
+  a.tips.splice(0); // no growth: the one crack is placed across the section beforehand
+  a.addCohesiveCut([L / 2, 0], [L / 2, H]);
+  const res = await a.run(() => {});
+  return { res, sl };
+}
+
+describe('cohesive bar in tension (Hillerborg fictitious crack model)', () => {
+  for (const law of ['linear', 'bilinear', 'exponential'] as const) {
+    for (const GF of [0.1, 0.01]) {
+      const lch = E * GF / (FT * FT);
+      it(`${law} law, GF ${GF} N/mm (L/l_ch = ${(L / lch).toFixed(2)}): every step within 1 % of the peak load`, async () => {
+        const { res, sl } = await runBar(law, GF);
+        expect(res.status).toBe('complete');
+        const A = H * T, Fpeak = FT * A;
+        expect(res.peak.load_N).toBeGreaterThan(0.99 * Fpeak);
+        expect(res.peak.load_N).toBeLessThan(1.01 * Fpeak);
+        let snapBack = false;
+        for (let i = 1; i < res.rows.length; i++) {
+          const r = res.rows[i];
+          const sigma = r.load_N / A;
+          const w = r.cmod_mm! - sigma * 2 / E; // gauge = 2 mm of bulk + crack opening
+          // pre-peak: elastic bar δ = σL/E; softening: σ = f(w) and δ = σL/E + w
+          const fAn = w < 1e-6 * sl.wc ? E * A * r.displacement_mm / L : A * sl.stress(w);
+          expect(Math.abs(r.load_N - fAn)).toBeLessThan(0.01 * Fpeak);
+          expect(Math.abs(r.displacement_mm - (sigma * L / E + w))).toBeLessThan(1e-3 * (FT * L / E));
+          if (i > 1 && r.displacement_mm < res.rows[i - 1].displacement_mm - 1e-9) snapBack = true;
+        }
+        // snap-back exactly when dδ/dw = 1 + L σ'(0)/E < 0 (common practice)
+        expect(snapBack).toBe(1 + L * sl.slope(0) / E < 0);
+      });
+    }
+  }
+});
