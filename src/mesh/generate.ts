@@ -60,7 +60,7 @@ export function generateMesh(d: Domain, s: MeshSettings): PolyMesh {
 
   const ext = domainExtent(d), tol = 1e-9 * ext;
   const w = weld(sink.xy, sink.ring, sink.ends, tol);
-  pinPoints(w, d.points, tol, Infinity);
+  pinPoints(w, d.points, tol, (x, y) => 0.5 * h(x, y));
   // cells split around an enclosed hole leave points on their neighbours' sides
   insertHangingNodes(w, d, tol);
   mergeSlivers(w, h);

@@ -226,7 +226,7 @@ function mergeInto(w: WorkMesh, vc: number[][], A: number, B: number): boolean {
 }
 
 /** Edges much shorter than the local size are collapsed when every touched cell stays valid. */
-export function collapseTinyEdges(w: WorkMesh, h: (x: number, y: number) => number, frac = 0.05): number {
+export function collapseTinyEdges(w: WorkMesh, h: (x: number, y: number) => number, frac = 0.1): number {
   const nv = w.x.length, vc = vertexCells(w), { x, y, pinned } = w;
   const bnd = boundaryVertices(w), owner = sideTable(w);
   const list: [number, number, number][] = [];
@@ -324,8 +324,8 @@ export function insertHangingNodes(w: WorkMesh, d: Domain, tol: number): number 
   return n;
 }
 
-/** Exact named points: snap the nearest vertex (pinned thereafter) when it is within tol, else move the nearest free interior vertex. */
-export function pinPoints(w: WorkMesh, pts: Vec2[], tol: number, reach: number): Vec2[] {
+/** Exact named points: snap the vertex within tol (pinned thereafter), else move the nearest free interior vertex within reach; returns the points missed. */
+export function pinPoints(w: WorkMesh, pts: Vec2[], tol: number, reach: (x: number, y: number) => number): Vec2[] {
   const vc = vertexCells(w), { x, y } = w, missed: Vec2[] = [];
   const nv = x.length, bnd = boundaryVertices(w);
   for (const p of pts) {
@@ -335,7 +335,7 @@ export function pinPoints(w: WorkMesh, pts: Vec2[], tol: number, reach: number):
       const dd = Math.hypot(x[v] - p[0], y[v] - p[1]);
       if (dd < bd && (dd <= tol || (!w.pinned[v] && !bnd[v]))) { bd = dd; best = v; }
     }
-    if (best < 0 || bd > reach) { missed.push(p); continue; }
+    if (best < 0 || bd > reach(p[0], p[1])) { missed.push(p); continue; }
     const ox = x[best], oy = y[best];
     x[best] = p[0]; y[best] = p[1];
     if (bd > tol && vc[best].some(ci => !(polyArea(w, w.cells[ci]) > 0) || !simpleAt(w, w.cells[ci], best))) { x[best] = ox; y[best] = oy; missed.push(p); continue; }

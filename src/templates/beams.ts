@@ -45,6 +45,8 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
   need(tpl, 'notch-width', nw, 0, D / 5, 'mm', `for a depth of ${fmt(D)} mm`);
   const mat = materialOf(v);
   const mesh = meshFor(tpl, v, D / 10, D / 50, mat, D / 2, `for a depth of ${fmt(D)} mm`);
+  // Half the gauge length: the notch mouth corners, or a little either side of a slit.
+  const gh = nw > 0 ? nw / 2 : Math.max(mesh.tipSize, D / 50);
 
   // Supports and loads of each arrangement, with the span that sets the bending deflection.
   let supports: SupportSpec[], loads: LoadSpec[], xn = m, span: number;
@@ -52,7 +54,7 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
   const probes: { name: string; at: Vec2 }[] = [];
   if (kind === 'shear') {
     const c = num(v, 'inner-offset'), s = num(v, 'outer-offset');
-    need(tpl, 'inner-offset', c, nw / 2 + Math.max(sw, bw) / 2, L / 8, 'mm', `for a notch-width of ${fmt(nw)} mm, bearing strips of ${fmt(Math.max(sw, bw))} mm and a length of ${fmt(L)} mm`);
+    need(tpl, 'inner-offset', c, gh + Math.max(sw, bw) / 2, L / 8, 'mm', `for a notch-width of ${fmt(nw)} mm, bearing strips of ${fmt(Math.max(sw, bw))} mm and a length of ${fmt(L)} mm`);
     need(tpl, 'outer-offset', s, 2 * c, L / 2 - Math.max(sw, bw) / 2, 'mm', `for an inner-offset of ${fmt(c)} mm and a length of ${fmt(L)} mm`);
     need(tpl, 'bearing-width', bw, 0, c, 'mm', `for an inner-offset of ${fmt(c)} mm`);
     span = 2 * s;
@@ -106,7 +108,6 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
   const notched = a > 0;
   probes.push({ name: 'ligament-middle', at: pt(xn, (a + D) / 2) });
 
-  const gh = nw > 0 ? nw / 2 : Math.max(mesh.tipSize, D / 50);
   const gauge = notched ? { from: pt(xn - gh, 0), to: pt(xn + gh, 0), note: nw > 0 ? 'corners of the notch mouth' : 'either side of the slit mouth' } : undefined;
   const elasticTravel = (nominalStrength(mat, D) * span * span) / (6 * mat.preset.E * D);
   const byCmod = notched && kind !== 'shear';
