@@ -14,7 +14,7 @@ import { submatrixInto, type CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
 import { refineAround, coarsenAway } from './adapt.js';
-import { tipStress, growthDirection } from './criterion.js';
+import { tipStress, growthDirection, hoopDirection } from './criterion.js';
 
 export interface StepRow {
   step: number; control: number; load_N: number; displacement_mm: number; cmod_mm: number | null;
@@ -290,11 +290,16 @@ export class Analysis {
     for (const t of this.tips) {
       if (!t.active) continue;
       const tx = this.wm.x[t.v], ty = this.wm.y[t.v];
-      const ts = tipStress(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius);
+      const ts = tipStress(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius, 2);
       if (ts.s1 < this.c.material.ft) continue;
-      let [gx, gy] = growthDirection(ts, t.dx, t.dy);
+      // the kink out of a sharp notch follows the largest hoop stress of the notch-tip field;
+      // a growing cohesive crack runs perpendicular to the major principal stress ahead of it
+      let [gx, gy] = t.crack < 0 && (t.dx !== 0 || t.dy !== 0)
+        ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
+        : growthDirection(ts, t.dx, t.dy);
       // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
       if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
+      if (process.env.RUPTA_DEBUG === '3') process.stderr.write(`grow tip (${tx.toFixed(2)}, ${ty.toFixed(2)}) s ${ts.sxx.toFixed(2)} ${ts.syy.toFixed(2)} ${ts.sxy.toFixed(2)} s1 ${ts.s1.toFixed(2)} dir ${gx.toFixed(3)} ${gy.toFixed(3)}\n`);
       const cut = cutRay(this.wm, t.v, gx, gy, crack.growthStep);
       if (cut.path.length < 2) { t.active = false; continue; }
       if (t.crack < 0) { this.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = this.cracks.length - 1; }
@@ -495,7 +500,7 @@ export class Analysis {
 }
 
 /** Largest turn of a grown crack per growth step (rad). */
-const MAX_TURN = Math.PI / 6;
+const MAX_TURN = Math.PI / 12;
 
 /** Direction (gx, gy) turned back toward (dx, dy) so that it deviates by at most maxTurn. */
 function limitTurn(dx: number, dy: number, gx: number, gy: number, maxTurn: number): [number, number] {
