@@ -21,4 +21,4 @@ a.addCohesiveCut([50, 0], [50, 10]);
 const t0 = performance.now();
 const res = await a.run(() => {});
 console.log(res.status, res.reason, 'peak', res.peak.load_N.toFixed(2), 'steps', res.rows.length, 'ms', (performance.now()-t0).toFixed(0), 'solve s', res.timings_s.solve.toFixed(2));
-for (const r of res.rows.filter((_, i) => i % 10 === 0)) console.log(r.step, r.load_N.toFixed(2), r.displacement_mm.toExponential(3), r.cmod_mm?.toExponential(3), r.iterations, (r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm).toExponential(2), r.external_work_Nmm.toExponential(3));
+for (const r of res.rows.filter((_, i) => i < 30)) console.log(r.step, r.load_N.toFixed(2), r.displacement_mm.toExponential(3), r.cmod_mm?.toExponential(3), r.iterations, (r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm).toExponential(2), r.external_work_Nmm.toExponential(3));
