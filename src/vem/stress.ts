@@ -56,3 +56,46 @@ export function cellAreas(m: PolyMesh, out?: Float64Array): Float64Array {
   }
   return a;
 }
+
+/**
+ * Vertex stresses recovered by a local linear least-squares fit of the cell stresses over the
+ * cells around each vertex (their centroids carry the constant cell values), evaluated at the
+ * vertex. Second-order at interior and boundary vertices alike, so a stress concentration on
+ * an edge is not flattened as by plain averaging; where the patch is too small or degenerate
+ * the area-weighted average is kept.
+ */
+export function recoveredVertexStresses(m: PolyMesh, cellStress: Float64Array, cellAreasArr: Float64Array, centroids: Float64Array, out?: Float64Array): Float64Array {
+  const nv = m.xy.length >> 1, nc = m.cellStart.length - 1;
+  const sv = vertexStresses(m, cellStress, cellAreasArr, out);
+  // cells of each vertex as a CSR list
+  const ptr = new Int32Array(nv + 1);
+  for (let k = 0; k < m.cellVerts.length; k++) ptr[m.cellVerts[k] + 1]++;
+  for (let v = 0; v < nv; v++) ptr[v + 1] += ptr[v];
+  const lst = new Int32Array(ptr[nv]), fill = ptr.slice(0, nv);
+  for (let c = 0; c < nc; c++) for (let k = m.cellStart[c]; k < m.cellStart[c + 1]; k++) lst[fill[m.cellVerts[k]]++] = c;
+  for (let v = 0; v < nv; v++) {
+    const n = ptr[v + 1] - ptr[v];
+    if (n < 3) continue;
+    const vx = m.xy[2 * v], vy = m.xy[2 * v + 1];
+    // normal equations of [1, dx, dy] with area weights
+    let s00 = 0, s01 = 0, s02 = 0, s11 = 0, s12 = 0, s22 = 0, scale = 0;
+    for (let k = ptr[v]; k < ptr[v + 1]; k++) {
+      const c = lst[k], w = cellAreasArr[c], dx = centroids[2 * c] - vx, dy = centroids[2 * c + 1] - vy;
+      s00 += w; s01 += w * dx; s02 += w * dy; s11 += w * dx * dx; s12 += w * dx * dy; s22 += w * dy * dy;
+      scale += w * (dx * dx + dy * dy);
+    }
+    const c00 = s11 * s22 - s12 * s12, c01 = s02 * s12 - s01 * s22, c02 = s01 * s12 - s02 * s11;
+    const det = s00 * c00 + s01 * c01 + s02 * c02;
+    // a nearly collinear patch of centroids cannot carry a gradient: keep the average
+    if (!(det > 1e-5 * s00 * scale * scale)) continue;
+    for (let q = 0; q < 3; q++) {
+      let b0 = 0, b1 = 0, b2 = 0;
+      for (let k = ptr[v]; k < ptr[v + 1]; k++) {
+        const c = lst[k], w = cellAreasArr[c] * cellStress[3 * c + q];
+        b0 += w; b1 += w * (centroids[2 * c] - vx); b2 += w * (centroids[2 * c + 1] - vy);
+      }
+      sv[3 * v + q] = (c00 * b0 + c01 * b1 + c02 * b2) / det;
+    }
+  }
+  return sv;
+}
