@@ -37,7 +37,8 @@ export interface Snapshot {
 export interface StepEvent { row: StepRow; probes: ProbeRow[]; snapshot: () => Snapshot }
 
 interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
-interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean }
+/** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
+interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number }
 
 export interface AnalysisOptions {
   /** Refuse meshes above this many dofs. */
@@ -87,6 +88,8 @@ export class Analysis {
   private lastProbes: ProbeRow[] = [];
   private readonly fScale: number;
   stopRequested: (() => boolean) | null = null;
+  /** Every growth event: tip index, position, chosen direction and whether it was the kink out of the start. */
+  readonly growthLog: { tip: number; x: number; y: number; dx: number; dy: number; first: boolean }[] = [];
 
   constructor(readonly c: CaseModel, initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
     this.wm = WorkMesh.fromPolyMesh(initial);
@@ -139,14 +142,15 @@ export class Analysis {
           this.tips.push({ crack: -1, v: this.nearestLive(n.to[0], n.to[1]), dx, dy, back: null, active: true });
         } else {
           const k = this.cracks.filter((q) => q.kind === 'notch')[slit++];
+          const ki = this.cracks.indexOf(k);
           const end = k.path[k.path.length - 1];
           if (k.twins[k.twins.length - 1] < 0) {
             const prev = k.path[k.path.length - 2];
-            this.tips.push({ crack: -1, v: end, dx, dy, back: [this.wm.x[prev], this.wm.y[prev]], active: true });
+            this.tips.push({ crack: -1, v: end, dx, dy, back: [this.wm.x[prev], this.wm.y[prev]], active: true, slit: ki });
           }
           if (k.twins[0] < 0) {
             const next = k.path[1];
-            this.tips.push({ crack: -1, v: k.path[0], dx: -dx, dy: -dy, back: [this.wm.x[next], this.wm.y[next]], active: true });
+            this.tips.push({ crack: -1, v: k.path[0], dx: -dx, dy: -dy, back: [this.wm.x[next], this.wm.y[next]], active: true, slit: ki });
           }
         }
       }
@@ -239,7 +243,6 @@ export class Analysis {
     }
     this.solveTime += performance.now() - t0;
     this.iterations += r.iterations;
-    if (process.env.RUPTA_DEBUG) process.stderr.write(`solve ${this.c.control.by} ${target.toExponential(3)} it ${r.iterations} ${r.converged ? "ok" : r.reason}\n`);
     if (!r.converged) return { ok: false, reason: r.reason };
     this.uf.set(st.uf); this.lambda = st.lambda;
     // carry the solution to the stable vertex ids
@@ -294,12 +297,14 @@ export class Analysis {
       if (ts.s1 < this.c.material.ft) continue;
       // the kink out of a sharp notch follows the largest hoop stress of the notch-tip field;
       // a growing cohesive crack runs perpendicular to the major principal stress ahead of it
-      let [gx, gy] = t.crack < 0 && (t.dx !== 0 || t.dy !== 0)
-        ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
-        : growthDirection(ts, t.dx, t.dy);
+      let [gx, gy] = t.crack < 0 && t.slit !== undefined && t.slit >= 0
+        ? this.slitKink(t, crack.averagingRadius)
+        : t.crack < 0 && (t.dx !== 0 || t.dy !== 0)
+          ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
+          : growthDirection(ts, t.dx, t.dy);
       // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
       if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
-      if (process.env.RUPTA_DEBUG === '3') process.stderr.write(`grow tip (${tx.toFixed(2)}, ${ty.toFixed(2)}) s ${ts.sxx.toFixed(2)} ${ts.syy.toFixed(2)} ${ts.sxy.toFixed(2)} s1 ${ts.s1.toFixed(2)} dir ${gx.toFixed(3)} ${gy.toFixed(3)}\n`);
+      this.growthLog.push({ tip: this.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0 });
       const cut = cutRay(this.wm, t.v, gx, gy, crack.growthStep);
       if (cut.path.length < 2) { t.active = false; continue; }
       if (t.crack < 0) { this.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = this.cracks.length - 1; }
@@ -326,6 +331,32 @@ export class Analysis {
       this.dirty = true;
     }
     return grown;
+  }
+
+  /**
+   * Kink out of a sharp slit by the maximum tangential stress criterion (Erdogan & Sih 1963),
+   * with the mode mixity from the face displacements behind the tip: near a tip the sliding
+   * and opening jumps are both ∝ √r with the same factor (κ + 1)/G, so K_II/K_I is their ratio.
+   */
+  private slitKink(t: Tip, R: number): [number, number] {
+    const k = this.cracks[t.slit!], { x, y } = this.wm, u = this.uw;
+    const tx = x[t.v], ty = y[t.v], nx = -t.dy, ny = t.dx;
+    // the face on the left of the tip's direction
+    const pathDir = (x[k.path[k.path.length - 1]] - x[k.path[0]]) * t.dx + (y[k.path[k.path.length - 1]] - y[k.path[0]]) * t.dy;
+    let jn = 0, jt = 0;
+    for (let i = 0; i < k.path.length; i++) {
+      if (k.twins[i] < 0) continue;
+      const r = Math.hypot(x[k.path[i]] - tx, y[k.path[i]] - ty);
+      if (r <= 0 || r > 1.5 * R) continue;
+      const [l, rr] = pathDir > 0 ? [k.path[i], k.twins[i]] : [k.twins[i], k.path[i]];
+      const dux = u[2 * l] - u[2 * rr], duy = u[2 * l + 1] - u[2 * rr + 1];
+      jn += dux * nx + duy * ny; jt += dux * t.dx + duy * t.dy;
+    }
+    if (!(jn > 0)) return [t.dx, t.dy];
+    const ratio = jt / jn; // K_II / K_I
+    const th = Math.abs(ratio) < 1e-12 ? 0 : 2 * Math.atan((1 - Math.sqrt(1 + 8 * ratio * ratio)) / (4 * ratio));
+    const c = Math.cos(th), s = Math.sin(th);
+    return [c * t.dx - s * t.dy, s * t.dx + c * t.dy];
   }
 
   private commit(): void {

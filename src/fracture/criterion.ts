@@ -50,7 +50,7 @@ export function hoopDirection(
   tx: number, ty: number, dx: number, dy: number, R: number,
 ): [number, number] {
   const nc = m.cellStart.length - 1;
-  const rs = R / 2, rho = R / 3, reach2 = (rs + 3 * rho) * (rs + 3 * rho), inv2 = 1 / (2 * rho * rho);
+  const rs = R / 3, rho = R / 4, reach2 = (rs + 3 * rho) * (rs + 3 * rho), inv2 = 1 / (2 * rho * rho);
   // the cells near the tip, once
   const near: number[] = [];
   for (let c = 0; c < nc; c++) {

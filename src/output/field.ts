@@ -5,6 +5,7 @@ import { cellCount, vertexCount } from '../mesh/polymesh.js';
 import { colorAt, damageMap, diverging, sequential } from './colormap.js';
 import { el, layer, n, n1, polyPath, svgDocument, text } from './svg.js';
 import { formatTicks, formatValue, niceTicks } from './ticks.js';
+import { curveInsetSvg, type CurveInset } from './inset.js';
 
 export interface FieldPicture {
   mesh: PolyMesh;
@@ -23,6 +24,8 @@ export interface FieldPicture {
   cohesive?: { x1: number; y1: number; x2: number; y2: number; damage: number }[];
   supports?: { x: number; y: number; fix: 'x' | 'y' | 'xy' }[];
   loads?: { x: number; y: number; dx: number; dy: number }[];
+  /** A small load–opening chart in the foot of the picture, marking this state. */
+  inset?: CurveInset;
   title?: string;
   caption?: string[];
   widthPx?: number;
@@ -248,7 +251,8 @@ export function fieldSvg(p: FieldPicture): string {
   const X = (x: number): number => ox + (x - bx0) * s;
   const Y = (y: number): number => oy + (by1 - y) * s;
   const footY = oy + bodyH + side.b + 10 * u;
-  const footH = 72 * u;
+  const insetW = 300 * u, insetH = 180 * u;
+  const footH = p.inset ? insetH + 14 * u : 72 * u;
   const captionLines = [...(p.caption ?? [])];
   if (p.displacement && !captionLines.some((l) => /magnif/i.test(l))) captionLines.push(`Displacements magnified ×${formatValue(mag, 3)}; dashed line: undeformed outline.`);
   const capY = footY + footH;
@@ -429,9 +433,13 @@ export function fieldSvg(p: FieldPicture): string {
     body.push(layer('damagebar', key));
   }
 
+  // the inset takes the right of the foot; the scale bar then moves to a second row on the left
+  if (p.inset) body.push(curveInsetSvg(p.inset, W - pad - insetW, footY + 4 * u, insetW, insetH, u));
+
   // scale bar in model millimetres
   const Lmm = roundDown125(bw * 0.22);
-  const Lpx = Lmm * s, sbx = W - pad - Lpx - (vBarW ? 0 : 0), sby = footY + 24 * u, sbh = 7 * u;
+  const Lpx = Lmm * s, sbh = 7 * u;
+  const sbx = p.inset ? pad + 16 * u : W - pad - Lpx, sby = p.inset ? footY + 110 * u : footY + 24 * u;
   body.push(layer('scalebar', [
     el('rect', { x: sbx, y: sby, width: Lpx / 2, height: sbh, fill: INK }),
     el('rect', { x: sbx + Lpx / 2, y: sby, width: Lpx / 2, height: sbh, fill: '#ffffff', stroke: INK, 'stroke-width': 0.9 * u }),

@@ -37,7 +37,36 @@ function axisFor(min: number, max: number, maxCount: number): { lo: number; hi: 
 
 /** A chart of one or more series as SVG text. */
 export function plotSvg(opts: PlotOptions): string {
-  const W = opts.widthPx ?? 1000, H = opts.heightPx ?? Math.round(W * 0.62), u = W / 1000;
+  const W = opts.widthPx ?? 1000, H = opts.heightPx ?? Math.round(W * 0.62);
+  return svgDocument(W, H, plotLayers(opts, W, H, W / 1000, ''), { title: opts.title });
+}
+
+export interface PanelOptions {
+  panels: PlotOptions[];
+  /** Over all panels. */
+  title?: string;
+  /** Whole picture; panels share it evenly. */
+  widthPx?: number;
+  heightPx?: number;
+}
+
+/** Charts side by side in one picture (each keeps its own axes and legend; layer ids carry a panel prefix). */
+export function plotPanelsSvg(opts: PanelOptions): string {
+  const k = Math.max(1, opts.panels.length);
+  // 700 px per panel at unit scale: two panels read well at a page's width
+  const base = 700 * Math.min(k, 2), W = opts.widthPx ?? base, u = W / base;
+  const pw = W / k, titleH = opts.title ? 44 * u : 0;
+  const H = opts.heightPx ?? Math.round(titleH + pw * (k > 1 ? 0.78 : 0.62));
+  const body: string[] = [];
+  if (opts.title) body.push(layer('title', [text(30 * u, 32 * u, opts.title, { 'font-size': 22 * u, 'font-weight': 'bold', fill: INK })]));
+  opts.panels.forEach((p, i) => {
+    body.push(el('g', { id: `panel-${i + 1}`, class: 'panel', transform: `translate(${n(i * pw)} ${n(titleH)})` }, plotLayers(p, pw, H - titleH, u, `p${i + 1}-`)));
+  });
+  return svgDocument(W, H, body, { title: opts.title });
+}
+
+/** The layers of one chart in a W × H box; u scales lines and fonts, idp prefixes ids. */
+function plotLayers(opts: PlotOptions, W: number, H: number, u: number, idp: string): string[] {
   const fs = 16 * u;
 
   let xmin = Infinity, xmax = -Infinity, ymin = Infinity, ymax = -Infinity;
@@ -48,7 +77,9 @@ export function plotSvg(opts: PlotOptions): string {
   };
   for (const s of opts.series) for (let i = 0; i < Math.min(s.x.length, s.y.length); i++) take(s.x[i], s.y[i]);
   for (const m of opts.marks ?? []) take(m.x, m.y);
-  const ax = axisFor(xmin, xmax, 8), ay = axisFor(ymin, ymax, 7);
+  // headroom above the highest point, so a peak never sits on the frame
+  if (ymax > 0 && ymax > ymin) ymax += 0.04 * (ymax - Math.min(0, ymin));
+  const ax = axisFor(xmin, xmax, Math.max(3, Math.min(8, Math.round(W / (125 * u))))), ay = axisFor(ymin, ymax, 7);
   const xl = formatTicks(ax.ticks), yl = formatTicks(ay.ticks);
 
   const labelW = Math.max(...yl.map((s) => s.length)) * 0.62 * 14 * u;
@@ -59,8 +90,8 @@ export function plotSvg(opts: PlotOptions): string {
   const Y = (y: number): number => top + ph - ((y - ay.lo) / (ay.hi - ay.lo)) * ph;
 
   const body: string[] = [];
-  body.push(el('defs', undefined, el('clipPath', { id: 'plot-area' }, el('rect', { x: left, y: top, width: pw, height: ph }))));
-  if (opts.title) body.push(layer('title', [text(left, 34 * u, opts.title, { 'font-size': 22 * u, 'font-weight': 'bold', fill: INK })]));
+  body.push(el('defs', undefined, el('clipPath', { id: `${idp}plot-area` }, el('rect', { x: left, y: top, width: pw, height: ph }))));
+  if (opts.title) body.push(layer(`${idp}title`, [text(left, 34 * u, opts.title, { 'font-size': (idp ? 18 : 22) * u, 'font-weight': 'bold', fill: INK })]));
 
   // grid, zero lines, frame, ticks and labels
   const axes: string[] = [];
@@ -82,7 +113,7 @@ export function plotSvg(opts: PlotOptions): string {
   axes.push(text(left + pw / 2, H - 20 * u, opts.xLabel, { 'font-size': fs, 'text-anchor': 'middle', fill: INK, class: 'x-label' }));
   const yx = 18 * u + fs * 0.5, yy = top + ph / 2;
   axes.push(text(0, 0, opts.yLabel, { 'font-size': fs, 'text-anchor': 'middle', fill: INK, class: 'y-label', transform: `translate(${n(yx)} ${n(yy)}) rotate(-90)` }));
-  body.push(layer('axes', axes));
+  body.push(layer(`${idp}axes`, axes));
 
   // series
   const ser: string[] = [];
@@ -110,7 +141,7 @@ export function plotSvg(opts: PlotOptions): string {
       }));
     }
   });
-  body.push(layer('series', ser, { 'clip-path': 'url(#plot-area)' }));
+  body.push(layer(`${idp}series`, ser, { 'clip-path': `url(#${idp}plot-area)` }));
 
   // legend in the emptiest corner
   const leg: string[] = [];
@@ -137,7 +168,7 @@ export function plotSvg(opts: PlotOptions): string {
       leg.push(text(lx + 46 * u, y + 5 * u, s.label, { 'font-size': 14 * u, fill: INK }));
     });
   }
-  body.push(layer('legend', leg));
+  body.push(layer(`${idp}legend`, leg));
 
   // marked points with labels kept inside the plot area
   const marks: string[] = [];
@@ -153,7 +184,6 @@ export function plotSvg(opts: PlotOptions): string {
       el('text', { x: tx, y: ty, 'font-size': 14 * u, fill: INK, 'text-anchor': rightSide ? 'start' : 'end', stroke: '#ffffff', 'stroke-width': 4 * u, 'paint-order': 'stroke', 'stroke-linejoin': 'round' }, esc(mk.label)),
     ]));
   }
-  body.push(layer('marks', marks));
-
-  return svgDocument(W, H, body, { title: opts.title });
+  body.push(layer(`${idp}marks`, marks));
+  return body;
 }

@@ -36,18 +36,20 @@ export function pickFrames(count: number, maxFrames: number): number[] {
   return [...new Set(out)];
 }
 
-/** Join PNG frames (all brought to the first frame's size) into a looping GIF or WebP animation. */
+/** Join PNG frames (all brought to the first frame's size, at most maxWidth wide) into a looping GIF or WebP animation. */
 export async function framesToAnimation(
   pngPaths: string[],
   path: string,
-  opts: { delayMs?: number; holdLastMs?: number; maxFrames?: number; format?: 'gif' | 'webp' } = {},
+  opts: { delayMs?: number; holdLastMs?: number; maxFrames?: number; maxWidth?: number; format?: 'gif' | 'webp' } = {},
 ): Promise<void> {
   if (pngPaths.length === 0) throw new Error('framesToAnimation: no frames');
   const delay = Math.round(opts.delayMs ?? 120), hold = Math.round(opts.holdLastMs ?? 1500);
   const pick = pickFrames(pngPaths.length, Math.max(1, opts.maxFrames ?? 120));
   const format = opts.format ?? (path.toLowerCase().endsWith('.webp') ? 'webp' : 'gif');
   const first = await sharp(readFileSync(pngPaths[pick[0]])).metadata();
-  const width = first.width ?? 1, height = first.height ?? 1;
+  // a bounded page keeps the animation small however large the frames are
+  const w0 = first.width ?? 1, h0 = first.height ?? 1;
+  const width = Math.min(w0, Math.max(1, Math.round(opts.maxWidth ?? w0))), height = Math.max(1, Math.round((h0 * width) / w0));
   // frames from a growing crack can differ in height; pad them onto one white page size
   const frames = await Promise.all(pick.map((i) =>
     sharp(readFileSync(pngPaths[i]))

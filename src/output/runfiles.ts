@@ -8,8 +8,11 @@ import type { AnalysisResult, Snapshot, StepEvent, StepRow } from '../fracture/a
 import { InputError } from '../errors.js';
 import { RowWriter, ensureDir, writeFileAtomic } from './files.js';
 import { fieldSvg, meshSvg, type FieldPicture } from './field.js';
-import { plotSvg, type Series } from './plot.js';
+import { plotPanelsSvg, plotSvg, type PlotOptions, type Series } from './plot.js';
 import { svgToPng, framesToAnimation } from './png.js';
+import type { CurveInset } from './inset.js';
+import { VtkSeries } from './vtk.js';
+import { writeReport, type FrameFile } from './report.js';
 
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
@@ -47,13 +50,17 @@ export function s1OverFt(cellStress: Float64Array, ft: number): Float64Array {
   return out;
 }
 
-const fmtLoad = (F: number) => (Math.abs(F) >= 1000 ? `${(F / 1000).toFixed(2)} kN` : `${F.toFixed(1)} N`);
+// a load that rounds to zero is printed without a sign
+const fmtLoad = (F: number) => (Math.abs(F) >= 1000 ? `${(F / 1000).toFixed(2)} kN` : `${(Math.abs(F) < 0.05 ? 0 : F).toFixed(1)} N`);
 
 export class RunFiles {
   private curve: RowWriter;
   private probes: RowWriter;
   private framePngs: string[] = [];
+  private frames: FrameFile[] = [];
   private pending: Promise<void>[] = [];
+  private rows: StepRow[] = [];
+  private vtk: VtkSeries | null = null;
   readonly framesDir: string;
 
   constructor(readonly dir: string, readonly c: CaseModel, opt: RunFilesOptions = {}) {
@@ -61,11 +68,13 @@ export class RunFiles {
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it or --out to choose another folder`);
     }
     if (opt.force && existsSync(join(dir, 'frames'))) rmSync(join(dir, 'frames'), { recursive: true, force: true });
+    if (opt.force && existsSync(join(dir, 'vtk'))) rmSync(join(dir, 'vtk'), { recursive: true, force: true });
     ensureDir(dir);
     this.framesDir = join(dir, 'frames');
     if (c.crack && c.output.frames.length > 0) ensureDir(this.framesDir);
     this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: opt.resume });
     this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: opt.resume });
+    if (c.output.vtk) this.vtk = new VtkSeries(join(dir, 'vtk'));
   }
 
   /** Rows at once; the frame is drawn now and rasterised in the background. */
@@ -74,13 +83,24 @@ export class RunFiles {
     this.curve.append([r.step, r.control, r.load_N, r.displacement_mm, r.cmod_mm, r.crack_length_mm, r.tip_x_mm, r.tip_y_mm,
       r.external_work_Nmm, r.elastic_energy_Nmm, r.dissipated_Nmm, r.iterations]);
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
+    this.rows.push(r);
     const o = this.c.output;
-    if (!this.c.crack || o.frames.length === 0 || r.step % o.every !== 0) return;
-    const svg = this.frameSvg(ev.snapshot());
+    if (r.step % o.every !== 0) return;
+    const wantFrame = !!this.c.crack && o.frames.length > 0;
+    if (!wantFrame && !this.vtk) return;
+    const snap = ev.snapshot();
+    if (this.vtk) {
+      this.vtk.write(r.step, { mesh: snap.mesh, u: snap.u, cellStress: snap.cellStress, cohesive: snap.cohesive, nuZ: this.c.model === 'plane-strain' ? this.c.material.nu : 0 });
+    }
+    if (!wantFrame) return;
+    const svg = this.frameSvg(snap);
     const name = `step-${String(r.step).padStart(4, '0')}`;
-    if (o.frames.includes('svg')) writeFileAtomic(join(this.framesDir, `${name}.svg`), svg);
+    const frame: FrameFile = { step: r.step };
+    this.frames.push(frame);
+    if (o.frames.includes('svg')) { frame.svg = join(this.framesDir, `${name}.svg`); writeFileAtomic(frame.svg, svg); }
     if (o.frames.includes('png')) {
       const png = join(this.framesDir, `${name}.png`);
+      frame.png = png;
       this.framePngs.push(png);
       this.pending.push(svgToPng(svg, png, o.pngWidth));
       if (this.pending.length > 4) { const p = this.pending; this.pending = [Promise.all(p).then(() => undefined)]; }
@@ -96,7 +116,7 @@ export class RunFiles {
     return fieldSvg({
       mesh: s.mesh, values: s1OverFt(s.cellStress, this.c.material.ft), valueLabel: 'σ₁ / ft', range: [-1, 1], diverging: true,
       displacement: s.u, showMesh: true, cracks: s.cracks, cohesive: s.cohesive, ...specimenSymbols(this.c),
-      title: this.c.title, caption, widthPx: 1000,
+      inset: frameInset(this.rows, r.step), title: this.c.title, caption, widthPx: 1000,
     });
   }
 
@@ -107,9 +127,10 @@ export class RunFiles {
     const c = this.c;
     // mesh picture of the initial mesh
     writeFileAtomic(join(this.dir, 'mesh.svg'), meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` }));
+    let finalSvg: string | null = null;
     if (extra.final) {
       const f = extra.final;
-      const svg = fieldSvg({
+      const svg = finalSvg = fieldSvg({
         mesh: f.mesh, values: s1OverFt(f.cellStress, c.material.ft), valueLabel: 'σ₁ / ft', diverging: true,
         displacement: f.u, cracks: f.cracks, cohesive: f.cohesive, ...specimenSymbols(c),
         title: `${c.title}: major principal stress`, caption: [`Step ${f.row.step}, load ${fmtLoad(f.row.load_N)}.`], widthPx: 1000,
@@ -123,27 +144,51 @@ export class RunFiles {
       this.pending.push(svgToPng(svg, join(this.dir, 'curve.png'), c.output.pngWidth));
     }
     await Promise.all(this.pending);
+    this.pending = [];
     if (c.crack && c.output.animation !== 'none' && this.framePngs.length > 1) {
-      await framesToAnimation(this.framePngs, join(this.dir, `animation.${c.output.animation}`), { format: c.output.animation });
+      await framesToAnimation(this.framePngs, join(this.dir, `animation.${c.output.animation}`), { format: c.output.animation, maxFrames: 60, maxWidth: 720 });
     }
     const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
     writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
+    await writeReport(join(this.dir, 'report.html'), {
+      c, result, initialMesh: extra.initialMesh, final: extra.final, frames: this.frames, finalSvg,
+      curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
+      timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
+      workOfFracture: workOfFractureEstimate(c, result),
+    });
     return summary;
   }
 }
 
-/** Load against load-point displacement, and against CMOD when there is a gauge. */
-export function curveSvg(c: CaseModel, rows: StepRow[], more: Series[] = []): string {
+/** The opening the frames plot: CMOD when there is a gauge, else the load-point displacement. */
+function frameInset(rows: StepRow[], step: number): CurveInset | undefined {
+  if (rows.length === 0) return undefined;
+  const gauge = rows.some((r) => r.cmod_mm !== null);
+  const x = rows.map((r) => (gauge ? r.cmod_mm ?? NaN : r.displacement_mm));
+  const y = rows.map((r) => r.load_N);
+  let k = rows.length - 1;
+  while (k > 0 && rows[k].step > step) k--;
+  return { x, y, current: k, xLabel: gauge ? 'CMOD (mm)' : 'Displacement (mm)', yLabel: 'Load (N)' };
+}
+
+/** Lab or other curves to overlay: a list goes with the opening the prediction is plotted against (CMOD when there is a gauge). */
+export type CurveOverlays = Series[] | { displacement?: Series[]; cmod?: Series[] };
+
+/** Load against load-point displacement, and beside it load against CMOD when there is a gauge; the peak marked in each. */
+export function curveSvg(c: CaseModel, rows: StepRow[], more: CurveOverlays = []): string {
   const hasGauge = rows.some((r) => r.cmod_mm !== null);
-  const x = rows.map((r) => (hasGauge ? r.cmod_mm! : r.displacement_mm));
+  const extra = Array.isArray(more) ? (hasGauge ? { cmod: more } : { displacement: more }) : more;
   const y = rows.map((r) => r.load_N);
   let ip = 0;
   for (let i = 1; i < y.length; i++) if (Math.abs(y[i]) > Math.abs(y[ip])) ip = i;
-  return plotSvg({
-    series: [{ label: 'rupta prediction', x, y }, ...more],
-    xLabel: hasGauge ? 'CMOD (mm)' : 'Load-point displacement (mm)', yLabel: 'Load (N)', title: c.title,
+  const panel = (x: number[], xLabel: string, title: string, over: Series[]): PlotOptions => ({
+    series: [{ label: 'rupta prediction', x, y }, ...over], xLabel, yLabel: 'Load (N)', title,
     marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }],
   });
+  const disp = panel(rows.map((r) => r.displacement_mm), 'Load-point displacement (mm)', 'Load point', extra.displacement ?? []);
+  if (!hasGauge) return plotSvg({ ...disp, title: c.title });
+  const cmod = panel(rows.map((r) => r.cmod_mm ?? NaN), 'CMOD (mm)', 'Crack mouth', extra.cmod ?? []);
+  return plotPanelsSvg({ panels: [disp, cmod], title: c.title });
 }
 
 /** Work of fracture: the work of the machine over the ligament area (RILEM TC 50-FMC, no self-weight term). */
@@ -159,7 +204,7 @@ export function workOfFractureEstimate(c: CaseModel, result: AnalysisResult): { 
   const frac = result.peak.load_N !== 0 ? last.load_N / result.peak.load_N : 0;
   return {
     W_Nmm: W, ligamentArea_mm2: A, GF_Nmm: A > 0 ? W / A : 0,
-    note: `run ended at ${(100 * frac).toFixed(1)} % of the peak load; the tail beyond it is not counted, so the estimate is a lower bound`,
+    note: `run ended at ${(100 * frac).toFixed(1).replace(/^-(0\.0)$/, '$1')} % of the peak load; the tail beyond it is not counted, so the estimate is a lower bound`,
   };
 }
 

@@ -59,7 +59,6 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
   const sec = opt.secant ?? false;
   let res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
   for (let it = 1; it <= opt.maxIter; it++) {
-    if (process.env.RUPTA_DEBUG === '2') process.stderr.write(`  it ${it} r ${res.rmax.toExponential(3)} g ${res.g.toExponential(3)} lam ${st.lambda.toExponential(4)}\n`);
     if (res.rmax <= opt.tolF && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: it - 1, reason: '' };
     if (!Number.isFinite(res.rmax) || !Number.isFinite(res.g)) return { converged: false, iterations: it, reason: 'non-finite residual' };
     let factor;

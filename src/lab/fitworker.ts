@@ -1,0 +1,47 @@
+// One candidate of a fit: a full analysis without files, as a worker thread or in-process.
+
+import { isMainThread, parentPort } from 'node:worker_threads';
+import type { CaseModel } from '../case/model.js';
+import type { PolyMesh } from '../mesh/polymesh.js';
+import { Analysis } from '../fracture/analysis.js';
+
+/** The curve of one simulation, as plain arrays (they cross the thread boundary). */
+export interface SimCurve {
+  status: 'complete' | 'stopped' | 'interrupted' | 'failed';
+  reason: string;
+  load: Float64Array;
+  displacement: Float64Array;
+  cmod: Float64Array | null;
+  seconds: number;
+}
+
+export interface SimJob { id: number; c: CaseModel; mesh: PolyMesh }
+export type SimReply = { id: number; ok: true; curve: SimCurve } | { id: number; ok: false; error: string };
+
+/** Run a case on a given initial mesh and keep only its curve; a failure is a status, not a throw. */
+export async function simulateCurve(c: CaseModel, mesh: PolyMesh): Promise<SimCurve> {
+  const t0 = performance.now();
+  const L: number[] = [], D: number[] = [], C: number[] = [];
+  let gauge = true;
+  try {
+    const a = new Analysis(c, mesh);
+    const r = await a.run((e) => {
+      L.push(e.row.load_N); D.push(e.row.displacement_mm);
+      if (e.row.cmod_mm === null) gauge = false; else C.push(e.row.cmod_mm);
+    });
+    return { status: r.status, reason: r.reason, load: Float64Array.from(L), displacement: Float64Array.from(D), cmod: gauge ? Float64Array.from(C) : null, seconds: (performance.now() - t0) / 1000 };
+  } catch (e) {
+    // a singular system or NaN counts as a bad candidate: the optimiser moves away from it
+    return { status: 'failed', reason: e instanceof Error ? e.message : String(e), load: Float64Array.from(L), displacement: Float64Array.from(D), cmod: gauge ? Float64Array.from(C) : null, seconds: (performance.now() - t0) / 1000 };
+  }
+}
+
+if (!isMainThread && parentPort) {
+  const port = parentPort;
+  port.on('message', (job: SimJob) => {
+    simulateCurve(job.c, job.mesh).then(
+      (curve) => port.postMessage({ id: job.id, ok: true, curve } satisfies SimReply),
+      (e: unknown) => port.postMessage({ id: job.id, ok: false, error: e instanceof Error ? e.message : String(e) } satisfies SimReply),
+    );
+  });
+}
