@@ -39,7 +39,7 @@ describe('shipped cases', () => {
   it('demo beam keeps its values', () => {
     const c = loadCase(demoPath.pathname);
     expect(c.material).toEqual({ E: 32000, nu: 0.2, ft: 3.1, GF: 0.11, softening: 'bilinear', shearWeight: 1 });
-    expect(c.control).toEqual({ by: 'cmod', gauge: { from: [219, 0], to: [221, 0] }, target: 0.4, increments: 80, stopAtLoadFraction: 0.05 });
+    expect(c.control).toEqual({ by: 'cmod', gauge: { from: [219, 0], to: [221, 0] }, target: 1, increments: 100, stopAtLoadFraction: 0.05 });
     expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6 });
     expect(c.mesh).toEqual({ size: 10, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8 });
   });
@@ -174,7 +174,7 @@ describe('describeCase', () => {
     // l_ch = E·GF/ft² = 32000·0.11/3.1² = 366.3 mm (Hillerborg, Modéer & Petersson 1976).
     expect(text).toContain('l_ch 366 mm');
     expect(text).toContain('specimen   440 × 100 mm');
-    expect(text).toContain('cmod to 0.4 mm in 80 increments, gauge [219, 0]–[221, 0]');
+    expect(text).toContain('cmod to 1 mm in 100 increments, gauge [219, 0]–[221, 0]');
     expect(text).toContain('size 10 mm, tip 2 mm within 20 mm');
   });
 });

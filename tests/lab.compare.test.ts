@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  compareCurves, compareSvg, compareTable, curveDifference, meanCurve, monotone, parseRunCurve, type RunCurve,
+  compareCurves, compareSvg, compareTable, curveDifference, meanCurve, measuredFunction, monotone, parseRunCurve, type RunCurve,
 } from '../src/lab/compare.js';
 import type { LabCurve } from '../src/lab/import.js';
 
@@ -39,6 +39,14 @@ describe('curve helpers', () => {
     const m = monotone({ x: f64([0, 1, 0.9, 2, 2, 3]), y: f64([0, 1, 5, 2, 7, 3]) });
     expect([...m.x]).toEqual([0, 1, 2, 3]);
     expect([...m.y]).toEqual([0, 1, 2, 3]);
+  });
+
+  it('measured jitter is sorted, not dropped; a real reversal keeps the forward path', () => {
+    const j = measuredFunction({ x: f64([0, 1, 0.995, 2, 3]), y: f64([0, 10, 9, 20, 30]) });
+    expect([...j.x]).toEqual([0, 0.995, 1, 2, 3]);
+    expect([...j.y]).toEqual([0, 9, 10, 20, 30]);
+    const r = measuredFunction({ x: f64([0, 1, 0.5, 2]), y: f64([0, 10, 4, 20]) });
+    expect([...r.x]).toEqual([0, 1, 2]);
   });
 
   it('mean of y = x and y = 3x over their common range is 2x (common practice)', () => {

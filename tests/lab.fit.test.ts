@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { loadCase } from '../src/case/index.js';
+import { loadCase, parseCase } from '../src/case/index.js';
 import { buildDomain } from '../src/geometry/domain.js';
 import { generateMesh } from '../src/mesh/generate.js';
 import { parseLabCurve } from '../src/lab/import.js';
@@ -49,18 +49,19 @@ describe('round trip', () => {
   it('E, ft and GF of a noisy synthetic curve are fitted back within 3 % (common practice)', async () => {
     const truth = { E: 27000, ft: 3.3, GF: 0.085 };
     const c = loadCase('cases/fit-demo.yaml'); // starts from E 30000, ft 3.0, GF 0.1
-    const opt = { meshSize: 12.5, increments: 20 };
+    c.control.target = 0.25; // mm of CMOD: a shorter test keeps this under a minute
+    const opt = { meshSize: 12.5, increments: 50 };
     // the "measurement": the same coarse model with the true values, seeded noise, kN and decimal commas
-    const gen = candidateCase(c, { x: f64([0, c.control.target / 1.02]), y: f64([0, 1]) }, 'cmod', opt);
+    const gen = candidateCase(c, { x: f64([0, c.control.target]), y: f64([0, 1]) }, 'cmod', opt);
     gen.material = { ...gen.material, ...truth };
     const sim = await simulateCurve(gen, generateMesh(buildDomain(gen), gen.mesh));
     expect(sim.status).toBe('complete');
     let P = 0;
     for (const v of sim.load) P = Math.max(P, v);
-    const text = syntheticLabText({ x: sim.cmod!, y: sim.load }, { seed: 3, loadNoise_N: 0.005 * P, xNoise_mm: 0.0002, points: 300, header: ['SYNTHETIC test data'] });
+    const text = syntheticLabText({ x: sim.cmod!, y: sim.load }, { seed: 3, loadNoise_N: 0.005 * P, xNoise_mm: 0.0002, points: 1000, header: ['SYNTHETIC test data'] });
     expect(text).toMatch(/;\d+,\d+;\d+,\d+/);
     const lab = parseLabCurve(text, 'synthetic.csv');
-    const r = await fitCase(c, lab, { ...opt, maxEvals: 60 });
+    const r = await fitCase(c, lab, { ...opt, maxEvals: 45 });
     for (const p of ['E', 'ft', 'GF'] as const) expect(Math.abs(r.material[p] / truth[p] - 1), p).toBeLessThan(0.03);
     expect(r.objective).toBeLessThan(r.startObjective);
     expect(r.workers).toBe(0); // TypeScript sources: evaluated in-process
@@ -68,7 +69,16 @@ describe('round trip', () => {
     const fitted = fittedCaseText(readFileSync('cases/fit-demo.yaml', 'utf8'), r);
     expect(fitted).toMatch(/^# Fitted by rupta fit to the measured curve synthetic\.csv/);
     expect(fitted).toContain('# Crack-mouth opening control'); // the user's comments stay
-    const back = loadCase; void back;
+    expect(fitted).toMatch(/E: \d+ # MPa, fitted \(was 30000\)/);
+    const back = parseCase(fitted, 'fit-demo-fitted.yaml');
+    expect(back.material.ft).toBeCloseTo(r.material.ft, 3);
+    expect(back.mesh.size).toBe(c.mesh.size); // the user's mesh, not the fitting mesh
+    // the same test stopped at 60 % of the peak on the falling branch: GF is flagged
+    const k = sim.load.findIndex((v, i) => i > sim.load.indexOf(P) && v < 0.6 * P);
+    const cut = syntheticLabText({ x: sim.cmod!.slice(0, k + 1), y: sim.load.slice(0, k + 1) }, { seed: 4, loadNoise_N: 0.005 * P, points: 200 });
+    const short = await fitCase(c, parseLabCurve(cut, 'short.csv'), { ...opt, params: ['GF'], maxEvals: 4 });
+    expect(short.params).toEqual(['GF']);
+    expect(short.warnings.join(' ')).toMatch(/stopped at \d+ % of the peak load, before the tail: GF is poorly determined/);
     console.log(`round trip: ${r.evaluations} runs, ${r.wallSeconds.toFixed(1)} s, E ${r.material.E.toFixed(0)}, ft ${r.material.ft.toFixed(4)}, GF ${r.material.GF.toFixed(5)}`);
   }, 120_000);
 });

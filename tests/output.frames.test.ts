@@ -143,3 +143,33 @@ describe('curveInsetSvg', () => {
     expect(allNodes(one).some((e) => e.attrs.class === 'current')).toBe(true);
   });
 });
+
+describe('other output settings', () => {
+  it('makes a WebP animation from PNG-only frames', async () => {
+    const d = join(dir, 'webp');
+    const cw = fixtureCase({ frames: ['png'], animation: 'webp', pngWidth: 200 });
+    const r = fixtureRun(3);
+    const files = new RunFiles(d, cw, { force: true });
+    for (const e of r.events) files.step(e);
+    await files.finish(r.result, { meshSeconds: 0, totalSeconds: 1, initialMesh: r.mesh, final: r.events[3].snapshot() });
+    expect(readdirSync(join(d, 'frames')).sort()).toEqual(['step-0000.png', 'step-0001.png', 'step-0002.png', 'step-0003.png']);
+    const m = await sharp(join(d, 'animation.webp'), { animated: true }).metadata();
+    expect(m.format).toBe('webp');
+    expect(m.pages).toBe(4);
+    expect(m.width).toBe(200);
+    expect(existsSync(join(d, 'animation.gif'))).toBe(false);
+    expect(readFileSync(join(d, 'report.html'), 'utf8')).toMatch(/<div class="strip" id="frames">/);
+  });
+
+  it('writes VTK but no frames for an elastic analysis', async () => {
+    const d = join(dir, 'elastic');
+    const ce = fixtureCase({ vtk: true }, { crack: undefined });
+    const r = fixtureRun(1);
+    const files = new RunFiles(d, ce, { force: true });
+    for (const e of r.events) files.step(e);
+    await files.finish(r.result, { meshSeconds: 0, totalSeconds: 1, initialMesh: r.mesh, final: r.events[1].snapshot() });
+    expect(existsSync(join(d, 'frames'))).toBe(false);
+    expect(readdirSync(join(d, 'vtk')).sort()).toEqual(['step-0000.vtu', 'step-0001.vtu', 'steps.pvd']);
+    expect(existsSync(join(d, 'report.html'))).toBe(true);
+  });
+});

@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { fieldSvg } from '../src/output/field.js';
+import { fieldSvg, meshSvg } from '../src/output/field.js';
 import { svgToPng } from '../src/output/png.js';
 import { curveSvg, specimenSymbols, workOfFractureEstimate } from '../src/output/runfiles.js';
 import { CAUTION, chooseFrames, crackAngle, externalReferences, inlineSvg, reportHtml, writeReport, type FrameFile, type ReportData } from '../src/output/report.js';
@@ -120,7 +120,7 @@ describe('writeReport', () => {
       if (k === 5) { f.png = join(dir, `step-${k}.png`); await svgToPng(svg, f.png, 600); f.svg = undefined; }
       frames.push(f);
     }
-    await writeReport(path, { ...base, final: run.events[STEPS].snapshot(), frames, finalSvg: null });
+    await writeReport(path, { ...base, frames, finalSvg: null, meshSvg: meshSvg(run.mesh, { ...specimenSymbols(c), title: 'mesh' }) });
   }, 20000);
 
   it('embeds the strip of frames as PNG thumbnails and the last frame large', async () => {
@@ -131,6 +131,8 @@ describe('writeReport', () => {
     expect(widths[0]).toBe(1100);
     expect(widths.slice(1)).toEqual([480, 480, 480, 480]);
     expect(page).toContain('Step 3: 2.00 kN, CMOD 0.030 mm, crack 15.0 mm');
+    expect(page).toMatch(/<figure id="mesh-picture"><svg [^>]*aria-label="Initial mesh"/);
+    expect(page).toContain('id="mesh-cells"');
     expect(page).not.toContain('http');
     expect(externalReferences(page)).toEqual([]);
   });

@@ -89,7 +89,7 @@ export class Analysis {
   private readonly fScale: number;
   stopRequested: (() => boolean) | null = null;
   /** Every growth event: tip index, position, chosen direction and whether it was the kink out of the start. */
-  readonly growthLog: { tip: number; x: number; y: number; dx: number; dy: number; first: boolean }[] = [];
+  readonly growthLog: { tip: number; x: number; y: number; dx: number; dy: number; first: boolean; sxx: number; syy: number; sxy: number }[] = [];
 
   constructor(readonly c: CaseModel, initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
     this.wm = WorkMesh.fromPolyMesh(initial);
@@ -314,16 +314,20 @@ export class Analysis {
       const tx = this.wm.x[t.v], ty = this.wm.y[t.v];
       const ts = tipStress(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius, 2);
       if (ts.s1 < this.c.material.ft) continue;
-      // the kink out of a sharp notch follows the largest hoop stress of the notch-tip field;
-      // a growing cohesive crack runs perpendicular to the major principal stress ahead of it
-      let [gx, gy] = t.crack < 0 && t.slit !== undefined && t.slit >= 0
-        ? this.slitKink(t, crack.averagingRadius)
-        : t.crack < 0 && (t.dx !== 0 || t.dy !== 0)
+      // The stress at a cohesive tip is nearly isotropic (on faces carrying a uniform traction
+      // the stress along the crack equals the traction across it), so its principal axes say
+      // little about the path. The mode mixity does: sliding over opening of the faces behind
+      // the tip gives K_II/K_I, and the kink follows the maximum tangential stress. A tip with
+      // no faces yet (a blunt notch) follows the largest hoop stress around it; a fresh start
+      // point with no direction grows perpendicular to the major principal stress.
+      const faces = t.crack >= 0 ? t.crack : t.slit !== undefined && t.slit >= 0 ? t.slit : -1;
+      let [gx, gy] = (faces >= 0 ? this.faceKink(faces, t, crack.averagingRadius) : null)
+        ?? (t.dx !== 0 || t.dy !== 0
           ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
-          : growthDirection(ts, t.dx, t.dy);
+          : growthDirection(ts, t.dx, t.dy));
       // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
       if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
-      this.growthLog.push({ tip: this.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0 });
+      this.growthLog.push({ tip: this.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
       const cut = cutRay(this.wm, t.v, gx, gy, crack.growthStep);
       if (cut.path.length < 2) { t.active = false; continue; }
       if (t.crack < 0) { this.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = this.cracks.length - 1; }
@@ -353,12 +357,14 @@ export class Analysis {
   }
 
   /**
-   * Kink out of a sharp slit by the maximum tangential stress criterion (Erdogan & Sih 1963),
-   * with the mode mixity from the face displacements behind the tip: near a tip the sliding
-   * and opening jumps are both ∝ √r with the same factor (κ + 1)/G, so K_II/K_I is their ratio.
+   * Kink by the maximum tangential stress criterion (Erdogan & Sih 1963) with the mode mixity
+   * from the face displacements behind the tip: near a sharp tip the sliding and opening jumps
+   * are both ∝ √r with the same factor (κ + 1)/G, so K_II/K_I is their ratio; on intact
+   * cohesive faces the jumps are the tractions over the penalty, so the ratio is shear over
+   * normal stress on the crack line. Null when the faces are not open.
    */
-  private slitKink(t: Tip, R: number): [number, number] {
-    const k = this.cracks[t.slit!], { x, y } = this.wm, u = this.uw;
+  private faceKink(crackIndex: number, t: Tip, R: number): [number, number] | null {
+    const k = this.cracks[crackIndex], { x, y } = this.wm, u = this.uw;
     const tx = x[t.v], ty = y[t.v], nx = -t.dy, ny = t.dx;
     // the face on the left of the tip's direction
     const pathDir = (x[k.path[k.path.length - 1]] - x[k.path[0]]) * t.dx + (y[k.path[k.path.length - 1]] - y[k.path[0]]) * t.dy;
@@ -371,11 +377,17 @@ export class Analysis {
       const dux = u[2 * l] - u[2 * rr], duy = u[2 * l + 1] - u[2 * rr + 1];
       jn += dux * nx + duy * ny; jt += dux * t.dx + duy * t.dy;
     }
-    if (!(jn > 0)) return [t.dx, t.dy];
-    const ratio = jt / jn; // K_II / K_I
+    if (!(jn > 0)) return null;
+    // β weighs sliding in the cohesive law; on intact faces s = t_s/(β kp), so undo it there
+    const ratio = (k.kind === 'cohesive' ? this.coh.beta : 1) * jt / jn; // K_II / K_I
     const th = Math.abs(ratio) < 1e-12 ? 0 : 2 * Math.atan((1 - Math.sqrt(1 + 8 * ratio * ratio)) / (4 * ratio));
     const c = Math.cos(th), s = Math.sin(th);
     return [c * t.dx - s * t.dy, s * t.dx + c * t.dy];
+  }
+
+  /** True once a crack has run from boundary to boundary (its last tip left the material). */
+  private separated(): boolean {
+    return this.tips.some((t) => !t.active && t.crack >= 0 && this.cracks[t.crack].twins.at(-1)! >= 0);
   }
 
   private commit(): void {
@@ -518,6 +530,7 @@ export class Analysis {
             for (let g = 0; g < maxGrowth; g++) {
               if (this.grow() === 0) break;
               const rr = this.solveAt(target);
+              if (!rr.ok && this.separated()) { reason = 'the crack has run through the specimen, which has come apart'; break outer; }
               if (!rr.ok) throw new RunStopped(`step ${step + 1} did not converge after the crack grew at ${ctl.by} ${target.toPrecision(4)}: ${rr.reason}`);
             }
           }

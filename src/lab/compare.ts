@@ -42,6 +42,26 @@ export function monotone(c: Curve): Curve {
   return { x: Float64Array.from(xs), y: Float64Array.from(ys) };
 }
 
+/**
+ * A measured curve as a function of its opening. Jitter of the gauge (backward steps under
+ * 1 % of the range) is sorted out, since dropping the points that step back would keep only
+ * those with positive noise; larger reversals (snap-back, unloading) keep the forward path.
+ */
+export function measuredFunction(c: Curve): Curve {
+  let top = -Infinity, back = 0, lo = Infinity;
+  for (let i = 0; i < c.x.length; i++) {
+    const x = c.x[i]!;
+    if (!Number.isFinite(x) || !Number.isFinite(c.y[i]!)) continue;
+    if (x < lo) lo = x;
+    if (x > top) top = x; else back = Math.max(back, top - x);
+  }
+  if (!(back <= 0.01 * (top - lo))) return monotone(c);
+  const idx: number[] = [];
+  for (let i = 0; i < c.x.length; i++) if (Number.isFinite(c.x[i]!) && Number.isFinite(c.y[i]!)) idx.push(i);
+  idx.sort((a, b) => c.x[a]! - c.x[b]! || a - b);
+  return { x: Float64Array.from(idx, (i) => c.x[i]!), y: Float64Array.from(idx, (i) => c.y[i]!) };
+}
+
 /** Linear interpolation on an increasing x; NaN outside the range. */
 export function interpAt(c: Curve, x: number): number {
   const n = c.x.length;
@@ -103,7 +123,7 @@ export function commonRange(curves: Curve[]): [number, number] {
 
 /** Mean of several curves on n evenly spaced openings over their common range. */
 export function meanCurve(curves: Curve[], n = 201): Curve {
-  const mono = curves.map(monotone);
+  const mono = curves.map(measuredFunction);
   const [lo, hi] = commonRange(mono);
   if (!(hi > lo)) throw new InputError('the measured curves have no opening range in common, so no mean curve can be drawn');
   const x = new Float64Array(n), y = new Float64Array(n);
@@ -234,7 +254,7 @@ export function compareCurves(run: RunCurve, labs: LabCurve[], opt: CompareOptio
 
   const rowOf = (name: string, c: Curve, W: number | null): CompareRow => {
     const k = peakIndex(c.y);
-    const mono = monotone(c);
+    const mono = measuredFunction(c);
     const [lo, hi] = commonRange([predMono, mono]);
     const d = hi > lo ? curveDifference(predMono, mono, lo, hi) : null;
     const peak = c.y[k]!;

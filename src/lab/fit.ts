@@ -14,7 +14,7 @@ import { InputError } from '../errors.js';
 import { plotSvg, PALETTE, type Series } from '../output/plot.js';
 import type { LabCurve } from './import.js';
 import { rilemGF, workOfFracture } from './work.js';
-import { curveDifference, interpAt, monotone, peakIndex, thin, type Curve, type XAxis } from './compare.js';
+import { curveDifference, interpAt, measuredFunction, monotone, peakIndex, thin, type Curve, type XAxis } from './compare.js';
 import { simulateCurve, type SimCurve, type SimJob, type SimReply } from './fitworker.js';
 
 export type FitParam = 'E' | 'ft' | 'GF';
@@ -271,7 +271,7 @@ export async function fitCase(c: CaseModel, lab: LabCurve, opt: FitOptions = {})
   if (!c.crack && (params.includes('ft') || params.includes('GF'))) throw new InputError('the case has no crack section, so only E can be fitted (--params E)');
   const hasGauge = c.control.by === 'cmod' || c.control.gauge !== undefined;
   const xAxis: XAxis = opt.xAxis ?? (/disp|defl|stroke|travel/i.test(lab.xLabel) || !hasGauge ? 'displacement' : 'cmod');
-  const measured = monotone({ x: lab.x, y: lab.y });
+  const measured = measuredFunction({ x: lab.x, y: lab.y });
   if (measured.x.length < 5) throw new InputError(`${lab.name}: only ${measured.x.length} points with increasing opening: a fit needs a curve of at least 5`);
   const Pm = measured.y[peakIndex(measured.y)]!;
   const notes: string[] = [], warnings: string[] = [];
@@ -322,7 +322,7 @@ export async function fitCase(c: CaseModel, lab: LabCurve, opt: FitOptions = {})
       const s = await run(el);
       const xs = xAxis === 'cmod' ? s.cmod : s.displacement;
       const ks = xs && xs.length > 1 ? s.load[1]! / xs[1]! : NaN;
-      const km = initialStiffness(measured);
+      const km = initialStiffness({ x: lab.x, y: lab.y });
       const ev: FitEvaluation = { index: history.length + 1, phase: 'elastic', ...start, objective: NaN, peak_N: NaN, status: s.status, seconds: (performance.now() - t1) / 1000 };
       history.push(ev); opt.onEval?.(ev);
       if (Number.isFinite(ks) && ks > 0 && km > 0) {
@@ -435,6 +435,7 @@ export async function fitCase(c: CaseModel, lab: LabCurve, opt: FitOptions = {})
     const cov = inverse(JtJ);
     const sd = params.map((_, i) => (cov && cov[i]![i]! > 0 ? Math.sqrt(s2 * cov[i]![i]!) : Infinity));
     const correlation = params.map((_, i) => params.map((__, j) => (cov ? cov[i]![j]! / Math.sqrt(cov[i]![i]! * cov[j]![j]!) : NaN)));
+    notes.push('±95 %: from the Jacobian at the optimum, treating the residuals at the measured points as independent; the error of the model and of the fitting mesh is not in it');
     const table: ParamRow[] = params.map((p, i) => {
       const sens = Math.sqrt(JtJ[i]![i]! / N) * Math.log(1.1);
       const ok = sens > 0.002 && sd[i]! < 0.1;
@@ -474,7 +475,7 @@ export function fittedCaseText(originalText: string, r: FitResult): string {
   const set = (key: string, value: number | string, note: string) => {
     doc.setIn(['material', key], value);
     const node = doc.getIn(['material', key], true);
-    if (isScalar(node)) node.comment = ` ${note}`;
+    if (isScalar(node)) node.comment = node.comment?.trim() ? ` ${node.comment.trim()}, ${note}` : ` ${note}`;
   };
   for (const p of r.params) set(p, sig(r.material[p]), `fitted (was ${r.table.find((t) => t.name === p)!.start})`);
   set('softening', r.softening, 'law used in the fit');
@@ -485,7 +486,7 @@ export function fittedCaseText(originalText: string, r: FitResult): string {
   ];
   if (r.warnings.length) head.push(' Warnings:', ...r.warnings.map((w) => `   ${w}`));
   doc.commentBefore = head.join('\n') + (doc.commentBefore ? '\n\n' + doc.commentBefore : '');
-  return doc.toString();
+  return doc.toString({ flowCollectionPadding: false });
 }
 
 /** Parameter table and warnings as text. */

@@ -6,7 +6,7 @@ import sharp, { type Sharp } from 'sharp';
 import type { CaseModel, Vec2 } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { cellCount, vertexCount } from '../mesh/polymesh.js';
-import type { AnalysisResult, Snapshot, StepRow } from '../fracture/analysis.js';
+import type { AnalysisResult, StepRow } from '../fracture/analysis.js';
 import { makeLaw } from '../cohesive/laws.js';
 import { characteristicLength } from '../case/describe.js';
 import { writeFileAtomic } from './files.js';
@@ -23,12 +23,13 @@ export interface ReportInput {
   c: CaseModel;
   result: AnalysisResult;
   initialMesh: PolyMesh;
-  final: Snapshot | null;
   frames: FrameFile[];
   /** The curve picture (SVG text), or null for a run of one step. */
   curveSvg: string | null;
-  /** Picture of the final state (SVG text), shown large. */
+  /** Picture of the final state (SVG text), shown large when there are no frames. */
   finalSvg?: string | null;
+  /** Picture of the initial mesh (SVG text). */
+  meshSvg?: string | null;
   timings: { mesh: number; solve: number; total: number };
   workOfFracture: WorkOfFracture | null;
   generatedAt?: Date;
@@ -37,11 +38,16 @@ export interface ReportInput {
 }
 
 /** What reportHtml needs once the pictures are embedded. */
-export interface ReportData extends Omit<ReportInput, 'frames' | 'finalSvg' | 'final' | 'thumbnails'> {
+export interface ReportData extends Omit<ReportInput, 'frames' | 'finalSvg' | 'thumbnails' | 'meshSvg'> {
   strip: { step: number; caption: string; src: string }[];
   /** data: URI of the final picture. */
   finalPicture?: string;
+  /** The mesh picture: SVG text to inline, or a data: URI when the SVG is too large to inline. */
+  meshPicture?: string;
 }
+
+/** Above this size an SVG picture goes into the page as PNG. */
+const INLINE_SVG_MAX = 400_000;
 
 export const CAUTION = 'predictions are model results that support, never replace, physical testing and design checks under the local codes by a licensed engineer';
 
@@ -56,8 +62,13 @@ export async function writeReport(path: string, input: ReportInput): Promise<voi
   let finalPicture: string | undefined;
   const last = input.frames[input.frames.length - 1];
   if (last) finalPicture = (await thumbnail(last, 1100)) ?? undefined;
-  if (!finalPicture && input.finalSvg) finalPicture = await pngDataUri(sharp(Buffer.from(input.finalSvg), { density: 72 * 1.1 }).resize({ width: 1100 }));
-  writeFileAtomic(path, reportHtml({ ...input, strip, finalPicture }));
+  if (!finalPicture && input.finalSvg) finalPicture = await pngDataUri(svgRaster(Buffer.from(input.finalSvg), 1100));
+  let meshPicture: string | undefined;
+  if (input.meshSvg) {
+    meshPicture = input.meshSvg.length <= INLINE_SVG_MAX ? input.meshSvg
+      : await pngDataUri(svgRaster(Buffer.from(input.meshSvg), 1100));
+  }
+  writeFileAtomic(path, reportHtml({ ...input, strip, finalPicture, meshPicture }));
 }
 
 /** Frames for the strip: evenly spaced from first to last, with the one nearest the peak. */
@@ -72,13 +83,15 @@ export function chooseFrames(frames: FrameFile[], result: AnalysisResult, count:
   return [...pick].sort((a, b) => a - b).map((i) => frames[i]);
 }
 
+/** An SVG document rasterised at the density that gives this width, so lines and text stay sharp. */
+function svgRaster(svg: Buffer, width: number): Sharp {
+  const w0 = svgWidth(svg.toString('utf8', 0, 2000));
+  return sharp(svg, { density: Math.max(1, (72 * width) / w0), limitInputPixels: false }).resize({ width });
+}
+
 async function thumbnail(f: FrameFile, width: number): Promise<string | null> {
   // the SVG gives the sharpest picture at any size; the PNG when only it was written
-  if (f.svg && existsSync(f.svg)) {
-    const svg = readFileSync(f.svg);
-    const w0 = svgWidth(svg.toString('utf8', 0, 2000));
-    return pngDataUri(sharp(svg, { density: Math.max(1, (72 * width) / w0), limitInputPixels: false }).resize({ width }));
-  }
+  if (f.svg && existsSync(f.svg)) return pngDataUri(svgRaster(readFileSync(f.svg), width));
   if (f.png && existsSync(f.png)) return pngDataUri(sharp(readFileSync(f.png)).resize({ width, kernel: 'lanczos3', withoutEnlargement: true }));
   return null;
 }
@@ -88,7 +101,7 @@ async function pngDataUri(img: Sharp): Promise<string> {
   const flat = img.flatten({ background: '#ffffff' });
   let b64 = '';
   for (let level = 9; level >= 0; level--) {
-    // palette PNG: these pictures have few colours, so it is a third of the size
+    // palette PNG: these pictures have few colours, so it is much smaller at no visible cost
     b64 = (await flat.clone().png({ palette: true, quality: 95, compressionLevel: level, effort: 8 }).toBuffer()).toString('base64');
     if (!b64.includes('http')) break;
   }
@@ -277,6 +290,11 @@ export function reportHtml(d: ReportData): string {
 
   parts.push('<h2>Model</h2>\n');
   parts.push(modelTables(d));
+  if (d.meshPicture) {
+    const pic = d.meshPicture.startsWith('data:') ? `<img src="${d.meshPicture}" alt="Initial mesh">` : inlineSvg(d.meshPicture, 'mesh-', 'Initial mesh');
+    const grows = c.crack ? `; the run refines it ahead of each growing tip${c.mesh.coarsen ? ' and coarsens it behind' : ''}` : '';
+    parts.push(`<figure id="mesh-picture">${pic}<figcaption>Initial mesh with supports and loads${grows}.</figcaption></figure>\n`);
+  }
   parts.push('<h2>Run time</h2>\n');
 
   let tm = row('Meshing', `${fix(d.timings.mesh, 2)} s`);

@@ -126,7 +126,8 @@ export class RunFiles {
     this.probes.close();
     const c = this.c;
     // mesh picture of the initial mesh
-    writeFileAtomic(join(this.dir, 'mesh.svg'), meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` }));
+    const meshPicture = meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` });
+    writeFileAtomic(join(this.dir, 'mesh.svg'), meshPicture);
     let finalSvg: string | null = null;
     if (extra.final) {
       const f = extra.final;
@@ -151,7 +152,7 @@ export class RunFiles {
     const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
     writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
     await writeReport(join(this.dir, 'report.html'), {
-      c, result, initialMesh: extra.initialMesh, final: extra.final, frames: this.frames, finalSvg,
+      c, result, initialMesh: extra.initialMesh, frames: this.frames, finalSvg, meshSvg: meshPicture,
       curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
       timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
       workOfFracture: workOfFractureEstimate(c, result),

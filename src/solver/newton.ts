@@ -63,7 +63,11 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     if (!Number.isFinite(res.rmax) || !Number.isFinite(res.g)) return { converged: false, iterations: it, reason: 'non-finite residual' };
     let factor;
     try { factor = sys.factorTangent(); } catch (e) {
-      if (e instanceof SingularMatrixError) return { converged: false, iterations: it, reason: 'singular tangent' };
+      if (e instanceof SingularMatrixError) {
+        const d = sys.freeDofs[e.equation] ?? -1, v = d >> 1;
+        const where = d >= 0 ? ` near [${sys.mesh.xy[2 * v].toFixed(2)}, ${sys.mesh.xy[2 * v + 1].toFixed(2)}] mm` : '';
+        return { converged: false, iterations: it, reason: `the tangent stiffness is singular${where} (a part of the specimen is no longer held)` };
+      }
       throw e;
     }
     // a = −K⁻¹ r,  b = K⁻¹ k_fλ with k_fλ = kT[f, load]·w

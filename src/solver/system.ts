@@ -34,7 +34,7 @@ export class System {
   readonly kBulk: CsrMatrix;
   readonly kT: CsrMatrix;
   readonly kff: SubMatrix;
-  readonly sym: Symbolic;
+  private symbolic: Symbolic | null = null;
   factor: Factor | null = null;
   private readonly pairMap: Int32Array;
   private readonly pairOff: Int32Array;
@@ -87,7 +87,6 @@ export class System {
     for (let d = 0; d < this.nDof; d++) if (freeOf[d] === 0) { freeOf[d] = nf++; freeDofs.push(d); } else freeOf[d] = -1;
     this.freeOf = freeOf; this.nFree = nf; this.freeDofs = Int32Array.from(freeDofs);
     this.kff = submatrix(this.kT, freeOf, nf);
-    this.sym = analyze(this.kff);
     this.zLoad = new Float64Array(this.nDof);
     for (let i = 0; i < driven.load.length; i++) this.zLoad[driven.load[i]] = driven.loadW[i];
   }
@@ -140,6 +139,12 @@ export class System {
         vals[map[o + 4 * i + j]] += sgn * M[2 * (i & 1) + (j & 1)];
       }
     }
+  }
+
+  /** Ordering and symbolic factorization of the free–free block, once per topology. */
+  get sym(): Symbolic {
+    if (!this.symbolic) this.symbolic = analyze(this.kff);
+    return this.symbolic;
   }
 
   /** Factorize the free–free block of the current tangent kT. */

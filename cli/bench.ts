@@ -1,0 +1,103 @@
+// npm run bench: timings of mesh generation, assembly, ordering + factorization and solve on
+// plates of about 10k, 50k and 200k dofs, and of a crack-growth run of the demo beam.
+// npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix (one JSON line).
+// Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { parseCase } from '../src/case/index.js';
+import type { CaseModel } from '../src/case/model.js';
+import { buildDomain } from '../src/geometry/domain.js';
+import { generateMesh } from '../src/mesh/generate.js';
+import { Analysis } from '../src/fracture/analysis.js';
+import { analyze, factorize } from '../src/linalg/index.js';
+import { benchMatrix } from './bench-matrix.js';
+
+const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
+const now = () => performance.now() / 1000;
+
+function plateCase(h: number): CaseModel {
+  return parseCase(`
+format: 1
+title: bench plate
+units: mm-N-MPa
+thickness: 10
+geometry:
+  outline: [[0,0],[1000,0],[1000,1000],[0,1000]]
+  holes: [{circle: {center: [600, 500], radius: 80}}]
+  notches: [{from: [0, 500], to: [250, 500], width: 4}]
+material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1}
+supports: [{along: [[0,0],[1000,0]], fix: y}, {at: [0,0], fix: x}]
+loads: [{along: [[0,1000],[1000,1000]], direction: [0, 1]}]
+control: {target: 0.05}
+mesh: {size: ${h}, tipSize: ${h}, refineRadius: ${h}, lloyd: 8, seed: 1}
+`, 'bench-plate.yaml');
+}
+
+function elastic(targetDofs: number, repeat: number): void {
+  // Voronoi meshes have about two vertices per cell: dofs ≈ 4 × cells, cells ≈ area / (2.6 h²)
+  const h = Math.sqrt((1e6 * 4) / (2.6 * targetDofs));
+  const c = plateCase(h);
+  const t = { mesh: [] as number[], assembly: [] as number[], factor: [] as number[], solve: [] as number[] };
+  let dofs = 0, nnzL = 0, polys = 0;
+  for (let r = 0; r < repeat; r++) {
+    let t0 = now();
+    const mesh = generateMesh(buildDomain(c), c.mesh);
+    t.mesh.push(now() - t0);
+    const a = new Analysis(c, mesh);
+    t0 = now();
+    const K = a.stiffnessMatrix(); // a fresh topology: pattern, element stiffnesses, supports eliminated
+    t.assembly.push(now() - t0);
+    t0 = now();
+    const F = factorize(K, analyze(K));
+    t.factor.push(now() - t0);
+    const b = new Float64Array(K.n).fill(1), x = new Float64Array(K.n);
+    t0 = now();
+    F.solve(b, x);
+    t.solve.push(now() - t0);
+    dofs = K.n; nnzL = F.nnzL; polys = mesh.cellStart.length - 1;
+  }
+  console.log(`${String(dofs).padStart(7)} free dofs ${String(polys).padStart(7)} polygons  mesh ${median(t.mesh).toFixed(2)} s  assembly ${median(t.assembly).toFixed(2)} s  ordering+factor ${median(t.factor).toFixed(2)} s  solve ${median(t.solve).toFixed(3)} s  nnz(L) ${nnzL}`);
+}
+
+async function growth(repeat: number): Promise<void> {
+  const demo = readFileSync(fileURLToPath(new URL('../../cases/beam-3pb-demo.yaml', import.meta.url)), 'utf8')
+    .replace(/^mesh:.*$/m, 'mesh: {size: 5, tipSize: 1, refineRadius: 15, coarsen: true, seed: 1, lloyd: 8}')
+    .replace(/^crack:[\s\S]*?(?=^\S)/m, 'crack: {start: notch-tips, growthStep: 1.6, averagingRadius: 3}\n')
+    .replace(/^  target: .*$/m, '  target: 2.0')
+    .replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+  const c = parseCase(demo, 'bench-beam.yaml');
+  const totals: number[] = [];
+  let last: { steps: number; growth: number; peak: number; status: string; reason: string; dofs: number[]; stepTimes: number[] } | null = null;
+  for (let r = 0; r < repeat; r++) {
+    const t0 = now();
+    const a = new Analysis(c, generateMesh(buildDomain(c), c.mesh));
+    const dofs: number[] = [], stepTimes: number[] = [];
+    let tl = now();
+    const res = await a.run((e) => { dofs.push(a.dofs.final); stepTimes.push(now() - tl); tl = now(); void e; });
+    totals.push(now() - t0);
+    last = { steps: res.rows.length - 1, growth: a.growthLog.length, peak: res.peak.load_N, status: res.status, reason: res.reason, dofs, stepTimes };
+  }
+  const L = last!;
+  console.log(`crack growth, demo beam: ${L.steps} steps, ${L.growth} growth events, peak ${L.peak.toFixed(0)} N, ${L.status} (${L.reason})`);
+  console.log(`  total ${median(totals).toFixed(1)} s (median of ${repeat}), ${(median(totals) / L.steps * 1000).toFixed(0)} ms per step, dofs ${Math.min(...L.dofs)}–${Math.max(...L.dofs)}`);
+  const every = Math.max(1, Math.floor(L.steps / 12));
+  const lines: string[] = [];
+  for (let i = 1; i < L.dofs.length; i += every) lines.push(`step ${i}: ${L.dofs[i]} dofs, ${(L.stepTimes[i] * 1000).toFixed(0)} ms`);
+  console.log('  ' + lines.join('\n  '));
+}
+
+const args = process.argv.slice(2);
+const mi = args.indexOf('--matrix');
+const ri = args.indexOf('--repeat');
+const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
+if (mi >= 0) {
+  const file = args[mi + 1];
+  if (!file) { process.stderr.write('rupta bench: --matrix needs a Matrix Market file\n'); process.exit(2); }
+  const rs = Array.from({ length: repeat }, () => benchMatrix(file));
+  const pick = rs.sort((a, b) => a.factor_s + a.solve_s - b.factor_s - b.solve_s)[rs.length >> 1];
+  process.stdout.write(JSON.stringify({ n: pick.n, nnzL: pick.nnzL, factor_s: pick.factor_s, solve_s: pick.solve_s, residual: pick.residual }) + '\n');
+} else {
+  console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
+  for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);
+  if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
+}
