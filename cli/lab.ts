@@ -72,7 +72,7 @@ export function registerLabCommands(program: Command): void {
     .option('--softening <law>', 'softening law for the fit: linear, bilinear or exponential (default the case\'s)')
     .option('--x <axis>', 'opening of the measured curve: cmod or displacement (default from its column name)')
     .option('--mesh-size <mm>', 'cell size of the fitting mesh (default coarser than the case)')
-    .option('--increments <n>', 'control increments of each candidate run (default the case\'s)')
+    .option('--increments <n>', 'control increments of each candidate run (default the case\'s, at least 6 steps up to the measured peak)')
     .option('--max-evals <n>', 'simulations allowed in all (default 80)')
     .option('--workers <n>', 'worker threads, 0 for none (default 2)')
     .option('--out <dir>', 'output folder (default out/<case name>-fit)')

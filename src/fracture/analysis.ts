@@ -38,7 +38,7 @@ export interface StepEvent { row: StepRow; probes: ProbeRow[]; snapshot: () => S
 
 interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
 /** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
-interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number }
+interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number }
 
 export interface AnalysisOptions {
   /** Refuse meshes above this many dofs. */
@@ -305,8 +305,61 @@ export class Analysis {
     return worst;
   }
 
+  /**
+   * `crack.start: anywhere`: once the major principal stress of some cell, away from the
+   * supports and load points, reaches ft, a crack starts at the vertex nearest to it,
+   * perpendicular to that stress; inside the material it gets two tips running apart.
+   */
+  private initiate(): number {
+    const c = this.c, crack = c.crack!;
+    if (crack.start !== 'anywhere' || this.tips.length > 0) return 0;
+    const { m, stress, cent } = this.fields();
+    const keep = Math.max(2 * c.mesh.tipSize, crack.averagingRadius);
+    const away: { x: number; y: number; r: number }[] = [];
+    for (const q of [...c.supports, ...c.loads]) {
+      const pts = q.at ? [q.at] : q.along ? [q.along[0], q.along[1], [(q.along[0][0] + q.along[1][0]) / 2, (q.along[0][1] + q.along[1][1]) / 2]] : [];
+      for (const p of pts) away.push({ x: p[0], y: p[1], r: q.width / 2 + keep + (q.along ? Math.hypot(q.along[1][0] - q.along[0][0], q.along[1][1] - q.along[0][1]) / 2 : 0) });
+    }
+    let best = -1, bestS = -Infinity;
+    for (let k = 0; k < m.cellStart.length - 1; k++) {
+      const x = cent[2 * k], y = cent[2 * k + 1];
+      if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
+      const sxx = stress[3 * k], syy = stress[3 * k + 1], sxy = stress[3 * k + 2];
+      const s1 = (sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy);
+      if (s1 > bestS) { bestS = s1; best = k; }
+    }
+    if (best < 0 || bestS < c.material.ft) return 0;
+    const x = cent[2 * best], y = cent[2 * best + 1];
+    const v = this.nearestLive(x, y);
+    const ts = tipStress(m, stress, cent, cellAreas(m), this.wm.x[v], this.wm.y[v], 0, 0, crack.averagingRadius, 0);
+    const [dx, dy] = growthDirection(ts, 1, 0);
+    const onEdge = this.onOutline(v);
+    if (onEdge) {
+      // from the boundary the crack runs into the material
+      const sgn = dx * (x - this.wm.x[v]) + dy * (y - this.wm.y[v]) >= 0 ? 1 : -1;
+      this.tips.push({ crack: -1, v, dx: sgn * dx, dy: sgn * dy, back: null, active: true });
+    } else {
+      const a = this.tips.length;
+      this.tips.push({ crack: -1, v, dx, dy, back: null, active: true, partner: a + 1 });
+      this.tips.push({ crack: -1, v, dx: -dx, dy: -dy, back: null, active: true, partner: a });
+    }
+    refineAround(this.wm, this.wm.x[v], this.wm.y[v], c.mesh.refineRadius, c.mesh.tipSize);
+    this.dirty = true;
+    return 1;
+  }
+
+  /** Vertex v lies on the outline (an edge of it has one cell only). */
+  private onOutline(v: number): boolean {
+    for (const c of this.wm.cellsOf(v)) {
+      const vs = this.wm.cells[c]!, n = vs.length, k = vs.indexOf(v);
+      if (this.wm.neighbourAcross(c, v, vs[(k + 1) % n]) < 0 || this.wm.neighbourAcross(c, vs[(k + n - 1) % n], v) < 0) return true;
+    }
+    return false;
+  }
+
   private grow(): number {
     const crack = this.c.crack!;
+    if (this.initiate() > 0) return 1;
     const { m, stress, areas, cent } = this.fields();
     let grown = 0;
     for (const t of this.tips) {
@@ -334,7 +387,11 @@ export class Analysis {
       const k = this.cracks[t.crack];
       const through = cut.end === 'boundary';
       if (cut.end === 'crack') t.active = false;
-      const tw = twinAlong(this.wm, cut.path, t.back, true, through);
+      // an interior start stays one vertex until its partner tip has cut the other way
+      const partner = t.partner !== undefined ? this.tips[t.partner] : null;
+      const interiorStart = t.back === null && partner !== null && partner.crack < 0;
+      const tw = twinAlong(this.wm, cut.path, t.back, !interiorStart, through);
+      if (interiorStart) partner!.back = [this.wm.x[cut.path[1]], this.wm.y[cut.path[1]]];
       k.twins[k.twins.length - 1] = tw[0][1];
       for (let i = 1; i < cut.path.length; i++) { k.path.push(cut.path[i]); k.twins.push(tw[i][1]); }
       const end = cut.path[cut.path.length - 1], prev = cut.path[cut.path.length - 2];

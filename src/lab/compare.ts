@@ -269,6 +269,12 @@ export function compareCurves(run: RunCurve, labs: LabCurve[], opt: CompareOptio
   const labW = (c: Curve): number => workOfFracture(xAxis === 'cmod' ? displacementFromCmod(run, c.x) : c.x, c.y);
 
   const specimens = labs.map((l) => rowOf(l.name, { x: l.x, y: l.y }, labW(l)));
+  for (const l of labs) {
+    const looksCmod = /cmod|mouth|opening|\bcod\b/i.test(l.xLabel), looksDisp = /disp|defl|stroke/i.test(l.xLabel);
+    if ((xAxis === 'displacement' && looksCmod && !looksDisp) || (xAxis === 'cmod' && looksDisp && !looksCmod)) {
+      notes.push(`${l.name}: its x column is named "${l.xLabel}" but is compared as ${xAxis === 'cmod' ? 'CMOD' : 'load-point displacement'}`);
+    }
+  }
   for (const r of specimens) {
     if (r.range_mm === null) notes.push(`${r.name}: no opening range in common with the prediction`);
     if (r.endLoadFraction > 0.1) notes.push(`${r.name}: the test ended at ${(100 * r.endLoadFraction).toFixed(0)} % of its peak, so its GF misses the tail (a lower bound)`);

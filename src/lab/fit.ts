@@ -31,7 +31,7 @@ export interface FitOptions {
   maxEvals?: number;
   /** Worker threads; 0 evaluates in this thread. At most the number of cores. */
   workers?: number;
-  /** Control increments of each candidate run (default: the case's). */
+  /** Control increments of each candidate run (default: the case's, at least six steps up to the measured peak). */
   increments?: number;
   onEval?: (e: FitEvaluation) => void;
 }
