@@ -7,3 +7,8 @@ export { niceTicks, niceStep, niceAxis, niceDomain, formatTicks, formatValue } f
 export { fieldSvg, meshSvg, autoMagnification, type FieldPicture } from './field.js';
 export { plotSvg, PALETTE, type Series, type PlotOptions } from './plot.js';
 export { svgToPng, framesToAnimation, pickFrames, svgWidth } from './png.js';
+export { plotPanelsSvg } from './plot.js';
+export { curveInsetSvg, type CurveInset } from './inset.js';
+export { writeReport, reportHtml, CAUTION } from './report.js';
+export { vtuText, pvdText, VtkSeries } from './vtk.js';
+export { RunFiles, curveSvg, summaryOf, workOfFractureEstimate, CURVE_HEADER, PROBE_HEADER } from './runfiles.js';

@@ -1,0 +1,31 @@
+// rupta as a library: everything the command line does, for scripted parameter studies.
+//
+//   import { loadCase, runCase } from 'rupta';
+//   const c = loadCase('cases/beam-3pb-demo.yaml');
+//   for (const GF of [0.08, 0.11, 0.14]) {
+//     const { result } = await runCase({ ...c, material: { ...c.material, GF } }, { out: `out/gf-${GF}`, force: true });
+//     console.log(GF, result.peak.load_N);
+//   }
+
+export type * from './case/model.js';
+export { loadCase, parseCase, checkCase, describeCase, characteristicLength } from './case/index.js';
+export { InputError, RunStopped, SingularMatrixError } from './errors.js';
+export { buildDomain, type Domain } from './geometry/domain.js';
+export { generateMesh } from './mesh/generate.js';
+export { meshStats } from './mesh/stats.js';
+export type { PolyMesh } from './mesh/polymesh.js';
+export { elasticMatrix, principal } from './vem/material.js';
+export { elementStiffness, ElementWork } from './vem/element.js';
+export { cellStresses, vertexStresses, recoveredVertexStresses } from './vem/stress.js';
+export * from './linalg/index.js';
+export { makeLaw, type SofteningLaw } from './cohesive/laws.js';
+export { cohesivePoint, interfaceEnergy, penaltyFor, type CohesiveParams } from './cohesive/interface.js';
+export { barCurve } from './cohesive/bar.js';
+export { Analysis, type AnalysisResult, type StepRow, type ProbeRow, type Snapshot, type StepEvent } from './fracture/analysis.js';
+export { runCase, meshCase, type RunOptions, type RunOutcome } from './run.js';
+export { templates, listTemplates, renderTemplate } from './templates/index.js';
+export { readLabCurve, parseLabCurve, type LabCurve } from './lab/import.js';
+export { workOfFracture, rilemGF } from './lab/work.js';
+export { compareCurves, readRunCurve, compareTable } from './lab/compare.js';
+export { fitCase } from './lab/fit.js';
+export * as output from './output/index.js';
