@@ -145,7 +145,9 @@ export function displacementFromCmod(run: RunCurve, cmod: ArrayLike<number>): Fl
     const w = cmod[i]!;
     if (n < 2) { out[i] = NaN; continue; }
     if (w < rel.x[0]!) out[i] = rel.y[0]! + slope(0, 1) * (w - rel.x[0]!);
-    else if (w > rel.x[n - 1]!) out[i] = rel.y[n - 1]! + slope(n - 2, n - 1) * (w - rel.x[n - 1]!);
+    // beyond the prediction the halves turn about the hinge: extend along the secant of the
+    // last third of the relation (one noisy last step must not bend it back)
+    else if (w > rel.x[n - 1]!) out[i] = rel.y[n - 1]! + Math.max(0, slope(Math.min(n - 2, Math.floor((2 * n) / 3)), n - 1)) * (w - rel.x[n - 1]!);
     else out[i] = interpAt(rel, w);
   }
   return out;
