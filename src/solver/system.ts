@@ -150,9 +150,25 @@ export class System {
   /** Factorize the free–free block of the current tangent kT. */
   factorTangent(): Factor {
     submatrixInto(this.kT, this.kff);
-    this.factor = factorize(this.kff, this.sym, this.factor ?? undefined);
+    // an unchanged tangent (elastic bulk, intact or unloading interfaces) keeps its factor
+    const v = this.kff.values, last = this.factoredValues;
+    if (this.factor && last) {
+      let same = true;
+      for (let i = 0; i < v.length; i++) if (v[i] !== last[i]) { same = false; break; }
+      if (same) return this.factor;
+    }
+    try {
+      this.factor = factorize(this.kff, this.sym, this.factor ?? undefined);
+    } catch (e) {
+      this.factoredValues = null; // the reused storage is spoilt
+      throw e;
+    }
+    if (!last) this.factoredValues = v.slice(); else last.set(v);
     return this.factor;
   }
+
+  /** The free–free values the current factor was made from. */
+  private factoredValues: Float64Array | null = null;
 
   /** Machine force along the load direction: Σ w·f over the driven dofs. */
   loadForce(f: Float64Array): number {
