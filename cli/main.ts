@@ -27,22 +27,31 @@ program
   .argument('<case>', 'case file (YAML or JSON)')
   .option('--out <dir>', 'output folder (default out/<case name>)')
   .option('--force', 'overwrite an existing output folder')
+  .option('--resume', 'go on with an interrupted run from its last checkpoint (same --out folder)')
   .option('--quiet', 'no progress on stderr')
   .option('--json', 'print the summary as JSON on stdout')
   .option('--export-matrix <file>', 'also write the constrained stiffness matrix (Matrix Market)')
-  .action(async (file: string, o: { out?: string; force?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string }) => {
+  .action(async (file: string, o: { out?: string; force?: boolean; resume?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string }) => {
     const c = loadCase(file);
     const progress = new Progress(!o.quiet, c);
+    // the first signal ends the run after the step in hand, with every file complete; a second one quits at once
     let interrupted = false;
-    const onSignal = () => { interrupted = true; };
+    const onSignal = () => {
+      if (interrupted) process.exit(3);
+      interrupted = true;
+    };
     process.on('SIGINT', onSignal);
     process.on('SIGTERM', onSignal);
     const { dir, result, summary } = await runCase(c, {
-      out: o.out, force: o.force, exportMatrix: o.exportMatrix,
+      out: o.out, force: o.force, resume: o.resume, exportMatrix: o.exportMatrix,
       onStep: (e, t) => progress.step(e.row, t),
       stopRequested: () => interrupted,
     });
+    process.off('SIGINT', onSignal);
+    process.off('SIGTERM', onSignal);
     progress.done();
+    if (result.status === 'stopped') process.stderr.write(`rupta: the run stopped: ${result.reason}\n`);
+    if (result.status === 'interrupted') process.stderr.write(`rupta: ${result.reason}; go on with: rupta run ${file} --out ${dir} --resume\n`);
     if (o.json) process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
     else if (!o.quiet) {
       const p = result.peak;

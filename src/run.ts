@@ -8,6 +8,8 @@ import { generateMesh } from './mesh/generate.js';
 import { Analysis, type AnalysisResult, type Snapshot, type StepEvent } from './fracture/analysis.js';
 import { RunFiles } from './output/runfiles.js';
 import { writeMatrixMarket } from './linalg/mtx.js';
+import { readCheckpoint, removeCheckpoint, writeCheckpoint } from './fracture/checkpoint.js';
+import { InputError } from './errors.js';
 
 export interface RunOptions {
   out?: string;
@@ -15,8 +17,12 @@ export interface RunOptions {
   exportMatrix?: string;
   maxDofs?: number;
   onStep?: (e: StepEvent, elapsed_s: number) => void;
-  /** Polled between steps; true ends the run as interrupted (everything so far is kept). */
+  /** Polled between steps; true ends the run as interrupted (everything so far is kept, and a checkpoint written). */
   stopRequested?: () => boolean;
+  /** Go on from the checkpoint in the output folder (refused when the case has changed). */
+  resume?: boolean;
+  /** Converged steps between checkpoints (default 5; 0: only when interrupted). */
+  checkpointEvery?: number;
 }
 
 export interface RunOutcome { dir: string; result: AnalysisResult; summary: Record<string, unknown> }
@@ -30,10 +36,14 @@ export function meshCase(c: CaseModel): { mesh: PolyMesh; seconds: number } {
 
 export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOutcome> {
   const t0 = performance.now();
+  if (opt.out !== undefined && opt.out.trim() === '') throw new InputError('--out needs the name of a folder (found an empty one)');
   const dir = opt.out ?? join('out', c.name);
-  const files = new RunFiles(dir, c, { force: opt.force });
+  if (opt.resume && opt.force) throw new InputError('--resume goes on with the run in the output folder and --force starts it afresh: give one of them, not both');
+  const resumed = opt.resume ? readCheckpoint(dir, c) : null;
+  const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows });
   const { mesh, seconds } = meshCase(c);
-  const a = new Analysis(c, mesh, { maxDofs: opt.maxDofs });
+  const a = new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
+  if (resumed) a.restore(resumed);
   if (opt.stopRequested) a.stopRequested = opt.stopRequested;
   if (opt.exportMatrix) writeMatrixMarket(a.stiffnessMatrix(), opt.exportMatrix, `rupta: constrained stiffness of ${c.title}`);
   let lastEvent: StepEvent | null = null;
@@ -41,7 +51,9 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
     files.step(e);
     lastEvent = e;
     opt.onStep?.(e, (performance.now() - t0) / 1000);
-  });
+  }, (s) => writeCheckpoint(dir, c, s));
+  // a finished run needs no checkpoint; a stopped or interrupted one keeps its last
+  if (result.status === 'complete') removeCheckpoint(dir);
   const final: Snapshot | null = lastEvent ? (lastEvent as StepEvent).snapshot() : null;
   const summary = await files.finish(result, { meshSeconds: seconds, totalSeconds: (performance.now() - t0) / 1000, initialMesh: mesh, final });
   return { dir, result, summary };

@@ -15,6 +15,7 @@ import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
 import { refineAround, coarsenAway } from './adapt.js';
 import { tipStress, growthDirection, hoopDirection } from './criterion.js';
+import { meshState, restoreMesh, type AnalysisState, type LoopState, type Peak } from './checkpoint.js';
 
 export interface StepRow {
   step: number; control: number; load_N: number; displacement_mm: number; cmod_mm: number | null;
@@ -36,22 +37,24 @@ export interface Snapshot {
 
 export interface StepEvent { row: StepRow; probes: ProbeRow[]; snapshot: () => Snapshot }
 
-interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
+export interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
 /** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
-interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number }
+export interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number }
 
 export interface AnalysisOptions {
   /** Refuse meshes above this many dofs. */
   maxDofs?: number;
   /** Growth events allowed at one control level before the load advances anyway. */
   maxGrowthPerStep?: number;
+  /** Hand the state to run()'s onCheckpoint after every this many converged steps (0: only when interrupted). */
+  checkpointEvery?: number;
 }
 
 export interface AnalysisResult {
   status: 'complete' | 'stopped' | 'interrupted';
   reason: string;
   rows: StepRow[];
-  peak: { load_N: number; displacement_mm: number; cmod_mm: number | null; step: number };
+  peak: Peak;
   crackPaths: [number, number][][];
   dofs: { initial: number; final: number; max: number };
   mesh: { polygons: number; vertices: number };
@@ -88,6 +91,8 @@ export class Analysis {
   private lastProbes: ProbeRow[] = [];
   private readonly fScale: number;
   stopRequested: (() => boolean) | null = null;
+  /** Set by restore(): the loop goes on from here instead of from the unloaded state. */
+  private resumeAt: LoopState | null = null;
   /** Every growth event: tip index, position, chosen direction and whether it was the kink out of the start. */
   readonly growthLog: { tip: number; x: number; y: number; dx: number; dy: number; first: boolean; sxx: number; syy: number; sxy: number }[] = [];
 
@@ -243,7 +248,7 @@ export class Analysis {
     }
     this.solveTime += performance.now() - t0;
     this.iterations += r.iterations;
-    if (!r.converged) return { ok: false, reason: r.reason };
+    if (!r.converged) return { ok: false, reason: r.reason === 'non-finite residual' ? this.nonFinitePlace() : r.reason };
     this.uf.set(st.uf); this.lambda = st.lambda;
     // carry the solution to the stable vertex ids
     const u = this.work.u, vo = this.compact.vertexOf;
@@ -252,6 +257,18 @@ export class Analysis {
     this.W += 0.5 * (F + this.lastF) * (this.lambda - this.lastLambda);
     this.lastF = F; this.lastLambda = this.lambda;
     return { ok: true, reason: '' };
+  }
+
+  /** Which value of the last equilibrium evaluation is NaN or infinite, and where. */
+  private nonFinitePlace(): string {
+    const u = this.work.u, f = this.work.f, xy = this.sys.mesh.xy;
+    for (let i = 0; i < u.length; i++) {
+      const bad = !Number.isFinite(u[i]) ? ['displacement', u[i]] as const : !Number.isFinite(f[i]) ? ['internal force', f[i]] as const : null;
+      if (!bad) continue;
+      const v = i >> 1;
+      return `the ${bad[0]} ${i & 1 ? 'uy' : 'ux'} became ${bad[1]} at the vertex near [${xy[2 * v].toFixed(2)}, ${xy[2 * v + 1].toFixed(2)}] mm`;
+    }
+    return `the control equation (${this.c.control.by}) became NaN or infinite`;
   }
 
   /** Largest softening of any cohesive point in the trial state, as a fraction of ft; the
@@ -490,6 +507,10 @@ export class Analysis {
       external_work_Nmm: this.W, elastic_energy_Nmm: en.elastic, dissipated_Nmm: en.dissipated,
       iterations: this.iterations,
     };
+    // a NaN is stopped where it first shows, before it reaches a file
+    for (const [k, v] of Object.entries(row)) {
+      if (typeof v === 'number' && !Number.isFinite(v)) throw new RunStopped(`step ${step}: the ${k} came out as ${v} at ${this.c.control.by} ${control.toPrecision(4)}`);
+    }
     this.iterations = 0;
     this.rows.push(row);
     const m = this.sys.mesh, u = this.work.u.slice();
@@ -543,66 +564,108 @@ export class Analysis {
   /** Free dofs of the current mesh. */
   get freeDofs(): number { if (this.dirty) this.rebuild(); return this.sys.nFree; }
 
-  /** Run the whole analysis; onStep sees every converged step (step 0 is the unloaded state). */
-  async run(onStep: (e: StepEvent) => void | Promise<void>): Promise<AnalysisResult> {
+  /** Everything the loop needs to go on from `at` (deep copies: the run may go on at once). */
+  state(at: LoopState): AnalysisState {
+    const copy = <T>(v: T): T => structuredClone(v);
+    return {
+      mesh: meshState(this.wm), cracks: copy(this.cracks), tips: copy(this.tips),
+      kappa: [...this.kappa.entries()],
+      uw: this.uw.slice(), lambda: this.lambda, W: this.W, lastF: this.lastF, lastLambda: this.lastLambda,
+      loop: copy(at), rows: copy(this.rows), lastProbes: copy(this.lastProbes), dofs: { ...this.dofs },
+      growthLog: copy(this.growthLog), solveTime: this.solveTime,
+    };
+  }
+
+  /** Take over a saved state; run() then goes on from its step without recording step 0 again. */
+  restore(s: AnalysisState): void {
+    restoreMesh(this.wm, s.mesh);
+    this.cracks.splice(0, this.cracks.length, ...s.cracks);
+    this.tips.splice(0, this.tips.length, ...s.tips);
+    this.kappa.clear();
+    for (const [v, k] of s.kappa) this.kappa.set(v, k);
+    this.uw = s.uw; this.lambda = s.lambda; this.W = s.W; this.lastF = s.lastF; this.lastLambda = s.lastLambda;
+    this.rows.splice(0, this.rows.length, ...s.rows);
+    this.lastProbes = s.lastProbes;
+    Object.assign(this.dofs, s.dofs);
+    this.growthLog.splice(0, this.growthLog.length, ...s.growthLog);
+    this.solveTime = s.solveTime;
+    this.iterations = 0;
+    this.resumeAt = structuredClone(s.loop);
+    this.dirty = true;
+  }
+
+  /**
+   * Run the whole analysis; onStep sees every converged step (step 0 is the unloaded state),
+   * onCheckpoint the state every `checkpointEvery` steps and when a stop is requested. The
+   * loop position is explicit (LoopState) and only changes between steps, so a run restored
+   * from a checkpoint repeats exactly what the uninterrupted run did after it.
+   */
+  async run(onStep: (e: StepEvent) => void | Promise<void>, onCheckpoint?: (s: AnalysisState) => void | Promise<void>): Promise<AnalysisResult> {
     const c = this.c, ctl = c.control;
     const elastic = !c.crack;
-    this.rebuild();
-    await onStep(this.record(0, 0));
     let status: AnalysisResult['status'] = 'complete', reason = '';
     const nInc = elastic ? 1 : ctl.increments;
-    let done = 0; // control level reached so far
     const full = ctl.target;
-    let peak = { load_N: 0, displacement_mm: 0, cmod_mm: null as number | null, step: 0 };
-    let step = 0;
     const maxGrowth = this.opt.maxGrowthPerStep ?? 60;
+    const every = this.opt.checkpointEvery ?? 0;
+    const at: LoopState = this.resumeAt ?? { inc: 1, frac: 1, done: 0, step: 0, peak: { load_N: 0, displacement_mm: 0, cmod_mm: null, step: 0 } };
+    // the state after the last converged step: attempts since then have all been undone
+    let mark: LoopState = structuredClone(at);
     try {
-      outer: for (let inc = 1; inc <= nInc; inc++) {
-        const goal = full * inc / nInc;
-        // advance to goal, cutting the increment when Newton fails
-        let frac = 1;
-        while (done < goal - 1e-12 * Math.abs(full)) {
-          if (this.stopRequested?.()) { status = 'interrupted'; reason = 'interrupted by a signal'; break outer; }
-          const target = done + Math.min(frac * (goal - done), goal - done);
-          if (this.dirty) this.rebuild();
-          const saved = this.saveState();
-          const r = this.solveAt(target);
-          // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
-          // and a tip may not be taken far beyond ft before it grows
-          if (r.ok && !elastic && frac > 1 / 64 && (this.softeningJump() > 0.05 || this.tipOvershoot() > 1.05)) {
-            this.restoreState(saved);
-            frac /= 2;
-            continue;
+      this.rebuild();
+      if (!this.resumeAt) await onStep(this.record(0, 0));
+      this.resumeAt = null;
+      outer: while (at.inc <= nInc) {
+        const goal = full * at.inc / nInc;
+        if (!(at.done < goal - 1e-12 * Math.abs(full))) { at.inc++; at.frac = 1; continue; }
+        // let signal handlers run between attempts
+        if (this.stopRequested) await new Promise<void>((r) => setImmediate(r));
+        if (this.stopRequested?.()) {
+          status = 'interrupted'; reason = `interrupted by a signal after step ${mark.step}`;
+          await onCheckpoint?.(this.state(mark));
+          break;
+        }
+        const target = at.done + Math.min(at.frac * (goal - at.done), goal - at.done);
+        if (this.dirty) this.rebuild();
+        const saved = this.saveState();
+        const r = this.solveAt(target);
+        // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
+        // and a tip may not be taken far beyond ft before it grows
+        if (r.ok && !elastic && at.frac > 1 / 64 && (this.softeningJump() > 0.05 || this.tipOvershoot() > 1.05)) {
+          this.restoreState(saved);
+          at.frac /= 2;
+          continue;
+        }
+        if (!r.ok) {
+          at.frac /= 2;
+          if (at.frac < 1 / 64) {
+            if (ctl.by === 'force' && at.peak.load_N > 0) { reason = `the load cannot be raised above ${at.peak.load_N.toFixed(1)} N under force control (peak reached)`; break outer; }
+            throw new RunStopped(`step ${at.step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
           }
-          if (!r.ok) {
-            frac /= 2;
-            if (frac < 1 / 64) {
-              if (ctl.by === 'force' && peak.load_N > 0) { reason = `the load cannot be raised above ${peak.load_N.toFixed(1)} N under force control (peak reached)`; break outer; }
-              throw new RunStopped(`step ${step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
-            }
-            continue;
-          }
-          // staggered growth at this control level
-          if (!elastic) {
-            for (let g = 0; g < maxGrowth; g++) {
-              if (this.grow() === 0) break;
-              const rr = this.solveAt(target);
-              if (!rr.ok && this.separated()) { reason = 'the crack has run through the specimen, which has come apart'; break outer; }
-              if (!rr.ok) throw new RunStopped(`step ${step + 1} did not converge after the crack grew at ${ctl.by} ${target.toPrecision(4)}: ${rr.reason}`);
-            }
-          }
-          this.commit();
-          done = target;
-          step++;
-          const ev = this.record(step, target);
-          if (Math.abs(ev.row.load_N) > Math.abs(peak.load_N)) peak = { load_N: ev.row.load_N, displacement_mm: ev.row.displacement_mm, cmod_mm: ev.row.cmod_mm, step };
-          await onStep(ev);
-          if (frac < 1) frac = Math.min(1, frac * 2);
-          if (!elastic && ctl.stopAtLoadFraction > 0 && step > peak.step && Math.abs(ev.row.load_N) <= ctl.stopAtLoadFraction * Math.abs(peak.load_N)) {
-            reason = `the load fell to ${(100 * ctl.stopAtLoadFraction).toFixed(1)} % of the peak`;
-            break outer;
+          continue;
+        }
+        // staggered growth at this control level
+        if (!elastic) {
+          for (let g = 0; g < maxGrowth; g++) {
+            if (this.grow() === 0) break;
+            const rr = this.solveAt(target);
+            if (!rr.ok && this.separated()) { reason = 'the crack has run through the specimen, which has come apart'; break outer; }
+            if (!rr.ok) throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew at ${ctl.by} ${target.toPrecision(4)}: ${rr.reason}`);
           }
         }
+        this.commit();
+        at.done = target;
+        at.step++;
+        const ev = this.record(at.step, target);
+        if (Math.abs(ev.row.load_N) > Math.abs(at.peak.load_N)) at.peak = { load_N: ev.row.load_N, displacement_mm: ev.row.displacement_mm, cmod_mm: ev.row.cmod_mm, step: at.step };
+        await onStep(ev);
+        if (at.frac < 1) at.frac = Math.min(1, at.frac * 2);
+        if (!elastic && ctl.stopAtLoadFraction > 0 && at.step > at.peak.step && Math.abs(ev.row.load_N) <= ctl.stopAtLoadFraction * Math.abs(at.peak.load_N)) {
+          reason = `the load fell to ${(100 * ctl.stopAtLoadFraction).toFixed(1)} % of the peak`;
+          break outer;
+        }
+        mark = structuredClone(at);
+        if (every > 0 && at.step % every === 0) await onCheckpoint?.(this.state(at));
       }
       if (!reason) reason = elastic ? 'elastic analysis at the control target' : 'control target reached';
     } catch (e) {
@@ -610,7 +673,7 @@ export class Analysis {
       status = 'stopped'; reason = e.message;
     }
     return {
-      status, reason, rows: this.rows, peak,
+      status, reason, rows: this.rows, peak: at.peak,
       crackPaths: this.cracks.filter((k) => k.kind === 'cohesive').map((k) => k.path.map((v) => [this.wm.x[v], this.wm.y[v]] as [number, number])),
       dofs: this.dofs,
       mesh: { polygons: this.compact.mesh.cellStart.length - 1, vertices: this.compact.vertexOf.length },

@@ -1,12 +1,12 @@
 // The files of one run: curve and probe tables that grow row by row, a frame per step,
 // and at the end the summary, the curve plots, the mesh and the field pictures.
-import { existsSync, readdirSync, rmSync } from 'node:fs';
+import { existsSync, readFileSync, readdirSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { AnalysisResult, Snapshot, StepEvent, StepRow } from '../fracture/analysis.js';
 import { InputError } from '../errors.js';
-import { RowWriter, ensureDir, writeFileAtomic } from './files.js';
+import { RowWriter, csvCell, ensureDir, writeFileAtomic } from './files.js';
 import { fieldSvg, meshSvg, type FieldPicture } from './field.js';
 import { plotPanelsSvg, plotSvg, type PlotOptions, type Series } from './plot.js';
 import { svgToPng, framesToAnimation } from './png.js';
@@ -17,7 +17,37 @@ import { writeReport, type FrameFile } from './report.js';
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
 
-export interface RunFilesOptions { force?: boolean; resume?: boolean }
+export interface RunFilesOptions {
+  force?: boolean;
+  /** Go on with the run in the folder: the rows of its checkpoint (the tables are cut back to its last step). */
+  resume?: StepRow[];
+}
+
+/** Files of one step in frames/ and vtk/ (the only ones --force and a resume delete). */
+const STEP_FILE = /^step-(\d{4,})\.(svg|png|vtu)$/;
+
+const curveCells = (r: StepRow) => [r.step, r.control, r.load_N, r.displacement_mm, r.cmod_mm, r.crack_length_mm, r.tip_x_mm, r.tip_y_mm,
+  r.external_work_Nmm, r.elastic_energy_Nmm, r.dissipated_Nmm, r.iterations];
+
+/** Remove the step files of a run's sub-folder after step `after` (all of them for −1); nothing else in it is touched. */
+function removeStepFiles(dir: string, after: number): void {
+  if (!existsSync(dir)) return;
+  for (const f of readdirSync(dir)) {
+    const m = STEP_FILE.exec(f);
+    if (m && Number(m[1]) > after) rmSync(join(dir, f), { force: true });
+  }
+}
+
+/** Complete lines of a table whose first cell (the step) is at most `last`, header first. */
+function tableUpTo(path: string, header: string, last: number): string {
+  let out = header + '\n';
+  if (!existsSync(path)) return out;
+  const text = readFileSync(path, 'utf8');
+  const lines = text.split('\n');
+  lines.pop(); // the part after the last newline is not a whole row
+  for (let i = 1; i < lines.length; i++) if (Number(lines[i].slice(0, lines[i].indexOf(','))) <= last) out += lines[i] + '\n';
+  return out;
+}
 
 /** Symbols of the supports and loads for pictures. */
 export function specimenSymbols(c: CaseModel): Pick<FieldPicture, 'supports' | 'loads'> {
@@ -64,24 +94,61 @@ export class RunFiles {
   readonly framesDir: string;
 
   constructor(readonly dir: string, readonly c: CaseModel, opt: RunFilesOptions = {}) {
-    if (existsSync(dir) && readdirSync(dir).length > 0 && !opt.force && !opt.resume) {
-      throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it or --out to choose another folder`);
+    const resume = opt.resume ?? null;
+    if (existsSync(dir) && readdirSync(dir).length > 0 && !opt.force && !resume) {
+      throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
-    if (opt.force && existsSync(join(dir, 'frames'))) rmSync(join(dir, 'frames'), { recursive: true, force: true });
-    if (opt.force && existsSync(join(dir, 'vtk'))) rmSync(join(dir, 'vtk'), { recursive: true, force: true });
-    ensureDir(dir);
     this.framesDir = join(dir, 'frames');
+    const last = resume ? resume[resume.length - 1]?.step ?? -1 : -1;
+    // an overwritten run loses its step files and checkpoint; a resumed one those after its checkpoint
+    if (opt.force || resume) {
+      removeStepFiles(this.framesDir, last);
+      removeStepFiles(join(dir, 'vtk'), last);
+    }
+    if (opt.force && !resume) {
+      rmSync(join(dir, 'checkpoint.json'), { force: true });
+      rmSync(join(dir, 'vtk', 'steps.pvd'), { force: true });
+    }
+    ensureDir(dir);
     if (c.crack && c.output.frames.length > 0) ensureDir(this.framesDir);
-    this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: opt.resume });
-    this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: opt.resume });
-    if (c.output.vtk) this.vtk = new VtkSeries(join(dir, 'vtk'));
+    if (resume) {
+      // the tables as they stood at the checkpoint; the rows after it are computed again
+      writeFileAtomic(join(dir, 'curve.csv'), CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
+      writeFileAtomic(join(dir, 'probes.csv'), tableUpTo(join(dir, 'probes.csv'), PROBE_HEADER, last));
+      this.seedFrames(resume);
+    }
+    this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
+    this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
+    if (c.output.vtk) {
+      this.vtk = new VtkSeries(join(dir, 'vtk'));
+      if (resume) {
+        // the collection file lists the steps already written
+        const kept = resume.filter((r) => existsSync(join(dir, 'vtk', `step-${String(r.step).padStart(4, '0')}.vtu`)))
+          .map((r) => ({ step: r.step, file: `step-${String(r.step).padStart(4, '0')}.vtu` }));
+        (this.vtk as unknown as { entries: { step: number; file: string }[] }).entries = kept;
+      }
+    }
+  }
+
+  /** Rows, frames and PNG list of the steps before a resume, as the uninterrupted run had them. */
+  private seedFrames(rows: StepRow[]): void {
+    this.rows = rows.slice();
+    const o = this.c.output;
+    if (!this.c.crack || o.frames.length === 0) return;
+    for (const r of rows) {
+      if (r.step % o.every !== 0) continue;
+      const name = join(this.framesDir, `step-${String(r.step).padStart(4, '0')}`);
+      const frame: FrameFile = { step: r.step };
+      if (o.frames.includes('svg') && existsSync(`${name}.svg`)) frame.svg = `${name}.svg`;
+      if (o.frames.includes('png') && existsSync(`${name}.png`)) { frame.png = `${name}.png`; this.framePngs.push(frame.png); }
+      if (frame.svg || frame.png) this.frames.push(frame);
+    }
   }
 
   /** Rows at once; the frame is drawn now and rasterised in the background. */
   step(ev: StepEvent): void {
     const r = ev.row;
-    this.curve.append([r.step, r.control, r.load_N, r.displacement_mm, r.cmod_mm, r.crack_length_mm, r.tip_x_mm, r.tip_y_mm,
-      r.external_work_Nmm, r.elastic_energy_Nmm, r.dissipated_Nmm, r.iterations]);
+    this.curve.append(curveCells(r));
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
     this.rows.push(r);
     const o = this.c.output;

@@ -2,7 +2,7 @@
 // ceramic bend bar (three-point bending with a sharp notch and fine tip cells).
 import type { Vec2 } from '../case/model.js';
 import {
-  materialOf, meshFor, mouthTarget, nominalStrength, num, optionLine, pt, q, str, travelTarget,
+  criticalOpening, materialOf, meshFor, mouthTarget, nominalStrength, num, optionLine, pt, q, sig2, str, travelTarget,
 } from './common.js';
 import { fmt, length, materialOption, meshOptions, need, softeningOption, titleOption, withDefaults } from './options.js';
 import type { Template, TemplateOption, Values } from './types.js';
@@ -71,9 +71,10 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
       'load points mirrored on the top face. No rigid-body motion is left.',
     ];
     loadsNote = [
-      'Both load points are driven down together; with the supports mirrored this shares the',
-      `load between them about ${q(s / c)} : 1, as a spreader beam would, and leaves nearly no`,
-      'bending moment at the notch, so the crack leaves the notch at an angle and curves.',
+      'Both load points are driven down together, by the same travel: the ligament carries',
+      'much shear and little bending, so the crack leaves the notch at an angle and curves.',
+      'A rigid loading beam that cannot tilt is stiffer than a pivoted spreader: the load keeps',
+      'rising while the crack grows, so the run ends as the crack nears the top face.',
     ];
     probes.push({ name: 'inner-load-point', at: pt(m - c, D) });
   } else {
@@ -113,7 +114,10 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
   const byCmod = notched && kind !== 'shear';
   const control: CaseSpec['control'] = byCmod
     ? { by: 'cmod', gauge: gauge!, target: mouthTarget(mat, D, a), targetNote: 'mm of mouth opening at the end of the run', increments: 100 }
-    : { by: 'displacement', ...(gauge ? { gauge } : {}), target: travelTarget(mat, elasticTravel), targetNote: 'mm of load-point travel at the end of the run', increments: 100 };
+    : kind === 'shear'
+      // about one critical opening of travel takes the crack most of the way up (measured on the defaults)
+      ? { by: 'displacement', ...(gauge ? { gauge } : {}), target: sig2(criticalOpening(mat)), targetNote: 'mm of load-point travel at the end of the run', increments: 60 }
+      : { by: 'displacement', ...(gauge ? { gauge } : {}), target: travelTarget(mat, elasticTravel), targetNote: 'mm of load-point travel at the end of the run', increments: 100 };
   const controlNote = byCmod
     ? ['Crack-mouth opening control: a clip gauge across the notch mouth keeps the test', 'stable past the peak load.']
     : kind === 'shear' && notched

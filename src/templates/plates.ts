@@ -1,7 +1,7 @@
 // Plate specimens: wedge splitting, compact tension, the L-shaped panel and the
 // double-edge-notched tension panel.
 import type { Vec2 } from '../case/model.js';
-import { materialOf, meshFor, mouthTarget, nominalStrength, num, optionLine, pt, q, str, travelTarget } from './common.js';
+import { criticalOpening, materialOf, meshFor, mouthTarget, nominalStrength, num, optionLine, pt, q, sig2, str, travelTarget } from './common.js';
 import { fmt, length, materialOption, meshOptions, need, softeningOption, titleOption, withDefaults } from './options.js';
 import type { Template, TemplateOption, Values } from './types.js';
 import { caseText, meshNote, type CaseSpec } from './write.js';
@@ -197,7 +197,7 @@ export const denTension = template('den-tension',
     length('height', 200, 'panel height'),
     length('thickness', 50, 'panel thickness, out of plane'),
     length('notch-depth', 25, 'depth of each edge notch'),
-    length('notch-width', 5, 'width of the notches (0: sharp slits)', 0),
+    length('notch-width', 0, 'width of the notches (0: sharp slits)', 0),
     ...tail('concrete-normal', 'Double-edge-notched tension panel, demo mix'),
   ],
   (tpl, v) => {
@@ -206,7 +206,8 @@ export const denTension = template('den-tension',
     need(tpl, 'notch-depth', a, W / 100, 0.4 * W, 'mm', `for a width of ${fmt(W)} mm`);
     need(tpl, 'notch-width', nw, 0, H / 10, 'mm', `for a height of ${fmt(H)} mm`);
     const mat = materialOf(v);
-    const mesh = meshFor(tpl, v, Math.min(W, H) / 20, Math.min(W, H) / 100, mat, Math.min(W, H) / 4, `for a ${fmt(W)} x ${fmt(H)} mm panel`);
+    // sharp slits and tip cells of W/50 by default: blunt 5 mm notches with 2 mm cells stopped unconverged just past the peak
+    const mesh = meshFor(tpl, v, Math.min(W, H) / 20, Math.min(W, H) / 50, mat, Math.min(W, H) / 4, `for a ${fmt(W)} x ${fmt(H)} mm panel`);
     const yc = q(H / 2), gh = nw > 0 ? nw / 2 : Math.max(mesh.tipSize, H / 100);
     return {
       about: ['Double-edge-notched panel in tension: the bottom edge is held, the top edge is pulled',
@@ -278,8 +279,10 @@ export const discSplitting = template('disc-splitting',
       supports: [{ along: [pt(R - b / 2, bottom), pt(R + b / 2, bottom)], fix: 'xy', width: 0, note: 'lower bearing strip' }],
       loadsNote: [`The machine presses the upper bearing strip, ${fmt(b)} mm wide, down.`],
       loads: [{ at: pt(R, top), direction: [0, -1], width: b, note: 'upper bearing strip' }],
-      controlNote: ['Control by the lateral opening of the disc across its horizontal diameter,', 'which keeps growing past the peak load while the load drops.'],
-      control: { by: 'cmod', gauge: { from: pt(0, R), to: pt(D, R), note: 'ends of the horizontal diameter' }, target: mouthTarget(mat, D, D / 5), targetNote: 'mm of lateral opening at the end of the run', increments: 100 },
+      controlNote: ['Control by the lateral opening of the disc across its horizontal diameter,', 'which keeps growing past the peak load while the load drops. Once split, each half',
+        'is held between the strips and takes up load again (no second crack starts), so the',
+        'run ends at a third of the critical opening of the softening law.'],
+      control: { by: 'cmod', gauge: { from: pt(0, R), to: pt(D, R), note: 'ends of the horizontal diameter' }, target: sig2(criticalOpening(mat) / 3), targetNote: 'mm of lateral opening at the end of the run', increments: 60 },
       crackNote: ['No notch: a crack starts wherever the averaged principal stress first reaches ft.'],
       crackStart: 'anywhere', crackStartNote: 'the most stressed point',
       mesh, meshNote: meshNote(mesh, 'crack tips'),
