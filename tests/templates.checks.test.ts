@@ -50,21 +50,23 @@ describe('disc-splitting', () => {
     expect(Math.abs(centre.sxx_MPa / split - 1), `sxx ${centre.sxx_MPa} MPa, 2P/(πDt) ${split} MPa`).toBeLessThan(0.03);
   }, SLOW);
 
-  // A disc splits along its loaded diameter (common practice); tip cells of 3 mm.
+  // A disc splits along its loaded diameter (common practice); tip cells of 3 mm, the path
+  // measured within 3.6 mm of the diameter, checked within 5 mm.
   it('the crack starts inside and runs along the loaded diameter', async () => {
-    const c = templateCase('disc-splitting', { 'mesh-size': 15, 'tip-size': 3 }, shortRun(0.05, 10));
+    const c = templateCase('disc-splitting', { 'mesh-size': 15, 'tip-size': 3 }, shortRun(0.6, 10));
     const { res } = await run(c);
     expect(res.status, res.reason).toBe('complete');
     const pts = res.crackPaths.flat();
     const ys = pts.map((p) => p[1]);
     expect(Math.min(...ys), path(res)).toBeLessThan(40);
     expect(Math.max(...ys), path(res)).toBeGreaterThan(110);
-    for (const [x, y] of pts) expect(Math.abs(x - 75), `point (${x}, ${y})`).toBeLessThan(4);
+    for (const [x, y] of pts) expect(Math.abs(x - 75), `point (${x}, ${y})`).toBeLessThan(5);
   }, SLOW);
 });
 
 // A symmetric specimen under a symmetric load cracks on its plane of symmetry (common
-// practice); tip cells of 4 mm, the crack followed past 70 % of the depth.
+// practice); tip cells of 4 mm, the crack followed past 70 % of the depth (measured within
+// 2.4 mm of the plane on the three-point beam, 1.4 mm on the four-point beam).
 describe.each([
   ['beam-3pb', 220, 0.2],
   ['beam-4pb', 250, 0.2],
@@ -105,7 +107,7 @@ describe('beam-4p-shear', () => {
   // Little bending and much shear at the notch: the crack kinks out of the notch instead of
   // running straight up (common practice).
   it('the crack leaves the notch more than 15° off the notch direction', async () => {
-    const c = templateCase('beam-4p-shear', { 'mesh-size': 20, 'tip-size': 4 }, shortRun(0.1, 10));
+    const c = templateCase('beam-4p-shear', { 'mesh-size': 20, 'tip-size': 4 }, shortRun(0.8, 10));
     const { res, a } = await run(c);
     expect(res.status, res.reason).toBe('complete');
     const first = a.growthLog.find((g) => g.first)!;

@@ -43,7 +43,8 @@ export const wedgeSplitting = template('wedge-splitting',
     need(tpl, 'load-line', ll, bw / 2 + gd / 100, gd - bw / 2 - gd / 100, 'mm', `for a groove-depth of ${fmt(gd)} mm and a bearing-width of ${fmt(bw)} mm`);
     need(tpl, 'support-width', sw, W / 50, W / 2, 'mm', `for a width of ${fmt(W)} mm`);
     const mat = materialOf(v);
-    const mesh = meshFor(tpl, v, Math.min(W, H) / 20, Math.min(W, H) / 100, mat, Math.min(W, H) / 4, `for a ${fmt(W)} x ${fmt(H)} mm specimen`);
+    // tip cells of a sixtieth of the smaller side (3 mm by default): much faster than 2 mm, peak within 0.3 % (measured)
+    const mesh = meshFor(tpl, v, Math.min(W, H) / 20, Math.min(W, H) / 60, mat, Math.min(W, H) / 4, `for a ${fmt(W)} x ${fmt(H)} mm specimen`);
     const c = q(W / 2), g = gw / 2, yl = H - ll;
     const left = pt(c - g, yl), right = pt(c + g, yl);
     return {
