@@ -133,8 +133,20 @@ export function buildDomain(c: CaseModel): Domain {
       let hm = Infinity;
       for (let k = 0; k < 32; k++) hm = Math.min(hm, h(cx + r * Math.cos(k * Math.PI / 16), cy + r * Math.sin(k * Math.PI / 16)));
       const m = Math.max(16, Math.ceil(2 * Math.PI * r / hm));
-      const ring: [number, number][] = [];
-      for (let k = 0; k <= m; k++) { const a = (2 * Math.PI * (k % m)) / m; ring.push([cx + r * Math.cos(a), cy + r * Math.sin(a)]); }
+      // named points on the circle (pins, gauges, probes) become corners of its polygon,
+      // so they lie on the meshed boundary and not a sagitta away from it
+      const angles: number[] = [];
+      for (let k = 0; k < m; k++) angles.push((2 * Math.PI * k) / m);
+      for (const p of raw) {
+        if (Math.abs(Math.hypot(p[0] - cx, p[1] - cy) - r) > 1e-6 * r) continue;
+        let a = Math.atan2(p[1] - cy, p[0] - cx);
+        if (a < 0) a += 2 * Math.PI;
+        const step = (2 * Math.PI) / m, k = Math.round(a / step) % m;
+        if (Math.abs(a - k * step) < 0.25 * step || Math.abs(a - k * step - 2 * Math.PI) < 0.25 * step) angles[k] = a; else angles.push(a);
+      }
+      angles.sort((a, b) => a - b);
+      const ring: [number, number][] = angles.map((a) => [cx + r * Math.cos(a), cy + r * Math.sin(a)]);
+      ring.push([ring[0][0], ring[0][1]]);
       cut.push([ring]);
     } else {
       const ring = hole.points.map(p => [p[0], p[1]] as [number, number]);
