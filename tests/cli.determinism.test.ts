@@ -1,26 +1,14 @@
 // Same case, same seed: byte-identical curve.csv through the command line; another mesh
 // seed gives another mesh and so another curve (common practice for seeded meshers).
-import { execFile, execFileSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse, stringify } from 'yaml';
+import { CLI, ROOT, rupta, ensureBuilt, type Ran } from './support/cli.js';
 
-const ROOT = fileURLToPath(new URL('..', import.meta.url));
-const CLI = join(ROOT, 'cli', 'rupta.mjs');
 
-interface Ran { code: number; stdout: string; stderr: string }
 
-function rupta(args: string[], cwd: string): Promise<Ran> {
-  return new Promise((resolve) => {
-    execFile(process.execPath, [CLI, ...args], { cwd, timeout: 120_000 }, (err, stdout, stderr) => {
-      const code = err ? (typeof err.code === 'number' ? err.code : -1) : 0;
-      resolve({ code, stdout: String(stdout), stderr: String(stderr) });
-    });
-  });
-}
 
 /** The demo beam made coarse and short, so that a whole run takes a second or two. */
 function tinyCase(seed: number): string {
@@ -35,7 +23,7 @@ function tinyCase(seed: number): string {
 let dir = '';
 
 beforeAll(() => {
-  if (!existsSync(join(ROOT, '.build', 'cli', 'main.js'))) execFileSync('npx', ['tsc', '-p', '.'], { cwd: ROOT, stdio: 'ignore' });
+  ensureBuilt();
   dir = mkdtempSync(join(tmpdir(), 'rupta-cli-determinism-'));
   writeFileSync(join(dir, 'tiny.yaml'), tinyCase(1));
   writeFileSync(join(dir, 'tiny-seed2.yaml'), tinyCase(2));

@@ -1,27 +1,15 @@
 // Bad case files and bad command lines through the real command line: one sentence on
 // stderr, exit code 2, never a stack trace.
-import { execFile, execFileSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse, stringify } from 'yaml';
+import { CLI, ROOT, rupta, ensureBuilt, type Ran } from './support/cli.js';
 
-const ROOT = fileURLToPath(new URL('..', import.meta.url));
-const CLI = join(ROOT, 'cli', 'rupta.mjs');
 const demoText = readFileSync(join(ROOT, 'cases', 'beam-3pb-demo.yaml'), 'utf8');
 
-interface Ran { code: number; stdout: string; stderr: string }
 
-function rupta(args: string[], cwd: string): Promise<Ran> {
-  return new Promise((resolve) => {
-    execFile(process.execPath, [CLI, ...args], { cwd, timeout: 60_000, env: { ...process.env, RUPTA_DEBUG: '' } }, (err, stdout, stderr) => {
-      const code = err ? (typeof err.code === 'number' ? err.code : -1) : 0;
-      resolve({ code, stdout: String(stdout), stderr: String(stderr) });
-    });
-  });
-}
 
 /** Runs the jobs two at a time (the machine has two cores), results in input order. */
 async function pool<T, R>(items: readonly T[], job: (t: T) => Promise<R>, width = 2): Promise<R[]> {
@@ -145,9 +133,7 @@ const rows: Row[] = [
 let dir = '';
 
 beforeAll(() => {
-  if (!existsSync(join(ROOT, '.build', 'cli', 'main.js')) || !existsSync(join(ROOT, '.build', 'cli', 'new.js'))) {
-    execFileSync('npx', ['tsc', '-p', '.'], { cwd: ROOT, stdio: 'ignore' });
-  }
+  ensureBuilt();
   dir = mkdtempSync(join(tmpdir(), 'rupta-cli-errors-'));
   writeFileSync(join(dir, 'good.yaml'), demoText);
   mkdirSync(join(dir, 'folder.yaml'));

@@ -1,10 +1,8 @@
 // `rupta new`: every template writes a case that `rupta check` accepts; the option words
 // are read as the user means them; files are not overwritten without --force.
-import { execFile, execFileSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseNewArgs } from '../cli/new.js';
 import { loadCase } from '../src/case/index.js';
@@ -13,27 +11,15 @@ import { Analysis } from '../src/fracture/analysis.js';
 import { meshStats } from '../src/mesh/stats.js';
 import { meshCase } from '../src/run.js';
 import { renderTemplate, templates } from '../src/templates/index.js';
+import { CLI, ROOT, rupta, ensureBuilt, type Ran } from './support/cli.js';
 
-const ROOT = fileURLToPath(new URL('..', import.meta.url));
-const CLI = join(ROOT, 'cli', 'rupta.mjs');
 
-interface Ran { code: number; stdout: string; stderr: string }
 
-function rupta(args: string[], cwd: string): Promise<Ran> {
-  return new Promise((resolve) => {
-    execFile(process.execPath, [CLI, ...args], { cwd, timeout: 60_000 }, (err, stdout, stderr) => {
-      const code = err ? (typeof err.code === 'number' ? err.code : -1) : 0;
-      resolve({ code, stdout: String(stdout), stderr: String(stderr) });
-    });
-  });
-}
 
 let dir = '';
 
 beforeAll(() => {
-  if (!existsSync(join(ROOT, '.build', 'cli', 'main.js')) || !existsSync(join(ROOT, '.build', 'cli', 'new.js'))) {
-    execFileSync('npx', ['tsc', '-p', '.'], { cwd: ROOT, stdio: 'ignore' });
-  }
+  ensureBuilt();
   dir = mkdtempSync(join(tmpdir(), 'rupta-cli-new-'));
 }, 120_000);
 

@@ -1,28 +1,19 @@
 // A run that cannot go on stops cleanly: status "stopped" with the step and the control
 // level in the reason, exit 3, and every file complete up to the last converged step.
 // SIGTERM ends a run like SIGINT does. Common practice for long-running solvers.
-import { execFile, execFileSync, spawn } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse, stringify } from 'yaml';
 import { CURVE_HEADER } from '../src/output/runfiles.js';
+import { CLI, ROOT, rupta, ensureBuilt, type Ran } from './support/cli.js';
 
-const ROOT = fileURLToPath(new URL('..', import.meta.url));
-const CLI = join(ROOT, 'cli', 'rupta.mjs');
 
-interface Ran { code: number; stdout: string; stderr: string }
 
-function rupta(args: string[]): Promise<Ran> {
-  return new Promise((resolve) => {
-    execFile(process.execPath, [CLI, ...args], { cwd: dir, timeout: 60_000 }, (err, stdout, stderr) => {
-      const code = err ? (typeof err.code === 'number' ? err.code : -1) : 0;
-      resolve({ code, stdout: String(stdout), stderr: String(stderr) });
-    });
-  });
-}
+/** The command line, run in this file's temporary folder. */
+const run = (args: string[]): Promise<Ran> => rupta(args, dir, 60_000);
 
 function smallCase(change: (c: Record<string, any>) => void): string {
   const c = parse(readFileSync(join(ROOT, 'cases', 'beam-3pb-demo.yaml'), 'utf8')) as Record<string, any>;
@@ -39,7 +30,7 @@ const read = (...p: string[]) => readFileSync(join(dir, ...p), 'utf8');
 const rowsOf = (csv: string) => csv.trimEnd().split('\n').slice(1);
 
 beforeAll(() => {
-  if (!existsSync(join(ROOT, '.build', 'cli', 'main.js'))) execFileSync('npx', ['tsc', '-p', '.'], { cwd: ROOT, stdio: 'ignore' });
+  ensureBuilt();
   dir = mkdtempSync(join(tmpdir(), 'rupta-robust-divergence-'));
   // A clip gauge across the bottom face 20–40 mm beside the notch: once the crack opens, the
   // beam beside it unloads and that gauge closes, so no load can make it open further.
@@ -51,7 +42,7 @@ afterAll(() => { if (dir) rmSync(dir, { recursive: true, force: true }); });
 
 describe('a run that diverges', () => {
   it('ends as stopped with exit 3, the step and control level named, and intact files up to the last converged step', async () => {
-    const r = await rupta(['run', 'offset-gauge.yaml', '--out', 'stop', '--quiet']);
+    const r = await run(['run', 'offset-gauge.yaml', '--out', 'stop', '--quiet']);
     expect(r.code).toBe(3);
     const summary = JSON.parse(read('stop', 'summary.json'));
     expect(summary.status).toBe('stopped');

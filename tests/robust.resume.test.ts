@@ -1,27 +1,18 @@
 // A run stopped by SIGINT keeps complete files and a checkpoint; --resume goes on from it
 // and ends with the same curve.csv bytes as a run that was never stopped (common practice
 // for restartable simulations: a restart repeats the same floating-point sequence).
-import { execFile, execFileSync, spawn } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse, stringify } from 'yaml';
+import { CLI, ROOT, rupta, ensureBuilt, type Ran } from './support/cli.js';
 
-const ROOT = fileURLToPath(new URL('..', import.meta.url));
-const CLI = join(ROOT, 'cli', 'rupta.mjs');
 
-interface Ran { code: number; stdout: string; stderr: string }
 
-function rupta(args: string[]): Promise<Ran> {
-  return new Promise((resolve) => {
-    execFile(process.execPath, [CLI, ...args], { cwd: dir, timeout: 60_000 }, (err, stdout, stderr) => {
-      const code = err ? (typeof err.code === 'number' ? err.code : -1) : 0;
-      resolve({ code, stdout: String(stdout), stderr: String(stderr) });
-    });
-  });
-}
+/** The command line, run in this file's temporary folder. */
+const run = (args: string[]): Promise<Ran> => rupta(args, dir, 60_000);
 
 /** Start a run and send SIGINT once its first checkpoint is on disk. */
 function interruptedRun(file: string, out: string): Promise<Ran & { ckSeen: boolean }> {
@@ -53,7 +44,7 @@ const read = (...p: string[]) => readFileSync(join(dir, ...p), 'utf8');
 const rowsOf = (csv: string) => csv.trimEnd().split('\n').slice(1);
 
 beforeAll(() => {
-  if (!existsSync(join(ROOT, '.build', 'cli', 'main.js'))) execFileSync('npx', ['tsc', '-p', '.'], { cwd: ROOT, stdio: 'ignore' });
+  ensureBuilt();
   dir = mkdtempSync(join(tmpdir(), 'rupta-robust-resume-'));
   writeFileSync(join(dir, 'beam.yaml'), smallCase());
 }, 120_000);
@@ -64,7 +55,7 @@ describe('interrupting and resuming a run', () => {
   let full = '';
 
   it('runs uninterrupted for the reference curve and leaves no checkpoint behind', async () => {
-    const r = await rupta(['run', 'beam.yaml', '--out', 'whole', '--quiet']);
+    const r = await run(['run', 'beam.yaml', '--out', 'whole', '--quiet']);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     full = read('whole', 'curve.csv');
@@ -95,7 +86,7 @@ describe('interrupting and resuming a run', () => {
     expect(Number(probes.at(-1)!.split(',')[0])).toBe(summary.steps);
     expect(summary.reason).toContain(`after step ${summary.steps}`);
     // the folder is not overwritten by a plain run
-    const again = await rupta(['run', 'beam.yaml', '--out', 'cut', '--quiet']);
+    const again = await run(['run', 'beam.yaml', '--out', 'cut', '--quiet']);
     expect(again.code).toBe(2);
     expect(again.stderr).toMatch(/already holds a run; pass --force .* --resume/);
   }, 60_000);
@@ -103,23 +94,23 @@ describe('interrupting and resuming a run', () => {
   it('refuses to resume a changed case (exit 2, one sentence), and leaves the run as it was', async () => {
     writeFileSync(join(dir, 'changed.yaml'), smallCase((c) => { c.material.GF = 0.12; }));
     const before = read('cut', 'curve.csv');
-    const r = await rupta(['run', 'changed.yaml', '--out', 'cut', '--quiet', '--resume']);
+    const r = await run(['run', 'changed.yaml', '--out', 'cut', '--quiet', '--resume']);
     expect(r.code).toBe(2);
     expect(r.stderr).toBe('rupta: the case has changed since the run in cut was started, so it cannot be resumed; run it again with --force, or into another folder with --out\n');
     expect(read('cut', 'curve.csv')).toBe(before);
   }, 60_000);
 
   it('refuses --resume together with --force, and --resume where there is no run', async () => {
-    const both = await rupta(['run', 'beam.yaml', '--out', 'cut', '--quiet', '--resume', '--force']);
+    const both = await run(['run', 'beam.yaml', '--out', 'cut', '--quiet', '--resume', '--force']);
     expect(both.code).toBe(2);
     expect(both.stderr).toMatch(/--resume .* --force .* not both/);
-    const none = await rupta(['run', 'beam.yaml', '--out', 'nothing-here', '--quiet', '--resume']);
+    const none = await run(['run', 'beam.yaml', '--out', 'nothing-here', '--quiet', '--resume']);
     expect(none.code).toBe(2);
     expect(none.stderr).toMatch(/no checkpoint to resume from in nothing-here/);
   }, 60_000);
 
   it('resumes to the same curve.csv and probes.csv bytes as the uninterrupted run, then has nothing left to resume', async () => {
-    const r = await rupta(['run', 'beam.yaml', '--out', 'cut', '--quiet', '--resume']);
+    const r = await run(['run', 'beam.yaml', '--out', 'cut', '--quiet', '--resume']);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     expect(read('cut', 'curve.csv')).toBe(full);
@@ -128,7 +119,7 @@ describe('interrupting and resuming a run', () => {
     expect(b.status).toBe('complete');
     for (const k of ['reason', 'peak', 'crackPaths', 'steps', 'dofs', 'mesh', 'probes', 'workOfFracture']) expect(b[k]).toEqual(a[k]);
     expect(existsSync(join(dir, 'cut', 'checkpoint.json'))).toBe(false);
-    const again = await rupta(['run', 'beam.yaml', '--out', 'cut', '--quiet', '--resume']);
+    const again = await run(['run', 'beam.yaml', '--out', 'cut', '--quiet', '--resume']);
     expect(again.code).toBe(2);
     expect(again.stderr).toMatch(/is complete, so there is nothing to resume/);
   }, 60_000);
