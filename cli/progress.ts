@@ -6,14 +6,21 @@ export class Progress {
   private readonly tty = Boolean(process.stderr.isTTY);
   private lastPlain = 0;
   private wrote = false;
+  private peak = 0;
   constructor(private readonly on: boolean, private readonly c: CaseModel) {}
 
   step(r: StepRow, elapsed: number): void {
     if (!this.on) return;
-    const total = this.c.crack ? this.c.control.increments : 1;
-    const frac = Math.min(1, Math.abs(r.control) / Math.abs(this.c.control.target || 1));
+    // the run ends at the control target or once the load has fallen to stopAtLoadFraction
+    // of the peak, whichever comes first
+    this.peak = Math.max(this.peak, Math.abs(r.load_N));
+    const byControl = Math.abs(r.control) / Math.abs(this.c.control.target || 1);
+    const stop = this.c.control.stopAtLoadFraction;
+    const byLoad = this.c.crack && stop > 0 && this.peak > 0 && Math.abs(r.load_N) < this.peak
+      ? (this.peak - Math.abs(r.load_N)) / (this.peak * (1 - stop)) : 0;
+    const frac = Math.min(1, Math.max(byControl, byLoad));
     const eta = frac > 0.02 ? elapsed * (1 - frac) / frac : NaN;
-    const line = `step ${r.step}/${total}  load ${r.load_N.toFixed(1)} N` +
+    const line = `step ${r.step}  load ${r.load_N.toFixed(1)} N` +
       (r.cmod_mm !== null ? `  CMOD ${r.cmod_mm.toFixed(4)} mm` : `  disp ${r.displacement_mm.toFixed(4)} mm`) +
       `  crack ${r.crack_length_mm.toFixed(1)} mm  ${elapsed.toFixed(1)} s` + (Number.isFinite(eta) ? `  ~${eta.toFixed(0)} s left` : '');
     if (this.tty) { process.stderr.write(`\r\x1b[2K${line}`); this.wrote = true; }
