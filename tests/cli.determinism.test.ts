@@ -4,29 +4,19 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { parse, stringify } from 'yaml';
-import { CLI, ROOT, rupta, ensureBuilt, type Ran } from './support/cli.js';
+import { CLI, ROOT, rupta, ensureBuilt, coarseDemoYaml, type Ran } from './support/cli.js';
 
 
 
 
-/** The demo beam made coarse and short, so that a whole run takes a second or two. */
-function tinyCase(seed: number): string {
-  const c = parse(readFileSync(join(ROOT, 'cases', 'beam-3pb-demo.yaml'), 'utf8')) as Record<string, any>;
-  Object.assign(c.mesh, { size: 20, tipSize: 5, refineRadius: 15, seed });
-  Object.assign(c.crack, { growthStep: 8, averagingRadius: 12 });
-  c.control.increments = 15;
-  Object.assign(c.output, { frames: [], animation: 'none' });
-  return stringify(c);
-}
 
 let dir = '';
 
 beforeAll(() => {
   ensureBuilt();
   dir = mkdtempSync(join(tmpdir(), 'rupta-cli-determinism-'));
-  writeFileSync(join(dir, 'tiny.yaml'), tinyCase(1));
-  writeFileSync(join(dir, 'tiny-seed2.yaml'), tinyCase(2));
+  writeFileSync(join(dir, 'tiny.yaml'), coarseDemoYaml((c) => { c.mesh.seed = 1; c.control.increments = 15; }));
+  writeFileSync(join(dir, 'tiny-seed2.yaml'), coarseDemoYaml((c) => { c.mesh.seed = 2; c.control.increments = 15; }));
 }, 120_000);
 
 afterAll(() => { if (dir) rmSync(dir, { recursive: true, force: true }); });

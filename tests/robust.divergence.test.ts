@@ -8,22 +8,11 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse, stringify } from 'yaml';
 import { CURVE_HEADER } from '../src/output/runfiles.js';
-import { CLI, ROOT, rupta, ensureBuilt, type Ran } from './support/cli.js';
-
+import { CLI, ROOT, rupta, ensureBuilt, coarseDemoYaml, type Ran } from './support/cli.js';
 
 
 /** The command line, run in this file's temporary folder. */
 const run = (args: string[]): Promise<Ran> => rupta(args, dir, 60_000);
-
-function smallCase(change: (c: Record<string, any>) => void): string {
-  const c = parse(readFileSync(join(ROOT, 'cases', 'beam-3pb-demo.yaml'), 'utf8')) as Record<string, any>;
-  Object.assign(c.mesh, { size: 20, tipSize: 5, refineRadius: 15 });
-  Object.assign(c.crack, { growthStep: 8, averagingRadius: 12 });
-  c.control.increments = 40;
-  Object.assign(c.output, { frames: ['svg'], animation: 'none' });
-  change(c);
-  return stringify(c);
-}
 
 let dir = '';
 const read = (...p: string[]) => readFileSync(join(dir, ...p), 'utf8');
@@ -34,8 +23,8 @@ beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'rupta-robust-divergence-'));
   // A clip gauge across the bottom face 20–40 mm beside the notch: once the crack opens, the
   // beam beside it unloads and that gauge closes, so no load can make it open further.
-  writeFileSync(join(dir, 'offset-gauge.yaml'), smallCase((c) => { c.control.gauge = { from: [180, 0], to: [200, 0] }; c.control.target = 0.05; }));
-  writeFileSync(join(dir, 'beam.yaml'), smallCase(() => {}));
+  writeFileSync(join(dir, 'offset-gauge.yaml'), coarseDemoYaml((c) => { c.output.frames = ['svg']; c.control.gauge = { from: [180, 0], to: [200, 0] }; c.control.target = 0.05; }));
+  writeFileSync(join(dir, 'beam.yaml'), coarseDemoYaml((c) => { c.output.frames = ['svg']; }));
 }, 120_000);
 
 afterAll(() => { if (dir) rmSync(dir, { recursive: true, force: true }); });

@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse, stringify } from 'yaml';
-import { CLI, ROOT, rupta, ensureBuilt, type Ran } from './support/cli.js';
+import { CLI, ROOT, rupta, ensureBuilt, coarseDemoYaml, type Ran } from './support/cli.js';
 
 
 
@@ -28,16 +28,6 @@ function interruptedRun(file: string, out: string): Promise<Ran & { ckSeen: bool
   });
 }
 
-/** The demo beam made coarse, so that a whole run takes a few seconds. */
-function smallCase(change: (c: Record<string, any>) => void = () => {}): string {
-  const c = parse(readFileSync(join(ROOT, 'cases', 'beam-3pb-demo.yaml'), 'utf8')) as Record<string, any>;
-  Object.assign(c.mesh, { size: 20, tipSize: 5, refineRadius: 15 });
-  Object.assign(c.crack, { growthStep: 8, averagingRadius: 12 });
-  c.control.increments = 40;
-  Object.assign(c.output, { frames: [], animation: 'none' });
-  change(c);
-  return stringify(c);
-}
 
 let dir = '';
 const read = (...p: string[]) => readFileSync(join(dir, ...p), 'utf8');
@@ -46,7 +36,7 @@ const rowsOf = (csv: string) => csv.trimEnd().split('\n').slice(1);
 beforeAll(() => {
   ensureBuilt();
   dir = mkdtempSync(join(tmpdir(), 'rupta-robust-resume-'));
-  writeFileSync(join(dir, 'beam.yaml'), smallCase());
+  writeFileSync(join(dir, 'beam.yaml'), coarseDemoYaml());
 }, 120_000);
 
 afterAll(() => { if (dir) rmSync(dir, { recursive: true, force: true }); });
@@ -92,7 +82,7 @@ describe('interrupting and resuming a run', () => {
   }, 60_000);
 
   it('refuses to resume a changed case (exit 2, one sentence), and leaves the run as it was', async () => {
-    writeFileSync(join(dir, 'changed.yaml'), smallCase((c) => { c.material.GF = 0.12; }));
+    writeFileSync(join(dir, 'changed.yaml'), coarseDemoYaml((c) => { c.material.GF = 0.12; }));
     const before = read('cut', 'curve.csv');
     const r = await run(['run', 'changed.yaml', '--out', 'cut', '--quiet', '--resume']);
     expect(r.code).toBe(2);

@@ -3,6 +3,7 @@
 // aggressive absorption; rows denser than 10·√n are ordered last.
 
 import type { CsrPattern } from './csr.js';
+import { forestPostorder } from './forest.js';
 
 /** Fill-reducing permutation perm (new → old) of a symmetric pattern. */
 export function amdOrder(p: CsrPattern): Int32Array {
@@ -300,24 +301,7 @@ export function amdOrder(p: CsrPattern): Int32Array {
     }
   }
   const order = new Int32Array(n + 1);
-  const stack = w;
-  let kk = 0;
-  for (let r = 0; r <= n; r++) {
-    if (parent[r] !== -1) continue;
-    let top = 0;
-    stack[0] = r;
-    while (top >= 0) {
-      const v = stack[top];
-      const c = head[v];
-      if (c === -1) {
-        top--;
-        order[kk++] = v;
-      } else {
-        head[v] = next[c];
-        stack[++top] = c;
-      }
-    }
-  }
+  const kk = forestPostorder(n + 1, parent, head, next, order, w);
   let t = 0;
   for (let s = 0; s < kk; s++) if (order[s] < n) perm[t++] = order[s];
   if (t !== n) throw new Error(`minimum degree ordering lost nodes (${t} of ${n})`);

@@ -3,6 +3,7 @@
 
 import type { CsrPattern } from './csr.js';
 import { amdOrder } from './amd.js';
+import { forestPostorder } from './forest.js';
 
 /** Everything the numeric factorization needs that depends only on the pattern. */
 export interface Symbolic {
@@ -86,24 +87,7 @@ function postorder(parent: Int32Array): Int32Array {
     head[pj] = j;
   }
   const post = new Int32Array(n);
-  const stack = new Int32Array(n);
-  let k = 0;
-  for (let r = 0; r < n; r++) {
-    if (parent[r] !== -1) continue;
-    let top = 0;
-    stack[0] = r;
-    while (top >= 0) {
-      const v = stack[top];
-      const c = head[v];
-      if (c === -1) {
-        top--;
-        post[k++] = v;
-      } else {
-        head[v] = next[c];
-        stack[++top] = c;
-      }
-    }
-  }
+  forestPostorder(n, parent, head, next, post, new Int32Array(n));
   return post;
 }
 
