@@ -39,6 +39,7 @@ function checkNumbers(c: CaseModel): void {
   if (c.crack) {
     num(c.crack.growthStep, ['crack', 'growthStep']);
     num(c.crack.averagingRadius, ['crack', 'averagingRadius']);
+    num(c.crack.insertAt, ['crack', 'insertAt']);
   }
   const g = c.mesh;
   num(g.size, ['mesh', 'size']); num(g.tipSize, ['mesh', 'tipSize']); num(g.refineRadius, ['mesh', 'refineRadius']);

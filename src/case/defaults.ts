@@ -19,6 +19,7 @@ export const DEFAULTS = {
   increments: 100,
   stopAtLoadFraction: 0.05,
   criterion: 'principal-stress',
+  insertAt: 0.8,
   coarsen: true,
   seed: 1,
   lloyd: 8,
@@ -91,6 +92,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       criterion: c.crack.criterion ?? DEFAULTS.criterion,
       growthStep: c.crack.growthStep ?? 2 * tipSize,
       averagingRadius: c.crack.averagingRadius ?? 3 * tipSize,
+      insertAt: c.crack.insertAt ?? DEFAULTS.insertAt,
     };
   }
   const place = (p: { at?: Vec2; along?: Vec2[] }) =>

@@ -45,7 +45,7 @@ export function describeCase(c: CaseModel): string {
     const s = c.crack.start;
     const start = typeof s === 'string' ? s : s.map((p) => fmtPoint(p)).join(', ');
     lines.push(`  crack      from ${start}, ${c.crack.criterion}, step ${fmtNum(c.crack.growthStep)} mm, `
-      + `averaging radius ${fmtNum(c.crack.averagingRadius)} mm`);
+      + `averaging radius ${fmtNum(c.crack.averagingRadius)} mm, next segment laid at ${fmtNum(c.crack.insertAt)} ft`);
   } else {
     lines.push('  crack      none: elastic analysis, one step at the target');
   }

@@ -75,12 +75,13 @@ export const FIELDS: Record<string, FieldSpec> = {
   'control.increments': { what: 'a whole number from 1 to 100000', range: { ge: 1, le: 100000, int: true } },
   'control.stopAtLoadFraction': { what: 'a fraction of the peak load of at least 0 (never stop) and below 1', unit: '-', range: { ge: 0, lt: 1 } },
 
-  crack: { what: 'a mapping {start, criterion, growthStep, averagingRadius}; write crack: {} for all defaults or leave crack out for an elastic analysis' },
+  crack: { what: 'a mapping {start, criterion, growthStep, averagingRadius, insertAt}; write crack: {} for all defaults or leave crack out for an elastic analysis' },
   'crack.start': { what: 'notch-tips, anywhere or a list of [x, y] points', unit: 'mm' },
   'crack.start[]': { what: POINT, unit: 'mm' },
   'crack.criterion': { what: 'principal-stress' },
   'crack.growthStep': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
   'crack.averagingRadius': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
+  'crack.insertAt': { what: 'a fraction of ft from 0.5 to 1', unit: '-', range: { ge: 0.5, le: 1 } },
 
   mesh: { what: 'a mapping {size, tipSize, refineRadius, coarsen, seed, lloyd}' },
   'mesh.size': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },

@@ -45,6 +45,8 @@ export interface CrackSettings {
   criterion: 'principal-stress';
   growthStep: number;
   averagingRadius: number;
+  /** Fraction of ft at which the next segment is laid, still intact, ahead of a tip. */
+  insertAt: number;
 }
 
 export interface MeshSettings {

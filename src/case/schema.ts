@@ -50,6 +50,7 @@ const crack = z.strictObject({
   criterion: z.literal('principal-stress').optional(),
   growthStep: num.optional(),
   averagingRadius: num.optional(),
+  insertAt: num.optional(),
 });
 
 const mesh = z.strictObject({
