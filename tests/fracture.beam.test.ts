@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { Analysis, type AnalysisResult } from '../src/fracture/analysis.js';
 import { meshCase } from '../src/run.js';
 import { coarseBeam } from './support/beam.js';
+import { penaltyFor } from '../src/cohesive/interface.js';
 
 async function run(c: ReturnType<typeof coarseBeam>): Promise<AnalysisResult> {
   return new Analysis(c, meshCase(c).mesh).run(() => {});
@@ -22,17 +23,18 @@ describe('notched beam in three-point bending', () => {
     }
   });
 
-  // On this coarse beam each discrete crack advance releases a little energy that no
-  // interface takes up (the bulk across a new face may carry more than ft): measured 5–7 %
-  // here, 4 % on a uniform 3 mm mesh. The 1 % check runs on the plate in
-  // fracture.energy.test.ts; this one guards against the gap growing.
-  it('energy balance: external work = elastic + dissipated energy within 8 % at every step (definition of GF)', () => {
+  // Here the mesh is refined around the tip as it runs (12 mm cells, 3 mm tips): each
+  // refinement changes the discrete model a little (the virtual element spaces before and
+  // after are not nested, so it may stiffen or soften), and the re-solve at the same control
+  // level moves energy that no interface accounts for. Measured 1.5–3.0 % on these runs;
+  // the 1 % check below runs on a beam whose ligament is meshed at the tip size from the start.
+  it('energy balance on the adaptive coarse beam: within 4 % at every step (definition of GF)', () => {
     for (const { res } of results) {
       const Wend = res.rows.at(-1)!.external_work_Nmm;
       for (const r of res.rows) {
         if (r.external_work_Nmm < 1e-3 * Wend) continue;
         const gap = r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm;
-        expect(Math.abs(gap) / r.external_work_Nmm, `step ${r.step} of a run with peak ${res.peak.load_N.toFixed(0)} N`).toBeLessThan(0.08);
+        expect(Math.abs(gap) / r.external_work_Nmm, `step ${r.step} of a run with peak ${res.peak.load_N.toFixed(0)} N`).toBeLessThan(0.04);
       }
     }
   });
@@ -52,4 +54,39 @@ describe('notched beam in three-point bending', () => {
     const mean = peaks.reduce((a, b) => a + b) / peaks.length;
     for (const p of peaks) expect(Math.abs(p / mean - 1)).toBeLessThan(0.03);
   });
+});
+
+// External work = elastic energy + dissipated energy (energy balance), and at the end the
+// energy dissipated is GF times the crack face area that has cracked (definition of GF;
+// RILEM TC 50-FMC work of fracture). The ligament is meshed at 4 mm from the start (no
+// refinement during the run) and the beam opened to a CMOD of 3 mm, about 23 critical
+// openings. The crack stops a tip cell short of the load point, so the last few mm of the
+// ligament never crack; of the faces that have, nearly all have fully separated.
+describe('notched beam opened far into the tail, ligament meshed at the tip size', () => {
+  for (const seed of [1, 2]) {
+    it(`seed ${seed}: work = elastic + dissipated within 1 % at every step; dissipation = GF × cracked area within 5 %`, async () => {
+      const tip = 4;
+      const c = coarseBeam({ seed, tip, radius: 18, target: 3, increments: 100, stop: 0 });
+      const a = new Analysis(c, meshCase(c).mesh);
+      const res = await a.run(() => {});
+      expect(res.status, res.reason).toBe('complete');
+      const last = res.rows.at(-1)!;
+      for (const r of res.rows) {
+        if (r.external_work_Nmm < 1e-3 * last.external_work_Nmm) continue;
+        const gap = r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm;
+        expect(Math.abs(gap) / r.external_work_Nmm, `step ${r.step}`).toBeLessThan(0.01);
+      }
+      // the crack has crossed the ligament up to the load point's last tip cells
+      expect(last.tip_y_mm!).toBeGreaterThan(100 - 2 * tip);
+      const { reached_mm2, separated_mm2 } = a.faceAreas();
+      expect(separated_mm2).toBeGreaterThan(0.85 * 70 * c.thickness);
+      expect(separated_mm2).toBeGreaterThan(0.9 * reached_mm2);
+      // every face point past ft has dissipated between nothing and GF (+ the penalty energy
+      // ½ft²/kp lost at the peak), the fully separated ones all of GF
+      const GF = c.material.GF, kp = penaltyFor(c.material.E, c.mesh.tipSize);
+      expect(last.dissipated_Nmm).toBeGreaterThanOrEqual(GF * separated_mm2);
+      expect(last.dissipated_Nmm).toBeLessThanOrEqual((GF + 0.5 * c.material.ft ** 2 / kp) * reached_mm2);
+      expect(Math.abs(last.dissipated_Nmm / (GF * reached_mm2) - 1)).toBeLessThan(0.05);
+    });
+  }
 });

@@ -25,7 +25,7 @@ geometry:
 material: {E: 30000, nu: 0.2, ft: 3, GF: 0.03, softening: linear}
 supports: [{along: [[0,0],[${W},0]], fix: y}, {at: [0,0], fix: x}]
 loads: [{along: [[0,${W}],[${W},${W}]], direction: [0, 1]}]
-control: {by: displacement, target: 0.013, increments: 13, stopAtLoadFraction: 0.3}
+control: {by: displacement, target: 0.0125, increments: 13, stopAtLoadFraction: 0.3}
 crack: {start: notch-tips, growthStep: 2, averagingRadius: 3}
 mesh: {size: 10, tipSize: 0.75, refineRadius: 8, seed: 2}
 output: {frames: []}

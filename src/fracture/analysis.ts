@@ -48,6 +48,8 @@ export interface AnalysisOptions {
   maxGrowthPerStep?: number;
   /** Hand the state to run()'s onCheckpoint after every this many converged steps (0: only when interrupted). */
   checkpointEvery?: number;
+  /** Overrides crack.insertAt (tests, experiments). */
+  insertFraction?: number;
 }
 
 export interface AnalysisResult {
@@ -76,6 +78,7 @@ export class Analysis {
   private work!: NewtonWork;
   private compact!: ReturnType<WorkMesh['toPolyMesh']>;
   private pairPlus: number[] = [];
+  private pairOf = new Map<number, number>();
   private kap = new Float64Array(0);
   private kapTrial = new Float64Array(0);
   private uf = new Float64Array(0);
@@ -225,6 +228,7 @@ export class Analysis {
     }
     this.pairPlus = [];
     for (const k of this.cracks) if (k.kind === 'cohesive') k.path.forEach((v, i) => { if (k.twins[i] >= 0) this.pairPlus.push(v); });
+    this.pairOf = new Map(this.pairPlus.map((v, i) => [v, i]));
     return { plus: Int32Array.from(plus), minus: Int32Array.from(minus), nx: Float64Array.from(nx), ny: Float64Array.from(ny), area: Float64Array.from(area) };
   }
 
@@ -309,15 +313,69 @@ export class Analysis {
     return { m, stress, areas, cent };
   }
 
-  /** Largest tip stress over ft among the active tips (0 without tips). */
+  /** The fraction of ft at which the next segment is laid ahead of a tip. */
+  private get insertAt(): number { return this.opt.insertFraction ?? this.c.crack?.insertAt ?? 1; }
+
+  /**
+   * How close tip t is to laying its next segment (≥ 1: lay it). The segment is laid intact
+   * (the penalty branch of the law), so it changes the response very little until its
+   * traction reaches ft; laying it before that keeps the faces from taking more than ft at
+   * insertion, where the energy above the law would be lost. A tip without faces lays its
+   * first segment as soon as the stress ahead of it is tensile (the bulk is linear, so the
+   * direction does not depend on the load level). A grown tip lays the next one when either
+   *  - the averaged stress ahead reaches insertAt·ft while the laid interface is short (the
+   *    crack's front, the nearest face pair whose traction has reached insertAt·ft, lies
+   *    within one growth step of the tip), or
+   *  - the face pair next to the tip reaches insertAt·ft: the cohesive zone has caught up
+   *    with the end of the interface (an average that takes in a compressed zone ahead, a
+   *    beam near its top, would otherwise hold the tip back while its faces are overloaded).
+   */
+  private readiness(t: Tip, s1: number): number {
+    if (t.crack < 0) return s1 > 0 ? Infinity : 0;
+    const a = this.insertAt, crack = this.c.crack!, ft = this.c.material.ft;
+    const byStress = this.frontDistance(t, a) <= crack.growthStep * (1 + 1e-9) ? s1 / (a * ft) : 0;
+    return Math.max(byStress, this.endPairLoad(t) / a);
+  }
+
+  /** Traction of the face pair next to a grown tip over ft, in the trial state (past the peak: more than 1). */
+  private endPairLoad(t: Tip): number {
+    if (t.crack < 0) return 0;
+    const k = this.cracks[t.crack], P = k.path, n = P.length, fromEnd = P[n - 1] === t.v;
+    for (let j = 0; j < n; j++) {
+      const i = fromEnd ? n - 1 - j : j;
+      if (k.twins[i] < 0) continue;
+      const p = this.pairOf.get(P[i]);
+      return p === undefined ? 0 : this.kapTrial[p] * this.coh.penalty / this.coh.law.ft;
+    }
+    return 0;
+  }
+
+  /** Length along the crack from tip t back to the nearest face pair whose traction has reached a·ft (Infinity if none). */
+  private frontDistance(t: Tip, a: number): number {
+    const k = this.cracks[t.crack], P = k.path, n = P.length, fromEnd = P[n - 1] === t.v;
+    const { x, y } = this.wm, reach = a * this.coh.law.ft / this.coh.penalty;
+    let d = 0;
+    for (let j = 0; j < n; j++) {
+      const i = fromEnd ? n - 1 - j : j;
+      if (j > 0) { const q = fromEnd ? P[i + 1] : P[i - 1]; d += Math.hypot(x[P[i]] - x[q], y[P[i]] - y[q]); }
+      if (k.twins[i] < 0) continue;
+      const p = this.pairOf.get(P[i]);
+      if (p !== undefined && this.kapTrial[p] >= reach) return d;
+    }
+    return Infinity;
+  }
+
+  /** Largest readiness among the active tips (0 without tips): more than a little over 1 and the step was too long. */
   private tipOvershoot(): number {
     if (!this.c.crack || !this.tips.some((t) => t.active)) return 0;
     const { m, stress, areas, cent } = this.fields();
     let worst = 0;
     for (const t of this.tips) {
-      if (!t.active) continue;
+      // a tip without faces lays its first segment at any load
+      if (!t.active || t.crack < 0) continue;
       const ts = tipStress(m, stress, cent, areas, this.wm.x[t.v], this.wm.y[t.v], t.dx, t.dy, this.c.crack.averagingRadius, 2);
-      worst = Math.max(worst, ts.s1 / this.c.material.ft);
+      // past its peak the end pair's ratio grows fast; any value over the limit only cuts the step
+      worst = Math.max(worst, Math.min(10, this.readiness(t, ts.s1)));
     }
     return worst;
   }
@@ -365,6 +423,18 @@ export class Analysis {
     return 1;
   }
 
+  /** Distance from (x, y) to the nearest load or support (a point, a bearing strip or a segment). */
+  private contactRoom(x: number, y: number): number {
+    let room = Infinity;
+    for (const q of [...this.c.supports, ...this.c.loads]) {
+      const [p0, p1] = q.along ?? [q.at!, q.at!];
+      const ex = p1[0] - p0[0], ey = p1[1] - p0[1], L2 = ex * ex + ey * ey;
+      const s = L2 > 0 ? Math.max(0, Math.min(1, ((x - p0[0]) * ex + (y - p0[1]) * ey) / L2)) : 0;
+      room = Math.min(room, Math.hypot(x - p0[0] - s * ex, y - p0[1] - s * ey) - q.width / 2);
+    }
+    return room;
+  }
+
   /** Vertex v lies on the outline (an edge of it has one cell only). */
   private onOutline(v: number): boolean {
     for (const c of this.wm.cellsOf(v)) {
@@ -383,7 +453,7 @@ export class Analysis {
       if (!t.active) continue;
       const tx = this.wm.x[t.v], ty = this.wm.y[t.v];
       const ts = tipStress(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius, 2);
-      if (ts.s1 < this.c.material.ft) continue;
+      if (this.readiness(t, ts.s1) < 1) continue;
       // The stress at a cohesive tip is nearly isotropic (on faces carrying a uniform traction
       // the stress along the crack equals the traction across it), so its principal axes say
       // little about the path. The mode mixity does: sliding over opening of the faces behind
@@ -398,7 +468,11 @@ export class Analysis {
       // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
       if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
       this.growthLog.push({ tip: this.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
-      const cut = cutRay(this.wm, t.v, gx, gy, crack.growthStep);
+      // a crack stops a tip cell short of where the machine or a support touches the
+      // specimen: cut through a loaded point, the halves would hang on one vertex
+      const len = Math.min(crack.growthStep, this.contactRoom(tx, ty) - this.c.mesh.tipSize);
+      if (len < 0.5 * this.c.mesh.tipSize) { t.active = false; continue; }
+      const cut = cutRay(this.wm, t.v, gx, gy, len);
       if (cut.path.length < 2) { t.active = false; continue; }
       if (t.crack < 0) { this.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = this.cracks.length - 1; }
       const k = this.cracks[t.crack];
@@ -487,12 +561,52 @@ export class Analysis {
     return { elastic: e, dissipated: d };
   }
 
+  /**
+   * Before loading, every tip that has no faces yet lays its first segment, intact, in the
+   * direction the elastic field gives (the bulk is linear, so that direction does not depend
+   * on the load level): its faces then take up load gradually instead of starting above ft.
+   * The field comes from a trial solve at a small control level, undone afterwards.
+   */
+  private layFirstSegments(firstIncrement: number): void {
+    if (!this.tips.some((t) => t.active && t.crack < 0)) return;
+    const saved = this.saveState();
+    const r = this.solveAt(1e-3 * firstIncrement);
+    if (r.ok) this.grow();
+    this.restoreState(saved);
+    this.uw.fill(0);
+    if (this.dirty) this.rebuild();
+    this.uf.fill(0);
+  }
+
+  /** Reached ft: the face pair of path vertex v has a history beyond the intact branch. */
+  private reached(v: number): boolean {
+    const p = this.pairOf.get(v);
+    return p !== undefined && this.kap[p] > this.coh.law.ft / this.coh.penalty;
+  }
+
+  /**
+   * Length of the cohesive cracks, counting only the parts whose faces have reached ft (the
+   * segments laid ahead and still intact are not a crack yet). A segment counts when both
+   * ends have reached ft, or one end has and the other is the crack's start.
+   */
   private crackLength(): number {
     let L = 0;
-    for (const k of this.cracks) if (k.kind === 'cohesive') for (let i = 1; i < k.path.length; i++) {
-      L += Math.hypot(this.wm.x[k.path[i]] - this.wm.x[k.path[i - 1]], this.wm.y[k.path[i]] - this.wm.y[k.path[i - 1]]);
+    const { x, y } = this.wm;
+    for (const k of this.cracks) {
+      if (k.kind !== 'cohesive') continue;
+      const P = k.path, n = P.length;
+      const ok = (i: number) => this.reached(P[i]) || (i === 0 && k.twins[0] < 0);
+      for (let i = 1; i < n; i++) if (ok(i - 1) && ok(i)) L += Math.hypot(x[P[i]] - x[P[i - 1]], y[P[i]] - y[P[i - 1]]);
     }
     return L;
+  }
+
+  /** Where the crack of tip t has reached ft nearest to t (its front): a path vertex, or its start. */
+  private frontVertex(t: Tip): number {
+    if (t.crack < 0) return t.v;
+    const P = this.cracks[t.crack].path, n = P.length, fromEnd = P[n - 1] === t.v;
+    for (let j = 0; j < n; j++) { const v = P[fromEnd ? n - 1 - j : j]; if (this.reached(v)) return v; }
+    return P[fromEnd ? 0 : n - 1];
   }
 
   private record(step: number, control: number): StepEvent {
@@ -503,7 +617,7 @@ export class Analysis {
     const row: StepRow = {
       step, control, load_N: F, displacement_mm: this.lambda, cmod_mm: gauge,
       crack_length_mm: this.crackLength(),
-      tip_x_mm: tip ? this.wm.x[tip.v] : null, tip_y_mm: tip ? this.wm.y[tip.v] : null,
+      tip_x_mm: tip ? this.wm.x[this.frontVertex(tip)] : null, tip_y_mm: tip ? this.wm.y[this.frontVertex(tip)] : null,
       external_work_Nmm: this.W, elastic_energy_Nmm: en.elastic, dissipated_Nmm: en.dissipated,
       iterations: this.iterations,
     };
@@ -552,6 +666,18 @@ export class Analysis {
     }
     void m;
     return out;
+  }
+
+  /** Crack face area (mm²) whose traction has reached ft, and the part of it fully separated (no traction left). */
+  faceAreas(): { reached_mm2: number; separated_mm2: number } {
+    if (this.dirty) this.rebuild();
+    const P = this.sys.pairs, l0 = this.coh.law.ft / this.coh.penalty, wc = this.coh.law.wc;
+    let reached = 0, separated = 0;
+    for (let p = 0; p < P.plus.length; p++) {
+      if (this.kap[p] > l0) reached += P.area[p];
+      if (this.kap[p] >= l0 + wc) separated += P.area[p];
+    }
+    return { reached_mm2: reached, separated_mm2: separated };
   }
 
   /** The constrained bulk stiffness of the current mesh (free dofs only), e.g. for export. */
@@ -613,7 +739,10 @@ export class Analysis {
     let mark: LoopState = structuredClone(at);
     try {
       this.rebuild();
-      if (!this.resumeAt) await onStep(this.record(0, 0));
+      if (!this.resumeAt) {
+        if (!elastic) this.layFirstSegments(ctl.target / nInc);
+        await onStep(this.record(0, 0));
+      }
       this.resumeAt = null;
       outer: while (at.inc <= nInc) {
         const goal = full * at.inc / nInc;
@@ -630,8 +759,8 @@ export class Analysis {
         const saved = this.saveState();
         const r = this.solveAt(target);
         // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
-        // and a tip may not be taken far beyond ft before it grows
-        if (r.ok && !elastic && at.frac > 1 / 64 && (this.softeningJump() > 0.05 || this.tipOvershoot() > 1.05)) {
+        // and a tip may not be taken past the point where the segment it lays would start above ft
+        if (r.ok && !elastic && at.frac > 1 / 64 && (this.softeningJump() > 0.05 || this.tipOvershoot() > Math.max(1.05, 1 / this.insertAt))) {
           this.restoreState(saved);
           at.frac /= 2;
           continue;
