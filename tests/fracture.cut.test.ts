@@ -49,6 +49,22 @@ describe('crack insertion in the work mesh', () => {
     expect(faces).toBe(2 * (cut.path.length - 1));
   });
 
+  it('a cut that snaps onto the end of a straight side with a vertex on it follows that side instead of leaving a cell of zero area', () => {
+    const wm = gridWorkMesh(3, 3);
+    const id = (i: number, j: number) => j * 4 + i;
+    // the top side of cell [1,2]×[1,2] gets a vertex in its middle, as refining the cell above leaves it
+    const a = id(1, 2), b = id(2, 2), mid = wm.addVertex(1.5, 2, [a, b], [0.5, 0.5]);
+    const below = wm.cellsOf(a).find((c) => wm.cellsOf(b).includes(c) && wm.centroid(c)[1] < 2)!;
+    const above = wm.neighbourAcross(below, b, a) >= 0 ? wm.neighbourAcross(below, b, a) : wm.neighbourAcross(below, a, b);
+    wm.insertOnEdge(below, a, b, mid);
+    if (above >= 0) wm.insertOnEdge(above, a, b, mid);
+    // 10° below the side: the ray crosses the cell and its exit snaps to the side's far end
+    const th = -10 * Math.PI / 180;
+    const cut = cutRay(wm, a, Math.cos(th), Math.sin(th), 1);
+    expect(cut.path).toEqual([a, mid, b]);
+    expect(audit(wm).minArea).toBeGreaterThan(0.5);
+  });
+
   it('a cut through to the far side separates the plate', () => {
     const wm = gridWorkMesh(6, 4);
     const cut = cutRay(wm, 3, 0, 1, 100);

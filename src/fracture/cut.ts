@@ -94,7 +94,15 @@ export function cutRay(wm: WorkMesh, start: number, dx: number, dy: number, leng
       // meeting the face of a crack ends the cut there
       const hitsFace = nb < 0 && wm.face[a] === 1 && wm.face[b] === 1;
       const vs = wm.cells[cell]!, n = vs.length, k = vs.indexOf(p);
-      if (vs[(k + 1) % n] !== q && vs[(k + n - 1) % n] !== q) splitCell(wm, cell, p, q);
+      // a side of the cell that runs straight from p to q through collinear vertices (left
+      // by refining a neighbour) is followed, not split off as a cell of zero area
+      const along = straightChain(wm, cell, p, q);
+      if (along) {
+        for (const w of along) {
+          path.push(w);
+          if (wm.face[w] === 1) return { path, end: 'crack' };
+        }
+      } else if (vs[(k + 1) % n] !== q && vs[(k + n - 1) % n] !== q) splitCell(wm, cell, p, q);
       step = Math.hypot(wm.x[q] - wm.x[p], wm.y[q] - wm.y[p]);
       if (hitsFace || wm.face[q] === 1) { path.push(q); return { path, end: 'crack' }; }
     }
@@ -107,6 +115,27 @@ export function cutRay(wm: WorkMesh, start: number, dx: number, dy: number, leng
     }
   }
   throw new Error('internal: the cut did not end');
+}
+
+/**
+ * The vertices strictly between p and q along one side of cell c when that side is straight
+ * (every one of them on the segment pq); null when neither side is, or p and q are adjacent.
+ */
+function straightChain(wm: WorkMesh, c: number, p: number, q: number): number[] | null {
+  const vs = wm.cells[c]!, n = vs.length, i = vs.indexOf(p), j = vs.indexOf(q);
+  const ex = wm.x[q] - wm.x[p], ey = wm.y[q] - wm.y[p], L2 = ex * ex + ey * ey;
+  for (const dir of [1, -1]) {
+    const mid: number[] = [];
+    let ok = true;
+    for (let k = (i + dir + n) % n; k !== j; k = (k + dir + n) % n) {
+      const w = vs[k], wx = wm.x[w] - wm.x[p], wy = wm.y[w] - wm.y[p];
+      const t = (wx * ex + wy * ey) / L2;
+      if (Math.abs(wx * ey - wy * ex) > 1e-6 * L2 || t <= 0 || t >= 1) { ok = false; break; }
+      mid.push(w);
+    }
+    if (ok && mid.length > 0) return mid;
+  }
+  return null;
 }
 
 /** First crossing of the ray p + t·d with an edge of cell c not touching p. */
