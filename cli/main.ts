@@ -129,7 +129,7 @@ async function main(): Promise<void> {
     if (e instanceof RunStopped) { process.stderr.write(`rupta: the run stopped: ${e.message}\n`); process.exitCode = 3; return; }
     const msg = e instanceof Error ? e.message : String(e);
     process.stderr.write(`rupta: internal error: ${msg}\n(set RUPTA_DEBUG=1 for the details)\n`);
-    if (process.env.RUPTA_DEBUG && e instanceof Error) process.stderr.write(`${e.stack}\n`);
+    if (process.env.RUPTA_DEBUG && e instanceof Error) process.stderr.write(`${e.stack}\n${e.cause instanceof Error ? `caused by ${e.cause.stack}\n` : ''}`);
     process.exitCode = 1;
   }
 }

@@ -56,5 +56,9 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   if (result.status === 'complete') removeCheckpoint(dir);
   const final: Snapshot | null = lastEvent ? (lastEvent as StepEvent).snapshot() : null;
   const summary = await files.finish(result, { meshSeconds: seconds, totalSeconds: (performance.now() - t0) / 1000, initialMesh: mesh, final });
+  if (result.status === 'failed') {
+    const why = result.error instanceof Error ? result.error.message : String(result.error);
+    throw new Error(`${why}; the steps up to the fault and a summary marked failed are in ${dir}`, { cause: result.error });
+  }
   return { dir, result, summary };
 }

@@ -53,8 +53,10 @@ export interface AnalysisOptions {
 }
 
 export interface AnalysisResult {
-  status: 'complete' | 'stopped' | 'interrupted';
+  status: 'complete' | 'stopped' | 'interrupted' | 'failed';
   reason: string;
+  /** With status failed: what went wrong inside (a fault of the program, not of the case). */
+  error?: unknown;
   rows: StepRow[];
   peak: Peak;
   crackPaths: [number, number][][];
@@ -729,7 +731,7 @@ export class Analysis {
   async run(onStep: (e: StepEvent) => void | Promise<void>, onCheckpoint?: (s: AnalysisState) => void | Promise<void>): Promise<AnalysisResult> {
     const c = this.c, ctl = c.control;
     const elastic = !c.crack;
-    let status: AnalysisResult['status'] = 'complete', reason = '';
+    let status: AnalysisResult['status'] = 'complete', reason = '', failure: unknown;
     const nInc = elastic ? 1 : ctl.increments;
     const full = ctl.target;
     const maxGrowth = this.opt.maxGrowthPerStep ?? 60;
@@ -801,8 +803,11 @@ export class Analysis {
       }
       if (!reason) reason = elastic ? 'elastic analysis at the control target' : 'control target reached';
     } catch (e) {
-      if (!(e instanceof RunStopped)) throw e;
-      status = 'stopped'; reason = e.message;
+      if (e instanceof RunStopped) { status = 'stopped'; reason = e.message; }
+      else {
+        // the steps so far are sound; the caller writes them up as failed and reports the fault
+        status = 'failed'; reason = `internal error after step ${at.step}: ${e instanceof Error ? e.message : String(e)}`; failure = e;
+      }
     }
     return {
       status, reason, rows: this.rows, peak: at.peak,
@@ -811,6 +816,7 @@ export class Analysis {
       mesh: { polygons: this.compact.mesh.cellStart.length - 1, vertices: this.compact.vertexOf.length },
       probes: this.lastProbes,
       timings_s: { solve: this.solveTime / 1000 },
+      ...(status === 'failed' ? { error: failure } : {}),
     };
   }
 }
