@@ -81,6 +81,8 @@ export class Analysis {
   private compact!: ReturnType<WorkMesh['toPolyMesh']>;
   private pairPlus: number[] = [];
   private pairOf = new Map<number, number>();
+  /** While set, steps are driven by the total crack opening instead of the case's control (see run()). */
+  private opening = false;
   private kap = new Float64Array(0);
   private kapTrial = new Float64Array(0);
   private uf = new Float64Array(0);
@@ -235,7 +237,7 @@ export class Analysis {
   }
 
   private newtonOptions(target: number): NewtonOptions {
-    const kind = this.c.control.by;
+    const kind = this.opening ? 'cmod' : this.c.control.by;
     const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);
     return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty };
   }
@@ -245,12 +247,46 @@ export class Analysis {
     if (this.dirty) this.rebuild();
     let st: StepState = { uf: this.uf.slice(), lambda: this.lambda };
     const t0 = performance.now();
-    let r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, this.c.control.by, target, st, this.newtonOptions(target), this.work);
+    const kind = this.opening ? 'cmod' : this.c.control.by;
+    const gauge = this.sys.driven.gauge, gaugeW = this.sys.driven.gaugeW;
+    if (this.opening) { const g = this.openingGauge(); this.sys.driven.gauge = g.dofs; this.sys.driven.gaugeW = g.w; }
+    try {
+      return this.solveWith(kind, target, st, t0);
+    } finally {
+      this.sys.driven.gauge = gauge; this.sys.driven.gaugeW = gaugeW;
+    }
+  }
+
+  /**
+   * The crack opening summed over all face pairs, Σ A·w (mm³), as a gauge: it grows while
+   * the cracks open even where the load and the mouth opening both turn back (snap-back).
+   */
+  private openingGauge(): { dofs: Int32Array; w: Float64Array } {
+    const P = this.sys.pairs, n = P.plus.length;
+    const dofs = new Int32Array(4 * n), w = new Float64Array(4 * n);
+    for (let p = 0; p < n; p++) {
+      const a = P.plus[p], b = P.minus[p], A = P.area[p];
+      dofs.set([2 * a, 2 * a + 1, 2 * b, 2 * b + 1], 4 * p);
+      w.set([A * P.nx[p], A * P.ny[p], -A * P.nx[p], -A * P.ny[p]], 4 * p);
+    }
+    return { dofs, w };
+  }
+
+  /** Σ A·w of the current state (mm³). */
+  private openingVolume(): number {
+    const g = this.openingGauge(), u = this.work.u;
+    let v = 0;
+    for (let i = 0; i < g.dofs.length; i++) v += g.w[i] * u[g.dofs[i]];
+    return v;
+  }
+
+  private solveWith(kind: 'displacement' | 'cmod' | 'force', target: number, st: StepState, t0: number): { ok: boolean; reason: string } {
+    let r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, kind, target, st, this.newtonOptions(target), this.work);
     if (!r.converged && this.sys.pairs.plus.length > 0) {
       // points switching between loading and unloading can make Newton cycle: fall back to the secant
       this.iterations += r.iterations;
       st = { uf: this.uf.slice(), lambda: this.lambda };
-      r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, this.c.control.by, target, st, { ...this.newtonOptions(target), maxIter: 300, secant: true }, this.work);
+      r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, kind, target, st, { ...this.newtonOptions(target), maxIter: 300, secant: true, tolFEnd: 1e-4 * this.fScale }, this.work);
     }
     this.solveTime += performance.now() - t0;
     this.iterations += r.iterations;
@@ -290,6 +326,42 @@ export class Analysis {
       if (drop > worst) worst = drop;
     }
     return worst / law.ft;
+  }
+
+  /**
+   * One step driven by the total crack opening Σ A·w, 2 % more than in the last converged
+   * state (less while the cohesive stresses would fall too far in one step). Returns the
+   * opening reached, or null (state as saved) when there are no open faces or no step
+   * converges.
+   */
+  private openingStep(saved: ReturnType<Analysis['saveState']>): number | null {
+    if (this.sys.pairs.plus.length === 0) return null;
+    this.sys.expand(this.uf, this.lambda, this.work.u);
+    const V0 = this.openingVolume();
+    if (!(V0 > 0)) return null;
+    let dV = 0.02 * V0;
+    for (let k = 0; k < 6; k++) {
+      this.opening = true;
+      const r = this.solveAt(V0 + dV);
+      this.opening = false;
+      if (r.ok && (k === 5 || this.softeningJump() <= 0.05)) return V0 + dV;
+      this.restoreState(saved);
+      dV /= 2;
+    }
+    return null;
+  }
+
+  /** The mesh, cracks and tips as they are, for undoing a growth that did not converge. */
+  private geometryState() {
+    return { mesh: meshState(this.wm), cracks: structuredClone(this.cracks), tips: structuredClone(this.tips), log: this.growthLog.length };
+  }
+
+  private restoreGeometry(g: ReturnType<Analysis['geometryState']>): void {
+    restoreMesh(this.wm, g.mesh);
+    this.cracks.splice(0, this.cracks.length, ...g.cracks);
+    this.tips.splice(0, this.tips.length, ...g.tips);
+    this.growthLog.length = g.log;
+    this.dirty = true;
   }
 
   private saveState() {
@@ -756,13 +828,17 @@ export class Analysis {
           await onCheckpoint?.(this.state(mark));
           break;
         }
-        const target = at.done + Math.min(at.frac * (goal - at.done), goal - at.done);
+        let target = at.done + Math.min(at.frac * (goal - at.done), goal - at.done);
         if (this.dirty) this.rebuild();
         const saved = this.saveState();
-        const r = this.solveAt(target);
+        // while the case's control value still falls back, go on with the crack opening at once
+        const skipped = at.opening === true;
+        let r = skipped ? { ok: false, reason: '' } : this.solveAt(target);
+        this.opening = false;
+        if (skipped) at.frac = 1 / 128;
         // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
         // and a tip may not be taken past the point where the segment it lays would start above ft
-        if (r.ok && !elastic && at.frac > 1 / 64 && (this.softeningJump() > 0.05 || this.tipOvershoot() > Math.max(1.05, 1 / this.insertAt))) {
+        if (r.ok && !elastic && at.frac > 1 / 64 && !at.opening && (this.softeningJump() > 0.05 || this.tipOvershoot() > Math.max(1.05, 1 / this.insertAt))) {
           this.restoreState(saved);
           at.frac /= 2;
           continue;
@@ -771,12 +847,21 @@ export class Analysis {
           at.frac /= 2;
           if (at.frac < 1 / 64) {
             if (ctl.by === 'force' && at.peak.load_N > 0) { reason = `the load cannot be raised above ${at.peak.load_N.toFixed(1)} N under force control (peak reached)`; break outer; }
-            throw new RunStopped(`step ${at.step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
-          }
-          continue;
+            // where the load and the gauge both turn back (snap-back), the total crack opening
+            // still grows: let it drive this step
+            const V = ctl.by === 'force' ? null : this.openingStep(saved);
+            // no opening step either: the case's control has one more go before the run stops
+            if (V === null && skipped) { at.opening = false; at.frac = 1 / 32; continue; }
+            if (V === null) throw new RunStopped(`step ${at.step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
+            target = V;
+            this.opening = true;
+            r = { ok: true, reason: '' };
+          } else continue;
         }
-        // staggered growth at this control level
+        // staggered growth at this control level (or at this crack opening)
         if (!elastic) {
+          const before = this.geometryState();
+          let failed = '';
           for (let g = 0; g < maxGrowth; g++) {
             if (this.grow() === 0) break;
             const rr = this.solveAt(target);
@@ -784,13 +869,32 @@ export class Analysis {
             if (!rr.ok && this.separated() && Math.abs(this.lastF) <= 0.25 * Math.abs(at.peak.load_N)) {
               reason = 'a crack has run through the specimen, which has come apart'; break outer;
             }
-            if (!rr.ok) throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew at ${ctl.by} ${target.toPrecision(4)}: ${rr.reason}`);
+            if (!rr.ok) { failed = rr.reason; break; }
+          }
+          if (failed) {
+            // undo the growth and the step, and come at it again in a shorter one
+            if (this.opening) { this.opening = false; throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew while the crack opening drove the step: ${failed}`); }
+            this.restoreGeometry(before);
+            // the equations are rebuilt for the old mesh from these (rebuild() sizes uf and the histories)
+            this.lambda = saved.lambda; this.W = saved.W; this.lastF = saved.lastF; this.lastLambda = saved.lastLambda;
+            this.uw = saved.uw;
+            at.frac /= 2;
+            if (at.frac < 1 / 64) throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew at ${ctl.by} ${target.toPrecision(4)}, also in shorter steps: ${failed}`);
+            continue;
           }
         }
         this.commit();
-        at.done = target;
+        let level = target;
+        if (this.opening) {
+          // the case's control value reached: the gauge reading or the load-point travel
+          level = ctl.by === 'cmod' ? this.sys.gaugeReading(this.work.u) : this.lambda;
+          this.opening = false;
+          at.frac = 1 / 32;
+          at.opening = level <= at.done;
+          at.done = Math.max(at.done, level);
+        } else { at.done = target; at.opening = false; }
         at.step++;
-        const ev = this.record(at.step, target);
+        const ev = this.record(at.step, level);
         if (Math.abs(ev.row.load_N) > Math.abs(at.peak.load_N)) at.peak = { load_N: ev.row.load_N, displacement_mm: ev.row.displacement_mm, cmod_mm: ev.row.cmod_mm, step: at.step };
         await onStep(ev);
         if (at.frac < 1) at.frac = Math.min(1, at.frac * 2);

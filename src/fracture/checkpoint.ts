@@ -26,7 +26,11 @@ export interface MeshState {
 export interface Peak { load_N: number; displacement_mm: number; cmod_mm: number | null; step: number }
 
 /** Where the loop stands between two steps: increment, fraction of it tried next, control level reached, steps done. */
-export interface LoopState { inc: number; frac: number; done: number; step: number; peak: Peak }
+export interface LoopState {
+  inc: number; frac: number; done: number; step: number; peak: Peak;
+  /** The last step was driven by the crack opening and the case's control value fell: drive the next one so too. */
+  opening?: boolean;
+}
 
 export interface AnalysisState {
   mesh: MeshState;

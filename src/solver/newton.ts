@@ -20,6 +20,9 @@ export interface NewtonOptions {
   floor: number;
   /** Iterate on the secant of the cohesive law instead of its tangent (slower, but cannot cycle). */
   secant?: boolean;
+  /** Out-of-balance force accepted once maxIter is used up (faces switching in and out of
+   * contact can keep a residual at round-off level of the contact penalty). */
+  tolFEnd?: number;
 }
 
 /** Scratch vectors for one topology (allocated once, reused every iteration). */
@@ -113,7 +116,7 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     st.lambda = lam0 + bestEta * dl;
     res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
   }
-  if (res.rmax <= opt.tolF && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: opt.maxIter, reason: '' };
+  if (res.rmax <= (opt.tolFEnd ?? opt.tolF) && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: opt.maxIter, reason: '' };
   return { converged: false, iterations: opt.maxIter, reason: `no convergence in ${opt.maxIter} iterations (out-of-balance ${res.rmax.toExponential(2)} N)` };
 }
 
