@@ -83,6 +83,8 @@ export class Analysis {
   private pairOf = new Map<number, number>();
   /** While set, steps are driven by the total crack opening instead of the case's control (see run()). */
   private opening = false;
+  /** Largest |load| of the converged steps so far (N), for the secant's last-resort tolerance. */
+  private peakLoad = 0;
   private kap = new Float64Array(0);
   private kapTrial = new Float64Array(0);
   private uf = new Float64Array(0);
@@ -286,7 +288,7 @@ export class Analysis {
       // points switching between loading and unloading can make Newton cycle: fall back to the secant
       this.iterations += r.iterations;
       st = { uf: this.uf.slice(), lambda: this.lambda };
-      r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, kind, target, st, { ...this.newtonOptions(target), maxIter: 300, secant: true, tolFEnd: 1e-4 * this.fScale }, this.work);
+      r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, kind, target, st, { ...this.newtonOptions(target), maxIter: 300, secant: true, tolFEnd: Math.max(this.newtonOptions(target).tolF, 1e-3 * this.peakLoad) }, this.work);
     }
     this.solveTime += performance.now() - t0;
     this.iterations += r.iterations;
@@ -791,6 +793,7 @@ export class Analysis {
     this.solveTime = s.solveTime;
     this.iterations = 0;
     this.resumeAt = structuredClone(s.loop);
+    this.peakLoad = Math.abs(s.loop.peak.load_N);
     this.dirty = true;
   }
 
@@ -895,6 +898,7 @@ export class Analysis {
         } else { at.done = target; at.opening = false; }
         at.step++;
         const ev = this.record(at.step, level);
+        this.peakLoad = Math.max(this.peakLoad, Math.abs(ev.row.load_N));
         if (Math.abs(ev.row.load_N) > Math.abs(at.peak.load_N)) at.peak = { load_N: ev.row.load_N, displacement_mm: ev.row.displacement_mm, cmod_mm: ev.row.cmod_mm, step: at.step };
         await onStep(ev);
         if (at.frac < 1) at.frac = Math.min(1, at.frac * 2);
