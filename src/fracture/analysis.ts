@@ -48,8 +48,6 @@ export interface AnalysisOptions {
   maxGrowthPerStep?: number;
   /** Hand the state to run()'s onCheckpoint after every this many converged steps (0: only when interrupted). */
   checkpointEvery?: number;
-  /** Overrides crack.insertAt (tests, experiments). */
-  insertFraction?: number;
 }
 
 export interface AnalysisResult {
@@ -83,6 +81,8 @@ export class Analysis {
   private pairOf = new Map<number, number>();
   /** While set, steps are driven by the total crack opening instead of the case's control (see run()). */
   private opening = false;
+  private openingOf: System | null = null;
+  private openingCache: { dofs: Int32Array; w: Float64Array } | null = null;
   /** Largest |load| of the converged steps so far (N), for the secant's last-resort tolerance. */
   private peakLoad = 0;
   private kap = new Float64Array(0);
@@ -264,6 +264,7 @@ export class Analysis {
    * the cracks open even where the load and the mouth opening both turn back (snap-back).
    */
   private openingGauge(): { dofs: Int32Array; w: Float64Array } {
+    if (this.openingOf === this.sys) return this.openingCache!;
     const P = this.sys.pairs, n = P.plus.length;
     const dofs = new Int32Array(4 * n), w = new Float64Array(4 * n);
     for (let p = 0; p < n; p++) {
@@ -271,7 +272,9 @@ export class Analysis {
       dofs.set([2 * a, 2 * a + 1, 2 * b, 2 * b + 1], 4 * p);
       w.set([A * P.nx[p], A * P.ny[p], -A * P.nx[p], -A * P.ny[p]], 4 * p);
     }
-    return { dofs, w };
+    // once per topology: the pairs only change with the mesh
+    this.openingOf = this.sys; this.openingCache = { dofs, w };
+    return this.openingCache;
   }
 
   /** Σ A·w of the current state (mm³). */
@@ -390,7 +393,7 @@ export class Analysis {
   }
 
   /** The fraction of ft at which the next segment is laid ahead of a tip. */
-  private get insertAt(): number { return this.opt.insertFraction ?? this.c.crack?.insertAt ?? 1; }
+  private get insertAt(): number { return this.c.crack?.insertAt ?? 1; }
 
   /**
    * How close tip t is to laying its next segment (≥ 1: lay it). The segment is laid intact
