@@ -7,7 +7,7 @@ import { interfaceEnergy, penaltyFor, type CohesiveParams } from '../cohesive/in
 import { elasticMatrix } from '../vem/material.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
 import { System, type PairGeom, type DrivenDofs } from '../solver/system.js';
-import { NewtonWork, solveStep, type StepState, type NewtonOptions } from '../solver/newton.js';
+import { NewtonWork, solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, boundaryVertices, type Driven } from '../solver/driven.js';
 import { RunStopped } from '../errors.js';
 import { submatrixInto, type CsrMatrix } from '../linalg/index.js';
@@ -81,8 +81,6 @@ export class Analysis {
   private pairOf = new Map<number, number>();
   /** While set, steps are driven by the total crack opening instead of the case's control (see run()). */
   private opening = false;
-  private openingOf: System | null = null;
-  private openingCache: { dofs: Int32Array; w: Float64Array } | null = null;
   /** Largest |load| of the converged steps so far (N), for the secant's last-resort tolerance. */
   private peakLoad = 0;
   private kap = new Float64Array(0);
@@ -239,7 +237,7 @@ export class Analysis {
   }
 
   private newtonOptions(target: number): NewtonOptions {
-    const kind = this.opening ? 'cmod' : this.c.control.by;
+    const kind = this.opening ? 'opening' : this.c.control.by;
     const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);
     return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty };
   }
@@ -249,43 +247,10 @@ export class Analysis {
     if (this.dirty) this.rebuild();
     let st: StepState = { uf: this.uf.slice(), lambda: this.lambda };
     const t0 = performance.now();
-    const kind = this.opening ? 'cmod' : this.c.control.by;
-    const gauge = this.sys.driven.gauge, gaugeW = this.sys.driven.gaugeW;
-    if (this.opening) { const g = this.openingGauge(); this.sys.driven.gauge = g.dofs; this.sys.driven.gaugeW = g.w; }
-    try {
-      return this.solveWith(kind, target, st, t0);
-    } finally {
-      this.sys.driven.gauge = gauge; this.sys.driven.gaugeW = gaugeW;
-    }
+    return this.solveWith(this.opening ? 'opening' : this.c.control.by, target, st, t0);
   }
 
-  /**
-   * The crack opening summed over all face pairs, Σ A·w (mm³), as a gauge: it grows while
-   * the cracks open even where the load and the mouth opening both turn back (snap-back).
-   */
-  private openingGauge(): { dofs: Int32Array; w: Float64Array } {
-    if (this.openingOf === this.sys) return this.openingCache!;
-    const P = this.sys.pairs, n = P.plus.length;
-    const dofs = new Int32Array(4 * n), w = new Float64Array(4 * n);
-    for (let p = 0; p < n; p++) {
-      const a = P.plus[p], b = P.minus[p], A = P.area[p];
-      dofs.set([2 * a, 2 * a + 1, 2 * b, 2 * b + 1], 4 * p);
-      w.set([A * P.nx[p], A * P.ny[p], -A * P.nx[p], -A * P.ny[p]], 4 * p);
-    }
-    // once per topology: the pairs only change with the mesh
-    this.openingOf = this.sys; this.openingCache = { dofs, w };
-    return this.openingCache;
-  }
-
-  /** Σ A·w of the current state (mm³). */
-  private openingVolume(): number {
-    const g = this.openingGauge(), u = this.work.u;
-    let v = 0;
-    for (let i = 0; i < g.dofs.length; i++) v += g.w[i] * u[g.dofs[i]];
-    return v;
-  }
-
-  private solveWith(kind: 'displacement' | 'cmod' | 'force', target: number, st: StepState, t0: number): { ok: boolean; reason: string } {
+  private solveWith(kind: ControlKind, target: number, st: StepState, t0: number): { ok: boolean; reason: string } {
     let r = solveStep(this.sys, this.coh, this.kap, this.kapTrial, kind, target, st, this.newtonOptions(target), this.work);
     if (!r.converged && this.sys.pairs.plus.length > 0) {
       // points switching between loading and unloading can make Newton cycle: fall back to the secant
@@ -342,7 +307,7 @@ export class Analysis {
   private openingStep(saved: ReturnType<Analysis['saveState']>): number | null {
     if (this.sys.pairs.plus.length === 0) return null;
     this.sys.expand(this.uf, this.lambda, this.work.u);
-    const V0 = this.openingVolume();
+    const V0 = this.sys.openingReading(this.work.u);
     if (!(V0 > 0)) return null;
     let dV = 0.02 * V0;
     for (let k = 0; k < 6; k++) {
