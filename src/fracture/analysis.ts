@@ -258,14 +258,74 @@ export class Analysis {
   }
 
   /**
+   * One step from the last converged state toward `target`: solve, cut back a step that
+   * failed or went too far (null: try again with the shorter step now in `at`), fall back
+   * to the crack opening, then grow at the level reached. Returns the control kind and
+   * level the step converged at, or why the run ends.
+   */
+  private advance(at: LoopState, target: number): { kind: ControlKind; target: number } | { end: string } | null {
+    const ctl = this.c.control, elastic = !this.c.crack;
+    this.equations();
+    const saved = save(this.s, SOLUTION);
+    // while the case's control value still falls back, go on with the crack opening at once
+    const skipped = at.opening === true;
+    let kind: ControlKind = ctl.by;
+    const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target);
+    if (skipped) at.frac = WHILE_OPENING;
+    // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
+    // and a tip may not be taken past the point where the segment it lays would start above ft
+    if (r.ok && !elastic && at.frac > MIN_FRACTION && !at.opening && (this.softening() > 0.05 || tipOvershoot(this.room()) > overshootLimit(this.c.crack!.insertAt ?? 1))) {
+      this.undo(saved);
+      cut(at);
+      return null;
+    }
+    if (!r.ok) {
+      if (!cut(at)) return null;
+      if (ctl.by === 'force' && at.peak.load_N > 0) return { end: `the load cannot be raised above ${at.peak.load_N.toFixed(1)} N under force control (peak reached)` };
+      // where the load and the gauge both turn back (snap-back), the total crack opening
+      // still grows: let it drive this step
+      const V = ctl.by === 'force' ? null : this.openingStep(saved);
+      // no opening step either: the case's control has one more go before the run stops
+      if (V === null && skipped) { at.opening = false; at.frac = AFTER_OPENING; return null; }
+      if (V === null) throw new RunStopped(`step ${at.step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
+      target = V; kind = 'opening';
+    }
+    if (elastic) return { kind, target };
+    // staggered growth at this control level (or at this crack opening)
+    const failed = this.growAt(kind, target, at.peak);
+    if (failed === 'apart') return { end: 'a crack has run through the specimen, which has come apart' };
+    if (failed && kind === 'opening') throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew while the crack opening drove the step: ${failed}`);
+    if (failed) {
+      // the growth is undone; undo the step too and come at it again in a shorter one
+      // (the equations are rebuilt for the old mesh, with uf and the histories)
+      restore(this.s, saved);
+      if (cut(at)) throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew at ${ctl.by} ${target.toPrecision(4)}, also in shorter steps: ${failed}`);
+      return null;
+    }
+    return { kind, target };
+  }
+
+  /** Commit a converged step and record it at the case's control level it reached. */
+  private converged(at: LoopState, kind: ControlKind, target: number): StepEvent {
+    const ctl = this.c.control;
+    this.eq.commit(this.s.kappa);
+    // driven by the opening, the level reached is the gauge reading or the load-point travel
+    const level = kind !== 'opening' ? target : ctl.by === 'cmod' ? this.eq.sys.gaugeReading(this.eq.work.u) : this.s.lambda;
+    accept(at, level, kind === 'opening');
+    const ev = this.record(at.step, level);
+    this.peakLoad = Math.max(this.peakLoad, Math.abs(ev.row.load_N));
+    settle(at, ev.row);
+    return ev;
+  }
+
+  /**
    * Run the whole analysis; onStep sees every converged step (step 0 is the unloaded state),
    * onCheckpoint the state every `checkpointEvery` steps and when a stop is requested. The
    * loop position is explicit (LoopState) and only changes between steps, so a run restored
    * from a checkpoint repeats exactly what the uninterrupted run did after it.
    */
   async run(onStep: (e: StepEvent) => void | Promise<void>, onCheckpoint?: (s: AnalysisState) => void | Promise<void>): Promise<AnalysisResult> {
-    const c = this.c, ctl = c.control;
-    const elastic = !c.crack;
+    const ctl = this.c.control, elastic = !this.c.crack;
     let status: AnalysisResult['status'] = 'complete', reason = '', failure: unknown;
     const nInc = elastic ? 1 : ctl.increments;
     const every = this.opt.checkpointEvery ?? 0;
@@ -280,7 +340,7 @@ export class Analysis {
       }
       this.resumeAt = null;
       while (at.inc <= nInc) {
-        let target = propose(at, ctl.target, nInc);
+        const target = propose(at, ctl.target, nInc);
         if (target === null) continue;
         // let signal handlers run between attempts
         if (this.stopRequested) await new Promise<void>((r) => setImmediate(r));
@@ -289,51 +349,10 @@ export class Analysis {
           await onCheckpoint?.(this.state(mark));
           break;
         }
-        this.equations();
-        const saved = save(this.s, SOLUTION);
-        // while the case's control value still falls back, go on with the crack opening at once
-        const skipped = at.opening === true;
-        let kind: ControlKind = ctl.by;
-        let r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target);
-        if (skipped) at.frac = WHILE_OPENING;
-        // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
-        // and a tip may not be taken past the point where the segment it lays would start above ft
-        if (r.ok && !elastic && at.frac > MIN_FRACTION && !at.opening && (this.softening() > 0.05 || tipOvershoot(this.room()) > overshootLimit(c.crack!.insertAt ?? 1))) {
-          this.undo(saved);
-          cut(at);
-          continue;
-        }
-        if (!r.ok) {
-          if (!cut(at)) continue;
-          if (ctl.by === 'force' && at.peak.load_N > 0) { reason = `the load cannot be raised above ${at.peak.load_N.toFixed(1)} N under force control (peak reached)`; break; }
-          // where the load and the gauge both turn back (snap-back), the total crack opening
-          // still grows: let it drive this step
-          const V = ctl.by === 'force' ? null : this.openingStep(saved);
-          // no opening step either: the case's control has one more go before the run stops
-          if (V === null && skipped) { at.opening = false; at.frac = AFTER_OPENING; continue; }
-          if (V === null) throw new RunStopped(`step ${at.step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
-          target = V; kind = 'opening';
-        }
-        // staggered growth at this control level (or at this crack opening)
-        if (!elastic) {
-          const failed = this.growAt(kind, target, at.peak);
-          if (failed === 'apart') { reason = 'a crack has run through the specimen, which has come apart'; break; }
-          if (failed && kind === 'opening') throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew while the crack opening drove the step: ${failed}`);
-          if (failed) {
-            // the growth is undone; undo the step too and come at it again in a shorter one
-            // (the equations are rebuilt for the old mesh, with uf and the histories)
-            restore(this.s, saved);
-            if (cut(at)) throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew at ${ctl.by} ${target.toPrecision(4)}, also in shorter steps: ${failed}`);
-            continue;
-          }
-        }
-        this.eq.commit(this.s.kappa);
-        // driven by the opening, the level reached is the gauge reading or the load-point travel
-        const level = kind !== 'opening' ? target : ctl.by === 'cmod' ? this.eq.sys.gaugeReading(this.eq.work.u) : this.s.lambda;
-        accept(at, level, kind === 'opening');
-        const ev = this.record(at.step, level);
-        this.peakLoad = Math.max(this.peakLoad, Math.abs(ev.row.load_N));
-        settle(at, ev.row);
+        const step = this.advance(at, target);
+        if (step === null) continue;
+        if ('end' in step) { reason = step.end; break; }
+        const ev = this.converged(at, step.kind, step.target);
         await onStep(ev);
         if (!elastic && ctl.stopAtLoadFraction > 0 && at.step > at.peak.step && Math.abs(ev.row.load_N) <= ctl.stopAtLoadFraction * Math.abs(at.peak.load_N)) {
           reason = `the load fell to ${(100 * ctl.stopAtLoadFraction).toFixed(1)} % of the peak`;
@@ -350,9 +369,13 @@ export class Analysis {
         status = 'failed'; reason = `internal error after step ${at.step}: ${e instanceof Error ? e.message : String(e)}`; failure = e;
       }
     }
+    return this.result(status, reason, at.peak, failure);
+  }
+
+  private result(status: AnalysisResult['status'], reason: string, peak: Peak, failure: unknown): AnalysisResult {
     const s = this.s;
     return {
-      status, reason, rows: s.rows, peak: at.peak,
+      status, reason, rows: s.rows, peak,
       crackPaths: s.cracks.filter((k) => k.kind === 'cohesive').map((k) => k.path.map((v) => [this.wm.x[v], this.wm.y[v]] as [number, number])),
       dofs: s.dofs,
       mesh: { polygons: this.eq.compact.mesh.cellStart.length - 1, vertices: this.eq.compact.vertexOf.length },
