@@ -109,6 +109,9 @@ export function minimumDegree(g: Graph, stage?: Int32Array): Int32Array {
   // round has touched goes in the same round; degrees are updated once per round
   const dirtyMark = new Int32Array(n);
   const dirty: number[] = [];
+  const roundElements: number[] = [];
+  const inP = new Int32Array(n);
+  let pStamp = 0;
   let round = 0;
   /** Eliminates p: the new element, its neighbours' lists, merging; the clique's variables become dirty. */
   const eliminate = (p: number): void => {
@@ -190,6 +193,7 @@ export function minimumDegree(g: Graph, stage?: Int32Array): Int32Array {
   while (heap.size > 0) {
     round++;
     dirty.length = 0;
+    roundElements.length = 0;
     let level = -1;
     while (heap.size > 0) {
       const key = heap.peek();
@@ -202,32 +206,45 @@ export function minimumDegree(g: Graph, stage?: Int32Array): Int32Array {
       if (level >= 0 && base !== level) break;
       heap.pop();
       if (dirtyMark[p] === round) continue;
-      level = base;
+      if (level < 0) level = base;
       eliminate(p);
+      roundElements.push(p);
     }
 
-    // exact external degrees of the variables the round touched
-    for (const i of dirty) {
-      if (state[i] !== VARIABLE) continue;
-      stamp++;
-      mark[i] = stamp;
-      let d = 0;
-      for (const u of varAdj[i]) {
-        if (state[u] === VARIABLE && mark[u] !== stamp) {
-          mark[u] = stamp;
-          d += w[u];
-        }
+    // exact external degrees of the variables the round touched, element by element: the new
+    // element's weight is counted once and its variables skipped in the scans of the older ones
+    for (const p of roundElements) {
+      pStamp++;
+      let wp = 0;
+      for (const u of elVars[p]) {
+        if (state[u] !== VARIABLE) continue;
+        inP[u] = pStamp;
+        wp += w[u];
       }
-      for (const e of elAdj[i]) {
-        for (const u of elVars[e]) {
-          if (state[u] === VARIABLE && mark[u] !== stamp) {
+      for (const i of elVars[p]) {
+        if (state[i] !== VARIABLE || dirtyMark[i] !== round) continue;
+        dirtyMark[i] = -round;
+        stamp++;
+        mark[i] = stamp;
+        let d = wp - w[i];
+        for (const u of varAdj[i]) {
+          if (state[u] === VARIABLE && inP[u] !== pStamp && mark[u] !== stamp) {
             mark[u] = stamp;
             d += w[u];
           }
         }
+        for (const e of elAdj[i]) {
+          if (e === p) continue;
+          for (const u of elVars[e]) {
+            if (state[u] === VARIABLE && inP[u] !== pStamp && mark[u] !== stamp) {
+              mark[u] = stamp;
+              d += w[u];
+            }
+          }
+        }
+        deg[i] = d;
+        heap.push(keyOf(i, d));
       }
-      deg[i] = d;
-      heap.push(keyOf(i, d));
     }
   }
   return order;
