@@ -53,11 +53,13 @@ function levelStructure(wk: Work, root: number): [number, number] {
   return [tail, level[queue[tail - 1]]];
 }
 
-/** Two ends of a pseudo-diameter found by the pseudo-peripheral search (George & Liu 1979): the root and its farthest try. */
-function pseudoPeripheral(wk: Work, start: number): [number, number] {
+/**
+ * Two ends of a pseudo-diameter found by the pseudo-peripheral search (George & Liu 1979): the root and
+ * its farthest try. Starts from the level structure of start, which queue and level hold.
+ */
+function pseudoPeripheral(wk: Work, start: number, reached: number, height: number): [number, number] {
   const { g, level, queue } = wk;
   let root = start;
-  let [reached, height] = levelStructure(wk, root);
   for (;;) {
     // the last level's vertex of least degree starts the next try
     let best = -1;
@@ -322,7 +324,7 @@ export function dissectionStages(g: Graph, opts: DissectionOptions = {}): Int32A
     for (let t = 0; t < m; t++) piece[verts[t]] = id;
 
     // a piece in several components splits without a separator
-    const [reached] = levelStructure(wk, verts[0]);
+    const [reached, height] = levelStructure(wk, verts[0]);
     if (reached < m) {
       const comp = queue.slice(0, reached);
       for (let t = 0; t < reached; t++) piece[comp[t]] = 0;
@@ -331,7 +333,7 @@ export function dissectionStages(g: Graph, opts: DissectionOptions = {}): Int32A
     }
 
     // level structures from both ends of a pseudo-diameter; the lighter separator wins
-    const [r1, r2] = pseudoPeripheral(wk, verts[0]);
+    const [r1, r2] = pseudoPeripheral(wk, verts[0], reached, height);
     let sepW = levelSeparator(wk, verts, r1, side, balance, passes);
     if (r2 !== r1) {
       const keep = Uint8Array.from(verts, (v) => side[v]);
