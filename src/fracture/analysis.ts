@@ -15,6 +15,8 @@ import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
 import { refineAround, coarsenAway } from './adapt.js';
 import { tipStress, growthDirection, hoopDirection } from './criterion.js';
+// study hook: a spatially random ft steers where and when a crack grows
+import { strengthOf, weakestDirection } from '../study/field.js';
 import { meshState, restoreMesh, type AnalysisState, type LoopState, type Peak } from './checkpoint.js';
 
 export interface StepRow {
@@ -100,6 +102,8 @@ export class Analysis {
   private lastProbes: ProbeRow[] = [];
   private readonly fScale: number;
   stopRequested: (() => boolean) | null = null;
+  /** ft at a point when the case has a random strength field (study hook), else null. */
+  private readonly ftAt: ((x: number, y: number) => number) | null;
   /** Set by restore(): the loop goes on from here instead of from the unloaded state. */
   private resumeAt: LoopState | null = null;
   /** Every growth event: tip index, position, chosen direction and whether it was the kink out of the start. */
@@ -109,6 +113,7 @@ export class Analysis {
     this.wm = WorkMesh.fromPolyMesh(initial);
     for (let v = 0; v < this.wm.vertexCount; v++) this.wm.pinned[v] = 1;
     this.D = elasticMatrix(c.material.E, c.material.nu, c.model);
+    this.ftAt = strengthOf(c);
     this.coh = { law: makeLaw(c.material.softening, c.material.ft, c.material.GF), penalty: penaltyFor(c.material.E, c.mesh.tipSize), beta: c.material.shearWeight };
     const ext = extent(initial);
     this.driven = selectDriven(c, initial, 1e-6 * ext);
@@ -411,7 +416,7 @@ export class Analysis {
    */
   private readiness(t: Tip, s1: number): number {
     if (t.crack < 0) return s1 > 0 ? Infinity : 0;
-    const a = this.insertAt, crack = this.c.crack!, ft = this.c.material.ft;
+    const a = this.insertAt, crack = this.c.crack!, ft = this.ftAt ? this.ftAt(this.wm.x[t.v], this.wm.y[t.v]) : this.c.material.ft;
     const byStress = this.frontDistance(t, a) <= crack.growthStep * (1 + 1e-9) ? s1 / (a * ft) : 0;
     return Math.max(byStress, this.endPairLoad(t) / a);
   }
@@ -544,6 +549,7 @@ export class Analysis {
         ?? (t.dx !== 0 || t.dy !== 0
           ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
           : growthDirection(ts, t.dx, t.dy));
+      if (this.ftAt) [gx, gy] = weakestDirection(this.ftAt, tx, ty, gx, gy, crack.growthStep, MAX_TURN);
       // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
       if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
       this.growthLog.push({ tip: this.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });

@@ -76,7 +76,7 @@ export function expandStudy(s: StudySpec): Variant[] {
     if (f !== null) scaleCase(data, f, s.sizes?.thickness ?? 'kept');
     if (s.field?.ft) {
       const seed = mixSeed(s.seed, index, textSeed('field.ft'));
-      setPath(data, 'material.ftField', { ...s.field.ft, seed });
+      setPath(data, 'material.strengthField', { ...s.field.ft, seed });
       values['field.seed'] = seed;
     }
     const id = `v${String(index + 1).padStart(width, '0')}`;

@@ -9,6 +9,7 @@ import { InputError } from '../errors.js';
 
 const positive = z.number().positive();
 const cov = z.number().min(0).max(2);
+const fieldCov = z.number().min(0).max(1);
 
 export const distributionSchema = z.strictObject({
   distribution: z.enum(['normal', 'lognormal', 'weibull']),
@@ -19,7 +20,7 @@ export type Distribution = z.infer<typeof distributionSchema>;
 
 export const fieldSchema = z.strictObject({
   distribution: z.enum(['normal', 'lognormal']).optional(),
-  cov,
+  cov: fieldCov,
   correlationLength: positive,
   /** Grid points per correlation length where the field is drawn (then interpolated at the cells). */
   pointsPerLength: z.number().int().min(1).max(8).optional(),
