@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ensureBuilt, coarseDemoYaml } from './support/cli.js';
 import { studyFromData } from '../src/study/spec.js';
 import { runStudy, type StudyEvent } from '../src/study/study.js';
+import { externalReferences } from '../src/output/report.js';
 
 let dir = '';
 const base = () => parse(coarseDemoYaml((c) => { c.control.increments = 15; c.output.pngWidth = 400; })) as Record<string, unknown>;
@@ -44,6 +45,10 @@ describe('rupta study on this machine', () => {
     expect(existsSync(join(out, 'band.png'))).toBe(true);
     for (const f of ['paths.svg', 'peaks.svg', 'study.html']) expect(existsSync(join(out, f)), f).toBe(true);
     expect(events.filter((e) => e.kind === 'end')).toHaveLength(4);
+    // one self-contained page: pictures inline, the only addresses are links to the variants' own reports
+    const html = readFileSync(join(out, 'study.html'), 'utf8');
+    expect(externalReferences(html).filter((a) => !/^runs\/v\d{4}\/report\.html$/.test(a))).toEqual([]);
+    expect(html.match(/<svg\b/g)?.length).toBe(3);
     // a second start without --resume or --force is refused, with one sentence
     await expect(runStudy(spec, { out })).rejects.toThrow(/already holds a study: give --resume/);
   }, 300_000);

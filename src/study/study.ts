@@ -14,7 +14,7 @@ import { STUDY_FILE, caseFile, isFinished, logFile, runStatus } from './layout.j
 import { runPool } from './local.js';
 import { bandSvg, pathsSvg, peaksSvg, sizeEffectSvg } from './pictures.js';
 import { fitSizeEffect, nominalStrength, type SizeEffectFit } from './sizeeffect.js';
-import { runSlurm, type SlurmOptions } from './slurm.js';
+import { checkSlurmOptions, runSlurm, type SlurmOptions } from './slurm.js';
 import type { StudySpec } from './spec.js';
 import { studyHtml } from './html.js';
 import { describe } from './stats.js';
@@ -100,6 +100,8 @@ export async function runStudy(spec: StudySpec, opt: StudyOptions = {}): Promise
   if (dir.trim() === '') throw new InputError('--out needs the name of a folder (found an empty one)');
   const jobs = Math.floor(opt.jobs ?? 2);
   if (!(jobs >= 1 && jobs <= 256)) throw new InputError(`--jobs must be a whole number of variants run at once from 1 to 256 (found ${opt.jobs})`);
+  if (opt.dryRun && (opt.on ?? 'local') !== 'slurm') throw new InputError('--dry-run writes the batch script of a Slurm study: give it with --on slurm');
+  if (opt.on === 'slurm') checkSlurmOptions(opt.slurm ?? {});
   const title = spec.title ?? `Study ${spec.name}`;
   const rec: StudyRecord = { format: 1, name: spec.name, title, seed: spec.seed, variants: variants.map((v) => ({ id: v.id, values: v.values, ...(v.D !== undefined ? { D: v.D } : {}), case: v.data })) };
   prepareFolder(dir, rec, opt);
@@ -118,7 +120,6 @@ export async function runStudy(spec: StudySpec, opt: StudyOptions = {}): Promise
       script = r.dryRun ? r.script : undefined;
       if (r.dryRun) return { dir, rows: [], counts: {}, finished: false, sizeEffect: null, files: [r.script], script: r.script };
     } else {
-      if (opt.dryRun) throw new InputError('--dry-run writes the batch script of a Slurm study: give it with --on slurm');
       let finished = 0;
       const pool = runPool(dir, todo.map((v) => ({ id: v.id, resume: runStatus(dir, v.id) === 'interrupted' })), jobs, {
         onStart: (id) => emit({ kind: 'start', id }),
