@@ -15,6 +15,16 @@ import { slurmUnavailable, startSlurm } from '../tests/support/slurm.js';
 
 const now = () => performance.now() / 1000;
 
+/** CPU seconds of this process's finished children (Linux: cutime + cstime of /proc/self/stat), or NaN. */
+function childCpu(): number {
+  try {
+    const f = readFileSync('/proc/self/stat', 'utf8').split(') ')[1]!.split(' ');
+    // after the command name: state is field 3, cutime and cstime are fields 16 and 17, in ticks of 1/100 s
+    return (Number(f[13]) + Number(f[14])) / 100;
+  } catch { return NaN; }
+}
+const load = () => { try { return readFileSync('/proc/loadavg', 'utf8').split(' ')[0]; } catch { return '?'; } };
+
 function demoCase(): Record<string, unknown> {
   return parse(readFileSync(fileURLToPath(new URL('../../cases/beam-3pb-demo.yaml', import.meta.url)), 'utf8')) as Record<string, unknown>;
 }
@@ -37,16 +47,16 @@ export async function benchStudy(variants: number, jobs: number, slurm: boolean)
     // one run alone: the first variant's case through the command line
     const local = join(dir, 'local');
     await runStudy(spec, { out: local, dryRun: true, on: 'slurm' }).catch(() => undefined);
-    let t0 = now();
+    let c0 = childCpu(), t0 = now();
     execFileSync(process.execPath, [cliEntry(), 'run', 'cases/v0001.yaml', '--out', join(dir, 'single'), '--quiet', '--force'], { cwd: local, stdio: 'ignore' });
-    const single = now() - t0;
-    console.log(`one run of the demo beam alone: ${single.toFixed(1)} s wall`);
+    const single = now() - t0, singleCpu = childCpu() - c0;
+    console.log(`one run of the demo beam alone: ${single.toFixed(1)} s wall, ${singleCpu.toFixed(1)} s CPU (load average ${load()})`);
     rmSync(local, { recursive: true, force: true });
-    t0 = now();
+    c0 = childCpu(); t0 = now();
     const r = await runStudy(spec, { out: local, jobs, png: false });
-    const wall = now() - t0;
+    const wall = now() - t0, cpu = childCpu() - c0;
     report(`local pool`, r, wall, jobs);
-    console.log(`  study wall / (${variants}/${jobs} × one run) = ${(wall / ((variants / jobs) * single)).toFixed(2)}`);
+    console.log(`  study wall / (${variants}/${jobs} × one run) = ${(wall / ((variants / jobs) * single)).toFixed(2)}; CPU ${cpu.toFixed(1)} s = ${(cpu / variants / singleCpu).toFixed(2)} × one run's per variant; CPU/wall ${(cpu / wall).toFixed(2)} of ${jobs} (load average ${load()})`);
     if (slurm) {
       const why = slurmUnavailable();
       if (why) { console.log(why.replace('Slurm test skipped', 'Slurm bench skipped')); return; }
@@ -54,9 +64,17 @@ export async function benchStudy(variants: number, jobs: number, slurm: boolean)
       const saved = process.env.SLURM_CONF;
       process.env.SLURM_CONF = s.conf;
       try {
+        // the scheduler alone: an array of tasks that do nothing, followed the way a study follows it
+        const env = { ...process.env, SLURM_CONF: s.conf };
         t0 = now();
+        const id = execFileSync('sbatch', ['--parsable', `--array=0-${variants - 1}`, `--output=${join(dir, 'noop-%a.txt')}`, '--wrap=true'], { env, encoding: 'utf8' }).trim();
+        while (execFileSync('squeue', ['-h', '-r', '-j', id, '-o', '%T'], { env, encoding: 'utf8' }).trim() !== '') await new Promise((res) => setTimeout(res, 200));
+        const noop = now() - t0;
+        console.log(`single-node Slurm: an array of ${variants} empty tasks in ${noop.toFixed(1)} s, ${(jobs * noop / variants).toFixed(2)} s per task on ${jobs} CPUs (submission to leaving the queue)`);
+        c0 = childCpu(); t0 = now();
         const rs = await runStudy(spec, { out: join(dir, 'slurm'), on: 'slurm', png: false, slurm: { pollSeconds: 0.5 } });
         report('single-node Slurm (2 CPUs)', rs, now() - t0, jobs);
+        console.log(`  (load average ${load()})`);
       } finally {
         if (saved === undefined) delete process.env.SLURM_CONF; else process.env.SLURM_CONF = saved;
         await s.stop();

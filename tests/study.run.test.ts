@@ -1,7 +1,10 @@
 // A seed study of a coarse beam through the local pool: one ordinary run folder per
 // variant, study.csv with a row each, the band picture; and a study stopped part-way
 // goes on with only the variants it had not finished.
-import { existsSync, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { stringify } from 'yaml';
+import { runPool } from '../src/study/local.js';
+import { collectVariant, studyCsv } from '../src/study/collect.js';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parse } from 'yaml';
@@ -72,4 +75,22 @@ describe('rupta study on this machine', () => {
     expect(statSync(join(out, 'runs', 'v0001', 'summary.json')).mtimeMs).toBe(kept);
     expect(readFileSync(join(out, 'study.csv'), 'utf8').trimEnd().split('\n')).toHaveLength(4);
   }, 300_000);
+
+  it('records a variant that fails and goes on with the others', async () => {
+    const out = join(dir, 'failing');
+    for (const sub of ['cases', 'runs', 'logs']) mkdirSync(join(out, sub), { recursive: true });
+    writeFileSync(join(out, 'cases', 'v0001.yaml'), stringify(base()));
+    // a case the program refuses when the variant runs (no material), as a broken variant file would be
+    const broken = base(); delete broken.material;
+    writeFileSync(join(out, 'cases', 'v0002.yaml'), stringify(broken));
+    const pool = runPool(out, [{ id: 'v0002', resume: false }, { id: 'v0001', resume: false }], 1, {});
+    const ends = await pool.done;
+    expect(ends.map((e) => [e.id, e.code])).toEqual([['v0002', 2], ['v0001', 0]]);
+    const v = (id: string) => ({ index: 0, id, values: {}, data: {} });
+    const bad = collectVariant(out, v('v0002'), 'refused');
+    expect(bad.row.status).toBe('missing');
+    expect(collectVariant(out, v('v0001')).row.status).toBe('complete');
+    expect(studyCsv([bad.row])).toMatch(/^variant,status,.*\nv0002,missing,,.*,refused\n$/s);
+    expect(readFileSync(join(out, 'logs', 'v0002.txt'), 'utf8')).toMatch(/^rupta: material/);
+  }, 120_000);
 });

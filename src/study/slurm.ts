@@ -3,7 +3,7 @@
 // (sacct asked at the end where the cluster keeps accounting), collected from the run
 // folders when the array has left the queue.
 import { execFile } from 'node:child_process';
-import { mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { InputError } from '../errors.js';
 import { writeFileAtomic } from '../output/files.js';
@@ -75,9 +75,16 @@ function cmd(file: string, args: string[]): Promise<{ code: number; out: string;
 
 const sleep = (s: number) => new Promise((r) => setTimeout(r, s * 1000));
 
+/** The last line Slurm wrote for a variant's array task (a time limit or memory kill is told there). */
+export function slurmNote(dir: string, jobId: string, index: number): string {
+  const p = join(dir, 'logs', `slurm-${jobId}_${index}.txt`);
+  if (!existsSync(p)) return '';
+  return readFileSync(p, 'utf8').split('\n').map((l) => l.trim()).filter((l) => l !== '').pop() ?? '';
+}
+
 /** Submit the array and follow it until it leaves the queue (or only write the script on a dry run). */
 export async function runSlurm(dir: string, name: string, tasks: LocalTask[], o: SlurmOptions, emit: (e: StudyEvent) => void,
-  stopRequested?: () => boolean): Promise<{ dryRun: boolean; script: string; jobId?: string; accounting?: string }> {
+  stopRequested?: () => boolean): Promise<{ dryRun: boolean; script: string; jobId?: string; states?: Record<string, string> }> {
   checkSlurmOptions(o);
   mkdirSync(join(dir, 'slurm'), { recursive: true });
   const script = join(dir, 'slurm', 'array.sh');
@@ -93,7 +100,12 @@ export async function runSlurm(dir: string, name: string, tasks: LocalTask[], o:
   const poll = o.pollSeconds ?? 5;
   let cancelled = false;
   for (;;) {
-    if (!cancelled && stopRequested?.()) { cancelled = true; await cmd('scancel', ['--signal=TERM', '--full', jobId]); }
+    if (!cancelled && stopRequested?.()) {
+      // tasks not yet started leave the queue; running ones end after their step, with a checkpoint
+      cancelled = true;
+      await cmd('scancel', ['--state=PENDING', jobId]);
+      await cmd('scancel', ['--signal=TERM', '--full', jobId]);
+    }
     const sq = await cmd('squeue', ['-h', '-r', '-j', jobId, '-o', '%T']);
     // an array that has left the queue: squeue lists nothing (or no longer knows the id)
     const states = sq.code === 0 ? sq.out.split('\n').map((s) => s.trim()).filter((s) => s !== '') : [];
@@ -104,6 +116,14 @@ export async function runSlurm(dir: string, name: string, tasks: LocalTask[], o:
   }
   // where the cluster keeps accounting, the end state of every task (timeouts, memory) is kept beside the logs
   const acct = await cmd('sacct', ['-n', '-P', '-X', '-j', jobId, '-o', 'JobID,State,Elapsed,ExitCode']);
-  if (acct.code === 0 && acct.out.trim()) writeFileAtomic(join(dir, 'slurm', 'sacct.txt'), acct.out);
-  return { dryRun: false, script, jobId, accounting: acct.code === 0 ? acct.out : undefined };
+  const states: Record<string, string> = {};
+  if (acct.code === 0 && acct.out.trim()) {
+    writeFileAtomic(join(dir, 'slurm', 'sacct.txt'), acct.out);
+    for (const line of acct.out.split('\n')) {
+      const [id, state] = line.split('|');
+      const m = /_(\d+)$/.exec(id ?? '');
+      if (m && state && tasks[Number(m[1])]) states[tasks[Number(m[1])]!.id] = state.trim();
+    }
+  }
+  return { dryRun: false, script, jobId, states };
 }

@@ -14,7 +14,7 @@ import { STUDY_FILE, caseFile, isFinished, logFile, runStatus } from './layout.j
 import { runPool } from './local.js';
 import { bandSvg, pathsSvg, peaksSvg, sizeEffectSvg } from './pictures.js';
 import { fitSizeEffect, nominalStrength, type SizeEffectFit } from './sizeeffect.js';
-import { checkSlurmOptions, runSlurm, type SlurmOptions } from './slurm.js';
+import { checkSlurmOptions, runSlurm, slurmNote, type SlurmOptions } from './slurm.js';
 import type { StudySpec } from './spec.js';
 import { studyHtml } from './html.js';
 import { describe } from './stats.js';
@@ -114,10 +114,15 @@ export async function runStudy(spec: StudySpec, opt: StudyOptions = {}): Promise
   emit({ kind: 'plan', dir, total: variants.length, toRun: todo.length, kept: variants.length - todo.length });
 
   let script: string | undefined;
+  const notes = new Map<string, string>();
   if (todo.length > 0) {
     if ((opt.on ?? 'local') === 'slurm') {
       const r = await runSlurm(dir, spec.name, todo.map((v) => ({ id: v.id, resume: runStatus(dir, v.id) === 'interrupted' })), { ...opt.slurm, dryRun: opt.dryRun }, emit, opt.stopRequested);
       script = r.dryRun ? r.script : undefined;
+      todo.forEach((v, i) => {
+        const note = [r.states?.[v.id] ? `Slurm state ${r.states[v.id]}` : '', r.jobId ? slurmNote(dir, r.jobId, i) : ''].filter((x) => x).join('; ');
+        if (note) notes.set(v.id, note);
+      });
       if (r.dryRun) return { dir, rows: [], counts: {}, finished: false, sizeEffect: null, files: [r.script], script: r.script };
     } else {
       let finished = 0;
@@ -129,15 +134,18 @@ export async function runStudy(spec: StudySpec, opt: StudyOptions = {}): Promise
       try { await pool.done; } finally { if (poll) clearInterval(poll); }
     }
   }
-  return gather(spec, dir, variants, models, title, opt.png ?? true, emit, script);
+  return gather(spec, dir, variants, models, title, opt.png ?? true, emit, notes, script);
 }
 
 /** study.csv, pictures and page from the run folders as they are. */
 async function gather(spec: StudySpec, dir: string, variants: Variant[], models: CaseModel[], title: string, png: boolean,
-  emit: (e: StudyEvent) => void, script?: string): Promise<StudyResult> {
+  emit: (e: StudyEvent) => void, notes: Map<string, string>, script?: string): Promise<StudyResult> {
   const results: VariantResult[] = variants.map((v) => {
     const r = collectVariant(dir, v);
-    if (r.row.status === 'missing') { const why = lastLogLine(dir, v.id); if (why) r.row.reason = why; }
+    if (r.row.status === 'missing') {
+      const why = [lastLogLine(dir, v.id), notes.get(v.id) ?? ''].filter((x) => x).join('; ');
+      if (why) r.row.reason = why;
+    }
     return r;
   });
   const rows = results.map((r) => r.row);
