@@ -42,7 +42,8 @@ export function registerStudyCommand(program: Command): void {
     .option('--time <limit>', 'slurm: time limit per variant (minutes, HH:MM:SS or D-HH:MM:SS)')
     .option('--mem <size>', 'slurm: memory per variant (e.g. 2G)')
     .option('--cpus-per-task <n>', 'slurm: cores per variant (default 1)')
-    .option('--max-running <n>', 'slurm: at most this many variants at once')
+    .option('--max-running <n>', 'slurm: at most this many array tasks at once')
+    .option('--per-task <n>', 'slurm: variants run in turn by one array task (default 1)')
     .option('--poll <seconds>', 'slurm: seconds between looks at the queue (default 5)')
     .option('--quiet', 'no progress on stderr')
     .option('--json', 'print the study result (rows and counts) as JSON on stdout')
@@ -61,6 +62,7 @@ export function registerStudyCommand(program: Command): void {
         slurm: {
           partition: o.partition as string | undefined, time: o.time as string | undefined, mem: o.mem as string | undefined,
           cpusPerTask: whole('--cpus-per-task', o.cpusPerTask as string | undefined, 1), maxRunning: whole('--max-running', o.maxRunning as string | undefined, 1),
+          perTask: whole('--per-task', o.perTask as string | undefined, 1),
           pollSeconds: poll,
         },
         onEvent: progressLine(Boolean(o.quiet)),

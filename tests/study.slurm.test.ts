@@ -1,5 +1,5 @@
 // A study through a real single-node Slurm started by the test: a job array of three
-// coarse variants, followed with squeue, collected into study.csv. Skipped, with the
+// coarse variants (two array tasks), followed with squeue, collected into study.csv. Skipped, with the
 // reason, where the Slurm and munge binaries are absent.
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -34,9 +34,10 @@ describe.skipIf(why !== null)('rupta study on Slurm', () => {
     const spec = studyFromData({ study: 1, case: coarseCase(), vary: { 'mesh.seed': [1, 2, 3] } }, 'cluster', dir);
     const out = join(dir, 'cluster');
     const events: StudyEvent[] = [];
-    const r = await runStudy(spec, { out, on: 'slurm', png: false, slurm: { pollSeconds: 0.5, time: '10:00', mem: '1G' }, onEvent: (e) => events.push(e) });
+    // two array tasks: the first runs two variants in turn, the second one
+    const r = await runStudy(spec, { out, on: 'slurm', png: false, slurm: { pollSeconds: 0.5, time: '10:00', mem: '1G', perTask: 2 }, onEvent: (e) => events.push(e) });
     const script = readFileSync(join(out, 'slurm', 'array.sh'), 'utf8');
-    expect(script).toMatch(/#SBATCH --array=0-2\n/);
+    expect(script).toMatch(/#SBATCH --array=0-1\n/);
     expect(script).toMatch(/#SBATCH --time=10:00\n/);
     expect(events.some((e) => e.kind === 'submitted')).toBe(true);
     expect(r.counts.complete).toBe(3);
@@ -59,6 +60,9 @@ describe('rupta study --on slurm --dry-run', () => {
       expect(s).toMatch(/ids=\(v0001 v0002 v0003 v0004\)/);
       expect(s).toMatch(/run "cases\/\$id\.yaml" --out "runs\/\$id" --quiet \$mode/);
       expect(existsSync(join(d, 'dry', 'runs', 'v0001', 'summary.json'))).toBe(false);
+      const two = await runStudy(spec, { out: join(d, 'dry3'), on: 'slurm', dryRun: true, slurm: { perTask: 3 } });
+      // four variants, three per task: two array tasks, the second runs one
+      expect(readFileSync(two.script!, 'utf8')).toMatch(/#SBATCH --array=0-1\n[\s\S]*\nper=3\n/);
       await expect(runStudy(spec, { out: join(d, 'dry2'), on: 'slurm', dryRun: true, slurm: { time: 'soon' } })).rejects.toThrow(/--time must be a time limit per variant/);
     } finally { rmSync(d, { recursive: true, force: true }); }
   });

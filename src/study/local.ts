@@ -36,7 +36,12 @@ export function runPool(dir: string, tasks: LocalTask[], jobs: number, hooks: {
       const t = queue.shift()!;
       const t0 = performance.now();
       const log = openSync(logFile(dir, t.id), 'w');
-      const p = spawn(process.execPath, [cli, ...runArgs(t.id, t.resume)], { cwd: dir, stdio: ['ignore', log, log], env: { ...process.env, RUPTA_DEBUG: '' } });
+      const p = spawn(process.execPath, [cli, ...runArgs(t.id, t.resume)], {
+        cwd: dir, stdio: ['ignore', log, log], env: { ...process.env, RUPTA_DEBUG: '' },
+        // a process group of its own: Ctrl-C at the terminal reaches the study only, which then
+        // asks each run once to stop after its step (a second signal would end it at once)
+        detached: true,
+      });
       closeSync(log);
       running.add(p);
       hooks.onStart?.(t.id);

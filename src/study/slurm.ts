@@ -20,6 +20,8 @@ export interface SlurmOptions {
   cpusPerTask?: number;
   /** At most this many array tasks at once (the %N of --array). */
   maxRunning?: number;
+  /** Variants run one after the other in one array task (default 1): fewer, longer tasks where the scheduler is slow to start them. */
+  perTask?: number;
   /** Seconds between looks at the queue (default 5). */
   pollSeconds?: number;
   dryRun?: boolean;
@@ -34,17 +36,19 @@ export function checkSlurmOptions(o: SlurmOptions): void {
   if (o.mem !== undefined && !/^\d+[KMGT]?$/i.test(o.mem)) throw new InputError(`--mem must be the memory per variant as a whole number with a unit K, M, G or T, e.g. 2G (found ${o.mem})`);
   if (o.partition !== undefined && !/^[\w.,-]+$/.test(o.partition)) throw new InputError(`--partition must be the name of a Slurm partition, letters, digits, dots, dashes and underscores (found ${o.partition})`);
   if (o.cpusPerTask !== undefined && !(Number.isInteger(o.cpusPerTask) && o.cpusPerTask >= 1)) throw new InputError(`--cpus-per-task must be a whole number of cores of at least 1 (found ${o.cpusPerTask})`);
+  if (o.perTask !== undefined && !(Number.isInteger(o.perTask) && o.perTask >= 1)) throw new InputError(`--per-task must be a whole number of variants of at least 1 (found ${o.perTask})`);
   if (o.maxRunning !== undefined && !(Number.isInteger(o.maxRunning) && o.maxRunning >= 1)) throw new InputError(`--max-running must be a whole number of array tasks of at least 1 (found ${o.maxRunning})`);
 }
 
 /** The batch script of a study's job array. */
 export function slurmScript(dir: string, name: string, tasks: LocalTask[], o: SlurmOptions): string {
-  const abs = resolve(dir);
+  const abs = resolve(dir), per = o.perTask ?? 1, count = Math.ceil(tasks.length / per);
   const lines = [
     '#!/bin/bash',
-    `# rupta study ${name}: one array task per variant, each an ordinary rupta run of cases/<variant>.yaml into runs/<variant>.`,
+    `# rupta study ${name}: a job array, each task an ordinary rupta run of cases/<variant>.yaml into runs/<variant>`
+      + (per > 1 ? ` for ${per} variants in turn.` : '.'),
     `#SBATCH --job-name=${('rupta-' + name).replace(/[^\w.-]/g, '_').slice(0, 60)}`,
-    `#SBATCH --array=0-${tasks.length - 1}${o.maxRunning ? `%${o.maxRunning}` : ''}`,
+    `#SBATCH --array=0-${count - 1}${o.maxRunning ? `%${o.maxRunning}` : ''}`,
     `#SBATCH --chdir=${abs}`,
     `#SBATCH --output=${join(abs, 'logs', 'slurm-%A_%a.txt')}`,
     '#SBATCH --ntasks=1',
@@ -55,10 +59,16 @@ export function slurmScript(dir: string, name: string, tasks: LocalTask[], o: Sl
     'set -u',
     `ids=(${tasks.map((t) => t.id).join(' ')})`,
     `resume=(${tasks.map((t) => (t.resume ? 1 : 0)).join(' ')})`,
-    'id=${ids[$SLURM_ARRAY_TASK_ID]}',
-    'mode=--force',
-    'if [ "${resume[$SLURM_ARRAY_TASK_ID]}" = 1 ]; then mode=--resume; fi',
-    `exec ${q(o.node ?? process.execPath)} ${q(cliEntry())} run "cases/$id.yaml" --out "runs/$id" --quiet $mode > "logs/$id.txt" 2>&1`,
+    `per=${per}`,
+    'first=$((SLURM_ARRAY_TASK_ID * per))',
+    'status=0',
+    'for ((k = first; k < first + per && k < ${#ids[@]}; k++)); do',
+    '  id=${ids[$k]}',
+    '  mode=--force',
+    '  if [ "${resume[$k]}" = 1 ]; then mode=--resume; fi',
+    `  ${q(o.node ?? process.execPath)} ${q(cliEntry())} run "cases/$id.yaml" --out "runs/$id" --quiet $mode > "logs/$id.txt" 2>&1 || status=$?`,
+    'done',
+    'exit $status',
     '',
   ];
   return lines.join('\n');
@@ -122,7 +132,7 @@ export async function runSlurm(dir: string, name: string, tasks: LocalTask[], o:
     for (const line of acct.out.split('\n')) {
       const [id, state] = line.split('|');
       const m = /_(\d+)$/.exec(id ?? '');
-      if (m && state && tasks[Number(m[1])]) states[tasks[Number(m[1])]!.id] = state.trim();
+      if (m && state) tasks.forEach((t, i) => { if (Math.floor(i / (o.perTask ?? 1)) === Number(m[1])) states[t.id] = state.trim(); });
     }
   }
   return { dryRun: false, script, jobId, states };

@@ -120,7 +120,7 @@ export async function runStudy(spec: StudySpec, opt: StudyOptions = {}): Promise
       const r = await runSlurm(dir, spec.name, todo.map((v) => ({ id: v.id, resume: runStatus(dir, v.id) === 'interrupted' })), { ...opt.slurm, dryRun: opt.dryRun }, emit, opt.stopRequested);
       script = r.dryRun ? r.script : undefined;
       todo.forEach((v, i) => {
-        const note = [r.states?.[v.id] ? `Slurm state ${r.states[v.id]}` : '', r.jobId ? slurmNote(dir, r.jobId, i) : ''].filter((x) => x).join('; ');
+        const note = [r.states?.[v.id] ? `Slurm state ${r.states[v.id]}` : '', r.jobId ? slurmNote(dir, r.jobId, Math.floor(i / (opt.slurm?.perTask ?? 1))) : ''].filter((x) => x).join('; ');
         if (note) notes.set(v.id, note);
       });
       if (r.dryRun) return { dir, rows: [], counts: {}, finished: false, sizeEffect: null, files: [r.script], script: r.script };
