@@ -100,3 +100,16 @@ describe("Bažant's size effect law", () => {
     expect(fitSizeEffect([50, 100, 200], [1, 1.1, 1.2], 3)).toBeNull();
   });
 });
+
+describe('size-effect picture', () => {
+  it('draws the points, the fitted law and its two asymptotes on log axes', async () => {
+    const { sizeEffectSvg } = await import('../src/study/pictures.js');
+    const truth = { B: 1.8, D0: 120, ft: 3.5 }, D = [50, 100, 200, 400];
+    const s = D.map((d) => sizeEffectLaw(truth, d));
+    const svg = sizeEffectSvg(D, s, fitSizeEffect(D, s, truth.ft), 'Series');
+    expect(svg).toContain('data-label="σN = B·ft/√(1 + D/D0): B 1.80, D0 120 mm"');
+    expect(svg).toContain('data-label="strength limit B·ft"');
+    expect(svg).toContain('data-label="LEFM limit ∝ D^−1/2"');
+    expect(svg.match(/<circle/g)!.length).toBeGreaterThanOrEqual(4);
+  });
+});
