@@ -80,6 +80,13 @@ export function registerStudyCommand(program: Command): void {
         process.stdout.write(`results in ${r.dir} (study.csv, band.svg, paths.svg, peaks.svg, study.html)\n`);
       }
       if (stop) { process.stderr.write(`rupta: the study was interrupted; go on with: rupta study ${file} --out ${r.dir} --resume\n`); process.exitCode = 3; }
-      else if (!r.finished) process.exitCode = 3;
+      else {
+        // like a single run: anything short of complete is exit 3, with the rows kept
+        const short = r.rows.filter((x) => x.status !== 'complete');
+        if (short.length) {
+          process.stderr.write(`rupta: ${short.length} of ${r.rows.length} variants did not complete (${short.slice(0, 5).map((x) => `${x.id} ${x.status}`).join(', ')}${short.length > 5 ? ', …' : ''}); see study.csv\n`);
+          process.exitCode = 3;
+        }
+      }
     });
 }
