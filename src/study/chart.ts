@@ -60,7 +60,7 @@ export function chartSvg(c: Chart): string {
   const X = (x: number) => left + ((tx(x) - ax.lo) / (ax.hi - ax.lo)) * pw;
   const Y = (y: number) => top + ph - ((tx(y) - ay.lo) / (ay.hi - ay.lo)) * ph;
   const body: string[] = [el('defs', undefined, el('clipPath', { id: 'plot-area' }, el('rect', { x: left, y: top, width: pw, height: ph })))];
-  if (c.title) body.push(layer('title', [text(left, 34 * u, c.title, { 'font-size': 22 * u, 'font-weight': 'bold', fill: INK })]));
+  if (c.title) body.push(layer('title', [text(left, 34 * u, c.title, { 'font-size': Math.min(22 * u, (W - left - 20 * u) / (0.62 * c.title.length)), 'font-weight': 'bold', fill: INK })]));
   const axes: string[] = [];
   let grid = '', tk = '';
   for (const t of ax.ticks) { const p = left + ((t - ax.lo) / (ax.hi - ax.lo)) * pw; grid += `M${n1(p)} ${n1(top)}v${n1(ph)}`; tk += `M${n1(p)} ${n1(top + ph)}v${n1(6 * u)}`; }

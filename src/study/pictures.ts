@@ -27,27 +27,60 @@ export function bandSvg(results: VariantResult[], title: string): { svg: string;
   return { svg, band };
 }
 
-/** All crack paths over the outline and notches of the base specimen (a size series drawn at the base size). */
+/** Title text sized to fit the width (px at font size 22 for up to the width available). */
+export function titleSize(title: string, width: number): number {
+  return Math.max(12, Math.min(22, width / (0.62 * Math.max(1, title.length))));
+}
+
+/**
+ * All crack paths over the outline and notches of the base specimen (a size series drawn at
+ * the base size); where the paths keep to a narrow part of the specimen, a second view
+ * below shows that part enlarged at the same scale in x and y.
+ */
 export function pathsSvg(base: CaseModel, results: VariantResult[], factors: (number | null)[], title: string): string {
   const o = base.geometry.outline;
   let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
   for (const [x, y] of o) { x0 = Math.min(x0, x); x1 = Math.max(x1, x); y0 = Math.min(y0, y); y1 = Math.max(y1, y); }
-  const W = 1000, m = 40, top = 60, s = (W - 2 * m) / (x1 - x0), H = Math.round(top + (y1 - y0) * s + m + 30);
-  const X = (x: number) => m + (x - x0) * s, Y = (y: number) => top + (y1 - y) * s;
-  const body: string[] = [layer('title', [text(m, 34, `${title}: crack paths of ${results.filter((r) => r.paths.length).length} variants`, { 'font-size': 22, 'font-weight': 'bold', fill: '#1b1b1b' })])];
-  const spec = [el('path', { d: o.map(([x, y], i) => `${i ? 'L' : 'M'}${n1(X(x))} ${n1(Y(y))}`).join('') + 'Z', fill: '#f3f1ec', stroke: '#1b1b1b', 'stroke-width': 1.5 })];
-  for (const h of base.geometry.holes) {
-    if (h.kind === 'circle') spec.push(el('circle', { cx: X(h.center[0]), cy: Y(h.center[1]), r: h.radius * s, fill: '#ffffff', stroke: '#1b1b1b', 'stroke-width': 1.5 }));
-    else spec.push(el('path', { d: h.points.map(([x, y], i) => `${i ? 'L' : 'M'}${n1(X(x))} ${n1(Y(y))}`).join('') + 'Z', fill: '#ffffff', stroke: '#1b1b1b', 'stroke-width': 1.5 }));
+  let px0 = Infinity, px1 = -Infinity, py0 = Infinity, py1 = -Infinity;
+  results.forEach((r, i) => { const f = factors[i] ?? 1; for (const p of r.paths) for (const [x, y] of p) { px0 = Math.min(px0, x / f); px1 = Math.max(px1, x / f); py0 = Math.min(py0, y / f); py1 = Math.max(py1, y / f); } });
+  const W = 1000, m = 40, top = 60;
+  const views: { bx0: number; bx1: number; by0: number; by1: number }[] = [{ bx0: x0, bx1: x1, by0: y0, by1: y1 }];
+  if (px1 >= px0 && Math.max(px1 - px0, py1 - py0) < 0.3 * (x1 - x0)) {
+    // a window around the paths, 420 px tall, at the same scale in x and y
+    const cx = (px0 + px1) / 2, cy = (py0 + py1) / 2, pw = Math.max(px1 - px0, 1e-3 * (x1 - x0)), ph = Math.max(py1 - py0, 1e-3 * (y1 - y0));
+    const s = Math.min(420 / (1.15 * ph), (W - 2 * m) / (3 * pw)), hw = (W - 2 * m) / s / 2, hh = 210 / s;
+    views.push({ bx0: cx - hw, bx1: cx + hw, by0: cy - hh, by1: cy + hh });
   }
-  for (const nt of base.geometry.notches) spec.push(el('path', { d: `M${n1(X(nt.from[0]))} ${n1(Y(nt.from[1]))}L${n1(X(nt.to[0]))} ${n1(Y(nt.to[1]))}`, stroke: '#1b1b1b', 'stroke-width': Math.max(2, nt.width * s) }));
-  body.push(layer('specimen', spec));
-  const paths: string[] = [];
-  results.forEach((r, i) => {
-    const f = factors[i] ?? 1;
-    for (const p of r.paths) if (p.length > 1) paths.push(el('path', { d: p.map(([x, y], k) => `${k ? 'L' : 'M'}${n1(X(x / f))} ${n1(Y(y / f))}`).join(''), fill: 'none', stroke: RED, 'stroke-opacity': 0.55, 'stroke-width': 1.6, class: 'crack', 'data-variant': r.row.id }));
+  const body: string[] = [];
+  const head = `${title}: crack paths of ${results.filter((r) => r.paths.length).length} variants`;
+  body.push(layer('title', [text(m, 34, head, { 'font-size': titleSize(head, W - 2 * m), 'font-weight': 'bold', fill: '#1b1b1b' })]));
+  let yAt = top;
+  views.forEach((v, k) => {
+    const s = (W - 2 * m) / (v.bx1 - v.bx0), h = (v.by1 - v.by0) * s;
+    if (k > 0) {
+      body.push(text(m, yAt + 4, `enlarged ${(s / ((W - 2 * m) / (x1 - x0))).toPrecision(2)}×: x ${+v.bx0.toPrecision(4)}–${+v.bx1.toPrecision(4)} mm, y ${+v.by0.toPrecision(4)}–${+v.by1.toPrecision(4)} mm`, { 'font-size': 13, fill: '#505a64' }));
+      yAt += 14;
+    }
+    const X = (x: number) => m + (x - v.bx0) * s, Y = (y: number) => yAt + (v.by1 - y) * s;
+    const id = k === 0 ? '' : 'zoom-';
+    const g: string[] = [el('defs', undefined, el('clipPath', { id: `${id}view` }, el('rect', { x: m, y: yAt, width: W - 2 * m, height: h })))];
+    const shape: string[] = [el('path', { d: o.map(([x, y], i) => `${i ? 'L' : 'M'}${n1(X(x))} ${n1(Y(y))}`).join('') + 'Z', fill: '#f3f1ec', stroke: '#1b1b1b', 'stroke-width': 1.5 })];
+    for (const hl of base.geometry.holes) {
+      if (hl.kind === 'circle') shape.push(el('circle', { cx: X(hl.center[0]), cy: Y(hl.center[1]), r: hl.radius * s, fill: '#ffffff', stroke: '#1b1b1b', 'stroke-width': 1.5 }));
+      else shape.push(el('path', { d: hl.points.map(([x, y], i) => `${i ? 'L' : 'M'}${n1(X(x))} ${n1(Y(y))}`).join('') + 'Z', fill: '#ffffff', stroke: '#1b1b1b', 'stroke-width': 1.5 }));
+    }
+    for (const nt of base.geometry.notches) shape.push(el('path', { d: `M${n1(X(nt.from[0]))} ${n1(Y(nt.from[1]))}L${n1(X(nt.to[0]))} ${n1(Y(nt.to[1]))}`, stroke: '#1b1b1b', 'stroke-width': Math.max(2, nt.width * s) }));
+    const cracks: string[] = [];
+    results.forEach((r, i) => {
+      const f = factors[i] ?? 1;
+      for (const p of r.paths) if (p.length > 1) cracks.push(el('path', { d: p.map(([x, y], j) => `${j ? 'L' : 'M'}${n1(X(x / f))} ${n1(Y(y / f))}`).join(''), fill: 'none', stroke: RED, 'stroke-opacity': 0.55, 'stroke-width': k === 0 ? 1.6 : 1.4, class: 'crack', 'data-variant': r.row.id }));
+    });
+    g.push(layer(`${id}specimen`, shape), layer(`${id}cracks`, cracks));
+    if (k > 0) g.push(el('rect', { x: m, y: yAt, width: W - 2 * m, height: h, fill: 'none', stroke: '#505a64', 'stroke-width': 1 }));
+    body.push(el('g', { id: k === 0 ? 'view' : 'zoom', 'clip-path': `url(#${id}view)` }, g));
+    yAt += h + 24;
   });
-  body.push(layer('cracks', paths));
+  const H = Math.round(yAt + 20);
   body.push(text(m, H - 12, factors.some((f) => f !== null && f !== 1) ? 'each specimen of the series drawn at the base size' : 'all variants over the base specimen', { 'font-size': 13, fill: '#505a64' }));
   return svgDocument(W, H, body, { title: `${title}: crack paths` });
 }
