@@ -4,7 +4,7 @@
 // cluster's array task runs.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { closeSync, openSync } from 'node:fs';
-import { caseFile, cliEntry, logFile, runDir } from './layout.js';
+import { cliEntry, logFile } from './layout.js';
 
 export interface LocalTask { id: string; resume: boolean }
 export interface TaskEnd { id: string; code: number | null; signal: string | null; seconds: number }
@@ -72,4 +72,3 @@ export function runPool(dir: string, tasks: LocalTask[], jobs: number, hooks: {
   };
 }
 
-export { caseFile, runDir };

@@ -161,9 +161,11 @@ async function gather(spec: StudySpec, dir: string, variants: Variant[], models:
   const band = bandSvg(done, title);
   await write('band.svg', band.svg);
   const factors = variants.map((v) => (typeof v.values['size.factor'] === 'number' ? v.values['size.factor'] : null));
-  await write('paths.svg', pathsSvg(baseModelFor(models, factors), results, factors, title));
+  const paths = pathsSvg(baseModelFor(models, factors), results, factors, title);
+  await write('paths.svg', paths);
   const peaks = done.map((r) => r.row.peak_load_N).filter((p): p is number => p !== null);
-  await write('peaks.svg', peaksSvg(peaks, title));
+  const peaksPicture = peaksSvg(peaks, title);
+  await write('peaks.svg', peaksPicture);
   let fit: SizeEffectFit | null = null;
   let sizeSvg: string | null = null;
   const D: number[] = [], sigma: number[] = [];
@@ -182,7 +184,7 @@ async function gather(spec: StudySpec, dir: string, variants: Variant[], models:
   for (const r of rows) counts[r.status] = (counts[r.status] ?? 0) + 1;
   const html = studyHtml({
     title, name: spec.name, rows, counts, band: band.band, bandSvg: band.svg,
-    pathsSvg: pathsSvg(baseModelFor(models, factors), results, factors, title), peaksSvg: peaksSvg(peaks, title),
+    pathsSvg: paths, peaksSvg: peaksPicture,
     peaks: peaks.length ? describe(peaks) : null, sizeSvg, fit, D, sigma, seed: spec.seed, script,
   });
   await write('study.html', undefined, html);
