@@ -1,6 +1,6 @@
-// A single-node Slurm for tests, started on this machine: munged (unless one answers
-// already), slurmctld and slurmd with a minimal slurm.conf in a temporary folder. Stopped
-// by the process ids in their pid files.
+// A single-node Slurm for tests, started on this machine: munged on a socket of its own,
+// slurmctld and slurmd with a minimal slurm.conf (ports of their own) in a temporary
+// folder. Stopped by the process ids in their pid files.
 import { execFileSync, spawnSync } from 'node:child_process';
 import { chownSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync, chmodSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
@@ -24,8 +24,8 @@ export function slurmUnavailable(): string | null {
 
 const bin = (b: string) => (existsSync(`/usr/sbin/${b}`) ? `/usr/sbin/${b}` : existsSync(`/usr/bin/${b}`) ? `/usr/bin/${b}` : b);
 
-function mungeWorks(): boolean {
-  const r = spawnSync('sh', ['-c', 'munge -n | unmunge'], { encoding: 'utf8', timeout: 10_000 });
+function mungeWorks(sock: string): boolean {
+  const r = spawnSync('sh', ['-c', `munge -S '${sock}' -n | unmunge -S '${sock}'`], { encoding: 'utf8', timeout: 10_000 });
   return r.status === 0 && /STATUS:\s+Success/.test(r.stdout);
 }
 
@@ -40,16 +40,18 @@ export interface TestSlurm { dir: string; conf: string; env: NodeJS.ProcessEnv; 
 export async function startSlurm(): Promise<TestSlurm> {
   const dir = mkdtempSync(join(tmpdir(), 'rupta-slurm-'));
   chmodSync(dir, 0o755);
-  let mungePid: number | null = null;
-  if (!mungeWorks()) {
-    const key = '/etc/munge/munge.key';
-    const uid = Number(execFileSync('id', ['-u', 'munge'], { encoding: 'utf8' }).trim()), gid = Number(execFileSync('id', ['-g', 'munge'], { encoding: 'utf8' }).trim());
-    if (!existsSync(key)) { mkdirSync('/etc/munge', { recursive: true }); writeFileSync(key, randomBytes(1024), { mode: 0o400 }); chownSync(key, uid, gid); }
-    for (const d of ['/run/munge', '/var/log/munge', '/var/lib/munge']) { mkdirSync(d, { recursive: true }); chownSync(d, uid, gid); }
-    execFileSync('runuser', ['-u', 'munge', '--', bin('munged')], { stdio: 'ignore' });
-    for (let i = 0; i < 50 && !mungeWorks(); i++) await sleep(100);
-    mungePid = pidOf('/run/munge/munged.pid');
-  }
+  // a munged of our own on its own socket, so that test runs side by side never share one
+  const key = '/etc/munge/munge.key';
+  const uid = Number(execFileSync('id', ['-u', 'munge'], { encoding: 'utf8' }).trim()), gid = Number(execFileSync('id', ['-g', 'munge'], { encoding: 'utf8' }).trim());
+  if (!existsSync(key)) { mkdirSync('/etc/munge', { recursive: true }); writeFileSync(key, randomBytes(1024), { mode: 0o400 }); chownSync(key, uid, gid); }
+  const md = join(dir, 'munge'), sock = join(md, 'munge.sock');
+  mkdirSync(md); chownSync(md, uid, gid); chmodSync(md, 0o755);
+  execFileSync('runuser', ['-u', 'munge', '--', bin('munged'), `--socket=${sock}`, `--pid-file=${join(md, 'munged.pid')}`,
+    `--log-file=${join(md, 'munged.log')}`, `--seed-file=${join(md, 'munged.seed')}`, `--key-file=${key}`], { stdio: 'ignore' });
+  for (let i = 0; i < 50 && !mungeWorks(sock); i++) await sleep(100);
+  const mungePid = pidOf(join(md, 'munged.pid'));
+  // ports of this run only: another test run on the machine gets its own
+  const port = 20000 + 2 * (process.pid % 10000);
   const host = hostname().split('.')[0]!;
   for (const d of ['state', 'spool']) mkdirSync(join(dir, d));
   const conf = join(dir, 'slurm.conf');
@@ -57,7 +59,7 @@ export async function startSlurm(): Promise<TestSlurm> {
     'ClusterName=ruptatest',
     `SlurmctldHost=${host}`,
     'SlurmUser=root', 'SlurmdUser=root',
-    'SlurmctldPort=16817', 'SlurmdPort=16818',
+    `SlurmctldPort=${port}`, `SlurmdPort=${port + 1}`, `AuthInfo=socket=${sock}`,
     `StateSaveLocation=${join(dir, 'state')}`, `SlurmdSpoolDir=${join(dir, 'spool')}`,
     `SlurmctldPidFile=${join(dir, 'slurmctld.pid')}`, `SlurmdPidFile=${join(dir, 'slurmd.pid')}`,
     `SlurmctldLogFile=${join(dir, 'slurmctld.log')}`, `SlurmdLogFile=${join(dir, 'slurmd.log')}`,
