@@ -246,17 +246,17 @@ export function elementStiffness2(
   return w.area;
 }
 
-/**
- * Strain of Πu as a linear field, from the basis coefficients c (12, Π* applied to the local
- * dofs): out[3k + comp] for coefficient k of [1, ξ, η] and comp ∈ {εxx, εyy, γxy}, with
- * ξ = (x − w.cx)/w.h, η = (y − w.cy)/w.h.
- */
-export function strainField2(coef: Float64Array | number[], h: number, out: Float64Array, o = 0): void {
-  for (let q = 0; q < 9; q++) {
-    let sum = 0;
-    for (let j = 3; j < NB; j++) sum += coef[j] * STRAIN[9 * j + q];
-    out[o + q] = sum / h;
+/** Strain [εxx, εyy, γxy] of Πu at the scaled point (ξ, η), from the basis coefficients coef[o … o+11]. */
+export function strainAt2(coef: Float64Array, o: number, h: number, xi: number, eta: number, out: Float64Array | number[]): void {
+  let exx = 0, eyy = 0, gxy = 0;
+  for (let j = 3; j < NB; j++) {
+    const c = coef[o + j], S = 9 * j;
+    if (c === 0) continue;
+    exx += c * (STRAIN[S] + STRAIN[S + 3] * xi + STRAIN[S + 6] * eta);
+    eyy += c * (STRAIN[S + 1] + STRAIN[S + 4] * xi + STRAIN[S + 7] * eta);
+    gxy += c * (STRAIN[S + 2] + STRAIN[S + 5] * xi + STRAIN[S + 8] * eta);
   }
+  out[0] = exx / h; out[1] = eyy / h; out[2] = gxy / h;
 }
 
 /** Displacement of Πu at the scaled point (ξ, η) from the basis coefficients c, into out[0..1]. */

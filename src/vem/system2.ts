@@ -2,7 +2,7 @@
 // then the edge-midpoint values (2 per edge); the cell means are condensed out element by
 // element (they couple to nothing outside their cell) and recovered after the solve.
 import type { PolyMesh } from '../mesh/polymesh.js';
-import { Element2Work, NB, elementStiffness2, strainField2 } from './element2.js';
+import { Element2Work, NB, elementStiffness2, strainAt2, displacement2 } from './element2.js';
 import { patternFromBlocks, assemblyMap, blockMapOffsets, matrixOnPattern, analyze, factorize } from '../linalg/index.js';
 
 /** Edges of the mesh and where their dofs sit. */
@@ -51,14 +51,14 @@ export interface Order2Solution {
   u: Float64Array;
   /** Cell means (2 per cell). */
   mean: Float64Array;
-  /** Per cell: centroid x, y, diameter h, then the strain of Πu as 9 numbers (see strainField2). */
+  /** Per cell: centroid x, y, diameter h, then the 12 basis coefficients of Πu (see element2.ts). */
   field: Float64Array;
   /** Unknowns of the global (condensed) system. */
   nFree: number;
 }
 
 /** Per-cell stride of Order2Solution.field. */
-export const FIELD = 12;
+export const FIELD = 3 + NB;
 
 /**
  * Solve the order-2 elastic problem with the dofs in `fixed` held at `fixedValues` (any mix of
@@ -123,7 +123,7 @@ export function solveOrder2(
     mean[2 * c] = loc[nb]; mean[2 * c + 1] = loc[nb + 1];
     for (let j = 0; j < NB; j++) { let sum = 0; for (let q = 0; q < nd; q++) sum += w.Pi[j * nd + q] * loc[q]; coef[j] = sum; }
     field[FIELD * c] = w.cx; field[FIELD * c + 1] = w.cy; field[FIELD * c + 2] = w.h;
-    strainField2(coef, w.h, field, FIELD * c + 3);
+    field.set(coef, FIELD * c + 3);
   }
   return { u, mean, field, nFree };
 }
@@ -145,13 +145,23 @@ function condense(Ke: Float64Array, nd: number, f0: number, f1: number, Kc: Floa
   }
 }
 
-/** Stress [σxx, σyy, σxy] of cell c at (x, y) from the projected strain field. */
+/** Strain [εxx, εyy, γxy] of cell c's projected field at (x, y). */
+export function strainAtPoint2(field: Float64Array, c: number, x: number, y: number, out: Float64Array | number[]): void {
+  const o = FIELD * c, h = field[o + 2];
+  strainAt2(field, o + 3, h, (x - field[o]) / h, (y - field[o + 1]) / h, out);
+}
+
+/** Stress [σxx, σyy, σxy] of cell c at (x, y) from its projected field. */
 export function stressAt2(field: Float64Array, c: number, C: Float64Array, x: number, y: number, out: Float64Array | number[]): void {
-  const o = FIELD * c, h = field[o + 2], xi = (x - field[o]) / h, eta = (y - field[o + 1]) / h;
-  const e0 = field[o + 3] + field[o + 6] * xi + field[o + 9] * eta;
-  const e1 = field[o + 4] + field[o + 7] * xi + field[o + 10] * eta;
-  const e2 = field[o + 5] + field[o + 8] * xi + field[o + 11] * eta;
+  strainAtPoint2(field, c, x, y, out);
+  const e0 = out[0], e1 = out[1], e2 = out[2];
   out[0] = C[0] * e0 + C[1] * e1 + C[2] * e2;
   out[1] = C[3] * e0 + C[4] * e1 + C[5] * e2;
   out[2] = C[6] * e0 + C[7] * e1 + C[8] * e2;
+}
+
+/** Displacement of Πu in cell c at (x, y). */
+export function displacementAt2(field: Float64Array, c: number, x: number, y: number, out: Float64Array | number[]): void {
+  const o = FIELD * c, h = field[o + 2];
+  displacement2(field.subarray(o + 3, o + 3 + NB), (x - field[o]) / h, (y - field[o + 1]) / h, out);
 }
