@@ -4,6 +4,7 @@
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file.
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
+// npm run bench -- --order: error against unknowns and wall time for element orders 1 and 2 (also part of the default run).
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -15,6 +16,7 @@ import { Analysis } from '../src/fracture/analysis.js';
 import { DISSECTION_FROM_ROWS, analyze, factorize, type OrderingMethod } from '../src/linalg/index.js';
 import { benchMatrix, cholmodTimes, type BenchResult } from './bench-matrix.js';
 import { benchStudy } from './bench-study.js';
+import { benchOrder } from './bench-order.js';
 
 const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
 const now = () => performance.now() / 1000;
@@ -131,7 +133,9 @@ const mi = args.indexOf('--matrix');
 const ri = args.indexOf('--repeat');
 const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
 const opt = (name: string, d: number) => { const i = args.indexOf(name); return i >= 0 ? Math.max(1, Number(args[i + 1]) || d) : d; };
-if (args.includes('--study')) {
+if (args.includes('--order')) {
+  benchOrder(repeat);
+} else if (args.includes('--study')) {
   await benchStudy(opt('--variants', 16), opt('--jobs', 2), args.includes('--slurm'));
 } else if (mi >= 0) {
   const file = args[mi + 1];
@@ -141,4 +145,5 @@ if (args.includes('--study')) {
   console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
   for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);
   if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
+  benchOrder(repeat);
 }

@@ -4,15 +4,7 @@
 // error as O(h²) (Beirão da Veiga, Brezzi, Marini 2013, error estimates for k = 2), and order 2
 // reaches order 1's accuracy with at most a third of its unknowns.
 import { describe, expect, it } from 'vitest';
-import { elasticMatrix } from '../src/vem/material.js';
-import { cantilever } from '../src/vem/closedform.js';
-import { errorNorms1, errorNorms2 } from '../src/vem/norms.js';
-import { boundaryVertices } from '../src/solver/driven.js';
-import { solvePrescribed, rectangleMesh } from './support/elastic.js';
-import { solvePrescribed2 } from './support/order2.js';
-
-const L = 8, DEPTH = 2, E = 1000, NU = 0.3;
-const C = elasticMatrix(E, NU, 'plane-stress'), beam = cantilever(L, DEPTH, 1, E, NU);
+import { beamMesh, order1, order2 } from './support/cantilever.js';
 
 const slope = (h: number[], e: number[]) => {
   const x = h.map(Math.log), y = e.map(Math.log), n = x.length;
@@ -22,19 +14,8 @@ const slope = (h: number[], e: number[]) => {
   return sxy / sxx;
 };
 
-function order2(size: number, seed: number) {
-  const m = rectangleMesh(L, DEPTH, size, seed);
-  const sol = solvePrescribed2(m, C, 1, beam.u);
-  return { ...errorNorms2(m, sol.field, C, beam.u, beam.strain), h: Math.sqrt(L * DEPTH / (m.cellStart.length - 1)), unknowns: sol.nFree };
-}
-function order1(size: number, seed: number) {
-  const m = rectangleMesh(L, DEPTH, size, seed);
-  const u = solvePrescribed(m, C, 1, beam.u), on = boundaryVertices(m);
-  return { ...errorNorms1(m, u, C, beam.u, beam.strain), unknowns: 2 * (on.length - on.reduce((a, b) => a + b, 0)) };
-}
-
 describe('order-2 cantilever with parabolic end shear (Timoshenko & Goodier)', () => {
-  const res = [1, 0.5, 0.25, 0.125].map((s, i) => order2(s, 7 + i));
+  const res = [1, 0.5, 0.25, 0.125].map((s, i) => order2(beamMesh(s, 7 + i)));
   it('Voronoi meshes: L² displacement error O(h³), energy error O(h²)', () => {
     const hs = res.map((r) => r.h);
     const pl2 = slope(hs, res.map((r) => r.l2)), pe = slope(hs, res.map((r) => r.energy));
@@ -44,7 +25,7 @@ describe('order-2 cantilever with parabolic end shear (Timoshenko & Goodier)', (
     expect(pe).toBeGreaterThan(1.8);
   });
   it('order 2 matches order 1 in energy and in L² with at most a third of the unknowns', () => {
-    const o1 = order1(0.0625, 10);
+    const o1 = order1(beamMesh(0.0625, 10));
     console.log(`order 1: n ${o1.unknowns} l2 ${o1.l2.toExponential(3)} energy ${o1.energy.toExponential(3)}`);
     const o2 = res[2];
     expect(o2.unknowns * 3).toBeLessThanOrEqual(o1.unknowns);

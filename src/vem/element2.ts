@@ -50,7 +50,6 @@ export class Element2Work {
   /** 12 × ndof: basis coefficients of Πu from the dofs (Π* of the hitchhiker's guide). */
   readonly Pi: Float64Array;
   readonly HP: Float64Array;
-  readonly R: Float64Array;    // ndof × ndof: I − D Π*
   readonly mom = new Float64Array(6); // ∫ m_α dA for m = 1, ξ, η, ξ², ξη, η²
   cx = 0; cy = 0; h = 1; area = 0;
   constructor(readonly maxVerts: number) {
@@ -60,7 +59,6 @@ export class Element2Work {
     this.Dm = new Float64Array(nd * NB);
     this.Pi = new Float64Array(NB * nd);
     this.HP = new Float64Array(NB * nd);
-    this.R = new Float64Array(nd * nd);
   }
 }
 
@@ -196,7 +194,7 @@ export function elementStiffness2(
   xy: Float64Array, cellVerts: Int32Array, s: number, e: number,
   C: Float64Array, t: number, Ke: Float64Array, w: Element2Work,
 ): number {
-  const n = e - s, nd = 4 * n + 2, { H, Pi, HP, Dm, R, mom } = w;
+  const n = e - s, nd = 4 * n + 2, { H, Pi, HP, Dm, mom } = w;
   projection2(xy, cellVerts, s, e, w);
   // H_ij = Σ_kl (e_ikᵀ C e_jl) ∫ φ_k φ_l, φ = [1, ξ, η]; strains carry 1/h each
   const M = [mom[0], mom[1], mom[2], mom[1], mom[3], mom[4], mom[2], mom[4], mom[5]], ih2 = 1 / (w.h * w.h);
@@ -230,18 +228,29 @@ export function elementStiffness2(
     Ke[a * nd + b] = t * sum;
     if (a === b) trace += t * sum;
   }
-  // R = I − D Π*
-  for (let a = 0; a < nd; a++) for (let b = 0; b < nd; b++) {
+  // (I − P)ᵀ(I − P) with P = D Π*: I − P − Pᵀ + Π*ᵀ (DᵀD) Π*, all through 12-wide products
+  const DtD = w.G; // G is free again once Π* is known
+  for (let i = 0; i < NB; i++) for (let j = 0; j < NB; j++) {
     let sum = 0;
-    for (let k = 0; k < NB; k++) sum += Dm[a * NB + k] * Pi[k * nd + b];
-    R[a * nd + b] = (a === b ? 1 : 0) - sum;
+    for (let k = 0; k < nd; k++) sum += Dm[k * NB + i] * Dm[k * NB + j];
+    DtD[i * NB + j] = sum;
+  }
+  for (let i = 0; i < NB; i++) for (let c = 0; c < nd; c++) {
+    let sum = 0;
+    for (let k = 0; k < NB; k++) sum += DtD[i * NB + k] * Pi[k * nd + c];
+    HP[i * nd + c] = sum;
   }
   const alpha = trace / nd;
   for (let a = 0; a < nd; a++) for (let b = a; b < nd; b++) {
-    let sum = 0;
-    for (let k = 0; k < nd; k++) sum += R[k * nd + a] * R[k * nd + b];
-    Ke[a * nd + b] += alpha * sum;
-    if (b !== a) Ke[b * nd + a] += alpha * sum;
+    let pab = 0, pba = 0, ptp = 0;
+    for (let k = 0; k < NB; k++) {
+      pab += Dm[a * NB + k] * Pi[k * nd + b];
+      pba += Dm[b * NB + k] * Pi[k * nd + a];
+      ptp += Pi[k * nd + a] * HP[k * nd + b];
+    }
+    const v = alpha * ((a === b ? 1 : 0) - pab - pba + ptp);
+    Ke[a * nd + b] += v;
+    if (b !== a) Ke[b * nd + a] += v;
   }
   return w.area;
 }

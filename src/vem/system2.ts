@@ -2,7 +2,7 @@
 // then the edge-midpoint values (2 per edge); the cell means are condensed out element by
 // element (they couple to nothing outside their cell) and recovered after the solve.
 import type { PolyMesh } from '../mesh/polymesh.js';
-import { Element2Work, NB, elementStiffness2, strainAt2, displacement2 } from './element2.js';
+import { Element2Work, NB, elementStiffness2, projection2, strainAt2, displacement2 } from './element2.js';
 import { patternFromBlocks, assemblyMap, blockMapOffsets, matrixOnPattern, analyze, factorize } from '../linalg/index.js';
 
 /** Edges of the mesh and where their dofs sit. */
@@ -86,11 +86,15 @@ export function solveOrder2(
   const ndMax = 4 * L.maxVerts + 2;
   const Ke = new Float64Array(ndMax * ndMax), w = new Element2Work(L.maxVerts);
   const Kc = new Float64Array(16 * L.maxVerts * L.maxVerts), fc = new Float64Array(4 * L.maxVerts);
+  // mean of cell c = rec[c] − Σ_q R_q u_q over its 4n boundary dofs: (Kii⁻¹ fi, Kii⁻¹ Kib) kept from assembly
+  const recStart = new Int32Array(nc + 1);
+  for (let c = 0; c < nc; c++) recStart[c + 1] = recStart[c] + 2 + 2 * (blockStart[c + 1] - blockStart[c]);
+  const rec = new Float64Array(recStart[nc]);
 
   for (let c = 0; c < nc; c++) {
     const s = m.cellStart[c], e = m.cellStart[c + 1], n = e - s, nd = 4 * n + 2, nb = 4 * n;
     const area = elementStiffness2(m.xy, m.cellVerts, s, e, C, t, Ke, w);
-    condense(Ke, nd, t * area * body[0], t * area * body[1], Kc, fc);
+    condense(Ke, nd, t * area * body[0], t * area * body[1], Kc, fc, rec, recStart[c]);
     const o = off[c];
     for (let a = 0; a < nb; a++) {
       const ga = blockDofs[blockStart[c] + a];
@@ -112,15 +116,15 @@ export function solveOrder2(
   const mean = new Float64Array(2 * nc), field = new Float64Array(FIELD * nc);
   const loc = new Float64Array(ndMax), coef = new Float64Array(NB);
   for (let c = 0; c < nc; c++) {
-    const s = m.cellStart[c], e = m.cellStart[c + 1], n = e - s, nd = 4 * n + 2, nb = 4 * n;
-    const area = elementStiffness2(m.xy, m.cellVerts, s, e, C, t, Ke, w);
-    for (let q = 0; q < nb; q++) loc[q] = u[globalDof(m, L, s, n, q)];
-    // K_ii ū = f_i − K_ib u_b
-    let r0 = t * area * body[0], r1 = t * area * body[1];
-    for (let q = 0; q < nb; q++) { r0 -= Ke[nb * nd + q] * loc[q]; r1 -= Ke[(nb + 1) * nd + q] * loc[q]; }
-    const k00 = Ke[nb * nd + nb], k01 = Ke[nb * nd + nb + 1], k11 = Ke[(nb + 1) * nd + nb + 1], det = k00 * k11 - k01 * k01;
-    loc[nb] = (k11 * r0 - k01 * r1) / det; loc[nb + 1] = (k00 * r1 - k01 * r0) / det;
-    mean[2 * c] = loc[nb]; mean[2 * c + 1] = loc[nb + 1];
+    const s = m.cellStart[c], e = m.cellStart[c + 1], n = e - s, nd = 4 * n + 2, nb = 4 * n, r = recStart[c];
+    projection2(m.xy, m.cellVerts, s, e, w);
+    let m0 = rec[r], m1 = rec[r + 1];
+    for (let q = 0; q < nb; q++) {
+      const v = u[globalDof(m, L, s, n, q)];
+      loc[q] = v; m0 -= rec[r + 2 + q] * v; m1 -= rec[r + 2 + nb + q] * v;
+    }
+    loc[nb] = m0; loc[nb + 1] = m1;
+    mean[2 * c] = m0; mean[2 * c + 1] = m1;
     for (let j = 0; j < NB; j++) { let sum = 0; for (let q = 0; q < nd; q++) sum += w.Pi[j * nd + q] * loc[q]; coef[j] = sum; }
     field[FIELD * c] = w.cx; field[FIELD * c + 1] = w.cy; field[FIELD * c + 2] = w.h;
     field.set(coef, FIELD * c + 3);
@@ -131,11 +135,17 @@ export function solveOrder2(
 /**
  * Static condensation of the last two (cell-mean) dofs of Ke (nd × nd) carrying the loads
  * (f0, f1): Kc = Kbb − Kbi Kii⁻¹ Kib, fc = −Kbi Kii⁻¹ fi (the body force acts only on the mean).
+ * rec[o …] receives Kii⁻¹ fi (2) then the two rows of Kii⁻¹ Kib, to recover the mean.
  */
-function condense(Ke: Float64Array, nd: number, f0: number, f1: number, Kc: Float64Array, fc: Float64Array): void {
+function condense(Ke: Float64Array, nd: number, f0: number, f1: number, Kc: Float64Array, fc: Float64Array, rec: Float64Array, o: number): void {
   const nb = nd - 2;
   const k00 = Ke[nb * nd + nb], k01 = Ke[nb * nd + nb + 1], k11 = Ke[(nb + 1) * nd + nb + 1], idet = 1 / (k00 * k11 - k01 * k01);
   const i00 = k11 * idet, i01 = -k01 * idet, i11 = k00 * idet;
+  rec[o] = i00 * f0 + i01 * f1; rec[o + 1] = i01 * f0 + i11 * f1;
+  for (let b = 0; b < nb; b++) {
+    const x = Ke[nb * nd + b], y = Ke[(nb + 1) * nd + b];
+    rec[o + 2 + b] = i00 * x + i01 * y; rec[o + 2 + nb + b] = i01 * x + i11 * y;
+  }
   for (let a = 0; a < nb; a++) {
     const ka0 = Ke[a * nd + nb], ka1 = Ke[a * nd + nb + 1];
     // row a of Kbi Kii⁻¹
