@@ -37,7 +37,7 @@ for (let j = 0; j < NB; j++) {
   }
 }
 
-const mono = (xi: number, eta: number, a: Float64Array | number[], o: number) =>
+const mono = (xi: number, eta: number, a: Float64Array, o: number) =>
   a[o] + a[o + 1] * xi + a[o + 2] * eta + a[o + 3] * xi * xi + a[o + 4] * xi * eta + a[o + 5] * eta * eta;
 
 /** Scratch space for one element, sized for the largest polygon, reused across cells. */
@@ -51,6 +51,7 @@ export class Element2Work {
   readonly Pi: Float64Array;
   readonly HP: Float64Array;
   readonly mom = new Float64Array(6); // ∫ m_α dA for m = 1, ξ, η, ξ², ξη, η²
+  readonly M = new Float64Array(9);   // ∫ φ_k φ_l dA for φ = [1, ξ, η]
   cx = 0; cy = 0; h = 1; area = 0;
   constructor(readonly maxVerts: number) {
     const nd = 4 * maxVerts + 2;
@@ -163,15 +164,15 @@ export function projection2(xy: Float64Array, cellVerts: Int32Array, s: number, 
   }
   // D: dof values of every basis function
   for (let j = 0; j < NB; j++) {
-    const c = BASIS.subarray(12 * j, 12 * j + 12);
+    const c = 12 * j;
     for (let a = 0; a < n; a++) {
       const b = (a + 1) % n, u = xi[2 * a], v = xi[2 * a + 1];
       const mx = (u + xi[2 * b]) / 2, my = (v + xi[2 * b + 1]) / 2;
-      Dm[(2 * a) * NB + j] = mono(u, v, c, 0); Dm[(2 * a + 1) * NB + j] = mono(u, v, c, 6);
-      Dm[(2 * n + 2 * a) * NB + j] = mono(mx, my, c, 0); Dm[(2 * n + 2 * a + 1) * NB + j] = mono(mx, my, c, 6);
+      Dm[(2 * a) * NB + j] = mono(u, v, BASIS, c); Dm[(2 * a + 1) * NB + j] = mono(u, v, BASIS, c + 6);
+      Dm[(2 * n + 2 * a) * NB + j] = mono(mx, my, BASIS, c); Dm[(2 * n + 2 * a + 1) * NB + j] = mono(mx, my, BASIS, c + 6);
     }
     let mxv = 0, myv = 0;
-    for (let k = 0; k < 6; k++) { mxv += c[k] * mom[k]; myv += c[6 + k] * mom[k]; }
+    for (let k = 0; k < 6; k++) { mxv += BASIS[c + k] * mom[k]; myv += BASIS[c + 6 + k] * mom[k]; }
     Dm[(4 * n) * NB + j] = mxv / area; Dm[(4 * n + 1) * NB + j] = myv / area;
   }
   // G = B D, then Π* = G⁻¹ B
@@ -180,7 +181,7 @@ export function projection2(xy: Float64Array, cellVerts: Int32Array, s: number, 
     for (let k = 0; k < nd; k++) sum += B[i * nd + k] * Dm[k * NB + j];
     G[i * NB + j] = sum;
   }
-  Pi.set(B.subarray(0, NB * nd));
+  for (let k = 0; k < NB * nd; k++) Pi[k] = B[k];
   solve12(G, Pi, nd);
 }
 
@@ -197,7 +198,8 @@ export function elementStiffness2(
   const n = e - s, nd = 4 * n + 2, { H, Pi, HP, Dm, mom } = w;
   projection2(xy, cellVerts, s, e, w);
   // H_ij = Σ_kl (e_ikᵀ C e_jl) ∫ φ_k φ_l, φ = [1, ξ, η]; strains carry 1/h each
-  const M = [mom[0], mom[1], mom[2], mom[1], mom[3], mom[4], mom[2], mom[4], mom[5]], ih2 = 1 / (w.h * w.h);
+  const M = w.M, ih2 = 1 / (w.h * w.h);
+  M[0] = mom[0]; M[1] = M[3] = mom[1]; M[2] = M[6] = mom[2]; M[4] = mom[3]; M[5] = M[7] = mom[4]; M[8] = mom[5];
   for (let i = 0; i < NB; i++) for (let j = 0; j < NB; j++) {
     let sum = 0;
     if (i >= 3 && j >= 3) {
