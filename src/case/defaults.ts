@@ -83,6 +83,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
     coarsen: m.coarsen ?? DEFAULTS.coarsen,
     seed: m.seed ?? DEFAULTS.seed,
     lloyd: m.lloyd ?? DEFAULTS.lloyd,
+    order: m.order ?? 1,
   };
   let crack: CrackSettings | undefined;
   if (c.crack) {

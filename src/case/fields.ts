@@ -89,13 +89,14 @@ export const FIELDS: Record<string, FieldSpec> = {
   'crack.averagingRadius': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
   'crack.insertAt': { what: 'a fraction of ft from 0.5 to 1', unit: '-', range: { ge: 0.5, le: 1 } },
 
-  mesh: { what: 'a mapping {size, tipSize, refineRadius, coarsen, seed, lloyd}' },
+  mesh: { what: 'a mapping {size, tipSize, refineRadius, coarsen, seed, lloyd, order}' },
   'mesh.size': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
   'mesh.tipSize': { what: 'a positive number no larger than mesh.size', unit: 'mm', range: { gt: 0 } },
   'mesh.refineRadius': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'mesh.coarsen': { what: 'true or false' },
   'mesh.seed': { what: 'a whole number from 0 to 4294967295', range: { ge: 0, le: 4294967295, int: true } },
   'mesh.lloyd': { what: 'a whole number of Lloyd iterations from 0 to 1000', range: { ge: 0, le: 1000, int: true } },
+  'mesh.order': { what: '1 (linear virtual elements) or 2 (quadratic)' },
 
   probes: { what: 'a list of probes, each {name, at}' },
   'probes[]': { what: 'a mapping {name, at}' },

@@ -66,6 +66,8 @@ export interface CrackSettings {
 export interface MeshSettings {
   size: number; tipSize: number; refineRadius: number;
   coarsen: boolean; seed: number; lloyd: number;
+  /** Virtual element order (1 linear, 2 quadratic); absent means 1. */
+  order?: 1 | 2;
 }
 
 export interface Probe { name: string; at: Vec2 }

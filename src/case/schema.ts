@@ -60,6 +60,8 @@ const mesh = z.strictObject({
   coarsen: z.boolean().optional(),
   seed: num.optional(),
   lloyd: num.optional(),
+  // element order: 2 only for library solves until the run pipeline carries edge and cell dofs
+  order: z.union([z.literal(1), z.literal(2)]).optional(),
 });
 
 const output = z.strictObject({
