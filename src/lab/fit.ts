@@ -14,7 +14,7 @@ import { InputError } from '../errors.js';
 import { plotSvg, PALETTE, type Series } from '../output/plot.js';
 import type { LabCurve } from './import.js';
 import { rilemGF, workOfFracture } from './work.js';
-import { curveDifference, interpAt, measuredFunction, monotone, peakIndex, thin, type Curve, type XAxis } from './compare.js';
+import { curveDifference, initialStiffness, interpAt, measuredFunction, monotone, peakIndex, thin, type Curve, type XAxis } from './compare.js';
 import { simulateCurve, type SimCurve, type SimJob, type SimReply } from './fitworker.js';
 
 export type FitParam = 'E' | 'ft' | 'GF';
@@ -143,28 +143,7 @@ export function ligamentArea(c: CaseModel): number {
   return lig * c.thickness;
 }
 
-/**
- * Slope of load over opening on the rising branch between two fractions of the peak. At
- * small openings the opening is the noisier reading (a fraction of a micrometre against a few
- * micrometres), so the line is fitted as opening on load, which noise in the opening does not bias.
- */
-export function initialStiffness(m: Curve, from = 0.05, to = 0.4): number {
-  const k = peakIndex(m.y), P = m.y[k]!;
-  let sx = 0, sy = 0, n = 0;
-  for (let i = 0; i <= k; i++) if (m.y[i]! >= from * P && m.y[i]! <= to * P) { sx += m.x[i]!; sy += m.y[i]!; n++; }
-  if (n < 3) {
-    // too few points on the rising branch: the secant to the first point past the upper bound
-    for (let i = 1; i <= k; i++) if (m.y[i]! >= to * P || i === k) return (m.y[i]! - m.y[0]!) / (m.x[i]! - m.x[0]!);
-  }
-  const mx = sx / n, my = sy / n;
-  let syy = 0, sxy = 0;
-  for (let i = 0; i <= k; i++) {
-    if (m.y[i]! < from * P || m.y[i]! > to * P) continue;
-    const dy = m.y[i]! - my;
-    syy += dy * dy; sxy += (m.x[i]! - mx) * dy;
-  }
-  return syy / sxy;
-}
+export { initialStiffness };
 
 /** The case each candidate runs: coarse mesh, no pictures, no probes, the control run to just past the measured range. */
 export function candidateCase(c: CaseModel, measured: Curve, xAxis: XAxis, opt: Pick<FitOptions, 'meshSize' | 'softening' | 'increments'>): CaseModel {
