@@ -1,15 +1,15 @@
 // The lab commands: compare a run with measured curves, fit material parameters to one.
 import type { Command } from 'commander';
-import { existsSync, readFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { loadCase } from '../src/case/index.js';
+import { existsSync, readFileSync, rmSync } from 'node:fs';
+import { basename, join } from 'node:path';
+import { loadCase, unitSlipWarnings } from '../src/case/index.js';
 import type { Softening } from '../src/case/model.js';
 import { InputError } from '../src/errors.js';
 import { readLabCurve, type LabColumns, type LabCurve } from '../src/lab/import.js';
 import { compareCurves, compareJson, compareSvg, compareTable, readRunCurve, type Curve, type XAxis } from '../src/lab/compare.js';
 import type { Corrections } from '../src/lab/correct.js';
-import { FIT_PARAMS, fitCase, fitHistoryCsv, fitJson, fitSvg, fitTable, fittedCaseText, type FitParam } from '../src/lab/fit.js';
-import { writeFileAtomic } from '../src/output/files.js';
+import { FIT_HISTORY_HEADER, FIT_PARAMS, fitCase, fitHistoryRow, fitJson, fitSvg, fitTable, fittedCaseText, type FitParam } from '../src/lab/fit.js';
+import { ensureDir, RowWriter, writeFileAtomic } from '../src/output/files.js';
 import { svgToPng } from '../src/output/png.js';
 
 function xAxisOf(v: string | undefined): XAxis | undefined {
@@ -99,6 +99,14 @@ Example:
   0,5;0,412;0,011;0,0021
 `;
 
+/** A whole-number option at least min; fractions and words are refused. */
+function wholeOf(name: string, v: string | undefined, min: number): number | undefined {
+  if (v === undefined) return undefined;
+  const x = Number(v);
+  if (v.trim() === '' || !Number.isInteger(x) || x < min) throw new InputError(`${name} must be a whole number, ${min} or more (found "${v}")`);
+  return x;
+}
+
 function paramsOf(v: string | undefined): FitParam[] | undefined {
   if (v === undefined) return undefined;
   const out = v.split(',').map((s) => s.trim()).filter((s) => s !== '');
@@ -148,48 +156,102 @@ export function registerLabCommands(program: Command): void {
       }
     });
 
-  program
+  labReadOptions(program
     .command('fit')
-    .description('calibrate E, ft and GF of a case so that its curve matches a measured one')
+    .description('calibrate E, ft and GF of a case so that its curve matches one measured curve or a series')
     .argument('<case>', 'case file (YAML or JSON)')
-    .requiredOption('--lab <file>', 'measured curve (text file of load and opening columns)')
+    .requiredOption('--lab <file>', 'measured curve (text file of load and opening columns); repeat for a series', (v: string, prev: string[]) => [...prev, v], [] as string[])
+    .option('--series <how>', 'several --lab curves: all (fit them together, default) or mean (fit their mean curve)')
     .option('--params <list>', 'parameters to fit, comma separated (default E,ft,GF)')
     .option('--softening <law>', 'softening law for the fit: linear, bilinear or exponential (default the case\'s)')
     .option('--x <axis>', 'opening of the measured curve: cmod or displacement (default from its column name)')
-    .option('--mesh-size <mm>', 'cell size of the fitting mesh (default coarser than the case)')
+    .option('--mesh-size <mm>', 'cell size of the fitting mesh (default the case\'s own mesh)')
     .option('--increments <n>', 'control increments of each candidate run (default the case\'s, at least 6 steps up to the measured peak)')
-    .option('--max-evals <n>', 'simulations allowed in all (default 80)')
+    .option('--max-evals <n>', 'simulations allowed in all, every one counted (default 80)')
+    .option('--seeds <n>', 'extra mesh seeds run at the optimum for the model\'s scatter in the ±95 % ranges (default 2)')
+    .option('--sim-timeout <s>', 'time limit of one simulation in seconds (default 8 × the median so far, at least 30)')
     .option('--workers <n>', 'worker threads, 0 for none (default 2)')
     .option('--out <dir>', 'output folder (default out/<case name>-fit)')
+    .option('--force', 'replace the files of an earlier fit in that folder')
     .option('--quiet', 'no progress on stderr')
-    .option('--json', 'print the result as JSON')
-    .action(async (file: string, o: { lab: string; params?: string; softening?: string; x?: string; meshSize?: string; increments?: string; maxEvals?: string; workers?: string; out?: string; quiet?: boolean; json?: boolean }) => {
+    .option('--json', 'print the result as JSON'))
+    .addHelpText('after', LAB_FORMAT_HELP)
+    .action(async (file: string, o: LabReadOptions & CorrectionOptions & { lab: string[]; series?: string; params?: string; softening?: string; meshSize?: string; increments?: string; maxEvals?: string; seeds?: string; simTimeout?: string; workers?: string; out?: string; force?: boolean; quiet?: boolean; json?: boolean }) => {
       const c = loadCase(file);
-      const lab = readLabCurve(o.lab);
-      const workers = o.workers === undefined ? undefined : Number(o.workers);
-      if (workers !== undefined && !(Number.isInteger(workers) && workers >= 0)) throw new InputError(`--workers must be a whole number, 0 or more (found "${o.workers}")`);
-      const inc = positive('--increments', o.increments), maxEvals = positive('--max-evals', o.maxEvals);
-      const r = await fitCase(c, lab, {
-        params: paramsOf(o.params), softening: softeningOf(o.softening), xAxis: xAxisOf(o.x),
-        meshSize: positive('--mesh-size', o.meshSize), increments: inc && Math.round(inc), maxEvals: maxEvals && Math.round(maxEvals), workers,
-        onEval: o.quiet ? undefined : (e) => process.stderr.write(`\r${e.index} runs (${e.phase}), RMSE ${Number.isFinite(e.objective) ? (100 * e.objective).toFixed(2) + ' % of peak' : '—'}   `),
-      });
-      if (!o.quiet) process.stderr.write('\n');
+      for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
+      const labs = o.lab.map((p) => readLabCurve(p, labColumns(o)));
+      if (o.series !== undefined && o.series !== 'all' && o.series !== 'mean') throw new InputError(`--series must be all or mean (found "${o.series}")`);
+      const { corrections, estimate } = correctionsOf(o);
+      if (estimate) throw new InputError('--compliance estimate works in rupta compare (a run and a file with both CMOD and crosshead columns); give fit the compliance it prints, in mm/kN');
+      const workers = wholeOf('--workers', o.workers, 0);
+      const inc = wholeOf('--increments', o.increments, 2), maxEvals = wholeOf('--max-evals', o.maxEvals, 1), seeds = wholeOf('--seeds', o.seeds, 0);
       const dir = o.out ?? join('out', `${c.name}-fit`);
-      const caseOut = join(dir, `${c.name}-fitted.yaml`);
-      writeFileAtomic(caseOut, fittedCaseText(readFileSync(file, 'utf8'), r));
-      const svg = fitSvg(r);
-      writeFileAtomic(join(dir, 'fit.svg'), svg);
-      await svgToPng(svg, join(dir, 'fit.png'), 1200);
-      writeFileAtomic(join(dir, 'fit-history.csv'), fitHistoryCsv(r));
+      const caseOut = join(dir, `${c.name}-fitted.yaml`), bestOut = join(dir, `${c.name}-best-so-far.yaml`);
+      if (!o.force) {
+        const earlier = [caseOut, bestOut, join(dir, 'fit.json'), join(dir, 'fit-history.csv')].find((p) => existsSync(p));
+        if (earlier) throw new InputError(`${dir} already holds a fit (${basename(earlier)}): give --force to replace it, or --out for another folder`);
+      }
+      // opened at the first simulation, so a refused input leaves the folder as it was
+      let history = null as RowWriter | null;
+      const openHistory = (): RowWriter => {
+        ensureDir(dir);
+        for (const p of [caseOut, bestOut]) rmSync(p, { force: true }); // an old fitted case must not outlive a new fit
+        return new RowWriter(join(dir, 'fit-history.csv'), FIT_HISTORY_HEADER);
+      };
+      // the first signal ends the fit after the simulations in hand, keeping the best so far; a second one quits at once
+      let stop = false;
+      const onSignal = () => { if (stop) process.exit(3); stop = true; };
+      process.on('SIGINT', onSignal);
+      process.on('SIGTERM', onSignal);
+      const tty = Boolean(process.stderr.isTTY);
+      let lastLine = 0, secs = 0;
+      let r;
+      try {
+        r = await fitCase(c, labs, {
+          params: paramsOf(o.params), softening: softeningOf(o.softening), xAxis: xAxisOf(o.x), series: o.series as 'all' | 'mean' | undefined, corrections,
+          meshSize: positive('--mesh-size', o.meshSize), increments: inc, maxEvals, workers, seeds, simTimeout_s: positive('--sim-timeout', o.simTimeout),
+          stopRequested: () => stop,
+          onEval: (e) => {
+            (history ??= openHistory()).append(fitHistoryRow(e));
+            if (o.quiet) return;
+            secs += e.seconds;
+            const per = secs / e.index / Math.max(1, workers ?? 2);
+            const b = e.bestMaterial;
+            const line = `${e.count}/${e.limit} simulations (${e.phase})  best RMSE ${Number.isFinite(e.best) ? (100 * e.best).toFixed(2) + ' % of peak' : '—'}`
+              + (Number.isFinite(e.best) ? `  E ${b.E.toPrecision(4)} ft ${b.ft.toPrecision(3)} GF ${b.GF.toPrecision(3)}` : '')
+              + `  ≤ ${Math.ceil((e.limit - e.count) * per)} s left at the limit`;
+            const now = performance.now();
+            if (tty) process.stderr.write(`\r\x1b[2K${line}`);
+            else if (now - lastLine > 5000) { process.stderr.write(line + '\n'); lastLine = now; }
+          },
+        });
+      } finally {
+        history?.close();
+        process.off('SIGINT', onSignal);
+        process.off('SIGTERM', onSignal);
+        if (!o.quiet && tty) process.stderr.write('\n');
+      }
       const json = fitJson(r);
       writeFileAtomic(join(dir, 'fit.json'), JSON.stringify(json, null, 2) + '\n');
       const table = fitTable(r);
       writeFileAtomic(join(dir, 'fit-report.txt'), table);
+      if (r.curves.fitted.x.length > 0) {
+        const svg = fitSvg(r);
+        writeFileAtomic(join(dir, 'fit.svg'), svg);
+        await svgToPng(svg, join(dir, 'fit.png'), 1200);
+      }
+      let wroteCase: string | null = null;
+      if (r.status === 'fitted') wroteCase = caseOut;
+      else if (r.status !== 'failed' && Number.isFinite(r.objective)) wroteCase = bestOut;
+      if (wroteCase) writeFileAtomic(wroteCase, fittedCaseText(readFileSync(file, 'utf8'), r));
       if (o.json) process.stdout.write(JSON.stringify(json, null, 2) + '\n');
       else {
         process.stdout.write(table);
-        process.stdout.write(`wrote ${caseOut} and the report (fit.svg, fit.png, fit-history.csv, fit.json, fit-report.txt) in ${dir}\n`);
+        process.stdout.write(`wrote ${wroteCase ? `${wroteCase} and ` : ''}the report (fit.json, fit-report.txt, fit-history.csv${r.curves.fitted.x.length ? ', fit.svg, fit.png' : ''}) in ${dir}\n`);
+      }
+      if (r.status !== 'fitted') {
+        process.stderr.write(`rupta: the fit ${r.status === 'failed' ? 'failed' : r.status === 'limit' ? 'stopped at --max-evals' : 'was interrupted'}: ${r.reason}\n`);
+        process.exitCode = 3;
       }
     });
 }

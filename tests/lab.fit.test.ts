@@ -69,7 +69,7 @@ describe('round trip', () => {
     const fitted = fittedCaseText(readFileSync('cases/fit-demo.yaml', 'utf8'), r);
     expect(fitted).toMatch(/^# Fitted by rupta fit to the measured curve synthetic\.csv/);
     expect(fitted).toContain('# Crack-mouth opening control'); // the user's comments stay
-    expect(fitted).toMatch(/E: \d+ # MPa, fitted \(was 30000\)/);
+    expect(fitted).toMatch(/E: \d+ +# MPa, fitted \(was 30000\)/);
     const back = parseCase(fitted, 'fit-demo-fitted.yaml');
     expect(back.material.ft).toBeCloseTo(r.material.ft, 3);
     expect(back.mesh.size).toBe(c.mesh.size); // the user's mesh, not the fitting mesh

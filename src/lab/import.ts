@@ -209,6 +209,8 @@ const quoteLine = (t: string): string => (t.length > 40 ? t.slice(0, 37) + '...'
  */
 export function parseLabCurve(text: string, name: string, opts: LabColumns = {}): LabCurve {
   const notes: string[] = [];
+  if (opts.xUnit !== undefined) unitOption(opts.xUnit, 'length', '--x-unit');
+  if (opts.yUnit !== undefined) unitOption(opts.yUnit, 'force', '--load-unit');
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   if (text.includes('\u0000')) throw new InputError(`${name} looks like a binary or UTF-16 file: expected plain text with rows of numbers`);
   const lines = text.split(/\r\n|\n|\r/);
