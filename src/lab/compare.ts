@@ -251,7 +251,7 @@ export function chooseAxis(hasCmod: boolean, labs: LabCurve[], asked: XAxis | un
     reason = `the measured x column "${l.xLabel}" is ${xAxis === 'cmod' ? 'a crack opening' : 'a displacement'}`;
   } else { xAxis = hasCmod ? 'cmod' : 'displacement'; reason = `the measured x column says neither CMOD nor displacement, so the run's ${hasCmod ? 'CMOD' : 'displacement'} is used (say which with --x)`; }
   if (xAxis === 'cmod' && !hasCmod) {
-    throw new InputError(`${where} has no CMOD (its case has no gauge), but the measured curve is against CMOD (${reason}): add control.gauge to the case and run it again, or compare a displacement column (--x-column)`);
+    throw new InputError(`${where} has no CMOD (no control.gauge in the case), but the measured curve is against CMOD (${reason}): add control.gauge to the case and run it again, or compare a displacement column (--x-column)`);
   }
   return { xAxis, reason };
 }

@@ -44,7 +44,11 @@ export function removeCompliance(c: Curve, C_mm_per_N: number): Corrected {
  * by that line, so the curve starts at (0, 0).
  */
 export function toeCorrection(c: Curve): Corrected & { offset_mm: number } {
-  const k = initialStiffness(c, 0.1, 0.4), kp = peakIndex(c.y), P = c.y[kp]!;
+  const kp = peakIndex(c.y), P = c.y[kp]!;
+  let inBand = 0;
+  for (let i = 0; i <= kp; i++) if (c.y[i]! >= 0.1 * P && c.y[i]! <= 0.4 * P) inBand++;
+  if (inBand < 3) throw new InputError(`--toe: only ${inBand} measured point${inBand === 1 ? '' : 's'} between 10 and 40 % of the peak: the straight part of the rising branch needs at least 3`);
+  const k = initialStiffness(c, 0.1, 0.4);
   if (!(k > 0)) throw new InputError('--toe: the rising branch has no straight part between 10 and 40 % of the peak, so the toe cannot be corrected');
   // intercept of the line through the mean point of the band
   let sx = 0, sy = 0, n = 0;
