@@ -342,12 +342,16 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   const clamp = (m: Mat): Mat => { const o = { ...m }; for (const p of params) o[p] = Math.min(hi[p], Math.max(lo[p], o[p])); return o; };
 
   // every simulation counts against the limit; each has a time limit
+  // the optimiser leaves room for the sensitivities (one run per parameter) and the mesh seeds
+  const seeds = Math.max(0, Math.floor(opt.seeds ?? 2));
+  const reserve = params.length + seeds;
+  let phaseLimit = maxEvals - reserve >= params.length + 4 ? maxEvals - reserve : maxEvals;
   let sims = 0, best: { m: Mat; f: number } = { m: start, f: Infinity };
   const times: number[] = [];
   const timeLimit = (): number => opt.simTimeout_s ?? (times.length === 0 ? 600 : Math.max(30, 8 * [...times].sort((a, b) => a - b)[times.length >> 1]!));
   const simulate = async (k: CaseModel, m: PolyMesh = mesh): Promise<SimCurve> => {
     if (opt.stopRequested?.()) throw new FitStop('interrupted');
-    if (sims >= maxEvals) throw new FitStop('limit');
+    if (sims >= phaseLimit) throw new FitStop('limit');
     sims++;
     const limit = timeLimit();
     const s = pool ? await pool.run(k, m, limit) : await simulateCurve(k, m, limit);
@@ -470,12 +474,17 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       const at = (c0: number[], w: number[], t: number) => c0.map((v, i) => v + t * (v - w[i]!));
       let lastGood = true; // the last move went outward: speculate an expansion, else a contraction
       const sortS = () => simplex.sort((a, b) => a.f - b.f);
+      const bests: number[] = [];
       try {
         for (;;) {
           sortS();
           const fb = simplex[0]!.f, fw = simplex[n]!.f, fsw = simplex[n - 1]!.f;
           const size = Math.max(...simplex.slice(1).map((s) => Math.max(...s.x.map((v, i) => Math.abs(v - simplex[0]!.x[i]!)))));
           if (size < 0.003 && fw - fb < 0.01 * fb + 1e-6) break;
+          // a noisy objective (growth events are discrete) keeps a small simplex wandering: closed
+          // once it is within 2 % and the best has not moved by 0.5 % over the last 5n simulations
+          bests.push(fb);
+          if (size < 0.02 && bests.length > 5 * n && bests[bests.length - 1 - 5 * n]! - fb < 0.005 * fb) break;
           const cen = params.map((_, i) => simplex.slice(0, n).reduce((s, v) => s + v.x[i]!, 0) / n);
           const w = simplex[n]!.x;
           const xr = at(cen, w, 1), xe = at(cen, w, 2), xi = at(cen, w, -0.5);
@@ -514,7 +523,7 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       // the best candidate so far stands in for the optimum
       status = e.kind === 'limit' ? 'limit' : 'interrupted';
       reason = e.kind === 'limit'
-        ? `stopped at the limit of ${maxEvals} simulations before the optimiser had closed; the values are the best so far (a larger --max-evals may improve them)`
+        ? `stopped at the limit of ${maxEvals} simulations${phaseLimit < maxEvals ? ` (${phaseLimit} for the optimiser, ${maxEvals - phaseLimit} kept for the ±95 % ranges)` : ''} before the optimiser had closed; the values are the best so far (a larger --max-evals may improve them)`
         : `interrupted after ${sims} simulations; the values are the best so far`;
       fit = best.m; fbest = best.f; xb = params.map((p) => Math.log(fit[p]));
     }
@@ -523,7 +532,8 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
     // model's own scatter from other mesh seeds
     const bestEval = cache.get(keyOf(fit));
     bestCurve = bestEval?.curve ?? null;
-    if (status === 'fitted' && Number.isFinite(fbest)) {
+    phaseLimit = maxEvals;
+    if ((status === 'fitted' || status === 'limit') && Number.isFinite(fbest)) {
       try {
         const h = Math.log(1.03);
         const r0 = residualsAll(bestCurve!, targets);
@@ -536,7 +546,6 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
         correlation = params.map((_, i) => params.map((__, j) => (cov ? cov[i]![j]! / Math.sqrt(cov[i]![i]! * cov[j]![j]!) : NaN)));
         // model scatter: the same fitted values on meshes of other seeds; the shift of the
         // parameters that would absorb each one's change of the curve (Gauss–Newton step)
-        const seeds = Math.max(0, Math.floor(opt.seeds ?? 2));
         const shifts: number[][] = [new Array(n).fill(0)];
         for (let s = 1; s <= seeds && cov; s++) {
           const k = matOf(fit, base);
@@ -671,7 +680,7 @@ export function fitTable(r: FitResult): string {
   const rows = r.table.map((t) => [t.name, t.unit, String(sig(t.start)), String(sig(t.estimate)), String(sig(t.fitted)),
     Number.isFinite(t.relStd) ? `${(196 * t.relStd).toFixed(1)} %` : Number.isNaN(t.relStd) ? '—' : '∞',
     Number.isFinite(t.relStdModel) ? `${(196 * t.relStdModel).toFixed(1)} %` : '—',
-    Number.isFinite(t.sensitivity10) ? `${(100 * t.sensitivity10).toFixed(2)} % of peak` : '—', t.wellDetermined ? '' : 'poorly determined']);
+    Number.isFinite(t.sensitivity10) ? `${(100 * t.sensitivity10).toFixed(2)} % of peak` : '—', !Number.isFinite(t.sensitivity10) ? 'not measured' : t.wellDetermined ? '' : 'poorly determined']);
   const w = head.map((h, j) => Math.max(h.length, ...rows.map((row) => row[j]!.length)));
   const line = (c: string[]) => c.map((s, j) => (j < 2 ? s.padEnd(w[j]!) : s.padStart(w[j]!))).join('  ').trimEnd();
   const out = [

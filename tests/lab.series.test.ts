@@ -1,0 +1,84 @@
+// A series of specimens: statistics in compare (hand-computed), the ±1 SD band and specimen
+// ids in the picture, and a fit of a synthetic series made by rupta with known values.
+import { describe, expect, it } from 'vitest';
+import { join } from 'node:path';
+import { compareCurves, compareSvg, compareTable, meanBand, stat, type RunCurve } from '../src/lab/compare.js';
+import { parseLabCurve, type LabCurve } from '../src/lab/import.js';
+import { loadCase } from '../src/case/index.js';
+import { buildDomain } from '../src/geometry/domain.js';
+import { generateMesh } from '../src/mesh/generate.js';
+import { simulateCurve } from '../src/lab/fitworker.js';
+import { candidateCase, fitCase, syntheticLabText } from '../src/lab/fit.js';
+import { ROOT } from './support/cli.js';
+
+const f64 = (a: number[]) => Float64Array.from(a);
+// three triangles: peaks 900, 1000, 1100 N at openings 0.1, 0.1, 0.2 mm, all back to zero at 1 mm
+const tri = (name: string, id: string, P: number, xp: number): LabCurve => ({
+  name, specimen: id, x: f64([0, xp, 1]), y: f64([0, P, 0]), xLabel: 'displacement', yLabel: 'load', xUnit: 'mm', yUnit: 'N', xKind: 'displacement', notes: [],
+});
+const labs = [tri('a.csv', 'B-1', 900, 0.1), tri('b.csv', 'B-2', 1000, 0.1), tri('c.csv', 'B-3', 1100, 0.2)];
+const run: RunCurve = { load: f64([0, 1000, 0]), displacement: f64([0, 0.1, 1]), cmod: null, title: 'prediction', ligamentArea_mm2: 1000 };
+
+describe('series statistics in compare (hand computations, sample SD with n − 1)', () => {
+  const r = compareCurves(run, labs);
+
+  it('mean, SD and CoV of the peak: 1000 ± 100 N, 10 %', () => {
+    expect(r.series!.n).toBe(3);
+    expect(r.series!.peak_N!.mean).toBeCloseTo(1000, 9);
+    expect(r.series!.peak_N!.sd).toBeCloseTo(100, 9);
+    expect(r.series!.peak_N!.cov).toBeCloseTo(0.1, 9);
+  });
+
+  it('opening at peak: 0.1333 ± 0.0577 mm', () => {
+    expect(r.series!.openingAtPeak_mm!.mean).toBeCloseTo(0.4 / 3, 9);
+    expect(r.series!.openingAtPeak_mm!.sd).toBeCloseTo(Math.sqrt((2 * (0.1 - 0.4 / 3) ** 2 + (0.2 - 0.4 / 3) ** 2) / 2), 9);
+  });
+
+  it('work of fracture: the triangles\' areas 450, 500, 550 N·mm, and GF over the 1000 mm² ligament', () => {
+    expect(r.series!.workOfFracture_Nmm!.mean).toBeCloseTo(500, 9);
+    expect(r.series!.workOfFracture_Nmm!.sd).toBeCloseTo(50, 9);
+    expect(r.series!.GF_Nmm!.mean).toBeCloseTo(0.5, 9);
+  });
+
+  it('the table prints the series line; the picture has the band and the specimen ids in its legend', () => {
+    expect(compareTable(r)).toMatch(/series of 3 specimens \(mean ± 1 SD, n − 1\): peak 1000\.0 ± 100\.0 N \(CoV 10\.0 %\)/);
+    const svg = compareSvg(r);
+    expect(svg).toMatch(/class="series band" data-label="±1 SD of specimens"/);
+    for (const id of ['B-1', 'B-2', 'B-3']) expect(svg).toContain(`>${id}</text>`);
+  });
+
+  it('the band at the common openings: SD of 900, 1000, 1100 N at 0.1 mm is 100 N', () => {
+    const b = meanBand(labs.map((l) => ({ x: l.x, y: l.y })), 11);
+    expect(b.x[1]).toBeCloseTo(0.1, 12);
+    // at 0.1 mm: 900, 1000 and the third triangle half way up, 550 N
+    expect(b.y[1]).toBeCloseTo((900 + 1000 + 550) / 3, 9);
+    expect(b.sd[1]).toBeCloseTo(stat([900, 1000, 550])!.sd, 9);
+  });
+});
+
+describe('fit of a synthetic series', () => {
+  it('three noisy copies of one rupta curve fitted together give E, ft and GF back within 3 % (common practice)', async () => {
+    const truth = { E: 27000, ft: 3.3, GF: 0.085 };
+    const c = loadCase(join(ROOT, 'cases', 'fit-demo.yaml')); // starts from E 30000, ft 3.0, GF 0.1
+    c.control.target = 0.25;
+    c.mesh = { ...c.mesh, size: 12.5, tipSize: 3.125 };
+    const opt = { increments: 50 };
+    const gen = candidateCase(c, { x: f64([0, c.control.target]), y: f64([0, 1]) }, 'cmod', opt);
+    gen.material = { ...gen.material, ...truth };
+    const sim = await simulateCurve(gen, generateMesh(buildDomain(gen), gen.mesh));
+    expect(sim.status).toBe('complete');
+    const P = Math.max(...sim.load);
+    const series = [1, 2, 3].map((seed) => parseLabCurve(
+      syntheticLabText({ x: sim.cmod!, y: sim.load }, { seed, loadNoise_N: 0.01 * P, xNoise_mm: 0.0002, points: 400, header: ['SYNTHETIC test data', `Specimen;S-${seed}`] }), `s${seed}.csv`));
+    expect(series.map((s) => s.specimen)).toEqual(['S-1', 'S-2', 'S-3']);
+    const r = await fitCase(c, series, { ...opt, maxEvals: 50, seeds: 1 });
+    expect(r.status).toBe('fitted');
+    expect(r.labNames).toEqual(['S-1', 'S-2', 'S-3']);
+    expect(r.curves.specimens).toHaveLength(3); // all three are in the objective, not only the last
+    for (const p of ['E', 'ft', 'GF'] as const) expect(Math.abs(r.material[p] / truth[p] - 1), p).toBeLessThan(0.03);
+    expect(r.evaluations).toBeLessThanOrEqual(50);
+    expect(r.history.filter((h) => h.phase === 'seed')).toHaveLength(1);
+    expect(r.notes.join(' ')).toMatch(/combined with the model's own scatter over 2 mesh seeds/);
+    console.log(`series fit: ${r.evaluations} runs, ${r.wallSeconds.toFixed(1)} s, E ${r.material.E.toFixed(0)}, ft ${r.material.ft.toFixed(4)}, GF ${r.material.GF.toFixed(5)}; ±95 % ${r.table.map((t) => `${t.name} ${(196 * t.relStd).toFixed(1)} % (seeds ${(196 * t.relStdModel).toFixed(1)} %)`).join(', ')}`);
+  }, 600_000);
+});
