@@ -2,7 +2,8 @@
 // ids in the picture, and a fit of a synthetic series made by rupta with known values.
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { compareCurves, compareSvg, compareTable, meanBand, stat, type RunCurve } from '../src/lab/compare.js';
+import { compareCurves, compareJson, compareSvg, compareTable, meanBand, stat, type RunCurve } from '../src/lab/compare.js';
+import { compareSectionHtml } from '../src/lab/report.js';
 import { parseLabCurve, type LabCurve } from '../src/lab/import.js';
 import { loadCase } from '../src/case/index.js';
 import { buildDomain } from '../src/geometry/domain.js';
@@ -45,6 +46,12 @@ describe('series statistics in compare (hand computations, sample SD with n − 
     const svg = compareSvg(r);
     expect(svg).toMatch(/class="series band" data-label="±1 SD of specimens"/);
     for (const id of ['B-1', 'B-2', 'B-3']) expect(svg).toContain(`>${id}</text>`);
+  });
+
+  it('the report section (from compare.json as written) has a row per specimen and the series line', () => {
+    const html = compareSectionHtml(JSON.parse(JSON.stringify(compareJson(r))));
+    for (const id of ['B-1', 'B-2', 'B-3', 'mean of specimens']) expect(html).toContain(`<td>${id}</td>`);
+    expect(html).toContain('<td>3 specimens, mean ± 1 SD</td><td>1000.0 ± 100.0 (CoV 10.0 %)</td>');
   });
 
   it('the band at the common openings: SD of 900, 1000, 1100 N at 0.1 mm is 100 N', () => {
