@@ -6,8 +6,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { spawn } from 'node:child_process';
 import { parse, stringify } from 'yaml';
-import { ensureBuilt, rupta, ROOT } from './support/cli.js';
+import { CLI, ensureBuilt, rupta, ROOT } from './support/cli.js';
 
 let dir = '';
 beforeAll(() => {
@@ -48,6 +49,35 @@ describe('rupta fit limits', () => {
     const f = await fit('--max-evals', '2', '--out', 'f3', '--force');
     expect(f.code).toBe(3);
     expect(readFileSync(join(dir, 'f3', 'fit-history.csv'), 'utf8').trim().split('\n')).toHaveLength(3);
+  }, 300_000);
+
+  it('simulations over their time limit are not results: the fit failed (exit 3) and writes no case', async () => {
+    const r = await fit('--max-evals', '4', '--sim-timeout', '0.001', '--out', 'slow');
+    expect(r.code).toBe(3);
+    expect(r.stderr).toMatch(/^rupta: the fit failed: no candidate simulation gave a curve over the measured range/);
+    expect(readFileSync(join(dir, 'slow', 'fit-history.csv'), 'utf8')).toMatch(/,timed out,/);
+    expect(JSON.parse(readFileSync(join(dir, 'slow', 'fit.json'), 'utf8')).status).toBe('failed');
+    expect(existsSync(join(dir, 'slow', 'beam-fitted.yaml')) || existsSync(join(dir, 'slow', 'beam-best-so-far.yaml'))).toBe(false);
+  }, 300_000);
+
+  it('Ctrl-C keeps the history, the report and the best so far (exit 3)', async () => {
+    const child = spawn(process.execPath, [CLI, 'fit', 'beam.yaml', '--lab', 'lab.csv', '--workers', '0', '--quiet', '--out', 'int'], { cwd: dir, env: { ...process.env, RUPTA_DEBUG: '' } });
+    let stderr = '';
+    child.stderr.on('data', (d) => { stderr += String(d); });
+    const hist = join(dir, 'int', 'fit-history.csv');
+    // wait for the third simulation (an estimate with a curve), then interrupt
+    for (let t = 0; t < 2400; t++) {
+      if (existsSync(hist) && readFileSync(hist, 'utf8').trim().split('\n').length >= 4) break;
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    child.kill('SIGINT');
+    const code = await new Promise<number | null>((res) => child.on('exit', (c) => res(c)));
+    expect(code).toBe(3);
+    expect(stderr).toMatch(/rupta: the fit was interrupted: interrupted after \d+ simulations; the values are the best so far/);
+    const json = JSON.parse(readFileSync(join(dir, 'int', 'fit.json'), 'utf8'));
+    expect(json.status).toBe('interrupted');
+    expect(readFileSync(hist, 'utf8').trim().split('\n').length).toBe(1 + json.evaluations);
+    expect(existsSync(join(dir, 'int', 'beam-best-so-far.yaml'))).toBe(true);
   }, 300_000);
 
   const refused: [string, string[], RegExp, string?][] = [

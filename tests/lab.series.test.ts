@@ -1,16 +1,10 @@
 // A series of specimens: statistics in compare (hand-computed), the ±1 SD band and specimen
-// ids in the picture, and a fit of a synthetic series made by rupta with known values.
+// ids in the picture and the report section. (The fit of a synthetic series is in lab.fit.test.ts.)
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import { compareCurves, compareJson, compareSvg, compareTable, meanBand, stat, type RunCurve } from '../src/lab/compare.js';
 import { compareSectionHtml } from '../src/lab/report.js';
-import { parseLabCurve, type LabCurve } from '../src/lab/import.js';
-import { loadCase } from '../src/case/index.js';
-import { buildDomain } from '../src/geometry/domain.js';
-import { generateMesh } from '../src/mesh/generate.js';
-import { simulateCurve } from '../src/lab/fitworker.js';
-import { candidateCase, fitCase, syntheticLabText } from '../src/lab/fit.js';
-import { ROOT } from './support/cli.js';
+import type { LabCurve } from '../src/lab/import.js';
 
 const f64 = (a: number[]) => Float64Array.from(a);
 // three triangles: peaks 900, 1000, 1100 N at openings 0.1, 0.1, 0.2 mm, all back to zero at 1 mm
@@ -61,31 +55,4 @@ describe('series statistics in compare (hand computations, sample SD with n − 
     expect(b.y[1]).toBeCloseTo((900 + 1000 + 550) / 3, 9);
     expect(b.sd[1]).toBeCloseTo(stat([900, 1000, 550])!.sd, 9);
   });
-});
-
-describe('fit of a synthetic series', () => {
-  it('three noisy copies of one rupta curve fitted together give E, ft and GF back within 3 % (common practice)', async () => {
-    const truth = { E: 27000, ft: 3.3, GF: 0.085 };
-    const c = loadCase(join(ROOT, 'cases', 'fit-demo.yaml')); // starts from E 30000, ft 3.0, GF 0.1
-    c.control.target = 0.25;
-    c.mesh = { ...c.mesh, size: 12.5, tipSize: 3.125 };
-    const opt = { increments: 50 };
-    const gen = candidateCase(c, { x: f64([0, c.control.target]), y: f64([0, 1]) }, 'cmod', opt);
-    gen.material = { ...gen.material, ...truth };
-    const sim = await simulateCurve(gen, generateMesh(buildDomain(gen), gen.mesh));
-    expect(sim.status).toBe('complete');
-    const P = Math.max(...sim.load);
-    const series = [1, 2, 3].map((seed) => parseLabCurve(
-      syntheticLabText({ x: sim.cmod!, y: sim.load }, { seed, loadNoise_N: 0.01 * P, xNoise_mm: 0.0002, points: 400, header: ['SYNTHETIC test data', `Specimen;S-${seed}`] }), `s${seed}.csv`));
-    expect(series.map((s) => s.specimen)).toEqual(['S-1', 'S-2', 'S-3']);
-    const r = await fitCase(c, series, { ...opt, maxEvals: 50, seeds: 1 });
-    expect(r.status).toBe('fitted');
-    expect(r.labNames).toEqual(['S-1', 'S-2', 'S-3']);
-    expect(r.curves.specimens).toHaveLength(3); // all three are in the objective, not only the last
-    for (const p of ['E', 'ft', 'GF'] as const) expect(Math.abs(r.material[p] / truth[p] - 1), p).toBeLessThan(0.03);
-    expect(r.evaluations).toBeLessThanOrEqual(50);
-    expect(r.history.filter((h) => h.phase === 'seed')).toHaveLength(1);
-    expect(r.notes.join(' ')).toMatch(/combined with the model's own scatter over 2 mesh seeds/);
-    console.log(`series fit: ${r.evaluations} runs, ${r.wallSeconds.toFixed(1)} s, E ${r.material.E.toFixed(0)}, ft ${r.material.ft.toFixed(4)}, GF ${r.material.GF.toFixed(5)}; ±95 % ${r.table.map((t) => `${t.name} ${(196 * t.relStd).toFixed(1)} % (seeds ${(196 * t.relStdModel).toFixed(1)} %)`).join(', ')}`);
-  }, 600_000);
 });
