@@ -576,7 +576,12 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
     } else table = params.map((p) => ({ name: p, unit: UNIT[p], start: start[p], estimate: est[p], fitted: fit[p], relStd: NaN, relStdModel: NaN, sensitivity10: NaN, wellDetermined: false }));
 
     // a fit that ran off, failed or still misses the curve badly is not called fitted
-    if (!Number.isFinite(fbest)) { status = 'failed'; reason = `no candidate simulation gave a curve over the measured range (${sims} simulations; see the status column of fit-history.csv)`; }
+    if (!Number.isFinite(fbest)) {
+      reason = status === 'limit'
+        ? `the limit of ${maxEvals} simulation${maxEvals > 1 ? 's' : ''} came before any candidate gave a curve over the measured range`
+        : `no candidate simulation gave a curve over the measured range (${sims} simulations; see the status column of fit-history.csv)`;
+      status = 'failed';
+    }
     else if (status === 'fitted') {
       const atBound = params.filter((p) => fit[p] <= lo[p] * 1.01 || fit[p] >= hi[p] / 1.01);
       if (atBound.length) { status = 'failed'; reason = `${atBound.join(' and ')} ran to the edge of ${atBound.length > 1 ? 'their' : 'its'} allowed range (${atBound.map((p) => `${sig(lo[p])}–${sig(hi[p])} ${UNIT[p]}`).join(', ')}): the case or the measured curve is not what the fit assumes (units, axis, compliance)`; }
@@ -674,6 +679,8 @@ export function fittedCaseText(originalText: string, r: FitResult): string {
   return doc.toString({ flowCollectionPadding: false });
 }
 
+const pctOf = (v: number): string => (Number.isFinite(v) ? `${(100 * v).toFixed(2)} %` : '—');
+
 /** Parameter table and warnings as text. */
 export function fitTable(r: FitResult): string {
   const head = ['param', 'unit', 'case', 'estimate', r.status === 'fitted' ? 'fitted' : 'best so far', '±95 %', 'of it mesh seeds', 'effect of 10 %', ''];
@@ -687,7 +694,7 @@ export function fitTable(r: FitResult): string {
     `${r.caseName} ${r.status === 'fitted' ? 'fitted' : 'NOT fitted'} to ${r.labName} (${r.softening} softening, load against ${r.xAxis === 'cmod' ? 'CMOD' : 'load-point displacement'})`,
     ...(r.status === 'fitted' ? [] : [`${r.status === 'failed' ? 'FAILED' : r.status === 'limit' ? 'STOPPED AT THE LIMIT' : 'INTERRUPTED'}: ${r.reason}`]),
     line(head), ...rows.map(line),
-    `RMSE / measured peak: ${(100 * r.startObjective).toFixed(2)} % with the case values, ${(100 * r.objective).toFixed(2)} % ${r.status === 'fitted' ? 'fitted' : 'best so far'}`,
+    `RMSE / measured peak: ${pctOf(r.startObjective)} with the case values, ${pctOf(r.objective)} ${r.status === 'fitted' ? 'fitted' : 'best so far'}`,
     `${r.evaluations} of at most ${r.maxEvals} simulations in ${r.wallSeconds.toFixed(1)} s on ${r.workers || 'no'} worker thread${r.workers === 1 ? '' : 's'}${r.workers ? '' : ' (in-process)'}`,
     ...r.notes.map((s) => `note: ${s}`),
     ...r.warnings.map((s) => `warning: ${s}`),
