@@ -2,7 +2,7 @@
 // ids in the picture and the report section. (The fit of a synthetic series is in lab.fit.test.ts.)
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { compareCurves, compareJson, compareSvg, compareTable, meanBand, stat, type RunCurve } from '../src/lab/compare.js';
+import { compareCurves, compareJson, compareSvg, compareTable, meanBand, specimenLabels, stat, type RunCurve } from '../src/lab/compare.js';
 import { compareSectionHtml } from '../src/lab/report.js';
 import type { LabCurve } from '../src/lab/import.js';
 
@@ -46,6 +46,10 @@ describe('series statistics in compare (hand computations, sample SD with n − 
     const html = compareSectionHtml(JSON.parse(JSON.stringify(compareJson(r))));
     for (const id of ['B-1', 'B-2', 'B-3', 'mean of specimens']) expect(html).toContain(`<td>${id}</td>`);
     expect(html).toContain('<td>3 specimens, mean ± 1 SD</td><td>1000.0 ± 100.0 (CoV 10.0 %)</td>');
+  });
+
+  it('a specimen id used twice is told apart by its file name; a file without id goes by its name', () => {
+    expect(specimenLabels([tri('a.csv', 'X', 1, 0.1), tri('b.csv', 'X', 1, 0.1), { ...tri('c.csv', 'Y', 1, 0.1), specimen: null }])).toEqual(['X (a.csv)', 'X (b.csv)', 'c.csv']);
   });
 
   it('the band at the common openings: SD of 900, 1000, 1100 N at 0.1 mm is 100 N', () => {

@@ -229,9 +229,9 @@ const AXIS_NAME: Record<XAxis, string> = { cmod: 'CMOD', displacement: 'load-poi
 /** Legend names: the specimen id from the file's header, else the file name; repeats get the file name. */
 export function specimenLabels(labs: LabCurve[]): string[] {
   const ids = labs.map((l) => l.specimen ?? l.name);
-  return ids.map((id, i) => (ids.indexOf(id) !== i || ids.lastIndexOf(id) !== i) && l0(labs[i]!) !== id ? `${id} (${labs[i]!.name})` : id);
+  const repeated = (id: string): boolean => ids.indexOf(id) !== ids.lastIndexOf(id);
+  return ids.map((id, i) => (repeated(id) && labs[i]!.name !== id ? `${id} (${labs[i]!.name})` : id));
 }
-const l0 = (l: LabCurve): string => l.name;
 
 /**
  * The predicted quantity the measured curves are compared with: --x when given, else the
