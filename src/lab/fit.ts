@@ -474,7 +474,6 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       const at = (c0: number[], w: number[], t: number) => c0.map((v, i) => v + t * (v - w[i]!));
       let lastGood = true; // the last move went outward: speculate an expansion, else a contraction
       const sortS = () => simplex.sort((a, b) => a.f - b.f);
-      const bests: number[] = [];
       try {
         for (;;) {
           sortS();
@@ -482,9 +481,9 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
           const size = Math.max(...simplex.slice(1).map((s) => Math.max(...s.x.map((v, i) => Math.abs(v - simplex[0]!.x[i]!)))));
           if (size < 0.003 && fw - fb < 0.01 * fb + 1e-6) break;
           // a noisy objective (growth events are discrete) keeps a small simplex wandering: closed
-          // once it is within 2 % and the best has not moved by 0.5 % over the last 5n simulations
-          bests.push(fb);
-          if (size < 0.02 && bests.length > 5 * n && bests[bests.length - 1 - 5 * n]! - fb < 0.005 * fb) break;
+          // once it is within 3 % and the best has improved by under 2 % of itself over the last 6n simulations
+          const back = history.length - 1 - 6 * n;
+          if (size < 0.03 && back >= 0 && history[back]!.best - fb < 0.02 * fb) break;
           const cen = params.map((_, i) => simplex.slice(0, n).reduce((s, v) => s + v.x[i]!, 0) / n);
           const w = simplex[n]!.x;
           const xr = at(cen, w, 1), xe = at(cen, w, 2), xi = at(cen, w, -0.5);
