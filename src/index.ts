@@ -31,3 +31,8 @@ export { fitCase, fitJson } from './lab/fit.js';
 export { correctCurve, estimateCompliance, toeCorrection, addPreload, removeCompliance } from './lab/correct.js';
 export { labReportHtml, compareSectionHtml, fitSectionHtml } from './lab/report.js';
 export * as output from './output/index.js';
+export { runStudy, type StudyOptions, type StudyResult, type StudyEvent } from './study/study.js';
+export { loadStudy, studyFromData, type StudySpec } from './study/spec.js';
+export { expandStudy, type Variant } from './study/expand.js';
+export { fitSizeEffect, sizeEffectLaw, type SizeEffectFit } from './study/sizeeffect.js';
+export type { StudyRow } from './study/collect.js';
