@@ -3,16 +3,53 @@
 import { Command, CommanderError } from 'commander';
 import { join } from 'node:path';
 import { loadCase, describeCase } from '../src/case/index.js';
-import { InputError, RunStopped } from '../src/errors.js';
+import { DiskFull, InputError, RunStopped } from '../src/errors.js';
 import { runCase, meshCase } from '../src/run.js';
 import { meshStats } from '../src/mesh/stats.js';
 import { meshSvg } from '../src/output/field.js';
 import { specimenSymbols } from '../src/output/runfiles.js';
-import { ensureDir, writeFileAtomic } from '../src/output/files.js';
+import { OutputFolder, defaultOutDir } from '../src/output/folder.js';
+import { shellQuote } from '../src/output/shell.js';
+import { readCheckpointWithCase } from '../src/fracture/checkpoint.js';
+import type { CaseModel } from '../src/case/model.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { Progress } from './progress.js';
 import { registerLabCommands } from './lab.js';
 import { registerNewCommand } from './new.js';
+
+interface RunFlags { out?: string; force?: boolean; resume?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string }
+
+/** One run (fresh, resumed or finished) with progress, signals and the closing lines. */
+async function runAndReport(c: CaseModel, file: string | null, o: RunFlags): Promise<void> {
+  const progress = new Progress(!o.quiet, c);
+  // the first signal ends the run after the step in hand, with every file complete; a second one quits at once
+  let interrupted = false;
+  const onSignal = () => {
+    if (interrupted) process.exit(3);
+    interrupted = true;
+  };
+  process.on('SIGINT', onSignal);
+  process.on('SIGTERM', onSignal);
+  const { dir, result, summary } = await runCase(c, {
+    out: o.out, force: o.force, resume: o.resume, exportMatrix: o.exportMatrix,
+    onStep: (e, t) => progress.step(e.row, t),
+    stopRequested: () => interrupted,
+  });
+  process.off('SIGINT', onSignal);
+  process.off('SIGTERM', onSignal);
+  progress.done();
+  const again = file !== null ? `rupta run ${shellQuote(file)} --out ${shellQuote(dir)} --resume` : `rupta finish ${shellQuote(dir)}`;
+  if (result.status === 'stopped') process.stderr.write(`rupta: the run stopped: ${result.reason}\n`);
+  if (result.status === 'interrupted') process.stderr.write(`rupta: ${result.reason}; go on with: ${again}\n`);
+  if (o.json) process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
+  else if (!o.quiet) {
+    const p = result.peak;
+    process.stdout.write(`${result.status}: ${result.reason}\n`);
+    process.stdout.write(`peak load ${p.load_N.toFixed(1)} N at step ${p.step} (displacement ${p.displacement_mm.toFixed(4)} mm${p.cmod_mm !== null ? `, CMOD ${p.cmod_mm.toFixed(4)} mm` : ''})\n`);
+    process.stdout.write(`results in ${dir}\n`);
+  }
+  if (result.status !== 'complete') process.exitCode = 3;
+}
 
 const program = new Command();
 program
@@ -31,35 +68,19 @@ program
   .option('--quiet', 'no progress on stderr')
   .option('--json', 'print the summary as JSON on stdout')
   .option('--export-matrix <file>', 'also write the constrained stiffness matrix (Matrix Market)')
-  .action(async (file: string, o: { out?: string; force?: boolean; resume?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string }) => {
-    const c = loadCase(file);
-    const progress = new Progress(!o.quiet, c);
-    // the first signal ends the run after the step in hand, with every file complete; a second one quits at once
-    let interrupted = false;
-    const onSignal = () => {
-      if (interrupted) process.exit(3);
-      interrupted = true;
-    };
-    process.on('SIGINT', onSignal);
-    process.on('SIGTERM', onSignal);
-    const { dir, result, summary } = await runCase(c, {
-      out: o.out, force: o.force, resume: o.resume, exportMatrix: o.exportMatrix,
-      onStep: (e, t) => progress.step(e.row, t),
-      stopRequested: () => interrupted,
-    });
-    process.off('SIGINT', onSignal);
-    process.off('SIGTERM', onSignal);
-    progress.done();
-    if (result.status === 'stopped') process.stderr.write(`rupta: the run stopped: ${result.reason}\n`);
-    if (result.status === 'interrupted') process.stderr.write(`rupta: ${result.reason}; go on with: rupta run ${file} --out ${dir} --resume\n`);
-    if (o.json) process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
-    else if (!o.quiet) {
-      const p = result.peak;
-      process.stdout.write(`${result.status}: ${result.reason}\n`);
-      process.stdout.write(`peak load ${p.load_N.toFixed(1)} N at step ${p.step} (displacement ${p.displacement_mm.toFixed(4)} mm${p.cmod_mm !== null ? `, CMOD ${p.cmod_mm.toFixed(4)} mm` : ''})\n`);
-      process.stdout.write(`results in ${dir}\n`);
-    }
-    if (result.status !== 'complete') process.exitCode = 3;
+  .action(async (file: string, o: RunFlags) => {
+    await runAndReport(loadCase(file), file, o);
+  });
+
+program
+  .command('finish')
+  .description('complete a run folder whose run was interrupted or whose final writes were cut off, from its checkpoint (no case file needed)')
+  .argument('<run-dir>', 'output folder of the run')
+  .option('--quiet', 'no progress on stderr')
+  .option('--json', 'print the summary as JSON on stdout')
+  .action(async (dir: string, o: { quiet?: boolean; json?: boolean }) => {
+    const { c } = readCheckpointWithCase(dir);
+    await runAndReport(c, null, { out: dir, resume: true, quiet: o.quiet, json: o.json });
   });
 
 program
@@ -81,16 +102,24 @@ program
   .description('mesh a case, write mesh.svg into the output folder and print mesh statistics')
   .argument('<case>', 'case file (YAML or JSON)')
   .option('--out <dir>', 'output folder (default out/<case name>)')
-  .action((file: string, o: { out?: string }) => {
+  .option('--force', 'overwrite an existing mesh.svg')
+  .action((file: string, o: { out?: string; force?: boolean }) => {
     const c = loadCase(file);
-    const { mesh, seconds } = meshCase(c);
-    const dir = o.out ?? join('out', c.name);
-    ensureDir(dir);
-    writeFileAtomic(join(dir, 'mesh.svg'), meshSvg(mesh, { ...specimenSymbols(c), title: `${c.title}: mesh` }));
-    const st = meshStats(mesh);
-    process.stdout.write(`${st.polygons} polygons, ${st.vertices} vertices, ${2 * st.vertices} dofs, made in ${seconds.toFixed(2)} s\n`);
-    process.stdout.write(`cell area ${st.minArea.toPrecision(3)}–${st.maxArea.toPrecision(3)} mm², edge ${st.minEdge.toPrecision(3)}–${st.maxEdge.toPrecision(3)} mm, up to ${st.maxVerticesPerCell} vertices per cell\n`);
-    process.stdout.write(`wrote ${join(dir, 'mesh.svg')}\n`);
+    const dir = o.out ?? defaultOutDir(c.name);
+    const folder = OutputFolder.open(dir);
+    folder.lock();
+    try {
+      const path = folder.file('mesh.svg');
+      if (!o.force && folder.list().includes('mesh.svg')) throw new InputError(`${path} already exists; pass --force to overwrite it or --out to choose another folder`);
+      const { mesh, seconds } = meshCase(c);
+      folder.write('mesh.svg', meshSvg(mesh, { ...specimenSymbols(c), title: `${c.title}: mesh` }));
+      const st = meshStats(mesh);
+      process.stdout.write(`${st.polygons} polygons, ${st.vertices} vertices, ${2 * st.vertices} dofs, made in ${seconds.toFixed(2)} s\n`);
+      process.stdout.write(`cell area ${st.minArea.toPrecision(3)}–${st.maxArea.toPrecision(3)} mm², edge ${st.minEdge.toPrecision(3)}–${st.maxEdge.toPrecision(3)} mm, up to ${st.maxVerticesPerCell} vertices per cell\n`);
+      process.stdout.write(`wrote ${path}\n`);
+    } finally {
+      folder.release();
+    }
   });
 
 registerNewCommand(program);
@@ -114,7 +143,20 @@ function usageSentence(e: CommanderError, argv: readonly string[]): string {
   return `${what}${near ? `; did you mean ${near[1]}?` : ''} (see ${cmd} --help)`;
 }
 
+/** A fault of rupta itself: one line (the details with RUPTA_DEBUG=1), exit 1, never a raw trace. */
+function internal(e: unknown): void {
+  const msg = e instanceof Error ? e.message : String(e);
+  process.stderr.write(`rupta: internal error: ${msg}\n(set RUPTA_DEBUG=1 for the details)\n`);
+  if (process.env.RUPTA_DEBUG && e instanceof Error) process.stderr.write(`${e.stack}\n${e.cause instanceof Error ? `caused by ${e.cause.stack}\n` : ''}`);
+}
+
 async function main(): Promise<void> {
+  // a rejection nobody awaited (a background picture) is reported like any other fault
+  process.on('unhandledRejection', (e) => {
+    if (e instanceof DiskFull || e instanceof InputError) process.stderr.write(`rupta: ${e.message}\n`);
+    else internal(e);
+    process.exit(e instanceof InputError ? 2 : e instanceof DiskFull ? 3 : 1);
+  });
   // A reader that stops early (rupta new --list | head) is no fault.
   process.stdout.on('error', (e: NodeJS.ErrnoException) => { if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0); else throw e; });
   try {
@@ -127,9 +169,8 @@ async function main(): Promise<void> {
     }
     if (e instanceof InputError) { process.stderr.write(`rupta: ${e.message}\n`); process.exitCode = 2; return; }
     if (e instanceof RunStopped) { process.stderr.write(`rupta: the run stopped: ${e.message}\n`); process.exitCode = 3; return; }
-    const msg = e instanceof Error ? e.message : String(e);
-    process.stderr.write(`rupta: internal error: ${msg}\n(set RUPTA_DEBUG=1 for the details)\n`);
-    if (process.env.RUPTA_DEBUG && e instanceof Error) process.stderr.write(`${e.stack}\n${e.cause instanceof Error ? `caused by ${e.cause.stack}\n` : ''}`);
+    if (e instanceof DiskFull) { process.stderr.write(`rupta: ${e.message}\n`); process.exitCode = 3; return; }
+    internal(e);
     process.exitCode = 1;
   }
 }

@@ -72,7 +72,7 @@ const cases: [string, (c: Obj) => void, string][] = [
   ["bearing strip over a corner", (c) => { c.supports[0] = { at: [0, 0], fix: 'y', width: 10 }; }, "supports[0].width must fit on one straight edge of the specimen around supports[0].at in mm (found 10 at [0, 0])"],
   ["quoted number", (c) => { c.thickness = '50'; }, "thickness must be a positive number in mm (found \"50\"; write it without quotes)"],
   ["key of another mapping", (c) => { c.supports[0].direction = [0, 1]; }, "supports[0].direction is not a known key here; did you mean loads[].direction?"],
-  ["pngWidth small", (c) => { c.output.pngWidth = 50; }, "output.pngWidth must be a whole number from 100 to 20000 in px (found 50)"],
+  ["pngWidth small", (c) => { c.output.pngWidth = 50; }, "output.pngWidth must be a whole number from 100 to 8000 in px (found 50)"],
   ["frames unknown", (c) => { c.output.frames = ['svg', 'jpg']; }, "output.frames[1] must be one of svg, png (found \"jpg\")"],
   ["tip_size typo", (c) => { c.mesh.tip_size = 2; delete c.mesh.tipSize; }, "mesh.tip_size is not a known key; did you mean mesh.tipSize?"],
   ["crack start bad point", (c) => { c.crack.start = [[220, 30], [1]]; }, "crack.start[1] must be an [x, y] point in mm (found [1])"],

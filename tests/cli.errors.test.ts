@@ -50,7 +50,7 @@ const rows: Row[] = [
   { what: 'growth step negative', mutate: (c) => { c.crack.growthStep = -4; }, want: 'crack.growthStep must be a positive number in mm (found -4)' },
   { what: 'support width negative', mutate: (c) => { c.supports[0].width = -1; }, want: 'supports[0].width must be zero or a positive number in mm (found -1)' },
   { what: 'nu above 0.5', mutate: (c) => { c.material.nu = 0.6; }, want: 'material.nu must be a number of at least 0 and below 0.5, dimensionless (found 0.6)' },
-  { what: 'png too narrow', mutate: (c) => { c.output.pngWidth = 50; }, want: 'output.pngWidth must be a whole number from 100 to 20000 in px (found 50)' },
+  { what: 'png too narrow', mutate: (c) => { c.output.pngWidth = 50; }, want: 'output.pngWidth must be a whole number from 100 to 8000 in px (found 50)' },
   { what: 'tip cells larger than the mesh', mutate: (c) => { c.mesh.tipSize = 12; }, want: 'mesh.tipSize must be a positive number no larger than mesh.size in mm (found 12, mesh.size is 10)' },
   // Softening law.
   { what: 'unknown softening law', mutate: (c) => { c.material.softening = 'cubic'; }, want: 'material.softening must be one of linear, bilinear, exponential (found "cubic")' },

@@ -307,8 +307,21 @@ function checkMeshSize(c: CaseModel, sp: Specimen): void {
   }
 }
 
+/** Control characters (line breaks, tabs, escapes) would break the tables, pictures and reports that carry the text. */
+const CONTROL = /[\u0000-\u001f\u007f-\u009f\u2028\u2029]/;
+
+function plainText(v: string, path: Path): void {
+  const m = CONTROL.exec(v);
+  if (m) {
+    const code = `U+${m[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}`;
+    throw new InputError(`${name(path)} must be one line of text without control characters such as line breaks or tabs (found ${code} at character ${m.index + 1})`);
+  }
+}
+
 /** Throws an InputError naming the first problem of a filled case; the order of checks is fixed. */
 export function checkCase(c: CaseModel): void {
+  plainText(c.title, ['title']);
+  c.probes.forEach((p, i) => { if (typeof p.name === 'string') plainText(p.name, ['probes', i, 'name']); });
   checkNumbers(c);
   const sp = new Specimen(c.geometry.outline, c.geometry.holes, c.geometry.notches);
   checkOutline(c.geometry.outline, ['geometry', 'outline'], sp.tol);

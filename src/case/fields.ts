@@ -102,7 +102,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'output.every': { what: 'a whole number of steps from 1 to 100000', range: { ge: 1, le: 100000, int: true } },
   'output.animation': { what: 'one of gif, webp, none' },
   'output.vtk': { what: 'true or false' },
-  'output.pngWidth': { what: 'a whole number from 100 to 20000', unit: 'px', range: { ge: 100, le: 20000, int: true } },
+  'output.pngWidth': { what: 'a whole number from 100 to 8000', unit: 'px', range: { ge: 100, le: 8000, int: true } },
 };
 
 /** Field path as written in messages: supports[1].fix. */

@@ -1,12 +1,13 @@
 // The files of one run: curve and probe tables that grow row by row, a frame per step,
 // and at the end the summary, the curve plots, the mesh and the field pictures.
-import { existsSync, readFileSync, readdirSync, rmSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { AnalysisResult, Snapshot, StepEvent, StepRow } from '../fracture/analysis.js';
 import { InputError } from '../errors.js';
-import { RowWriter, csvCell, ensureDir, writeFileAtomic } from './files.js';
+import { RowWriter, csvCell, lstatOrNull } from './files.js';
+import { OutputFolder } from './folder.js';
 import { fieldSvg, meshSvg, type FieldPicture } from './field.js';
 import { plotPanelsSvg, plotSvg, type PlotOptions, type Series } from './plot.js';
 import { svgToPng, framesToAnimation } from './png.js';
@@ -30,23 +31,21 @@ const curveCells = (r: StepRow) => [r.step, r.control, r.load_N, r.displacement_
   r.external_work_Nmm, r.elastic_energy_Nmm, r.dissipated_Nmm, r.iterations];
 
 /** Remove the step files of a run's sub-folder after step `after` (all of them for −1); nothing else in it is touched. */
-function removeStepFiles(dir: string, after: number): void {
-  if (!existsSync(dir)) return;
-  for (const f of readdirSync(dir)) {
+function removeStepFiles(folder: OutputFolder, sub: string, after: number): void {
+  for (const f of folder.list(sub)) {
     const m = STEP_FILE.exec(f);
-    if (m && Number(m[1]) > after) rmSync(join(dir, f), { force: true });
+    if (m && Number(m[1]) > after) folder.remove(join(sub, f));
   }
 }
 
-/** Complete lines of a table whose first cell (the step) is at most `last`, header first. */
-function tableUpTo(path: string, header: string, last: number): string {
-  let out = header + '\n';
-  if (!existsSync(path)) return out;
-  const text = readFileSync(path, 'utf8');
-  const lines = text.split('\n');
+/** Complete lines of a table whose first cell (the step) is at most `last`, header first, and how many there were. */
+function tableUpTo(path: string, header: string, last: number): { text: string; rows: number } {
+  let text = header + '\n', rows = 0;
+  if (lstatOrNull(path)?.isFile() !== true) return { text, rows };
+  const lines = readFileSync(path, 'utf8').split('\n');
   lines.pop(); // the part after the last newline is not a whole row
-  for (let i = 1; i < lines.length; i++) if (Number(lines[i].slice(0, lines[i].indexOf(','))) <= last) out += lines[i] + '\n';
-  return out;
+  for (let i = 1; i < lines.length; i++) if (Number(lines[i].slice(0, lines[i].indexOf(','))) <= last) { text += lines[i] + '\n'; rows++; }
+  return { text, rows };
 }
 
 /** Symbols of the supports and loads for pictures. */
@@ -89,41 +88,51 @@ export class RunFiles {
   private framePngs: string[] = [];
   private frames: FrameFile[] = [];
   private pending: Promise<void>[] = [];
+  /** The first failure of a picture drawn in the background, handed on by flush(). */
+  private failure: unknown = null;
+  private readonly folder: OutputFolder;
   private rows: StepRow[] = [];
   private vtk: VtkSeries | null = null;
   readonly framesDir: string;
 
   constructor(readonly dir: string, readonly c: CaseModel, opt: RunFilesOptions = {}) {
     const resume = opt.resume ?? null;
-    if (existsSync(dir) && readdirSync(dir).length > 0 && !opt.force && !resume) {
+    const folder = this.folder = OutputFolder.open(dir);
+    if (!opt.force && !resume && folder.holdsFiles()) {
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
-    this.framesDir = join(dir, 'frames');
     const last = resume ? resume[resume.length - 1]?.step ?? -1 : -1;
+    // every name written below is checked first: a link, pipe or device in the folder is refused, never followed
+    for (const f of ['curve.csv', 'probes.csv', 'summary.json', 'report.html', 'mesh.svg', 'curve.svg', 'curve.png', 'field-s1.svg', 'field-s1.png', 'animation.gif', 'animation.webp', 'checkpoint.json']) folder.file(f);
+    const wantFrames = !!c.crack && c.output.frames.length > 0;
+    this.framesDir = wantFrames ? folder.subdir('frames') : join(dir, 'frames');
     // an overwritten run loses its step files and checkpoint; a resumed one those after its checkpoint
     if (opt.force || resume) {
-      removeStepFiles(this.framesDir, last);
-      removeStepFiles(join(dir, 'vtk'), last);
+      removeStepFiles(folder, 'frames', last);
+      removeStepFiles(folder, 'vtk', last);
     }
     if (opt.force && !resume) {
-      rmSync(join(dir, 'checkpoint.json'), { force: true });
-      rmSync(join(dir, 'vtk', 'steps.pvd'), { force: true });
+      folder.remove('checkpoint.json');
+      folder.remove(join('vtk', 'steps.pvd'));
     }
-    ensureDir(dir);
-    if (c.crack && c.output.frames.length > 0) ensureDir(this.framesDir);
     if (resume) {
       // the tables as they stood at the checkpoint; the rows after it are computed again
-      writeFileAtomic(join(dir, 'curve.csv'), CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
-      writeFileAtomic(join(dir, 'probes.csv'), tableUpTo(join(dir, 'probes.csv'), PROBE_HEADER, last));
+      const probes = tableUpTo(folder.file('probes.csv'), PROBE_HEADER, last);
+      const want = (last + 1) * c.probes.length;
+      if (probes.rows !== want) {
+        throw new InputError(`probes.csv in ${dir} holds ${probes.rows} rows up to the checkpoint's step ${last} where ${want} were written, so a resumed run could not reproduce it; run the case again with --force`);
+      }
+      folder.write('curve.csv', CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
+      folder.write('probes.csv', probes.text);
       this.seedFrames(resume);
     }
-    this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
-    this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
+    this.curve = new RowWriter(folder.file('curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
+    this.probes = new RowWriter(folder.file('probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
     if (c.output.vtk) {
-      this.vtk = new VtkSeries(join(dir, 'vtk'));
+      this.vtk = new VtkSeries(folder.subdir('vtk'));
       if (resume) {
         // the collection file lists the steps already written
-        const kept = resume.filter((r) => existsSync(join(dir, 'vtk', `step-${String(r.step).padStart(4, '0')}.vtu`)))
+        const kept = resume.filter((r) => lstatOrNull(join(dir, 'vtk', `step-${String(r.step).padStart(4, '0')}.vtu`))?.isFile())
           .map((r) => ({ step: r.step, file: `step-${String(r.step).padStart(4, '0')}.vtu` }));
         (this.vtk as unknown as { entries: { step: number; file: string }[] }).entries = kept;
       }
@@ -139,8 +148,8 @@ export class RunFiles {
       if (r.step % o.every !== 0) continue;
       const name = join(this.framesDir, `step-${String(r.step).padStart(4, '0')}`);
       const frame: FrameFile = { step: r.step };
-      if (o.frames.includes('svg') && existsSync(`${name}.svg`)) frame.svg = `${name}.svg`;
-      if (o.frames.includes('png') && existsSync(`${name}.png`)) { frame.png = `${name}.png`; this.framePngs.push(frame.png); }
+      if (o.frames.includes('svg') && lstatOrNull(`${name}.svg`)?.isFile()) frame.svg = `${name}.svg`;
+      if (o.frames.includes('png') && lstatOrNull(`${name}.png`)?.isFile()) { frame.png = `${name}.png`; this.framePngs.push(frame.png); }
       if (frame.svg || frame.png) this.frames.push(frame);
     }
   }
@@ -164,14 +173,27 @@ export class RunFiles {
     const name = `step-${String(r.step).padStart(4, '0')}`;
     const frame: FrameFile = { step: r.step };
     this.frames.push(frame);
-    if (o.frames.includes('svg')) { frame.svg = join(this.framesDir, `${name}.svg`); writeFileAtomic(frame.svg, svg); }
+    if (o.frames.includes('svg')) { frame.svg = this.folder.file(join('frames', `${name}.svg`)); this.folder.write(join('frames', `${name}.svg`), svg); }
     if (o.frames.includes('png')) {
-      const png = join(this.framesDir, `${name}.png`);
+      const png = this.folder.file(join('frames', `${name}.png`));
       frame.png = png;
       this.framePngs.push(png);
-      this.pending.push(svgToPng(svg, png, o.pngWidth));
+      this.background(svgToPng(svg, png, o.pngWidth));
       if (this.pending.length > 4) { const p = this.pending; this.pending = [Promise.all(p).then(() => undefined)]; }
     }
+    if (this.failure) throw this.failure;
+  }
+
+  /** A picture drawn in the background: its failure is kept (never an unhandled rejection) and raised at the next step or flush. */
+  private background(p: Promise<void>): void {
+    this.pending.push(p.catch((e: unknown) => { this.failure ??= e; }));
+  }
+
+  /** Wait for the pictures drawn in the background (before a checkpoint: every frame up to it is then on disk). */
+  async flush(): Promise<void> {
+    await Promise.all(this.pending);
+    this.pending = [];
+    if (this.failure) throw this.failure;
   }
 
   frameSvg(s: Snapshot): string {
@@ -187,14 +209,20 @@ export class RunFiles {
     });
   }
 
-  /** Everything written once the analysis has ended. */
+  /**
+   * Everything written once the analysis has ended, the summary first (the caller removes the
+   * checkpoint only after this has returned, so a folder cut off here can still be finished).
+   */
   async finish(result: AnalysisResult, extra: { meshSeconds: number; totalSeconds: number; initialMesh: PolyMesh; final: Snapshot | null }): Promise<Record<string, unknown>> {
     this.curve.close();
     this.probes.close();
-    const c = this.c;
+    const c = this.c, folder = this.folder;
+    await this.flush();
+    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
+    folder.write('summary.json', JSON.stringify(summary, null, 2) + '\n');
     // mesh picture of the initial mesh
     const meshPicture = meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` });
-    writeFileAtomic(join(this.dir, 'mesh.svg'), meshPicture);
+    folder.write('mesh.svg', meshPicture);
     let finalSvg: string | null = null;
     if (extra.final) {
       const f = extra.final;
@@ -203,28 +231,31 @@ export class RunFiles {
         displacement: f.u, cracks: f.cracks, cohesive: f.cohesive, ...specimenSymbols(c),
         title: `${c.title}: major principal stress`, caption: [`Step ${f.row.step}, load ${fmtLoad(f.row.load_N)}.`], widthPx: 1000,
       });
-      writeFileAtomic(join(this.dir, 'field-s1.svg'), svg);
-      this.pending.push(svgToPng(svg, join(this.dir, 'field-s1.png'), c.output.pngWidth));
+      folder.write('field-s1.svg', svg);
+      this.background(svgToPng(svg, folder.file('field-s1.png'), c.output.pngWidth));
     }
     if (result.rows.length > 1) {
       const svg = curveSvg(c, result.rows);
-      writeFileAtomic(join(this.dir, 'curve.svg'), svg);
-      this.pending.push(svgToPng(svg, join(this.dir, 'curve.png'), c.output.pngWidth));
+      folder.write('curve.svg', svg);
+      this.background(svgToPng(svg, folder.file('curve.png'), c.output.pngWidth));
     }
-    await Promise.all(this.pending);
-    this.pending = [];
+    await this.flush();
     if (c.crack && c.output.animation !== 'none' && this.framePngs.length > 1) {
-      await framesToAnimation(this.framePngs, join(this.dir, `animation.${c.output.animation}`), { format: c.output.animation, maxFrames: 60, maxWidth: 720 });
+      await framesToAnimation(this.framePngs, folder.file(`animation.${c.output.animation}`), { format: c.output.animation, maxFrames: 60, maxWidth: 720 });
     }
-    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
-    writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
-    await writeReport(join(this.dir, 'report.html'), {
+    await writeReport(folder.file('report.html'), {
       c, result, initialMesh: extra.initialMesh, frames: this.frames, finalSvg, meshSvg: meshPicture,
       curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
       timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
       workOfFracture: workOfFractureEstimate(c, result),
     });
     return summary;
+  }
+
+  /** Close the tables without the final writes (a run refused or broken off before its end). */
+  close(): void {
+    this.curve.close();
+    this.probes.close();
   }
 }
 
