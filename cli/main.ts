@@ -13,6 +13,7 @@ import { shellQuote } from '../src/output/shell.js';
 import { readCheckpointWithCase } from '../src/fracture/checkpoint.js';
 import type { CaseModel } from '../src/case/model.js';
 import { Analysis } from '../src/fracture/analysis.js';
+import { checkHeldPieces } from '../src/fracture/pieces.js';
 import { Progress } from './progress.js';
 import { registerLabCommands } from './lab.js';
 import { registerNewCommand } from './new.js';
@@ -91,6 +92,7 @@ program
     const c = loadCase(file);
     const { mesh, seconds } = meshCase(c);
     const a = new Analysis(c, mesh);
+    checkHeldPieces(c, mesh, a.wm);
     const st = meshStats(mesh);
     process.stdout.write(describeCase(c) + '\n');
     const free = a.freeDofs; // counted on the mesh the run starts from (refined at the crack tips)

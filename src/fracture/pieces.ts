@@ -1,5 +1,5 @@
 // The mechanism check before a run: the mesh, with its slits cut in, falls into pieces
-// (cells joined through shared vertices); each piece must be held by the supports against
+// (cells joined through shared edges); each piece must be held by the supports against
 // rigid-body motion (x, y and rotation), or the run would trace a meaningless curve.
 import type { CaseModel } from '../case/model.js';
 import { InputError } from '../errors.js';
@@ -34,34 +34,44 @@ export interface Piece { cells: number; x0: number; y0: number; x1: number; y1: 
 
 /** The pieces of a work mesh (linear in its size) and how firmly the supports hold each. */
 export function heldPieces(c: CaseModel, initial: PolyMesh, wm: WorkMesh): Piece[] {
-  const nv = wm.vertexCount;
-  const parent = new Int32Array(nv);
-  for (let v = 0; v < nv; v++) parent[v] = v;
-  for (const cell of wm.cells) {
-    if (!cell || cell.length === 0) continue;
-    const r0 = find(parent, cell[0]);
-    for (let k = 1; k < cell.length; k++) { const r = find(parent, cell[k]); if (r !== r0) parent[r] = r0; }
-  }
+  // cells are joined through shared edges: a piece hanging on one vertex (where two slits meet) is loose
+  const nc = wm.cells.length, nv = wm.vertexCount;
+  const parent = new Int32Array(nc);
+  for (let k = 0; k < nc; k++) parent[k] = k;
+  const edgeCell = new Map<number, number>();
+  wm.cells.forEach((cell, k) => {
+    if (!cell) return;
+    for (let i = 0; i < cell.length; i++) {
+      const a = cell[i], b = cell[(i + 1) % cell.length];
+      const key = a < b ? a * nv + b : b * nv + a;
+      const o = edgeCell.get(key);
+      if (o === undefined) edgeCell.set(key, k);
+      else { const r = find(parent, o), q = find(parent, k); if (r !== q) parent[q] = r; }
+    }
+  });
   const pieceOf = new Map<number, number>();
+  const vertexPiece = new Int32Array(nv).fill(-1);
   const pieces: (Piece & { rows: [number, number][] })[] = [];
-  for (const cell of wm.cells) {
-    if (!cell || cell.length === 0) continue;
-    const r = find(parent, cell[0]);
+  wm.cells.forEach((cell, c0) => {
+    if (!cell || cell.length === 0) return;
+    const r = find(parent, c0);
     let k = pieceOf.get(r);
     if (k === undefined) { k = pieces.length; pieceOf.set(r, k); pieces.push({ cells: 0, x0: Infinity, y0: Infinity, x1: -Infinity, y1: -Infinity, rank: 0, rows: [] }); }
     const p = pieces[k];
     p.cells++;
     for (const v of cell) {
+      vertexPiece[v] = k;
       p.x0 = Math.min(p.x0, wm.x[v]); p.x1 = Math.max(p.x1, wm.x[v]);
       p.y0 = Math.min(p.y0, wm.y[v]); p.y1 = Math.max(p.y1, wm.y[v]);
     }
-  }
+  });
   let ext = 0;
   for (let v = 0; v < (initial.xy.length >> 1); v++) ext = Math.max(ext, Math.abs(initial.xy[2 * v]), Math.abs(initial.xy[2 * v + 1]));
   const { fixed } = selectDriven(c, initial, 1e-6 * Math.max(ext, 1));
+  // a support on a vertex shared by two pieces (a hinge) is counted for the piece its last cell belongs to
   for (const d of fixed) {
-    const k = pieceOf.get(find(parent, d.v));
-    if (k !== undefined) pieces[k].rows.push([d.v, d.comp]);
+    const k = vertexPiece[d.v];
+    if (k >= 0) pieces[k].rows.push([d.v, d.comp]);
   }
   return pieces.map((p) => {
     const cx = (p.x0 + p.x1) / 2, cy = (p.y0 + p.y1) / 2, L = Math.max(Math.hypot(p.x1 - p.x0, p.y1 - p.y0), 1e-300);
@@ -77,10 +87,9 @@ export function checkHeldPieces(c: CaseModel, initial: PolyMesh, wm: WorkMesh): 
   const pieces = heldPieces(c, initial, wm);
   const loose = pieces.find((p) => p.rank < 3);
   if (!loose) return;
-  const where = `the piece from ${pt(loose.x0, loose.y0)} to ${pt(loose.x1, loose.y1)} mm`;
-  const how = loose.rank === 0 ? 'no support holds it' : 'its supports leave it free to move or turn';
+  const how = loose.rank === 0 ? 'is held by no support' : 'is left free to move or turn by its supports';
   if (pieces.length > 1) {
-    throw new InputError(`geometry.notches and geometry.holes must leave every piece of the specimen held by the supports against rigid-body motion (found ${pieces.length} pieces; ${how}: ${where})`);
+    throw new InputError(`geometry.notches and geometry.holes must leave every piece of the specimen held by the supports against rigid-body motion (found ${pieces.length} pieces; the piece from ${pt(loose.x0, loose.y0)} to ${pt(loose.x1, loose.y1)} mm ${how})`);
   }
-  throw new InputError(`supports must hold the specimen against rigid-body motion in x, y and rotation (found that ${how})`);
+  throw new InputError(`supports must hold the specimen against rigid-body motion in x, y and rotation (found that the meshed specimen ${how})`);
 }
