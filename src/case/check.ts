@@ -5,8 +5,9 @@ import { dotted, fieldKey, inRange, mustBe, specOf } from './fields.js';
 import { describeValue, fmtNum, fmtPoint } from './messages.js';
 import type { CaseModel, Hole, Notch, Vec2 } from './model.js';
 import {
-  bbox, dist, edgeDist, inPolygon, nearestOnSegment, properCross, segDist, segSegDist, selfTouch, signedArea,
+  bbox, dist, edgeDist, inPolygon, nearestOnSegment, segDist, signedArea,
 } from './shapes.js';
+import { BoxGrid, RingIndex, ringsTouch, selfTouchFast } from './boxgrid.js';
 
 /** Largest mesh the checks let through (estimated polygons); beyond it a run would not finish. */
 export const MAX_POLYGONS = 2_000_000;
@@ -51,9 +52,20 @@ function checkNumbers(c: CaseModel): void {
 /** The specimen as the checks see it: outline, holes and notch cuts, with a length tolerance. */
 class Specimen {
   readonly tol: number;
+  /** The outline's edges, and the holes' boxes, in grids: each question about a point looks only nearby. */
+  readonly ring: RingIndex;
+  readonly holeGrid: BoxGrid;
+  private segs: [Vec2, Vec2][] | null = null;
   constructor(readonly outline: Vec2[], readonly holes: Hole[], readonly notches: Notch[]) {
     const b = bbox(outline);
     this.tol = 1e-6 * Math.hypot(b.x1 - b.x0, b.y1 - b.y0);
+    this.ring = new RingIndex(outline);
+    const hb = new Float64Array(4 * holes.length);
+    holes.forEach((h, i) => {
+      const r = h.kind === 'circle' ? { x0: h.center[0] - h.radius, y0: h.center[1] - h.radius, x1: h.center[0] + h.radius, y1: h.center[1] + h.radius } : bbox(h.points);
+      hb[4 * i] = r.x0 - this.tol; hb[4 * i + 1] = r.y0 - this.tol; hb[4 * i + 2] = r.x1 + this.tol; hb[4 * i + 3] = r.y1 + this.tol;
+    });
+    this.holeGrid = new BoxGrid(hb);
   }
 
   /** Index of the notch whose cut-out region holds p (its faces excluded), or -1. */
@@ -76,23 +88,25 @@ class Specimen {
   }
 
   inHole(p: Vec2, margin: number): boolean {
-    for (const h of this.holes) {
-      if (h.kind === 'circle' ? dist(p, h.center) < h.radius - margin
-        : inPolygon(p, h.points) && edgeDist(p, h.points) > margin) return true;
-    }
-    return false;
+    const m = Math.abs(margin);
+    return this.holeGrid.some(p[0] - m, p[1] - m, p[0] + m, p[1] + m, (i) => {
+      const h = this.holes[i]!;
+      return h.kind === 'circle' ? dist(p, h.center) < h.radius - margin
+        : inPolygon(p, h.points) && edgeDist(p, h.points) > margin;
+    });
   }
 
   /** Inside the material or on its boundary. */
   contains(p: Vec2): boolean {
     const t = this.tol;
-    const inOutline = inPolygon(p, this.outline) || edgeDist(p, this.outline) <= t;
+    const inOutline = this.ring.contains(p) || this.ring.near(p, t);
     return inOutline && !this.inHole(p, t) && !this.inNotch(p);
   }
 
-  /** Straight boundary pieces: outline edges, polygon-hole edges, notch faces and tip ends. */
+  /** Straight boundary pieces: outline edges, polygon-hole edges, notch faces and tip ends (made once). */
   segments(): [Vec2, Vec2][] {
-    const out: [Vec2, Vec2][] = [];
+    if (this.segs) return this.segs;
+    const out: [Vec2, Vec2][] = this.segs = [];
     const ring = (pts: Vec2[]) => pts.forEach((a, i) => out.push([a, pts[(i + 1) % pts.length]!]));
     ring(this.outline);
     for (const h of this.holes) if (h.kind === 'polygon') ring(h.points);
@@ -150,7 +164,7 @@ class Specimen {
 }
 
 function checkOutline(outline: Vec2[], path: Path, tol: number): void {
-  const clash = selfTouch(outline, tol);
+  const clash = selfTouchFast(outline, tol);
   if (clash) {
     throw new InputError(`${name(path)} must be a simple polygon that does not touch or cross itself `
       + `(found edge ${clash[0]} touching edge ${clash[1]} near ${fmtPoint(clash[2])} mm)`);
@@ -169,37 +183,30 @@ function ring(h: Hole): Vec2[] {
   return pts;
 }
 
-function ringsOverlap(a: Vec2[], b: Vec2[], tol: number): boolean {
-  if (inPolygon(a[0]!, b) || inPolygon(b[0]!, a)) return true;
-  for (let i = 0; i < a.length; i++) {
-    for (let j = 0; j < b.length; j++) {
-      if (segSegDist(a[i]!, a[(i + 1) % a.length]!, b[j]!, b[(j + 1) % b.length]!) <= tol) return true;
-    }
-  }
-  return false;
-}
-
 function holeText(h: Hole): string {
   return h.kind === 'circle' ? `a circle at ${fmtPoint(h.center)} with radius ${fmtNum(h.radius)} mm`
     : `a polygon of ${h.points.length} points`;
 }
 
 function checkHoles(sp: Specimen): void {
-  const { outline, holes, tol } = sp;
+  const { holes, tol, ring: outer } = sp;
+  const rings: (Vec2[] | null)[] = holes.map(() => null);
+  const ringOf = (k: number) => (rings[k] ??= ring(holes[k]!));
   holes.forEach((h, i) => {
     const path: Path = ['geometry', 'holes', i];
     if (h.kind === 'polygon') checkOutline(h.points, [...path, 'polygon'], tol);
     const inside = h.kind === 'circle'
-      ? inPolygon(h.center, outline) && edgeDist(h.center, outline) > h.radius + tol
-      : h.points.every((p) => inPolygon(p, outline) && edgeDist(p, outline) > tol)
-        && h.points.every((p, k) => outline.every((q, e) =>
-          segSegDist(p, h.points[(k + 1) % h.points.length]!, q, outline[(e + 1) % outline.length]!) > tol));
+      ? outer.contains(h.center) && !outer.near(h.center, h.radius + tol)
+      : h.points.every((p) => outer.contains(p) && !outer.near(p, tol))
+        && h.points.every((p, k) => !outer.nearSegment(p, h.points[(k + 1) % h.points.length]!, tol));
     if (!inside) throw new InputError(`${name(path)} must lie inside the outline without touching it (found ${holeText(h)})`);
-    for (let j = 0; j < i; j++) {
-      if (ringsOverlap(ring(h), ring(holes[j]!), tol)) {
-        throw new InputError(`${name(path)} must not touch or overlap geometry.holes[${j}] (found ${holeText(h)})`);
-      }
-    }
+    // the earliest hole it meets, among those whose boxes come near
+    const b = sp.holeGrid.boxes;
+    let first = -1;
+    sp.holeGrid.some(b[4 * i], b[4 * i + 1], b[4 * i + 2], b[4 * i + 3], (j) => {
+      if (j < i && (first < 0 || j < first) && ringsTouch(ringOf(i), ringOf(j), tol)) first = j;
+    });
+    if (first >= 0) throw new InputError(`${name(path)} must not touch or overlap geometry.holes[${first}] (found ${holeText(h)})`);
   });
 }
 
@@ -210,17 +217,17 @@ function checkNotches(sp: Specimen): void {
     if (dist(n.from, n.to) <= tol) {
       throw new InputError(`${name(path)} must have distinct from and to points (found both at ${fmtPoint(n.from)} mm)`);
     }
-    const fromOk = inPolygon(n.from, outline) || edgeDist(n.from, outline) <= tol;
+    const fromOk = sp.ring.contains(n.from) || sp.ring.near(n.from, tol);
     if (!fromOk) {
       throw new InputError(`${name([...path, 'from'])} must be a point on the outline or inside it in mm (found ${fmtPoint(n.from)})`);
     }
-    const toOk = inPolygon(n.to, outline) && edgeDist(n.to, outline) > tol && !sp.inHole(n.to, -tol);
+    const toOk = sp.ring.contains(n.to) && !sp.ring.near(n.to, tol) && !sp.inHole(n.to, -tol);
     if (!toOk) {
       throw new InputError(`${name([...path, 'to'])} must be a point inside the specimen, off its boundary, in mm (found ${fmtPoint(n.to)})`);
     }
-    const crosses = outline.some((a, e) => properCross(n.from, n.to, a, outline[(e + 1) % outline.length]!));
+    const crosses = sp.ring.crossedBy(n.from, n.to);
     const mid: Vec2 = [(n.from[0] + n.to[0]) / 2, (n.from[1] + n.to[1]) / 2];
-    if (crosses || !inPolygon(mid, outline)) {
+    if (crosses || !sp.ring.contains(mid)) {
       throw new InputError(`${name(path)} must run inside the outline from its mouth to its tip `
         + `(found from ${fmtPoint(n.from)} to ${fmtPoint(n.to)} mm crossing the outline)`);
     }

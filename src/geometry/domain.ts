@@ -180,7 +180,17 @@ export function buildDomain(c: CaseModel): Domain {
   // snap points that lie on the boundary into the rings; keep interior ones; refuse outside ones
   const points: Vec2[] = [];
   const inserts: { e: number; t: number; x: number; y: number }[] = [];
-  const seen = (p: Vec2) => points.some(q => Math.abs(q[0] - p[0]) <= tolOn && Math.abs(q[1] - p[1]) <= tolOn);
+  // a point within tolOn of one kept already is the same point: kept ones are bucketed by tolOn-sized cells
+  const buckets = new Map<string, Vec2[]>();
+  const cellOf = (v: number) => Math.floor(v / tolOn);
+  const seen = (p: Vec2) => {
+    const i0 = cellOf(p[0]), j0 = cellOf(p[1]);
+    for (let j = j0 - 1; j <= j0 + 1; j++) for (let i = i0 - 1; i <= i0 + 1; i++) {
+      if (buckets.get(`${i},${j}`)?.some(q => Math.abs(q[0] - p[0]) <= tolOn && Math.abs(q[1] - p[1]) <= tolOn)) return true;
+    }
+    return false;
+  };
+  const keep = (p: Vec2) => { const k = `${cellOf(p[0])},${cellOf(p[1])}`; const b = buckets.get(k); if (b) b.push(p); else buckets.set(k, [p]); points.push(p); };
   for (const p of raw) {
     grid0.nearest(p[0], p[1], o);
     const snapTol = Math.max(tolOn, 0.02 * h(p[0], p[1]));
@@ -199,7 +209,7 @@ export function buildDomain(c: CaseModel): Domain {
     }
     // strips and tips follow their snapped point
     for (const s of strips) for (const k of [0, 1]) if (s[k][0] === p[0] && s[k][1] === p[1]) s[k] = q;
-    if (!seen(q)) points.push(q);
+    if (!seen(q)) keep(q);
   }
   const outRings = rings.map((r, ri) => {
     const base = grid0.ringStart[ri], m = r.length >> 1;
