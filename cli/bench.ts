@@ -1,5 +1,6 @@
 // npm run bench: timings of mesh generation, assembly, ordering + factorization and solve on
 // plates of about 10k, 50k and 200k dofs, and of a crack-growth run of the demo beam.
+// npm run bench -- --validation: only the checks and meshing of large hole, outline and probe counts.
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix (one JSON line).
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
 import { readFileSync } from 'node:fs';
@@ -11,6 +12,7 @@ import { generateMesh } from '../src/mesh/generate.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { analyze, factorize } from '../src/linalg/index.js';
 import { benchMatrix } from './bench-matrix.js';
+import { validationBench } from './bench-validation.js';
 
 const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
 const now = () => performance.now() / 1000;
@@ -96,8 +98,11 @@ if (mi >= 0) {
   const rs = Array.from({ length: repeat }, () => benchMatrix(file));
   const pick = rs.sort((a, b) => a.factor_s + a.solve_s - b.factor_s - b.solve_s)[rs.length >> 1];
   process.stdout.write(JSON.stringify({ n: pick.n, nnzL: pick.nnzL, factor_s: pick.factor_s, solve_s: pick.solve_s, residual: pick.residual }) + '\n');
+} else if (args.includes('--validation')) {
+  validationBench();
 } else {
   console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
   for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);
   if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
+  validationBench();
 }

@@ -117,6 +117,11 @@ export class OutputFolder {
     writeFileAtomic(this.file(name), data);
   }
 
+  /** Temp files of writers that were killed mid-write (`.name.pid.n.tmp`), in the folder or a sub-folder. */
+  removeTemps(sub = ''): void {
+    for (const f of this.list(sub)) if (/^\..+\.\d+\.\d+\.tmp$/.test(f)) this.remove(sub ? join(sub, f) : f);
+  }
+
   /** Anything in the folder besides the lock and temp files of writers. */
   holdsFiles(): boolean {
     return this.list().some((f) => f !== LOCK_FILE && !/^\..*\.tmp$/.test(f));

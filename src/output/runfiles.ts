@@ -102,6 +102,8 @@ export class RunFiles {
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
     const last = resume ? resume[resume.length - 1]?.step ?? -1 : -1;
+    // what a writer killed mid-write left behind
+    for (const sub of ['', 'frames', 'vtk']) folder.removeTemps(sub);
     // every name written below is checked first: a link, pipe or device in the folder is refused, never followed
     for (const f of ['curve.csv', 'probes.csv', 'summary.json', 'report.html', 'mesh.svg', 'curve.svg', 'curve.png', 'field-s1.svg', 'field-s1.png', 'animation.gif', 'animation.webp', 'checkpoint.json']) folder.file(f);
     const wantFrames = !!c.crack && c.output.frames.length > 0;
