@@ -74,22 +74,20 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
       writeCheckpoint(dir, c, s);
     });
     const final: Snapshot | null = lastEvent ? (lastEvent as StepEvent).snapshot() : null;
+    const err = result.status === 'failed' ? result.error : null;
+    // a full disk or a folder that cannot be written is said as such, not as a fault of rupta
+    const mine = err !== null && !(err instanceof DiskFull || err instanceof InputError);
+    const fault = () => new Error(`${err instanceof Error ? err.message : String(err)}; the steps up to the fault and a summary marked failed are in ${dir}`, { cause: err });
     let summary: Record<string, unknown>;
     try {
       summary = await files.finish(result, { meshSeconds: seconds, totalSeconds: (performance.now() - t0) / 1000, initialMesh: mesh, final });
     } catch (e) {
-      if (result.status !== 'failed') throw unfinished(e, dir);
-      throw e;
+      // the first thing that went wrong is the one to report
+      throw mine ? fault() : unfinished(err ?? e, dir);
     }
     // the final writes are done: only now may a finished run lose its checkpoint
     if (result.status === 'complete') removeCheckpoint(dir);
-    if (result.status === 'failed') {
-      const err = result.error;
-      // a full disk or a folder that cannot be written is said as such, not as a fault of rupta
-      if (err instanceof DiskFull || err instanceof InputError) throw unfinished(err, dir);
-      const why = err instanceof Error ? err.message : String(err);
-      throw new Error(`${why}; the steps up to the fault and a summary marked failed are in ${dir}`, { cause: err });
-    }
+    if (err !== null) throw mine ? fault() : unfinished(err, dir);
     return { dir, result, summary };
   } finally {
     folder.release();
