@@ -9,6 +9,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { parse, stringify } from 'yaml';
 import { InputError } from '../src/errors.js';
 import { loadCase, parseCase } from '../src/case/index.js';
+import { renderTemplate } from '../src/templates/index.js';
 import { coarseDemoYaml } from './support/cli.js';
 
 const base = coarseDemoYaml();
@@ -23,7 +24,7 @@ const edit = (f: (c: Raw) => void, json = false): [string, string] => {
   return json ? [JSON.stringify(c), 'case.json'] : [stringify(c), 'case.yaml'];
 };
 const text = (t: string, name = 'case.yaml'): [string, string] => [t, name];
-const pts = (n: number, f: (i: number) => number[]) => Array.from({ length: n }, (_, i) => f(i));
+const pts = <T>(n: number, f: (i: number) => T): T[] => Array.from({ length: n }, (_, i) => f(i));
 
 const HOSTILE: [string, [string, string], RegExp][] = [
   // text that is not a case
@@ -42,7 +43,7 @@ const HOSTILE: [string, [string, string], RegExp][] = [
   ['decimal comma in a flow mapping', text(base.replace(/^material:[\s\S]*?(?=^\S)/m, 'material: {E: 32000, nu: 0.2, ft: 3,1, GF: 0.11}\n')), /ft at line \d+ of case\.yaml must be a number written with a decimal point \(found 3,1, a decimal comma; write 3\.1\)/],
   ['decimal comma in a block', text(base.replace(/^  ft: .*$/m, '  ft: 3,1')), /ft at line \d+ of case\.yaml must be a number written with a decimal point \(found 3,1/],
   ['a __proto__ key', text('{"format": 1, "__proto__": {"x": 1}}', 'case.json'), /./],
-  ['a constructor key', edit((c) => { c.constructor = 1; }), /constructor is not a known key/],
+  ['a constructor key', edit((c) => { Object.assign(c, { constructor: 1 }); }), /constructor is not a known key/],
   // control characters that would break tables, pictures and reports
   ['title with a line break', edit((c) => { c.title = 'Beam\nB2'; }), /^title must be one line of text without control characters such as line breaks or tabs \(found U\+000A at character 5\)$/],
   ['title with a tab', edit((c) => { c.title = 'Beam\tB2'; }), /title must be one line of text .* \(found U\+0009/],
@@ -126,5 +127,11 @@ describe('hostile files given as the case', () => {
     try { loadCase(p); } catch (e) { err = e; }
     expect(err).toBeInstanceOf(InputError);
     expect((err as Error).message).toMatch(want);
+  });
+});
+
+describe('rupta new', () => {
+  it('refuses a title with a control character at the option, not in the case it would write', () => {
+    expect(() => renderTemplate('beam-3pb', { title: 'Beam\nB2' })).toThrow(/^--title of template beam-3pb must be one line of text without control characters .* \(found U\+000A at character 5\)$/);
   });
 });
