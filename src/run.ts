@@ -12,7 +12,9 @@ import { shellQuote } from './output/shell.js';
 import { RunFiles } from './output/runfiles.js';
 import { writeMatrixMarket } from './linalg/mtx.js';
 import { readCheckpoint, removeCheckpoint, writeCheckpoint } from './fracture/checkpoint.js';
+import { rmdirSync } from 'node:fs';
 import { DiskFull, InputError } from './errors.js';
+import { lstatOrNull } from './output/files.js';
 
 export interface RunOptions {
   out?: string;
@@ -46,6 +48,9 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   const dir = opt.out ?? defaultOutDir(c.name);
   if (opt.resume && opt.force) throw new InputError('--resume goes on with the run in the output folder and --force starts it afresh: give one of them, not both');
   const matrixFile = opt.exportMatrix !== undefined ? checkedFilePath(opt.exportMatrix, 'the --export-matrix file') : undefined;
+  // nothing to go on with in a folder that is not there (and no empty folder made to say so)
+  if (opt.resume && lstatOrNull(dir) === null) readCheckpoint(dir, c);
+  const created = lstatOrNull(dir) === null;
   const folder = OutputFolder.open(dir);
   folder.lock();
   try {
@@ -91,6 +96,8 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
     return { dir, result, summary };
   } finally {
     folder.release();
+    // a run refused before it wrote anything leaves no empty folder behind
+    if (created) { try { rmdirSync(dir); } catch { /* not empty: keep it */ } }
   }
 }
 
