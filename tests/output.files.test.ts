@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { csvCell, formatNumber, RowWriter, writeFileAtomic } from '../src/output/files.js';
-import { defaultOutDir, safeFolderName } from '../src/output/folder.js';
+import { OutputFolder, defaultOutDir, safeFolderName } from '../src/output/folder.js';
 import { shellQuote } from '../src/output/shell.js';
 import { esc } from '../src/output/svg.js';
 import { svgToPng } from '../src/output/png.js';
@@ -110,5 +110,25 @@ describe('RowWriter', () => {
     expect(readFileSync(p, 'utf8')).toBe(`${header}\n1,x,1,1\n2,x,2,2\n`);
     new RowWriter(p, header).close();
     expect(readFileSync(p, 'utf8')).toBe(`${header}\n`);
+  });
+});
+
+describe('OutputFolder', () => {
+  it('holds one lock per folder, also within one process, and lets it go', () => {
+    const d = join(dir, 'locked');
+    const a = OutputFolder.open(d);
+    a.lock();
+    expect(readFileSync(join(d, '.rupta.lock'), 'utf8')).toBe(`${process.pid}\n`);
+    expect(() => OutputFolder.open(d).lock()).toThrow(/is in use by another run of this program/);
+    a.release();
+    const b = OutputFolder.open(d);
+    b.lock();
+    b.release();
+    expect(readdirSync(d)).toEqual([]);
+  });
+  it('refuses names that leave the folder', () => {
+    const f = OutputFolder.open(join(dir, 'names'));
+    for (const bad of ['../x', '/etc/passwd', 'a/../../x', '..', '.']) expect(() => f.file(bad)).toThrow(/is not a name inside the output folder/);
+    expect(f.file('frames/step-0001.svg')).toBe(join(dir, 'names', 'frames', 'step-0001.svg'));
   });
 });

@@ -148,6 +148,9 @@ export class OutputFolder {
         if ((e as NodeJS.ErrnoException).code === 'ENOENT') continue;
         throw e;
       }
+      if (owner === process.pid && held.has(path)) {
+        throw new InputError(`the output folder ${this.dir} is in use by another run of this program; choose another folder with --out`);
+      }
       if (owner === process.pid) { this.locked = true; break; }
       if (alive(owner)) {
         throw new InputError(`the output folder ${this.dir} is in use by another rupta run (process ${owner}); wait for it to end or choose another folder with --out (if no run is going on there, delete ${path})`);
