@@ -188,3 +188,19 @@ describe('a full disk', () => {
     }
   }, 180_000);
 });
+
+describe('a specimen cut into a mechanism', () => {
+  it('two slits meeting cut off a loose piece: exit 2 with one sentence before any step, and no folder left', async () => {
+    writeFileSync(at('loose.yaml'), coarseDemoYaml((c) => {
+      c.geometry.notches = [{ from: [300, 0], to: [350, 60], width: 0 }, { from: [400, 0], to: [350, 60], width: 0 }];
+      c.control = { by: 'displacement', target: 0.3, increments: 10 };
+    }));
+    for (const args of [['run', 'loose.yaml', '--out', 'loose', '--quiet'], ['check', 'loose.yaml']]) {
+      const r = await run(args);
+      expect(r.code).toBe(2);
+      oneSentence(r);
+      expect(r.stderr).toMatch(/geometry\.notches and geometry\.holes must leave every piece of the specimen held by the supports against rigid-body motion \(found 2 pieces; the piece from \[300, 0\] to \[400, 60\] mm is held by no support\)/);
+    }
+    expect(existsSync(at('loose'))).toBe(false);
+  }, 120_000);
+});
