@@ -17,6 +17,7 @@ import { checkHeldPieces } from '../src/fracture/pieces.js';
 import { Progress } from './progress.js';
 import { registerLabCommands } from './lab.js';
 import { registerNewCommand } from './new.js';
+import { registerStudyCommand } from './study.js';
 
 interface RunFlags { out?: string; force?: boolean; resume?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string }
 
@@ -126,6 +127,7 @@ program
 
 registerNewCommand(program);
 registerLabCommands(program);
+registerStudyCommand(program);
 
 /** A usage error of commander as one line: what is wrong, for which command, where its help is. */
 function usageSentence(e: CommanderError, argv: readonly string[]): string {
