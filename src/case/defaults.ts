@@ -15,6 +15,7 @@ export const DEFAULTS = {
   shearWeight: 1,
   supportWidth: 0,
   loadWidth: 0,
+  platen: 'rocker' as const,
   controlBy: 'displacement',
   increments: 100,
   stopAtLoadFraction: 0.05,
@@ -97,8 +98,8 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
   }
   const place = (p: { at?: Vec2; along?: Vec2[] }) =>
     p.at !== undefined ? { at: copy(p.at) } : { along: seg(p.along!) };
-  const supports: Support[] = c.supports.map((s) => ({ ...place(s), width: s.width ?? DEFAULTS.supportWidth, fix: s.fix }));
-  const loads: Load[] = c.loads.map((l) => ({ ...place(l), width: l.width ?? DEFAULTS.loadWidth, direction: unit(l.direction) }));
+  const supports: Support[] = c.supports.map((s) => ({ ...place(s), width: s.width ?? DEFAULTS.supportWidth, fix: s.fix, platen: s.platen ?? DEFAULTS.platen }));
+  const loads: Load[] = c.loads.map((l) => ({ ...place(l), width: l.width ?? DEFAULTS.loadWidth, direction: unit(l.direction), platen: l.platen ?? DEFAULTS.platen }));
   const o = c.output ?? {};
   const output: OutputSettings = {
     frames: o.frames ? [...new Set(o.frames)] : [...DEFAULTS.frames],

@@ -56,6 +56,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'supports[].along[]': { what: POINT, unit: 'mm' },
   'supports[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'supports[].fix': { what: 'one of x, y, xy' },
+  'supports[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped' },
 
   loads: { what: 'a list of at least one load' },
   'loads[]': { what: 'a load with exactly one of at: [x, y] or along: [[x, y], [x, y]], and direction: [x, y]' },
@@ -64,6 +65,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'loads[].along[]': { what: POINT, unit: 'mm' },
   'loads[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'loads[].direction': { what: 'a non-zero [x, y] direction', unit: '-' },
+  'loads[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped' },
 
   control: { what: 'a mapping {by, gauge, target, increments, stopAtLoadFraction}' },
   'control.by': { what: 'one of displacement, cmod, force' },

@@ -12,11 +12,18 @@ export interface Notch { from: Vec2; to: Vec2; width: number }
 
 export type Fix = 'x' | 'y' | 'xy';
 
+/**
+ * How a strip of width > 0 meets the specimen: `rocker`, a rigid platen on a pivot at its
+ * centre (its points share one displacement along the held or loaded axis and it may rotate);
+ * `clamped`, every point of the strip held (or driven) alike, with no rotation. Absent: rocker.
+ */
+export type Platen = 'rocker' | 'clamped';
+
 /** A support at a point or along a segment of the boundary; width spreads a point over a bearing strip. */
-export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix }
+export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix; platen?: Platen }
 
 /** Where the machine moves the specimen; direction is a unit vector. */
-export interface Load { at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2 }
+export interface Load { at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2; platen?: Platen }
 
 export type ControlKind = 'displacement' | 'cmod' | 'force';
 

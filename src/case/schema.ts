@@ -27,12 +27,15 @@ const hole = z
 
 const notch = z.strictObject({ from: point, to: point, width: num.optional() });
 
+// test rigs: how a bearing strip meets the specimen
+const platen = z.enum(['rocker', 'clamped']);
+
 const support = z
-  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']) })
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']), platen: platen.optional() })
   .superRefine(oneOf('at', 'along'));
 
 const load = z
-  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point })
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point, platen: platen.optional() })
   .superRefine(oneOf('at', 'along'));
 
 const gauge = z.strictObject({ from: point, to: point });

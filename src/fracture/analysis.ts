@@ -6,11 +6,11 @@ import { makeLaw } from '../cohesive/laws.js';
 import { interfaceEnergy, penaltyFor, type CohesiveParams } from '../cohesive/interface.js';
 import { elasticMatrix } from '../vem/material.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
-import { System, type PairGeom, type DrivenDofs } from '../solver/system.js';
+import { System, type PairGeom } from '../solver/system.js';
 import { NewtonWork, solveStep, type StepState, type NewtonOptions } from '../solver/newton.js';
-import { selectDriven, boundaryVertices, type Driven } from '../solver/driven.js';
+import { selectDriven, compactDriven, boundaryVertices, type Driven } from '../solver/driven.js';
 import { RunStopped } from '../errors.js';
-import { submatrixInto, type CsrMatrix } from '../linalg/index.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
 import { refineAround, coarsenAway } from './adapt.js';
@@ -192,14 +192,7 @@ export class Analysis {
     const co = cp.compactOf;
     const nd = 2 * cp.vertexOf.length;
     if (this.opt.maxDofs && nd > this.opt.maxDofs) throw new RunStopped(`the mesh grew to ${nd} dofs, above the limit of ${this.opt.maxDofs}`);
-    const dof = (d: { v: number; comp: number }) => 2 * co[d.v] + d.comp;
-    const dd: DrivenDofs = {
-      fixed: Int32Array.from(this.driven.fixed.filter((d) => co[d.v] >= 0).map(dof)),
-      load: Int32Array.from(this.driven.load.filter((d) => co[d.v] >= 0).map(dof)),
-      loadW: Float64Array.from(this.driven.load.filter((d) => co[d.v] >= 0).map((d) => d.w)),
-      gauge: Int32Array.from(this.driven.gauge.filter((d) => co[d.v] >= 0).map(dof)),
-      gaugeW: Float64Array.from(this.driven.gauge.filter((d) => co[d.v] >= 0).map((d) => d.w)),
-    };
+    const dd = compactDriven(this.driven, co);
     const pg = this.pairGeometry(co);
     this.sys = new System(cp.mesh, this.D, this.c.thickness, pg, dd);
     this.work = new NewtonWork(this.sys);
@@ -763,7 +756,7 @@ export class Analysis {
   stiffnessMatrix(): CsrMatrix {
     if (this.dirty) this.rebuild();
     this.sys.kT.values.set(this.sys.kBulk.values);
-    return submatrixInto(this.sys.kT, this.sys.kff);
+    return this.sys.reduceTangent();
   }
 
   /** Free dofs of the current mesh. */

@@ -3,13 +3,19 @@
 import type { CaseModel, Vec2 } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { InputError } from '../errors.js';
+import type { DrivenDofs } from './system.js';
 
 /** A vertex dof with a weight: comp 0 = x, 1 = y. */
 export interface VertexDof { v: number; comp: 0 | 1; w: number }
 
+/** A dof that follows the load factor and master dofs: u = λ·z + Σ w·u(master). */
+export interface SlaveDof { v: number; comp: 0 | 1; z: number; masters: VertexDof[] }
+
 export interface Driven {
   fixed: VertexDof[];
   load: VertexDof[];
+  /** Points of rocker platens (and spreaders): they follow the platen's translation and rotation. */
+  slaves: SlaveDof[];
   gauge: VertexDof[];
   gaugeVerts: [number, number] | null;
 }
@@ -70,27 +76,73 @@ function pick(m: PolyMesh, on: Uint8Array, field: string, at: Vec2 | undefined, 
   return [near.v];
 }
 
+/** Axis (0 = x, 1 = y) across which the points of a strip spread less: the strip's normal. */
+function stripNormal(m: PolyMesh, pts: number[]): 0 | 1 {
+  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
+  for (const v of pts) {
+    x0 = Math.min(x0, m.xy[2 * v]); x1 = Math.max(x1, m.xy[2 * v]);
+    y0 = Math.min(y0, m.xy[2 * v + 1]); y1 = Math.max(y1, m.xy[2 * v + 1]);
+  }
+  return x1 - x0 >= y1 - y0 ? 1 : 0;
+}
+
+/**
+ * A rocker platen on the points of a strip: along axis `comp` every point follows the
+ * platen's translation a = z·λ at the centre and its rotation θ, u = a + θ·s with s the
+ * offset across the axis. The point farthest from the centre is the master that carries θ
+ * (u_e = a + θ·s_e), so u_i = λ·z·(1 − s_i/s_e) + (s_i/s_e)·u_e. Null when the points
+ * all lie on the axis through the centre (no lever arm: the strip only translates).
+ */
+function rockerPlaten(m: PolyMesh, pts: number[], centre: Vec2, comp: 0 | 1, z: number, tol: number): { master: number; slaves: SlaveDof[] } | null {
+  const across = 1 - comp, s = pts.map((v) => m.xy[2 * v + across] - centre[across]);
+  let e = 0;
+  for (let i = 1; i < pts.length; i++) if (Math.abs(s[i]) > Math.abs(s[e])) e = i;
+  if (!(Math.abs(s[e]) > tol)) return null;
+  const slaves: SlaveDof[] = [];
+  pts.forEach((v, i) => {
+    if (i === e) return;
+    const c = s[i] / s[e];
+    slaves.push({ v, comp, z: z * (1 - c), masters: [{ v: pts[e], comp, w: c }] });
+  });
+  return { master: pts[e], slaves };
+}
+
 export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
   const on = boundaryVertices(m);
-  const fixed: VertexDof[] = [], load: VertexDof[] = [];
+  const fixed: VertexDof[] = [], load: VertexDof[] = [], slaves: SlaveDof[] = [];
   const seen = new Map<number, string>();
+  const claim = (v: number, comp: number, who: string, what: string) => {
+    const other = seen.get(2 * v + comp);
+    if (other) throw new InputError(`${who} acts on a point that ${other} already holds in the same direction; move the ${what} or the support`);
+    seen.set(2 * v + comp, who);
+  };
+  const addPlaten = (p: { master: number; slaves: SlaveDof[] }, comp: 0 | 1, who: string, what: string) => {
+    claim(p.master, comp, who, what);
+    for (const sd of p.slaves) { claim(sd.v, comp, who, what); slaves.push(sd); }
+  };
   c.supports.forEach((s, i) => {
-    for (const v of pick(m, on, `supports[${i}]`, s.at, s.along, s.width, tol)) {
-      if (s.fix !== 'y') { fixed.push({ v, comp: 0, w: 0 }); seen.set(2 * v, `supports[${i}]`); }
-      if (s.fix !== 'x') { fixed.push({ v, comp: 1, w: 0 }); seen.set(2 * v + 1, `supports[${i}]`); }
+    const who = `supports[${i}]`, pts = pick(m, on, who, s.at, s.along, s.width, tol);
+    // a strip of width > 0 is a rocker unless clamped: held at its centre along its normal, free to rotate
+    const normal: 0 | 1 = s.fix === 'x' ? 0 : s.fix === 'y' ? 1 : stripNormal(m, pts);
+    const rock = s.at && s.width > 0 && s.platen !== 'clamped' && pts.length > 1 ? rockerPlaten(m, pts, s.at, normal, 0, tol) : null;
+    if (rock) addPlaten(rock, normal, who, 'support');
+    for (const v of pts) {
+      for (const comp of [0, 1] as const) {
+        if ((comp === 0 ? s.fix === 'y' : s.fix === 'x') || (rock && comp === normal)) continue;
+        fixed.push({ v, comp, w: 0 }); claim(v, comp, who, 'support');
+      }
     }
   });
   c.loads.forEach((l, i) => {
-    const [dx, dy] = l.direction;
-    for (const v of pick(m, on, `loads[${i}]`, l.at, l.along, l.width, tol)) {
-      // an axis-aligned platen prescribes its own axis only; an oblique one moves the points rigidly
-      const comps: [0 | 1, number][] = Math.abs(dy) < 1e-12 ? [[0, dx]] : Math.abs(dx) < 1e-12 ? [[1, dy]] : [[0, dx], [1, dy]];
-      for (const [comp, w] of comps) {
-        const other = seen.get(2 * v + comp);
-        if (other) throw new InputError(`loads[${i}] acts on a point that ${other} already holds in the same direction; move the load or the support`);
-        seen.set(2 * v + comp, `loads[${i}]`);
-        load.push({ v, comp, w });
-      }
+    const [dx, dy] = l.direction, who = `loads[${i}]`;
+    const pts = pick(m, on, who, l.at, l.along, l.width, tol);
+    // an axis-aligned platen prescribes its own axis only; an oblique one moves the points rigidly
+    const comps: [0 | 1, number][] = Math.abs(dy) < 1e-12 ? [[0, dx]] : Math.abs(dx) < 1e-12 ? [[1, dy]] : [[0, dx], [1, dy]];
+    const rock = l.at && l.width > 0 && l.platen !== 'clamped' && comps.length === 1 && pts.length > 1
+      ? rockerPlaten(m, pts, l.at, comps[0][0], comps[0][1], tol) : null;
+    if (rock) { addPlaten(rock, comps[0][0], who, 'load'); return; }
+    for (const v of pts) {
+      for (const [comp, w] of comps) { claim(v, comp, who, 'load'); load.push({ v, comp, w }); }
     }
   });
   let gauge: VertexDof[] = [], gaugeVerts: [number, number] | null = null;
@@ -104,6 +156,28 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
     gauge = [{ v: b.v, comp: 0, w: ex / L }, { v: b.v, comp: 1, w: ey / L }, { v: a.v, comp: 0, w: -ex / L }, { v: a.v, comp: 1, w: -ey / L }];
     gaugeVerts = [a.v, b.v];
   }
-  if (load.length === 0) throw new InputError('loads must name at least one point or strip on the specimen boundary (found none)');
-  return { fixed, load, gauge, gaugeVerts };
+  if (load.length === 0 && !slaves.some((d) => d.z !== 0)) throw new InputError('loads must name at least one point or strip on the specimen boundary (found none)');
+  return { fixed, load, slaves, gauge, gaugeVerts };
+}
+
+/** The dofs of the current compact mesh (co: stable vertex id → compact index, −1 when gone). */
+export function compactDriven(d: Driven, co: Int32Array): DrivenDofs {
+  const live = (x: { v: number }) => co[x.v] >= 0;
+  const dof = (x: { v: number; comp: number }) => 2 * co[x.v] + x.comp;
+  const fixed = d.fixed.filter(live), load = d.load.filter(live), gauge = d.gauge.filter(live);
+  // a slave whose master is gone keeps its translation only
+  const sl = d.slaves.filter(live), start = [0], md: number[] = [], mw: number[] = [];
+  for (const s of sl) {
+    for (const q of s.masters) if (live(q)) { md.push(dof(q)); mw.push(q.w); }
+    start.push(md.length);
+  }
+  return {
+    fixed: Int32Array.from(fixed.map(dof)),
+    load: Int32Array.from(load.map(dof)), loadW: Float64Array.from(load.map((x) => x.w)),
+    gauge: Int32Array.from(gauge.map(dof)), gaugeW: Float64Array.from(gauge.map((x) => x.w)),
+    slaves: {
+      slave: Int32Array.from(sl.map(dof)), slaveZ: Float64Array.from(sl.map((x) => x.z)),
+      slaveStart: Int32Array.from(start), masterDof: Int32Array.from(md), masterW: Float64Array.from(mw),
+    },
+  };
 }
