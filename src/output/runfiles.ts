@@ -13,6 +13,7 @@ import { svgToPng, framesToAnimation } from './png.js';
 import type { CurveInset } from './inset.js';
 import { VtkSeries } from './vtk.js';
 import { writeReport, type FrameFile } from './report.js';
+import { curvePeaks, fmtLoad, runWarnings, workOfFractureEstimate } from './warnings.js';
 
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
@@ -81,7 +82,6 @@ export function s1OverFt(cellStress: Float64Array, ft: number): Float64Array {
 }
 
 // a load that rounds to zero is printed without a sign
-const fmtLoad = (F: number) => (Math.abs(F) >= 1000 ? `${(F / 1000).toFixed(2)} kN` : `${(Math.abs(F) < 0.05 ? 0 : F).toFixed(1)} N`);
 
 export class RunFiles {
   private curve: RowWriter;
@@ -216,13 +216,14 @@ export class RunFiles {
     if (c.crack && c.output.animation !== 'none' && this.framePngs.length > 1) {
       await framesToAnimation(this.framePngs, join(this.dir, `animation.${c.output.animation}`), { format: c.output.animation, maxFrames: 60, maxWidth: 720 });
     }
-    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
+    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds, extra.final);
     writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
     await writeReport(join(this.dir, 'report.html'), {
       c, result, initialMesh: extra.initialMesh, frames: this.frames, finalSvg, meshSvg: meshPicture,
       curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
       timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
       workOfFracture: workOfFractureEstimate(c, result),
+      warnings: summary.warnings as string[],
     });
     return summary;
   }
@@ -247,11 +248,10 @@ export function curveSvg(c: CaseModel, rows: StepRow[], more: CurveOverlays = []
   const hasGauge = rows.some((r) => r.cmod_mm !== null);
   const extra = Array.isArray(more) ? (hasGauge ? { cmod: more } : { displacement: more }) : more;
   const y = rows.map((r) => r.load_N);
-  let ip = 0;
-  for (let i = 1; i < y.length; i++) if (Math.abs(y[i]) > Math.abs(y[ip])) ip = i;
+  const pk = curvePeaks(rows), ip = pk.peakIndex, il = pk.laterIndex;
   const panel = (x: number[], xLabel: string, title: string, over: Series[]): PlotOptions => ({
     series: [{ label: 'rupta prediction', x, y }, ...over], xLabel, yLabel: 'Load (N)', title,
-    marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }],
+    marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }, ...(il >= 0 ? [{ x: x[il], y: y[il], label: `later ${fmtLoad(y[il])}` }] : [])],
   });
   const disp = panel(rows.map((r) => r.displacement_mm), 'Load-point displacement (mm)', 'Load point', extra.displacement ?? []);
   if (!hasGauge) return plotSvg({ ...disp, title: c.title });
@@ -259,46 +259,17 @@ export function curveSvg(c: CaseModel, rows: StepRow[], more: CurveOverlays = []
   return plotPanelsSvg({ panels: [disp, cmod], title: c.title });
 }
 
-/** Work of fracture: the work of the machine over the ligament area (RILEM TC 50-FMC, no self-weight term). */
-export function workOfFractureEstimate(c: CaseModel, result: AnalysisResult): { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string } | null {
-  const last = result.rows[result.rows.length - 1];
-  if (!c.crack || !last) return null;
-  // ligament: from each notch tip straight ahead to the far boundary
-  let lig = 0;
-  for (const n of c.geometry.notches) lig += ligamentLength(c, n.to, [n.to[0] - n.from[0], n.to[1] - n.from[1]]);
-  if (!(lig > 0)) lig = last.crack_length_mm;
-  const A = lig * c.thickness;
-  const W = last.external_work_Nmm;
-  const frac = result.peak.load_N !== 0 ? last.load_N / result.peak.load_N : 0;
-  return {
-    W_Nmm: W, ligamentArea_mm2: A, GF_Nmm: A > 0 ? W / A : 0,
-    note: `run ended at ${(100 * frac).toFixed(1).replace(/^-(0\.0)$/, '$1')} % of the peak load; the tail beyond it is not counted, so the estimate is a lower bound`,
-  };
-}
-
-function ligamentLength(c: CaseModel, p: [number, number], d: [number, number]): number {
-  const L = Math.hypot(d[0], d[1]);
-  const ux = d[0] / L, uy = d[1] / L;
-  const o = c.geometry.outline;
-  let best = Infinity;
-  for (let i = 0; i < o.length; i++) {
-    const a = o[i], b = o[(i + 1) % o.length];
-    const ex = b[0] - a[0], ey = b[1] - a[1], den = ux * ey - uy * ex;
-    if (Math.abs(den) < 1e-12) continue;
-    const wx = a[0] - p[0], wy = a[1] - p[1];
-    const t = (wx * ey - wy * ex) / den, s = (wx * uy - wy * ux) / den;
-    if (t > 1e-9 && s >= 0 && s <= 1) best = Math.min(best, t);
-  }
-  return Number.isFinite(best) ? best : 0;
-}
-
-export function summaryOf(c: CaseModel, r: AnalysisResult, meshSeconds: number, totalSeconds: number): Record<string, unknown> {
+export function summaryOf(c: CaseModel, r: AnalysisResult, meshSeconds: number, totalSeconds: number, final: Snapshot | null = null): Record<string, unknown> {
+  // the peak is the curve's first maximum; a later, higher one is reported beside it
+  const pk = curvePeaks(r.rows);
   return {
     format: 1,
     title: c.title,
     status: r.status,
     reason: r.reason,
-    peak: r.peak,
+    peak: r.rows.length > 0 ? pk.peak : r.peak,
+    ...(pk.later ? { laterMaximum: pk.later } : {}),
+    warnings: runWarnings(c, r, final),
     crackPaths: r.crackPaths,
     steps: Math.max(0, r.rows.length - 1),
     dofs: r.dofs,
