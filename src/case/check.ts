@@ -258,6 +258,21 @@ function placed(sp: Specimen, at: Vec2 | undefined, along: [Vec2, Vec2] | undefi
   }
 }
 
+/** Test rigs: loads that share one machine force through a spreader all state a share and push along x or y. */
+function checkSpreader(c: CaseModel): void {
+  const shared = c.loads.findIndex((l) => l.share !== undefined);
+  if (shared < 0) return;
+  c.loads.forEach((l, i) => {
+    if (l.share === undefined) {
+      throw new InputError(`loads[${i}].share must be given on every load when loads[${shared}] has one (the loads then share one machine force through a spreader), as a positive number, dimensionless (found none)`);
+    }
+    num(l.share, ['loads', i, 'share']);
+    if (Math.abs(l.direction[0]) > 1e-12 && Math.abs(l.direction[1]) > 1e-12) {
+      throw new InputError(`loads[${i}].direction must be along x or y when the loads share a spreader (found ${fmtPoint(l.direction)})`);
+    }
+  });
+}
+
 /** Rows of the rigid-motion map (u = a − θ y, v = b + θ x) restrained by the supports must have rank 3. */
 function checkRigid(c: CaseModel, sp: Specimen): void {
   const b = bbox(sp.outline);
@@ -320,6 +335,7 @@ export function checkCase(c: CaseModel): void {
     if (l.direction[0] === 0 && l.direction[1] === 0) fail(['loads', i, 'direction'], `found ${fmtPoint(l.direction)}`);
     placed(sp, l.at, l.along, l.width, ['loads', i]);
   });
+  checkSpreader(c);
   checkRigid(c, sp);
 
   const { control } = c;

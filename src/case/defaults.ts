@@ -99,7 +99,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
   const place = (p: { at?: Vec2; along?: Vec2[] }) =>
     p.at !== undefined ? { at: copy(p.at) } : { along: seg(p.along!) };
   const supports: Support[] = c.supports.map((s) => ({ ...place(s), width: s.width ?? DEFAULTS.supportWidth, fix: s.fix, platen: s.platen ?? DEFAULTS.platen }));
-  const loads: Load[] = c.loads.map((l) => ({ ...place(l), width: l.width ?? DEFAULTS.loadWidth, direction: unit(l.direction), platen: l.platen ?? DEFAULTS.platen }));
+  const loads: Load[] = c.loads.map((l) => ({ ...place(l), width: l.width ?? DEFAULTS.loadWidth, direction: unit(l.direction), platen: l.platen ?? DEFAULTS.platen, ...(l.share !== undefined ? { share: l.share } : {}) }));
   const o = c.output ?? {};
   const output: OutputSettings = {
     frames: o.frames ? [...new Set(o.frames)] : [...DEFAULTS.frames],

@@ -65,6 +65,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'loads[].along[]': { what: POINT, unit: 'mm' },
   'loads[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'loads[].direction': { what: 'a non-zero [x, y] direction', unit: '-' },
+  'loads[].share': { what: 'a positive share of the machine force, given on every load or on none (a spreader)', unit: '-', range: { gt: 0 } },
   'loads[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped' },
 
   control: { what: 'a mapping {by, gauge, target, increments, stopAtLoadFraction}' },

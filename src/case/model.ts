@@ -23,7 +23,11 @@ export type Platen = 'rocker' | 'clamped';
 export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix; platen?: Platen }
 
 /** Where the machine moves the specimen; direction is a unit vector. */
-export interface Load { at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2; platen?: Platen }
+export interface Load {
+  at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2; platen?: Platen;
+  /** Share of the one machine force this load point takes through a spreader (all loads have one, or none). */
+  share?: number;
+}
 
 export type ControlKind = 'displacement' | 'cmod' | 'force';
 

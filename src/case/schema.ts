@@ -35,7 +35,7 @@ const support = z
   .superRefine(oneOf('at', 'along'));
 
 const load = z
-  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point, platen: platen.optional() })
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point, platen: platen.optional(), share: num.optional() })
   .superRefine(oneOf('at', 'along'));
 
 const gauge = z.strictObject({ from: point, to: point });

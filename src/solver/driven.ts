@@ -5,11 +5,9 @@ import type { PolyMesh } from '../mesh/polymesh.js';
 import { InputError } from '../errors.js';
 import type { DrivenDofs } from './system.js';
 
-/** A vertex dof with a weight: comp 0 = x, 1 = y. */
-export interface VertexDof { v: number; comp: 0 | 1; w: number }
+import { rockerPlaten, spreaderSlaves, type SlaveDof, type VertexDof } from './platens.js';
 
-/** A dof that follows the load factor and master dofs: u = λ·z + Σ w·u(master). */
-export interface SlaveDof { v: number; comp: 0 | 1; z: number; masters: VertexDof[] }
+export type { SlaveDof, VertexDof };
 
 export interface Driven {
   fixed: VertexDof[];
@@ -86,27 +84,6 @@ function stripNormal(m: PolyMesh, pts: number[]): 0 | 1 {
   return x1 - x0 >= y1 - y0 ? 1 : 0;
 }
 
-/**
- * A rocker platen on the points of a strip: along axis `comp` every point follows the
- * platen's translation a = z·λ at the centre and its rotation θ, u = a + θ·s with s the
- * offset across the axis. The point farthest from the centre is the master that carries θ
- * (u_e = a + θ·s_e), so u_i = λ·z·(1 − s_i/s_e) + (s_i/s_e)·u_e. Null when the points
- * all lie on the axis through the centre (no lever arm: the strip only translates).
- */
-function rockerPlaten(m: PolyMesh, pts: number[], centre: Vec2, comp: 0 | 1, z: number, tol: number): { master: number; slaves: SlaveDof[] } | null {
-  const across = 1 - comp, s = pts.map((v) => m.xy[2 * v + across] - centre[across]);
-  let e = 0;
-  for (let i = 1; i < pts.length; i++) if (Math.abs(s[i]) > Math.abs(s[e])) e = i;
-  if (!(Math.abs(s[e]) > tol)) return null;
-  const slaves: SlaveDof[] = [];
-  pts.forEach((v, i) => {
-    if (i === e) return;
-    const c = s[i] / s[e];
-    slaves.push({ v, comp, z: z * (1 - c), masters: [{ v: pts[e], comp, w: c }] });
-  });
-  return { master: pts[e], slaves };
-}
-
 export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
   const on = boundaryVertices(m);
   const fixed: VertexDof[] = [], load: VertexDof[] = [], slaves: SlaveDof[] = [];
@@ -133,7 +110,12 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
       }
     }
   });
-  c.loads.forEach((l, i) => {
+  if (c.loads.some((l) => l.share !== undefined)) {
+    const pts = c.loads.map((l, i) => pick(m, on, `loads[${i}]`, l.at, l.along, l.width, tol));
+    const sp = spreaderSlaves(c.loads, pts, m, tol);
+    for (const q of sp.masters) claim(q.v, q.comp, `loads[${q.load}]`, 'load');
+    for (const sd of sp.slaves) { claim(sd.v, sd.comp, `loads[${sd.load}]`, 'load'); slaves.push(sd); }
+  } else c.loads.forEach((l, i) => {
     const [dx, dy] = l.direction, who = `loads[${i}]`;
     const pts = pick(m, on, who, l.at, l.along, l.width, tol);
     // an axis-aligned platen prescribes its own axis only; an oblique one moves the points rigidly

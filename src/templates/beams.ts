@@ -66,19 +66,20 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
       { at: pt(m - s, 0), fix: 'xy', width: sw, note: 'outer support, left: pin' },
       { at: pt(m + c, 0), fix: 'y', width: sw, note: 'inner support, right: roller' },
     ];
+    // a spreader on a pivot above the notch: by the lever rule the inner point takes s/(s + c)
     loads = [
-      { at: pt(m - c, D), direction: [0, -1], width: bw, note: 'inner load point, left' },
-      { at: pt(m + s, D), direction: [0, -1], width: bw, note: 'outer load point, right' },
+      { at: pt(m - c, D), direction: [0, -1], width: bw, share: s, note: 'inner load point, left' },
+      { at: pt(m + s, D), direction: [0, -1], width: bw, share: c, note: 'outer load point, right' },
     ];
     supportsNote = [
       `Antisymmetric four-point shear: supports ${fmt(s)} mm left and ${fmt(c)} mm right of the notch,`,
       'load points mirrored on the top face. No rigid-body motion is left.',
     ];
     loadsNote = [
-      'Both load points are driven down together, by the same travel: the ligament carries',
-      'much shear and little bending, so the crack leaves the notch at an angle and curves.',
-      'A rigid loading beam that cannot tilt is stiffer than a pivoted spreader: the load keeps',
-      'rising while the crack grows, so the run ends as the crack nears the top face.',
+      `A spreader on a pivot above the notch shares the machine force ${fmt(s)} : ${fmt(c)} between the`,
+      'inner and outer load points (lever rule); the machine travel is their weighted mean.',
+      'The ligament carries much shear and little bending, so the crack leaves the notch at an',
+      'angle and curves.',
     ];
     probes.push({ name: 'inner-load-point', at: pt(m - c, D) });
   } else {
@@ -103,10 +104,11 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
       need(tpl, 'load-span', ls, Math.max(bw, nw) + 0.1, span - bw, 'mm', `for a span of ${fmt(span)} mm and a bearing-width of ${fmt(bw)} mm`);
       need(tpl, 'bearing-width', bw, 0, ls / 2, 'mm', `for a load-span of ${fmt(ls)} mm`);
       loads = [
-        { at: pt(m - ls / 2, D), direction: [0, -1], width: bw, note: 'left load point' },
-        { at: pt(m + ls / 2, D), direction: [0, -1], width: bw, note: 'right load point' },
+        { at: pt(m - ls / 2, D), direction: [0, -1], width: bw, share: 1, note: 'left load point' },
+        { at: pt(m + ls / 2, D), direction: [0, -1], width: bw, share: 1, note: 'right load point' },
       ];
-      loadsNote = [`Two load points ${fmt(ls)} mm apart, driven down together: constant moment between them.`];
+      loadsNote = [`Two load points ${fmt(ls)} mm apart under a spreader that gives each half the machine force:`,
+        'constant moment between them; the machine travel is the mean of the two.'];
       probes.push({ name: 'left-load-point', at: pt(m - ls / 2, D) }, { name: 'right-load-point', at: pt(m + ls / 2, D) });
     }
   }
@@ -126,7 +128,7 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
   const controlNote = byCmod
     ? ['Crack-mouth opening control: a clip gauge across the notch mouth keeps the test', 'stable past the peak load.']
     : kind === 'shear' && notched
-      ? ['Load-point displacement control keeps the two load points moving together; the', 'gauge across the notch mouth is read and written every step.']
+      ? ['Machine displacement control (the spreader\'s travel); the gauge across the notch', 'mouth is read and written every step.']
       : ['Load-point displacement control (no notch, so no gauge to steer by).'];
 
   const spec: CaseSpec = {
@@ -165,7 +167,7 @@ export const beam3pb = beamTemplate('beam-3pb', '3pb',
   [length('eccentricity', 0, 'offset of the notch from mid-span, to the right', -100000, 100000)]);
 
 export const beam4pb = beamTemplate('beam-4pb', '4pb',
-  'notched beam in four-point bending, two load points driven together',
+  'notched beam in four-point bending, two load points under a spreader',
   ['Notched beam in four-point bending: pin and roller under the ends, two load points on top.'],
   { length: 500, span: 450, depth: 150, thickness: 150, notchDepth: 25, notchWidth: 3, material: 'concrete-normal', title: 'Four-point bend beam, demo mix' },
   [length('load-span', 150, 'distance between the two load points')]);

@@ -6,7 +6,8 @@ import { fmt } from './options.js';
 
 interface Placed { at?: Vec2; along?: [Vec2, Vec2]; width: number; note: string }
 export interface SupportSpec extends Placed { fix: Fix }
-export interface LoadSpec extends Placed { direction: Vec2 }
+/** A load; `share` puts it on a spreader with the other loads (test rigs). */
+export interface LoadSpec extends Placed { direction: Vec2; share?: number }
 
 export interface CaseSpec {
   /** Comment lines at the top of the file. */
@@ -124,7 +125,8 @@ export function caseText(c: CaseSpec): string {
   L.push('', ...comments(c.loadsNote), 'loads:');
   for (const l of c.loads) {
     const w = l.along ? '' : `, width: ${fmt(l.width)}`;
-    L.push(line(`  - {${placed(l)}, direction: ${p(l.direction)}${w}}`, l.note));
+    const sh = l.share !== undefined ? `, share: ${fmt(l.share)}` : '';
+    L.push(line(`  - {${placed(l)}, direction: ${p(l.direction)}${w}${sh}}`, l.note));
   }
   const k = c.control;
   L.push('', ...comments(c.controlNote), 'control:', `  by: ${k.by}`);
