@@ -273,6 +273,32 @@ function checkSpreader(c: CaseModel): void {
   });
 }
 
+/** Test rigs: a gauge point may lie anywhere on the specimen's face (boundary included), not in a hole or notch cut. */
+function inSpecimen(sp: Specimen, p: Vec2, path: Path): void {
+  if (sp.contains(p)) return;
+  const notch = sp.notchAt(p);
+  const why = notch >= 0 ? `inside the cut of geometry.notches[${notch}]` : 'outside the specimen or in a hole';
+  throw new InputError(`${name(path)} must be a point of the specimen in mm (found ${fmtPoint(p)}, ${why})`);
+}
+
+/** Test rigs: named gauges have distinct names and two distinct points of the specimen; a control gauge given by name names one. */
+function checkGauges(c: CaseModel, sp: Specimen): void {
+  const gauges = c.gauges ?? [], names = new Set<string>();
+  gauges.forEach((g, i) => {
+    if (typeof g.name !== 'string' || g.name.trim() === '') fail(['gauges', i, 'name'], `found ${describeValue(g.name)}`);
+    if (names.has(g.name)) throw new InputError(`gauges[${i}].name must be a name no other gauge uses (found ${JSON.stringify(g.name)} twice)`);
+    names.add(g.name);
+    inSpecimen(sp, g.from, ['gauges', i, 'from']);
+    inSpecimen(sp, g.to, ['gauges', i, 'to']);
+    if (dist(g.from, g.to) <= sp.tol) throw new InputError(`gauges[${i}] must have distinct from and to points (found both at ${fmtPoint(g.from)} mm)`);
+  });
+  const n = c.control.gaugeName;
+  if (n !== undefined && !names.has(n)) {
+    throw new InputError(`control.gauge must be {from, to} or the name of one of gauges (found ${JSON.stringify(n)}; `
+      + `${names.size ? `the gauges are ${[...names].join(', ')}` : 'the case names no gauges'})`);
+  }
+}
+
 /** Rows of the rigid-motion map (u = a − θ y, v = b + θ x) restrained by the supports must have rank 3. */
 function checkRigid(c: CaseModel, sp: Specimen): void {
   const b = bbox(sp.outline);
@@ -339,11 +365,12 @@ export function checkCase(c: CaseModel): void {
   checkRigid(c, sp);
 
   const { control } = c;
+  checkGauges(c, sp);
   if (control.by === 'cmod' && !control.gauge) throw new InputError('control.gauge is required when control.by is cmod');
   if (control.gauge) {
     const g = control.gauge;
-    onBoundary(sp, g.from, ['control', 'gauge', 'from']);
-    onBoundary(sp, g.to, ['control', 'gauge', 'to']);
+    inSpecimen(sp, g.from, ['control', 'gauge', 'from']);
+    inSpecimen(sp, g.to, ['control', 'gauge', 'to']);
     if (dist(g.from, g.to) <= sp.tol) {
       throw new InputError(`control.gauge must have distinct from and to points (found both at ${fmtPoint(g.from)} mm)`);
     }

@@ -69,6 +69,15 @@ function defaultMeshSize(outline: Vec2[]): number {
   return Math.min(x1 - x0, y1 - y0) / 10;
 }
 
+/** The control gauge: its points, and its name when it names one of `gauges` (checked in check.ts). */
+function controlGauge(c: CaseInput): { gauge?: { from: Vec2; to: Vec2 }; gaugeName?: string } {
+  const g = c.control.gauge;
+  if (g === undefined) return {};
+  if (typeof g !== 'string') return { gauge: { from: copy(g.from), to: copy(g.to) } };
+  const hit = (c.gauges ?? []).find((x) => x.name === g);
+  return hit ? { gauge: { from: copy(hit.from), to: copy(hit.to) }, gaugeName: g } : { gaugeName: g };
+}
+
 /** The model of a structurally valid case, with every default filled in. */
 export function fillDefaults(c: CaseInput, name: string): CaseModel {
   const outline = openOutline(c.geometry.outline);
@@ -131,13 +140,15 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
     loads,
     control: {
       by: c.control.by ?? DEFAULTS.controlBy,
-      ...(c.control.gauge ? { gauge: { from: copy(c.control.gauge.from), to: copy(c.control.gauge.to) } } : {}),
+      ...controlGauge(c),
+      reading: c.control.reading ?? 'opening',
       target: c.control.target,
       increments: c.control.increments ?? DEFAULTS.increments,
       stopAtLoadFraction: c.control.stopAtLoadFraction ?? DEFAULTS.stopAtLoadFraction,
     },
     mesh,
     probes: (c.probes ?? []).map((p) => ({ name: p.name, at: copy(p.at) })),
+    gauges: (c.gauges ?? []).map((g) => ({ name: g.name, from: copy(g.from), to: copy(g.to) })),
     output,
   };
   if (crack) model.crack = crack;

@@ -68,9 +68,10 @@ export const FIELDS: Record<string, FieldSpec> = {
   'loads[].share': { what: 'a positive share of the machine force, given on every load or on none (a spreader)', unit: '-', range: { gt: 0 } },
   'loads[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped' },
 
-  control: { what: 'a mapping {by, gauge, target, increments, stopAtLoadFraction}' },
+  control: { what: 'a mapping {by, gauge, reading, target, increments, stopAtLoadFraction}' },
   'control.by': { what: 'one of displacement, cmod, force' },
-  'control.gauge': { what: 'a mapping {from: [x, y], to: [x, y]}' },
+  'control.gauge': { what: 'a mapping {from: [x, y], to: [x, y]} or the name of one of gauges' },
+  'control.reading': { what: 'one of opening (along the gauge, the CMOD), sliding (across it)' },
   'control.gauge.from': { what: POINT, unit: 'mm' },
   'control.gauge.to': { what: POINT, unit: 'mm' },
   // The unit of the target follows control.by (see unitFor).
@@ -98,6 +99,12 @@ export const FIELDS: Record<string, FieldSpec> = {
   'probes[]': { what: 'a mapping {name, at}' },
   'probes[].name': { what: 'a non-empty name' },
   'probes[].at': { what: POINT, unit: 'mm' },
+
+  gauges: { what: 'a list of gauges, each {name, from: [x, y], to: [x, y]}' },
+  'gauges[]': { what: 'a mapping {name, from: [x, y], to: [x, y]}' },
+  'gauges[].name': { what: 'a non-empty name' },
+  'gauges[].from': { what: POINT, unit: 'mm' },
+  'gauges[].to': { what: POINT, unit: 'mm' },
 
   output: { what: 'a mapping {frames, every, animation, vtk, pngWidth}' },
   'output.frames': { what: 'a list of picture formats (svg, png)' },

@@ -31,11 +31,19 @@ export interface Load {
 
 export type ControlKind = 'displacement' | 'cmod' | 'force';
 
+/** Two points of the specimen's face; opening is the change of distance along from→to, sliding the relative motion across it (to the left of from→to). */
 export interface Gauge { from: Vec2; to: Vec2 }
+
+/** An extra gauge written to gauges.csv every step (test rigs). */
+export interface NamedGauge extends Gauge { name: string }
 
 export interface Control {
   by: ControlKind;
   gauge?: Gauge;
+  /** Name of the gauge in `gauges` the control reads, when it was given by name. */
+  gaugeName?: string;
+  /** What cmod control drives: the control gauge's opening (the CMOD, also when absent) or its sliding. */
+  reading?: 'opening' | 'sliding';
   /** mm for displacement and cmod control, N for force control. */
   target: number;
   increments: number;
@@ -94,4 +102,6 @@ export interface CaseModel {
   mesh: MeshSettings;
   probes: Probe[];
   output: OutputSettings;
+  /** Extra named gauges (test rigs). */
+  gauges?: NamedGauge[];
 }

@@ -39,10 +39,13 @@ const load = z
   .superRefine(oneOf('at', 'along'));
 
 const gauge = z.strictObject({ from: point, to: point });
+// test rigs: extra gauges anywhere on the face, named; the control gauge may name one
+const namedGauge = z.strictObject({ name: z.string(), from: point, to: point });
 
 const control = z.strictObject({
   by: z.enum(['displacement', 'cmod', 'force']).optional(),
-  gauge: gauge.optional(),
+  gauge: z.union([gauge, z.string()]).optional(),
+  reading: z.enum(['opening', 'sliding']).optional(),
   target: num,
   increments: num.optional(),
   stopAtLoadFraction: num.optional(),
@@ -98,6 +101,7 @@ export const caseSchema = z.strictObject({
   crack: crack.optional(),
   mesh: mesh.optional(),
   probes: z.array(z.strictObject({ name: z.string().min(1), at: point })).optional(),
+  gauges: z.array(namedGauge).optional(),
   output: output.optional(),
 });
 

@@ -122,6 +122,7 @@ export function buildDomain(c: CaseModel): Domain {
   }
   if (c.control.gauge) raw.push([...c.control.gauge.from] as Vec2, [...c.control.gauge.to] as Vec2);
   for (const p of c.probes) raw.push([p.at[0], p.at[1]]);
+  for (const g of c.gauges ?? []) raw.push([...g.from] as Vec2, [...g.to] as Vec2);
   for (const s of slits) raw.push([...s[0]] as Vec2, [...s[1]] as Vec2);
   for (const n of g.notches) if (n.width > 0) raw.push([n.to[0], n.to[1]]);
   for (const a of at) raw.push(a.p);

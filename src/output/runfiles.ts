@@ -13,6 +13,7 @@ import { svgToPng, framesToAnimation } from './png.js';
 import type { CurveInset } from './inset.js';
 import { VtkSeries } from './vtk.js';
 import { writeReport, type FrameFile } from './report.js';
+import { GAUGE_HEADER, GaugeReader } from './gauges.js';
 import { curvePeaks, fmtLoad, runWarnings, workOfFractureEstimate } from './warnings.js';
 
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
@@ -86,6 +87,9 @@ export function s1OverFt(cellStress: Float64Array, ft: number): Float64Array {
 export class RunFiles {
   private curve: RowWriter;
   private probes: RowWriter;
+  /** gauges.csv, when the case names extra gauges. */
+  private gauges: RowWriter | null = null;
+  private gaugeReader: GaugeReader | null = null;
   private framePngs: string[] = [];
   private frames: FrameFile[] = [];
   private pending: Promise<void>[] = [];
@@ -115,10 +119,15 @@ export class RunFiles {
       // the tables as they stood at the checkpoint; the rows after it are computed again
       writeFileAtomic(join(dir, 'curve.csv'), CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
       writeFileAtomic(join(dir, 'probes.csv'), tableUpTo(join(dir, 'probes.csv'), PROBE_HEADER, last));
+      if (c.gauges?.length) writeFileAtomic(join(dir, 'gauges.csv'), tableUpTo(join(dir, 'gauges.csv'), GAUGE_HEADER, last));
       this.seedFrames(resume);
     }
     this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
     this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
+    if (c.gauges?.length) {
+      this.gauges = new RowWriter(join(dir, 'gauges.csv'), GAUGE_HEADER, { keepExisting: !!resume });
+      this.gaugeReader = new GaugeReader(c.gauges);
+    }
     if (c.output.vtk) {
       this.vtk = new VtkSeries(join(dir, 'vtk'));
       if (resume) {
@@ -151,6 +160,10 @@ export class RunFiles {
     this.curve.append(curveCells(r));
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
     this.rows.push(r);
+    if (this.gauges && this.gaugeReader) {
+      const s = ev.snapshot();
+      for (const g of this.gaugeReader.read(s.mesh, s.u)) this.gauges.append([r.step, g.gauge, g.opening_mm, g.sliding_mm]);
+    }
     const o = this.c.output;
     if (r.step % o.every !== 0) return;
     const wantFrame = !!this.c.crack && o.frames.length > 0;
@@ -191,6 +204,7 @@ export class RunFiles {
   async finish(result: AnalysisResult, extra: { meshSeconds: number; totalSeconds: number; initialMesh: PolyMesh; final: Snapshot | null }): Promise<Record<string, unknown>> {
     this.curve.close();
     this.probes.close();
+    this.gauges?.close();
     const c = this.c;
     // mesh picture of the initial mesh
     const meshPicture = meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` });

@@ -130,12 +130,16 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
   let gauge: VertexDof[] = [], gaugeVerts: [number, number] | null = null;
   const g = c.control.gauge;
   if (g) {
-    const a = nearestBoundary(m, on, g.from), b = nearestBoundary(m, on, g.to);
-    if (a.d > Math.max(tol, 1e-6)) throw new InputError(`control.gauge.from must be a point on the specimen boundary in mm (found [${g.from}], ${a.d.toPrecision(3)} mm away from it)`);
-    if (b.d > Math.max(tol, 1e-6)) throw new InputError(`control.gauge.to must be a point on the specimen boundary in mm (found [${g.to}], ${b.d.toPrecision(3)} mm away from it)`);
+    // gauge points are mesh vertices anywhere on the face (the domain makes them so)
+    const all = new Uint8Array(on.length).fill(1);
+    const a = nearestBoundary(m, all, g.from), b = nearestBoundary(m, all, g.to);
+    if (a.d > Math.max(tol, 1e-6)) throw new InputError(`control.gauge.from must be a point of the specimen in mm (found [${g.from}], ${a.d.toPrecision(3)} mm from the nearest mesh vertex)`);
+    if (b.d > Math.max(tol, 1e-6)) throw new InputError(`control.gauge.to must be a point of the specimen in mm (found [${g.to}], ${b.d.toPrecision(3)} mm from the nearest mesh vertex)`);
     const ex = g.to[0] - g.from[0], ey = g.to[1] - g.from[1], L = Math.hypot(ex, ey);
     if (!(L > 0)) throw new InputError('control.gauge.to must differ from control.gauge.from (found the same point)');
-    gauge = [{ v: b.v, comp: 0, w: ex / L }, { v: b.v, comp: 1, w: ey / L }, { v: a.v, comp: 0, w: -ex / L }, { v: a.v, comp: 1, w: -ey / L }];
+    // opening along from→to, or sliding across it (to its left)
+    const [wx, wy] = c.control.reading === 'sliding' ? [-ey / L, ex / L] : [ex / L, ey / L];
+    gauge = [{ v: b.v, comp: 0, w: wx }, { v: b.v, comp: 1, w: wy }, { v: a.v, comp: 0, w: -wx }, { v: a.v, comp: 1, w: -wy }];
     gaugeVerts = [a.v, b.v];
   }
   if (load.length === 0 && !slaves.some((d) => d.z !== 0)) throw new InputError('loads must name at least one point or strip on the specimen boundary (found none)');
