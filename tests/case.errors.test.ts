@@ -69,7 +69,7 @@ const cases: [string, (c: Obj) => void, string][] = [
   ["mesh too fine", (c) => { c.mesh.size = 0.01; c.mesh.tipSize = 0.002; }, "mesh.size and mesh.tipSize must give at most 2000000 polygons (found about 754159265 polygons with size 0.01 mm and tipSize 0.002 mm)"],
   ["along with width", (c) => { c.supports[0] = {along: [[0,0],[10,0]], fix: 'y', width: 5}; }, "supports[0].width must be 0 for a support or load along an edge; a bearing width applies to a point (found 5)"],
   ["along across a corner", (c) => { c.supports[0] = {along: [[0,50],[10,0]], fix: 'y'}; }, "supports[0].along must be two points on one straight edge of the specimen in mm (found [0, 50] to [10, 0])"],
-  ["bearing strip over a corner", (c) => { c.supports[0] = { at: [0, 0], fix: 'y', width: 10 }; }, "supports[0].width must fit on one straight edge of the specimen around supports[0].at in mm (found 10 at [0, 0])"],
+  ["bearing strip over a corner", (c) => { c.supports[0] = { at: [0, 0], fix: 'y', width: 10 }; }, "supports[0].width must fit on the boundary around supports[0].at without turning by more than 45° in mm (found 10 at [0, 0], where the boundary turns by 90°)"],
   ["quoted number", (c) => { c.thickness = '50'; }, "thickness must be a positive number in mm (found \"50\"; write it without quotes)"],
   ["key of another mapping", (c) => { c.supports[0].direction = [0, 1]; }, "supports[0].direction is not a known key here; did you mean loads[].direction?"],
   ["pngWidth small", (c) => { c.output.pngWidth = 50; }, "output.pngWidth must be a whole number from 100 to 20000 in px (found 50)"],

@@ -81,7 +81,7 @@ const rows: Row[] = [
   { what: 'gauge end outside the specimen', mutate: (c) => { c.control.gauge.to = [300, -5]; },
     want: 'control.gauge.to must be a point of the specimen in mm (found [300, -5], outside the specimen or in a hole)' },
   { what: 'support strip past the corner', mutate: (c) => { c.supports[0].width = 60; },
-    want: 'supports[0].width must fit on one straight edge of the specimen around supports[0].at in mm (found 60 at [20, 0])' },
+    want: 'supports[0].width must fit on the boundary around supports[0].at without turning by more than 45° in mm (found 60 at [20, 0], where the boundary turns by 90°)' },
   { what: 'support along two edges', mutate: (c) => { c.supports[0] = { along: [[10, 0], [440, 50]], fix: 'y' }; },
     want: 'supports[0].along must be two points on one straight edge of the specimen in mm (found [10, 0] to [440, 50])' },
   { what: 'zero load direction', mutate: (c) => { c.loads[0].direction = [0, 0]; },

@@ -8,6 +8,9 @@ import {
   bbox, dist, edgeDist, inPolygon, nearestOnSegment, properCross, segDist, segSegDist, selfTouch, signedArea,
 } from './shapes.js';
 
+/** Test rigs: a strip may follow a curved or polygonal boundary that turns by at most this much under it (rad). */
+const MAX_STRIP_TURN = Math.PI / 4;
+
 /** Largest mesh the checks let through (estimated polygons); beyond it a run would not finish. */
 export const MAX_POLYGONS = 2_000_000;
 
@@ -132,14 +135,41 @@ class Specimen {
 
   /** A bearing strip of the given width centred at p lies on one straight piece (or p is on a circular hole). */
   stripFits(p: Vec2, width: number): boolean {
+    return this.stripTurn(p, width) <= MAX_STRIP_TURN;
+  }
+
+  /**
+   * Test rigs: how far (radians) the boundary turns under a strip of the given width, measured
+   * along the boundary both ways from p: 0 on a straight edge, about width/r on an arc of
+   * radius r; Infinity when the strip is longer than half the ring it sits on.
+   */
+  stripTurn(p: Vec2, width: number): number {
     const t = this.tol;
-    if (this.holes.some((h) => h.kind === 'circle' && Math.abs(dist(p, h.center) - h.radius) <= t)) return true;
-    return this.segments().some(([a, b]) => {
-      const len = dist(a, b);
-      if (len === 0 || segDist(p, a, b) > t) return false;
-      const s = ((p[0] - a[0]) * (b[0] - a[0]) + (p[1] - a[1]) * (b[1] - a[1])) / len;
-      return s - width / 2 >= -t && s + width / 2 <= len + t;
-    });
+    for (const h of this.holes) {
+      if (h.kind === 'circle' && Math.abs(dist(p, h.center) - h.radius) <= t) return width <= Math.PI * h.radius ? width / h.radius : Infinity;
+    }
+    const rings = [this.outline, ...this.holes.flatMap((h) => (h.kind === 'polygon' ? [h.points] : []))];
+    for (const ring of rings) {
+      const n = ring.length;
+      for (let i = 0; i < n; i++) {
+        const a = ring[i]!, b = ring[(i + 1) % n]!, len = dist(a, b);
+        if (len === 0 || segDist(p, a, b) > t) continue;
+        let perim = 0;
+        for (let k = 0; k < n; k++) perim += dist(ring[k]!, ring[(k + 1) % n]!);
+        if (width > perim / 2) return Infinity;
+        const dir = (k: number) => { const u = ring[k % n]!, v = ring[(k + 1) % n]!; return Math.atan2(v[1] - u[1], v[0] - u[0]); };
+        const turn = (k: number) => { let d = dir(k) - dir(k + n - 1); while (d > Math.PI) d -= 2 * Math.PI; while (d < -Math.PI) d += 2 * Math.PI; return Math.abs(d); };
+        const s = dist(a, p);
+        let total = 0;
+        // forwards from p to the strip's end, then backwards
+        let left = width / 2 - (len - s), k = i + 1;
+        while (left > t) { total += turn(k); left -= dist(ring[k % n]!, ring[(k + 1) % n]!); k++; }
+        left = width / 2 - s; k = i;
+        while (left > t) { total += turn(k); k = (k + n - 1) % n; left -= dist(ring[k]!, ring[(k + 1) % n]!); }
+        return total;
+      }
+    }
+    return Infinity;
   }
 
   /** Both ends on one straight boundary piece. */
@@ -239,8 +269,9 @@ function placed(sp: Specimen, at: Vec2 | undefined, along: [Vec2, Vec2] | undefi
   if (at) {
     onBoundary(sp, at, [...path, 'at']);
     if (width > 0 && !sp.stripFits(at, width)) {
-      throw new InputError(`${name([...path, 'width'])} must fit on one straight edge of the specimen around ${name([...path, 'at'])} in mm `
-        + `(found ${fmtNum(width)} at ${fmtPoint(at)})`);
+      const turn = sp.stripTurn(at, width);
+      throw new InputError(`${name([...path, 'width'])} must fit on the boundary around ${name([...path, 'at'])} without turning by more than 45° in mm `
+        + `(found ${fmtNum(width)} at ${fmtPoint(at)}, ${Number.isFinite(turn) ? `where the boundary turns by ${Math.round(turn * 180 / Math.PI)}°` : 'longer than half the boundary'})`);
     }
     return;
   }

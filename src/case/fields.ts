@@ -66,7 +66,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'loads[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'loads[].direction': { what: 'a non-zero [x, y] direction', unit: '-' },
   'loads[].share': { what: 'a positive share of the machine force, given on every load or on none (a spreader)', unit: '-', range: { gt: 0 } },
-  'loads[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped' },
+  'loads[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped, pressure (a uniform pressure over the strip)' },
 
   control: { what: 'a mapping {by, gauge, reading, target, increments, stopAtLoadFraction}' },
   'control.by': { what: 'one of displacement, cmod, force' },

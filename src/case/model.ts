@@ -15,9 +15,10 @@ export type Fix = 'x' | 'y' | 'xy';
 /**
  * How a strip of width > 0 meets the specimen: `rocker`, a rigid platen on a pivot at its
  * centre (its points share one displacement along the held or loaded axis and it may rotate);
- * `clamped`, every point of the strip held (or driven) alike, with no rotation. Absent: rocker.
+ * `clamped`, every point of the strip held (or driven) alike, with no rotation; `pressure` (loads
+ * only), a uniform pressure over the strip, its points free to move apart. Absent: rocker.
  */
-export type Platen = 'rocker' | 'clamped';
+export type Platen = 'rocker' | 'clamped' | 'pressure';
 
 /** A support at a point or along a segment of the boundary; width spreads a point over a bearing strip. */
 export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix; platen?: Platen }

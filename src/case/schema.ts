@@ -28,10 +28,11 @@ const hole = z
 const notch = z.strictObject({ from: point, to: point, width: num.optional() });
 
 // test rigs: how a bearing strip meets the specimen
-const platen = z.enum(['rocker', 'clamped']);
+const platen = z.enum(['rocker', 'clamped', 'pressure']);
+const supportPlaten = z.enum(['rocker', 'clamped']);
 
 const support = z
-  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']), platen: platen.optional() })
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']), platen: supportPlaten.optional() })
   .superRefine(oneOf('at', 'along'));
 
 const load = z

@@ -1,6 +1,6 @@
 // Which vertices the supports hold, the machine drives and the gauge reads, picked once
 // on the initial mesh (vertex ids are stable afterwards).
-import type { CaseModel, Vec2 } from '../case/model.js';
+import type { CaseModel, Load, Vec2 } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { InputError } from '../errors.js';
 import type { DrivenDofs } from './system.js';
@@ -67,11 +67,73 @@ function pick(m: PolyMesh, on: Uint8Array, field: string, at: Vec2 | undefined, 
   if (near.v < 0 || near.d > Math.max(tol, 1e-6)) {
     throw new InputError(`${field}.at must be a point on the specimen boundary in mm (found [${p[0]}, ${p[1]}], ${near.d.toPrecision(3)} mm away from it)`);
   }
-  if (width > 0) {
-    for (let v = 0; v < on.length; v++) if (on[v] && Math.hypot(m.xy[2 * v] - p[0], m.xy[2 * v + 1] - p[1]) <= width / 2 + tol) out.push(v);
-    return out;
-  }
+  if (width > 0) return alongBoundary(m, near.v, width / 2 + tol).pts;
   return [near.v];
+}
+
+/**
+ * Boundary vertices within arc length r of vertex v0, walking the boundary both ways (curves,
+ * corners and holes alike), with each one's share of the strip's length (half of each strip
+ * edge it ends).
+ */
+function alongBoundary(m: PolyMesh, v0: number, r: number): { pts: number[]; len: number[] } {
+  const nv = m.xy.length >> 1, next = new Int32Array(nv).fill(-1), prev = new Int32Array(nv).fill(-1);
+  const edges = new Set<number>();
+  const { cellStart, cellVerts } = m;
+  for (let c = 0; c + 1 < cellStart.length; c++) {
+    const s = cellStart[c], e = cellStart[c + 1];
+    for (let k = s; k < e; k++) edges.add(cellVerts[k] * nv + cellVerts[k + 1 < e ? k + 1 : s]);
+  }
+  for (let c = 0; c + 1 < cellStart.length; c++) {
+    const s = cellStart[c], e = cellStart[c + 1];
+    for (let k = s; k < e; k++) {
+      const a = cellVerts[k], b = cellVerts[k + 1 < e ? k + 1 : s];
+      if (!edges.has(b * nv + a)) { next[a] = b; prev[b] = a; }
+    }
+  }
+  const out = [v0], len = [0];
+  for (const step of [next, prev]) {
+    let v = v0, d = 0;
+    for (let guard = 0; guard < nv; guard++) {
+      const w = step[v];
+      if (w < 0 || w === v0) break;
+      const e = Math.hypot(m.xy[2 * w] - m.xy[2 * v], m.xy[2 * w + 1] - m.xy[2 * v + 1]);
+      d += e;
+      if (d > r || out.includes(w)) break;
+      len[out.indexOf(v)] += e / 2;
+      out.push(w); len.push(e / 2);
+      v = w;
+    }
+  }
+  return { pts: out, len };
+}
+
+/** A load's strip points with their lengths along the boundary (pressure platens). */
+function stripLengths(m: PolyMesh, on: Uint8Array, l: Load, tol: number): { pts: number[]; len: number[] } {
+  const near = nearestBoundary(m, on, l.at!);
+  return alongBoundary(m, near.v, l.width / 2 + tol);
+}
+
+/**
+ * Loads as the spreader sees them: a pressure strip becomes one load per point, each with
+ * the share of the strip's force its length along the boundary gives (uniform pressure).
+ */
+function spreadLoads(c: CaseModel, m: PolyMesh, on: Uint8Array, tol: number, which: number[]): { loads: (Load & { of: number })[]; pts: number[][] } {
+  const loads: (Load & { of: number })[] = [], pts: number[][] = [];
+  for (const i of which) {
+    const l = c.loads[i];
+    if (l.platen === 'pressure' && l.at && l.width > 0) {
+      const s = stripLengths(m, on, l, tol), total = s.len.reduce((a, b) => a + b, 0);
+      s.pts.forEach((v, k) => {
+        loads.push({ at: [m.xy[2 * v], m.xy[2 * v + 1]], width: 0, direction: l.direction, share: (l.share ?? 1) * s.len[k] / total, of: i });
+        pts.push([v]);
+      });
+    } else {
+      loads.push({ ...l, of: i });
+      pts.push(pick(m, on, `loads[${i}]`, l.at, l.along, l.width, tol));
+    }
+  }
+  return { loads, pts };
 }
 
 /** Axis (0 = x, 1 = y) across which the points of a strip spread less: the strip's normal. */
@@ -110,12 +172,16 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
       }
     }
   });
-  if (c.loads.some((l) => l.share !== undefined)) {
-    const pts = c.loads.map((l, i) => pick(m, on, `loads[${i}]`, l.at, l.along, l.width, tol));
-    const sp = spreaderSlaves(c.loads, pts, m, tol);
-    for (const q of sp.masters) claim(q.v, q.comp, `loads[${q.load}]`, 'load');
-    for (const sd of sp.slaves) { claim(sd.v, sd.comp, `loads[${sd.load}]`, 'load'); slaves.push(sd); }
-  } else c.loads.forEach((l, i) => {
+  const spread = (which: number[]) => {
+    const { loads, pts } = spreadLoads(c, m, on, tol, which);
+    const sp = spreaderSlaves(loads, pts, m, tol);
+    for (const q of sp.masters) claim(q.v, q.comp, `loads[${loads[q.load].of}]`, 'load');
+    for (const sd of sp.slaves) { claim(sd.v, sd.comp, `loads[${loads[sd.load].of}]`, 'load'); slaves.push(sd); }
+  };
+  if (c.loads.some((l) => l.share !== undefined)) spread(c.loads.map((_, i) => i));
+  else c.loads.forEach((l, i) => {
+    // a pressure strip shares its load among its points by their lengths
+    if (l.platen === 'pressure' && l.at && l.width > 0) { spread([i]); return; }
     const [dx, dy] = l.direction, who = `loads[${i}]`;
     const pts = pick(m, on, who, l.at, l.along, l.width, tol);
     // an axis-aligned platen prescribes its own axis only; an oblique one moves the points rigidly
