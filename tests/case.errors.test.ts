@@ -49,7 +49,7 @@ const cases: [string, (c: Obj) => void, string][] = [
   ["load off boundary", (c) => { c.loads[0].at = [220, 90]; }, "loads[0].at must be a point on the specimen boundary in mm (found [220, 90], the nearest boundary point is [220, 100])"],
   ["gauge inside the notch mouth", (c) => { c.control.gauge.from = [220, 0]; }, "control.gauge.from must be a point of the specimen in mm (found [220, 0], inside the cut of geometry.notches[0])"],
   ["no supports", (c) => { c.supports = []; }, "supports must be a list of at least one support (found an empty list)"],
-  ["unknown top-level key", (c) => { c.colour = 'red'; }, "colour is not a known key; the known top-level keys are format, title, units, model, thickness, geometry, material, supports, loads, control, crack, mesh, probes, gauges, output"],
+  ["unknown top-level key", (c) => { c.colour = 'red'; }, "colour is not a known key; the known top-level keys are format, title, units, model, thickness, geometry, material, supports, loads, control, crack, mesh, probes, wedge, gauges, output"],
   ["misplaced holes key", (c) => { c.holes = []; }, "holes is not a known key here; did you mean geometry.holes?"],
   ["unknown key without a near name", (c) => { c.material.density = 2400; }, "material.density is not a known key; the known keys of material are E, nu, ft, GF, softening, shearWeight"],
   ["hole with both shapes", (c) => { c.geometry.holes = [{circle: {center: [100, 50], radius: 5}, polygon: [[1,1],[2,1],[2,2]]}]; }, "geometry.holes[0] must be either {circle: {center, radius}} or {polygon: [[x, y], ...]} (found a mapping with keys circle, polygon)"],

@@ -5,6 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { near, solveRig } from './support/rig.js';
 import { parseCase } from '../src/case/index.js';
+import { wedgeRatio } from '../src/output/warnings.js';
 
 function beam(loads: string, supports = '{at: [10,0], fix: xy, width: 8}, {at: [190,0], fix: y, width: 8}'): string {
   return `
@@ -76,5 +77,30 @@ describe('spreader', () => {
       .toThrow(/^loads\[0\]\.direction must be along x or y when the loads share a spreader/);
     expect(() => parseCase(beam('{at: [70,40], direction: [0,-1], share: 0}, {at: [130,40], direction: [0,-1], share: 1}'), 'x.yaml'))
       .toThrow(/^loads\[0\]\.share must be a positive share of the machine force/);
+  });
+
+  it('a wedge puts the machine force on each groove face and travels by the opening between them (statics)', () => {
+    const text = `
+format: 1
+units: mm-N-MPa
+thickness: 10
+geometry: {outline: [[0,0],[100,0],[100,100],[60,100],[60,80],[40,80],[40,100],[0,100]], notches: [{from: [50, 80], to: [50, 50], width: 2}]}
+material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1}
+supports: [{at: [40,0], fix: xy}, {at: [60,0], fix: y}]
+loads: [{at: [40,90], direction: [-1,0], width: 6}, {at: [60,90], direction: [1,0], width: 6}]
+wedge: {angle: 15}
+control: {by: displacement, target: 0.01}
+mesh: {size: 5, tipSize: 5, refineRadius: 5, seed: 2, lloyd: 4}
+`;
+    const s = solveRig(text);
+    let left = 0, right = 0;
+    for (const v of near(s.mesh, [40, 90], 3.001)) left -= s.f[2 * v];
+    for (const v of near(s.mesh, [60, 90], 3.001)) right += s.f[2 * v];
+    expect(Math.abs(left - s.load) / s.load).toBeLessThan(1e-9);
+    expect(Math.abs(right - s.load) / s.load).toBeLessThan(1e-9);
+    const a = near(s.mesh, [40, 90], 1e-6)[0], b = near(s.mesh, [60, 90], 1e-6)[0];
+    expect(Math.abs(s.u[2 * b] - s.u[2 * a] - s.lambda) / s.lambda).toBeLessThan(1e-12);
+    // a frictionless wedge of included angle 2θ: vertical force = 2·tan θ × splitting force (statics)
+    expect(wedgeRatio(15)).toBeCloseTo(2 * Math.tan(7.5 * Math.PI / 180), 14);
   });
 });

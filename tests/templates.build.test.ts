@@ -16,6 +16,8 @@ const REQUIRED: Record<string, string[]> = {
 };
 const ALLOWED: Record<string, string[]> = {
   ...REQUIRED,
+  // test rigs: a wedge and extra named gauges
+  '': [...REQUIRED['']!, 'wedge', 'gauges'],
   geometry: ['outline', 'holes', 'notches'],
   control: [...REQUIRED.control!, 'gauge'],
 };

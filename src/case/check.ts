@@ -304,6 +304,17 @@ function checkSpreader(c: CaseModel): void {
   });
 }
 
+/** Test rigs: a wedge drives exactly two loads apart along one axis. */
+function checkWedge(c: CaseModel): void {
+  if (!c.wedge) return;
+  num(c.wedge.angle, ['wedge', 'angle']);
+  const [a, b] = c.loads;
+  const apart = c.loads.length === 2 && a && b && Math.abs(a.direction[0] * b.direction[0] + a.direction[1] * b.direction[1] + 1) < 1e-9
+    && (Math.abs(a.direction[0]) < 1e-12 || Math.abs(a.direction[1]) < 1e-12);
+  if (!apart) throw new InputError(`loads must be two loads in opposite directions along x or y when the case has a wedge (found ${c.loads.length} load${c.loads.length === 1 ? '' : 's'}${c.loads.length === 2 ? ' not opposite along an axis' : ''})`);
+  if (c.loads.some((l) => l.share !== undefined)) throw new InputError('loads[0].share must be left out when the case has a wedge (the wedge shares the force equally)');
+}
+
 /** Test rigs: a gauge point may lie anywhere on the specimen's face (boundary included), not in a hole or notch cut. */
 function inSpecimen(sp: Specimen, p: Vec2, path: Path): void {
   if (sp.contains(p)) return;
@@ -393,6 +404,7 @@ export function checkCase(c: CaseModel): void {
     placed(sp, l.at, l.along, l.width, ['loads', i]);
   });
   checkSpreader(c);
+  checkWedge(c);
   checkRigid(c, sp);
 
   const { control } = c;

@@ -149,6 +149,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
     mesh,
     probes: (c.probes ?? []).map((p) => ({ name: p.name, at: copy(p.at) })),
     gauges: (c.gauges ?? []).map((g) => ({ name: g.name, from: copy(g.from), to: copy(g.to) })),
+    ...(c.wedge ? { wedge: { angle: c.wedge.angle } } : {}),
     output,
   };
   if (crack) model.crack = crack;

@@ -100,6 +100,8 @@ export const FIELDS: Record<string, FieldSpec> = {
   'probes[].name': { what: 'a non-empty name' },
   'probes[].at': { what: POINT, unit: 'mm' },
 
+  wedge: { what: 'a mapping {angle}' },
+  'wedge.angle': { what: 'the included angle of the wedge, above 0 and below 90', unit: 'degrees', range: { gt: 0, lt: 90 } },
   gauges: { what: 'a list of gauges, each {name, from: [x, y], to: [x, y]}' },
   'gauges[]': { what: 'a mapping {name, from: [x, y], to: [x, y]}' },
   'gauges[].name': { what: 'a non-empty name' },

@@ -103,6 +103,8 @@ export interface CaseModel {
   mesh: MeshSettings;
   probes: Probe[];
   output: OutputSettings;
+  /** A wedge drives the two loads apart (test rigs): included angle in degrees; load_N is the splitting force. */
+  wedge?: { angle: number };
   /** Extra named gauges (test rigs). */
   gauges?: NamedGauge[];
 }

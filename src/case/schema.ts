@@ -103,6 +103,7 @@ export const caseSchema = z.strictObject({
   mesh: mesh.optional(),
   probes: z.array(z.strictObject({ name: z.string().min(1), at: point })).optional(),
   gauges: z.array(namedGauge).optional(),
+  wedge: z.strictObject({ angle: num }).optional(),
   output: output.optional(),
 });
 

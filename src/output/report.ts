@@ -17,7 +17,7 @@ import { pickFrames, svgWidth } from './png.js';
 /** A frame written during the run. */
 export interface FrameFile { step: number; svg?: string; png?: string }
 
-import { curvePeaks, type WorkOfFracture } from './warnings.js';
+import { curvePeaks, wedgeRatio, type WorkOfFracture } from './warnings.js';
 export type { WorkOfFracture };
 
 export interface ReportInput {
@@ -219,6 +219,7 @@ function resultsTable(d: ReportData): string {
   let t = row('Status', `${esc(result.status)}: ${esc(result.reason)}`);
   t += row('Steps', String(Math.max(0, result.rows.length - 1)));
   t += row('Peak load', `${load(p.load_N)} (step ${p.step}, the first maximum of the curve)`, 'peak-load');
+  if (c.wedge) t += row('Vertical machine force at peak', `${load(wedgeRatio(c.wedge.angle) * p.load_N)} (frictionless wedge of ${c.wedge.angle}°; the peak load above is the splitting force)`, 'wedge');
   if (pk.later) t += row('Later maximum', `${load(pk.later.load_N)} (step ${pk.later.step}), after the load fell to ${load(result.rows[pk.minimum].load_N)}`, 'later-maximum');
   t += row('Load-point displacement at peak', `${sig(p.displacement_mm)} mm`);
   t += row('CMOD at peak', p.cmod_mm !== null ? `${sig(p.cmod_mm)} mm` : '— (no gauge)');

@@ -14,7 +14,7 @@ import type { CurveInset } from './inset.js';
 import { VtkSeries } from './vtk.js';
 import { writeReport, type FrameFile } from './report.js';
 import { GAUGE_HEADER, GaugeReader } from './gauges.js';
-import { curvePeaks, fmtLoad, runWarnings, workOfFractureEstimate } from './warnings.js';
+import { curvePeaks, fmtLoad, runWarnings, wedgeRatio, workOfFractureEstimate } from './warnings.js';
 
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
@@ -267,7 +267,10 @@ export function curveSvg(c: CaseModel, rows: StepRow[], more: CurveOverlays = []
     series: [{ label: 'rupta prediction', x, y }, ...over], xLabel, yLabel: 'Load (N)', title,
     marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }, ...(il >= 0 ? [{ x: x[il], y: y[il], label: `later ${fmtLoad(y[il])}` }] : [])],
   });
-  const disp = panel(rows.map((r) => r.displacement_mm), 'Load-point displacement (mm)', 'Load point', extra.displacement ?? []);
+  // a wedge: load_N is the splitting force, and the machine's vertical force rides beside it
+  const k = c.wedge ? wedgeRatio(c.wedge.angle) : 0;
+  const vertical: Series[] = c.wedge ? [{ label: `vertical machine force (wedge ${c.wedge.angle}°)`, x: rows.map((r) => r.displacement_mm), y: y.map((v) => k * v) }] : [];
+  const disp = panel(rows.map((r) => r.displacement_mm), c.wedge ? 'Opening at the load line (mm)' : 'Load-point displacement (mm)', c.wedge ? 'Splitting force' : 'Load point', [...vertical, ...(extra.displacement ?? [])]);
   if (!hasGauge) return plotSvg({ ...disp, title: c.title });
   const cmod = panel(rows.map((r) => r.cmod_mm ?? NaN), 'CMOD (mm)', 'Crack mouth', extra.cmod ?? []);
   return plotPanelsSvg({ panels: [disp, cmod], title: c.title });
@@ -283,6 +286,7 @@ export function summaryOf(c: CaseModel, r: AnalysisResult, meshSeconds: number, 
     reason: r.reason,
     peak: r.rows.length > 0 ? pk.peak : r.peak,
     ...(pk.later ? { laterMaximum: pk.later } : {}),
+    ...(c.wedge ? { wedge: { angle_deg: c.wedge.angle, verticalPerSplitting: wedgeRatio(c.wedge.angle), peakVertical_N: wedgeRatio(c.wedge.angle) * pk.peak.load_N } } : {}),
     warnings: runWarnings(c, r, final),
     crackPaths: r.crackPaths,
     steps: Math.max(0, r.rows.length - 1),

@@ -151,6 +151,9 @@ export function farDistance(c: CaseModel): number {
   return Math.max(3 * (c.crack?.averagingRadius ?? 0), 0.1 * Math.min(x1 - x0, y1 - y0));
 }
 
+/** Vertical machine force per splitting force of a frictionless wedge of the given included angle: 2·tan(angle/2) (statics). */
+export const wedgeRatio = (angleDeg: number): number => 2 * Math.tan((angleDeg * Math.PI) / 360);
+
 /** A load as the pictures and sentences write it. */
 export const fmtLoad = (F: number): string => (Math.abs(F) >= 1000 ? `${(F / 1000).toFixed(2)} kN` : `${(Math.abs(F) < 0.05 ? 0 : F).toFixed(1)} N`);
 

@@ -172,13 +172,16 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
       }
     }
   });
-  const spread = (which: number[]) => {
+  const spread = (which: number[], wedge = false) => {
     const { loads, pts } = spreadLoads(c, m, on, tol, which);
-    const sp = spreaderSlaves(loads, pts, m, tol);
+    // a wedge: each face takes the machine's force (the splitting force) and λ is the opening at the load line
+    if (wedge) for (const l of loads) l.share = (l.share ?? 1);
+    const sp = spreaderSlaves(loads, pts, m, tol, !wedge);
     for (const q of sp.masters) claim(q.v, q.comp, `loads[${loads[q.load].of}]`, 'load');
     for (const sd of sp.slaves) { claim(sd.v, sd.comp, `loads[${loads[sd.load].of}]`, 'load'); slaves.push(sd); }
   };
-  if (c.loads.some((l) => l.share !== undefined)) spread(c.loads.map((_, i) => i));
+  if (c.wedge) spread(c.loads.map((_, i) => i), true);
+  else if (c.loads.some((l) => l.share !== undefined)) spread(c.loads.map((_, i) => i));
   else c.loads.forEach((l, i) => {
     // a pressure strip shares its load among its points by their lengths
     if (l.platen === 'pressure' && l.at && l.width > 0) { spread([i]); return; }

@@ -49,9 +49,10 @@ const centreOf = (l: Load): Vec2 => l.at ?? [(l.along![0][0] + l.along![1][0]) /
  * pⱼ and its lever end eⱼ: aⱼ = (u_p − c_p·u_e)/(dⱼ·(1 − c_p)) (dⱼ = ±1, the direction's sign).
  * Directions must lie along x or y (checked with the case).
  */
-export function spreaderSlaves(loads: Load[], pts: number[][], m: PolyMesh, tol: number):
+export function spreaderSlaves(loads: Load[], pts: number[][], m: PolyMesh, tol: number, normalise = true):
   { masters: (VertexDof & { load: number })[]; slaves: (SlaveDof & { load: number })[] } {
-  const total = loads.reduce((a, l) => a + (l.share ?? 0), 0);
+  // shares as written give each point sⱼ·F; normalised they split F (a wedge keeps them: F on each face)
+  const total = normalise ? loads.reduce((a, l) => a + (l.share ?? 0), 0) : 1;
   const plat = loads.map((l, j) => {
     const comp: 0 | 1 = Math.abs(l.direction[0]) > Math.abs(l.direction[1]) ? 0 : 1;
     const d = Math.sign(l.direction[comp]), ctr = centreOf(l), P = pts[j];

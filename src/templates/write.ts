@@ -10,6 +10,8 @@ export interface SupportSpec extends Placed { fix: Fix }
 export interface LoadSpec extends Placed { direction: Vec2; share?: number }
 
 export interface CaseSpec {
+  /** Test rigs: a wedge drives the two loads apart. */
+  wedge?: { angle: number };
   /** Comment lines at the top of the file. */
   about: string[];
   template: string;
@@ -128,6 +130,7 @@ export function caseText(c: CaseSpec): string {
     const sh = l.share !== undefined ? `, share: ${fmt(l.share)}` : '';
     L.push(line(`  - {${placed(l)}, direction: ${p(l.direction)}${w}${sh}}`, l.note));
   }
+  if (c.wedge) L.push(line(`wedge: {angle: ${fmt(c.wedge.angle)}}`, 'degrees, included angle; friction left out'));
   const k = c.control;
   L.push('', ...comments(c.controlNote), 'control:', `  by: ${k.by}`);
   if (k.gauge) L.push(line(`  gauge: {from: ${p(k.gauge.from)}, to: ${p(k.gauge.to)}}`, k.gauge.note));
