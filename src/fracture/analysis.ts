@@ -8,7 +8,7 @@ import { elasticMatrix } from '../vem/material.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
 import { System, type PairGeom } from '../solver/system.js';
 import { NewtonWork, solveStep, type StepState, type NewtonOptions } from '../solver/newton.js';
-import { selectDriven, compactDriven, boundaryVertices, type Driven } from '../solver/driven.js';
+import { selectDriven, compactDriven, boundaryVertices, readDofs, type Driven } from '../solver/driven.js';
 import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
@@ -684,7 +684,8 @@ export class Analysis {
   private record(step: number, control: number): StepEvent {
     const en = this.energies();
     const F = this.sys.loadForce(this.work.f);
-    const gauge = this.driven.gaugeVerts ? this.sys.gaugeReading(this.work.u) : null;
+    // the CMOD column is the control gauge's opening, also when the control reads its sliding
+    const gauge = this.driven.gaugeVerts ? readDofs(this.driven.opening, this.work.u, this.compact.compactOf) : null;
     const tip = this.tips.find((t) => this.cracks[t.crack]?.kind === 'cohesive') ?? this.tips[0];
     const row: StepRow = {
       step, control, load_N: F, displacement_mm: this.lambda, cmod_mm: gauge,

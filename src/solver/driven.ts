@@ -15,7 +15,16 @@ export interface Driven {
   /** Points of rocker platens (and spreaders): they follow the platen's translation and rotation. */
   slaves: SlaveDof[];
   gauge: VertexDof[];
+  /** The control gauge's opening (the CMOD column), whatever the control reads. */
+  opening: VertexDof[];
   gaugeVerts: [number, number] | null;
+}
+
+/** Σ w·u over vertex dofs, u on the compact mesh (co: stable vertex id → compact index). */
+export function readDofs(dofs: VertexDof[], u: Float64Array, co: Int32Array): number {
+  let g = 0;
+  for (const d of dofs) if (co[d.v] >= 0) g += d.w * u[2 * co[d.v] + d.comp];
+  return g;
 }
 
 /** Vertices on the boundary: those with an edge that only one cell has. */
@@ -196,7 +205,7 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
       for (const [comp, w] of comps) { claim(v, comp, who, 'load'); load.push({ v, comp, w }); }
     }
   });
-  let gauge: VertexDof[] = [], gaugeVerts: [number, number] | null = null;
+  let gauge: VertexDof[] = [], opening: VertexDof[] = [], gaugeVerts: [number, number] | null = null;
   const g = c.control.gauge;
   if (g) {
     // gauge points are mesh vertices anywhere on the face (the domain makes them so)
@@ -209,10 +218,11 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
     // opening along from→to, or sliding across it (to its left)
     const [wx, wy] = c.control.reading === 'sliding' ? [-ey / L, ex / L] : [ex / L, ey / L];
     gauge = [{ v: b.v, comp: 0, w: wx }, { v: b.v, comp: 1, w: wy }, { v: a.v, comp: 0, w: -wx }, { v: a.v, comp: 1, w: -wy }];
+    opening = [{ v: b.v, comp: 0, w: ex / L }, { v: b.v, comp: 1, w: ey / L }, { v: a.v, comp: 0, w: -ex / L }, { v: a.v, comp: 1, w: -ey / L }];
     gaugeVerts = [a.v, b.v];
   }
   if (load.length === 0 && !slaves.some((d) => d.z !== 0)) throw new InputError('loads must name at least one point or strip on the specimen boundary (found none)');
-  return { fixed, load, slaves, gauge, gaugeVerts };
+  return { fixed, load, slaves, gauge, opening, gaugeVerts };
 }
 
 /** The dofs of the current compact mesh (co: stable vertex id → compact index, −1 when gone). */

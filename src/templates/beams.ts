@@ -121,14 +121,17 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
   const byCmod = notched && kind !== 'shear';
   const control: CaseSpec['control'] = byCmod
     ? { by: 'cmod', gauge: gauge!, target: mouthTarget(mat, D, a), targetNote: 'mm of mouth opening at the end of the run', increments: 100 }
-    : kind === 'shear'
-      // about one critical opening of travel takes the crack most of the way up (measured on the defaults)
-      ? { by: 'displacement', ...(gauge ? { gauge } : {}), target: sig2(criticalOpening(mat)), targetNote: 'mm of load-point travel at the end of the run', increments: 60 }
+    : kind === 'shear' && notched
+      // driven by the crack mouth sliding, as the test is run in the lab; two critical openings
+      // of sliding bring the load down to a few per cent of the peak (measured on the defaults)
+      ? { by: 'cmod', gauge: gauge!, reading: 'sliding', target: sig2(2 * criticalOpening(mat)), targetNote: 'mm of mouth sliding at the end of the run', increments: 60 }
+      : kind === 'shear'
+      ? { by: 'displacement', target: sig2(criticalOpening(mat)), targetNote: 'mm of machine travel at the end of the run', increments: 60 }
       : { by: 'displacement', ...(gauge ? { gauge } : {}), target: travelTarget(mat, elasticTravel), targetNote: 'mm of load-point travel at the end of the run', increments: 100 };
   const controlNote = byCmod
     ? ['Crack-mouth opening control: a clip gauge across the notch mouth keeps the test', 'stable past the peak load.']
     : kind === 'shear' && notched
-      ? ['Machine displacement control (the spreader\'s travel); the gauge across the notch', 'mouth is read and written every step.']
+      ? ['Control by the sliding of the notch mouth (CMSD): the gauge across the mouth reads', 'the relative vertical motion of its two sides, which keeps growing past the peak.']
       : ['Load-point displacement control (no notch, so no gauge to steer by).'];
 
   const spec: CaseSpec = {

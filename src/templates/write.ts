@@ -30,7 +30,7 @@ export interface CaseSpec {
   loadsNote: string[];
   loads: LoadSpec[];
   controlNote: string[];
-  control: { by: 'displacement' | 'cmod'; gauge?: { from: Vec2; to: Vec2; note: string }; target: number; targetNote: string; increments: number };
+  control: { by: 'displacement' | 'cmod'; gauge?: { from: Vec2; to: Vec2; note: string }; reading?: 'sliding'; target: number; targetNote: string; increments: number };
   crackNote: string[];
   crackStart: 'notch-tips' | 'anywhere' | Vec2[];
   crackStartNote: string;
@@ -134,6 +134,7 @@ export function caseText(c: CaseSpec): string {
   const k = c.control;
   L.push('', ...comments(c.controlNote), 'control:', `  by: ${k.by}`);
   if (k.gauge) L.push(line(`  gauge: {from: ${p(k.gauge.from)}, to: ${p(k.gauge.to)}}`, k.gauge.note));
+  if (k.reading) L.push(line(`  reading: ${k.reading}`, 'across the gauge: the crack mouth sliding'));
   L.push(
     line(`  target: ${fmt(k.target)}`, k.targetNote),
     line(`  increments: ${k.increments}`, 'steps from zero to the target'),
