@@ -19,7 +19,7 @@ const ALLOWED: Record<string, string[]> = {
   // test rigs: a wedge and extra named gauges
   '': [...REQUIRED['']!, 'wedge', 'gauges'],
   geometry: ['outline', 'holes', 'notches'],
-  control: [...REQUIRED.control!, 'gauge'],
+  control: [...REQUIRED.control!, 'gauge', 'reading'],
 };
 
 const raw = (t: Template, values: Record<string, number | string> = {}): RawCase => parse(t.build(values)) as RawCase;
