@@ -21,7 +21,7 @@ export interface Driven {
 }
 
 /** Σ w·u over vertex dofs, u on the compact mesh (co: stable vertex id → compact index). */
-export function readDofs(dofs: VertexDof[], u: Float64Array, co: Int32Array): number {
+export function readDofs(dofs: readonly VertexDof[], u: Float64Array, co: Int32Array): number {
   let g = 0;
   for (const d of dofs) if (co[d.v] >= 0) g += d.w * u[2 * co[d.v] + d.comp];
   return g;

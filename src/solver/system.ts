@@ -139,9 +139,9 @@ export class System {
     }
   }
 
-  /** Gradient of the gauge reading: adds ∂g/∂q to gf and returns ∂g/∂λ (z is the load pattern). */
-  gaugeGradient(gf: Float64Array, z: Float64Array): number {
-    const { gauge, gaugeW } = this.driven, S = this.driven.slaves;
+  /** Gradient of a gauge reading Σ w·u: adds ∂g/∂q to gf and returns ∂g/∂λ (z is the load pattern). */
+  gaugeGradient(gf: Float64Array, z: Float64Array, gauge: Int32Array, gaugeW: Float64Array): number {
+    const S = this.driven.slaves;
     let gl = 0;
     for (let i = 0; i < gauge.length; i++) {
       const d = gauge[i], fi = this.freeOf[d];
@@ -241,6 +241,34 @@ export class System {
 
   gaugeReading(u: Float64Array): number {
     const { gauge, gaugeW } = this.driven;
+    let g = 0;
+    for (let i = 0; i < gauge.length; i++) g += gaugeW[i] * u[gauge[i]];
+    return g;
+  }
+
+  /**
+   * The crack opening summed over all face pairs, Σ A·w (mm³), as a gauge: it grows while
+   * the cracks open even where the load and the mouth opening both turn back (snap-back).
+   * Built on first use; the pairs only change with the topology.
+   */
+  get openingGauge(): { gauge: Int32Array; gaugeW: Float64Array } {
+    if (this.opening) return this.opening;
+    const P = this.pairs, n = P.plus.length;
+    const gauge = new Int32Array(4 * n), gaugeW = new Float64Array(4 * n);
+    for (let p = 0; p < n; p++) {
+      const a = P.plus[p], b = P.minus[p], A = P.area[p];
+      gauge.set([2 * a, 2 * a + 1, 2 * b, 2 * b + 1], 4 * p);
+      gaugeW.set([A * P.nx[p], A * P.ny[p], -A * P.nx[p], -A * P.ny[p]], 4 * p);
+    }
+    this.opening = { gauge, gaugeW };
+    return this.opening;
+  }
+
+  private opening: { gauge: Int32Array; gaugeW: Float64Array } | null = null;
+
+  /** Σ A·w of displacement u (mm³). */
+  openingReading(u: Float64Array): number {
+    const { gauge, gaugeW } = this.openingGauge;
     let g = 0;
     for (let i = 0; i < gauge.length; i++) g += gaugeW[i] * u[gauge[i]];
     return g;
