@@ -2,7 +2,7 @@
 // Exit codes: 0 done, 2 a mistake in the input, 3 a run that stopped early, 1 a fault of ours.
 import { Command, CommanderError } from 'commander';
 import { join } from 'node:path';
-import { loadCase, describeCase } from '../src/case/index.js';
+import { loadCase, describeCase, unitSlipWarnings } from '../src/case/index.js';
 import { DiskFull, InputError, RunStopped } from '../src/errors.js';
 import { runCase, meshCase } from '../src/run.js';
 import { meshStats } from '../src/mesh/stats.js';
@@ -71,7 +71,9 @@ program
   .option('--json', 'print the summary as JSON on stdout')
   .option('--export-matrix <file>', 'also write the constrained stiffness matrix (Matrix Market)')
   .action(async (file: string, o: RunFlags) => {
-    await runAndReport(loadCase(file), file, o);
+    const c = loadCase(file);
+    for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
+    await runAndReport(c, file, o);
   });
 
 program
@@ -91,6 +93,7 @@ program
   .argument('<case>', 'case file (YAML or JSON)')
   .action((file: string) => {
     const c = loadCase(file);
+    for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
     const { mesh, seconds } = meshCase(c);
     const a = new Analysis(c, mesh);
     checkHeldPieces(c, mesh, a.wm);
