@@ -21,6 +21,8 @@ export interface RunOptions {
   stopRequested?: () => boolean;
   /** Go on from the checkpoint in the output folder (refused when the case has changed). */
   resume?: boolean;
+  /** The case file the run was started from: its hash goes into case.json and the report. */
+  caseFile?: string;
   /** Converged steps between checkpoints (default 5; 0: only when interrupted). */
   checkpointEvery?: number;
 }
@@ -40,7 +42,7 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   const dir = opt.out ?? join('out', c.name);
   if (opt.resume && opt.force) throw new InputError('--resume goes on with the run in the output folder and --force starts it afresh: give one of them, not both');
   const resumed = opt.resume ? readCheckpoint(dir, c) : null;
-  const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows });
+  const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows, caseFile: opt.caseFile });
   const { mesh, seconds } = meshCase(c);
   const a = new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
   if (resumed) a.restore(resumed);

@@ -66,7 +66,7 @@ describe('defaults', () => {
     expect(c.mesh).toEqual({ size: 10, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8 });
     expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8 });
     expect(c.probes).toEqual([]);
-    expect(c.output).toEqual({ frames: ['svg', 'png'], every: 1, animation: 'gif', vtk: false, pngWidth: 1200 });
+    expect(c.output).toEqual({ frames: ['png'], every: 1, maxFrames: 40, animation: 'gif', vtk: false, pngWidth: 1200 });
   });
   it('derives the tip size from a given mesh size', () => {
     const c = parseCase(JSON.stringify({ ...minimal, mesh: { size: 5 } }), 'a.json');

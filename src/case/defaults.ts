@@ -24,8 +24,9 @@ export const DEFAULTS = {
   seed: 1,
   lloyd: 8,
   probes: [] as const,
-  frames: ['svg', 'png'] as const,
+  frames: ['png'] as const,
   every: 1,
+  maxFrames: 40,
   animation: 'gif',
   vtk: false,
   pngWidth: 1200,
@@ -103,6 +104,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
   const output: OutputSettings = {
     frames: o.frames ? [...new Set(o.frames)] : [...DEFAULTS.frames],
     every: o.every ?? DEFAULTS.every,
+    maxFrames: o.maxFrames ?? DEFAULTS.maxFrames,
     animation: o.animation ?? DEFAULTS.animation,
     vtk: o.vtk ?? DEFAULTS.vtk,
     pngWidth: o.pngWidth ?? DEFAULTS.pngWidth,

@@ -96,10 +96,11 @@ export const FIELDS: Record<string, FieldSpec> = {
   'probes[].name': { what: 'a non-empty name' },
   'probes[].at': { what: POINT, unit: 'mm' },
 
-  output: { what: 'a mapping {frames, every, animation, vtk, pngWidth}' },
+  output: { what: 'a mapping {frames, every, maxFrames, animation, vtk, pngWidth}' },
   'output.frames': { what: 'a list of picture formats (svg, png)' },
   'output.frames[]': { what: 'one of svg, png' },
   'output.every': { what: 'a whole number of steps from 1 to 100000', range: { ge: 1, le: 100000, int: true } },
+  'output.maxFrames': { what: 'a whole number of frames from 1 to 10000', range: { ge: 1, le: 10000, int: true } },
   'output.animation': { what: 'one of gif, webp, none' },
   'output.vtk': { what: 'true or false' },
   'output.pngWidth': { what: 'a whole number from 100 to 20000', unit: 'px', range: { ge: 100, le: 20000, int: true } },

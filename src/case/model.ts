@@ -59,6 +59,8 @@ export interface Probe { name: string; at: Vec2 }
 export interface OutputSettings {
   frames: ('svg' | 'png')[];
   every: number;
+  /** At most this many frames, evenly spaced over the run (the last step always among them). */
+  maxFrames: number;
   animation: 'gif' | 'webp' | 'none';
   vtk: boolean;
   /** Width of PNG pictures in pixels. */

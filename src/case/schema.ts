@@ -65,6 +65,7 @@ const mesh = z.strictObject({
 const output = z.strictObject({
   frames: z.array(z.enum(['svg', 'png'])).optional(),
   every: num.optional(),
+  maxFrames: num.optional(),
   animation: z.enum(['gif', 'webp', 'none']).optional(),
   vtk: z.boolean().optional(),
   pngWidth: num.optional(),

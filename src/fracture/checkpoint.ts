@@ -69,7 +69,7 @@ export function restoreMesh(wm: WorkMesh, s: MeshState): void {
 
 /** Fingerprint of a case: any change to the validated model (not to comments or layout) changes it. */
 export function caseHash(c: CaseModel): string {
-  return createHash('sha256').update(JSON.stringify({ ...c, name: undefined })).digest('hex');
+  return createHash('sha256').update(JSON.stringify({ ...c, name: undefined, output: undefined })).digest('hex');
 }
 
 const bytes = (a: ArrayBufferView) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');

@@ -13,8 +13,11 @@ export function svgWidth(svg: string): number {
   return v ? Number(v[1]) : 1000;
 }
 
-/** Render SVG text to a PNG file of the given width (default: the SVG's own width), written atomically. */
-export async function svgToPng(svg: string, path: string, widthPx?: number): Promise<void> {
+/**
+ * Render SVG text to a PNG file of the given width (default: the SVG's own width), written atomically.
+ * palette: an indexed-colour PNG, about a third of the size for pictures of few colours such as frames.
+ */
+export async function svgToPng(svg: string, path: string, widthPx?: number, opts: { palette?: boolean } = {}): Promise<void> {
   const w0 = svgWidth(svg);
   const width = Math.max(1, Math.round(widthPx ?? w0));
   // rasterise at the density that gives the requested width, so lines and text stay sharp
@@ -22,7 +25,7 @@ export async function svgToPng(svg: string, path: string, widthPx?: number): Pro
   const buf = await sharp(Buffer.from(svg), { density, limitInputPixels: false })
     .resize({ width, kernel: 'lanczos3' })
     .flatten({ background: '#ffffff' })
-    .png({ compressionLevel: 9, adaptiveFiltering: true })
+    .png(opts.palette ? { palette: true, colours: 128, effort: 1, dither: 0, compressionLevel: 6 } : { compressionLevel: 9, adaptiveFiltering: true })
     .toBuffer();
   writeFileAtomic(path, buf);
 }
@@ -62,6 +65,6 @@ export async function framesToAnimation(
   const buf = format === 'webp'
     ? await joined.webp({ loop: 0, delay: delays, quality: 90, effort: 4 }).toBuffer()
     // small colour errors between frames let unchanged parts stay transparent: a quarter smaller
-    : await joined.gif({ loop: 0, delay: delays, effort: 7, interFrameMaxError: 8 }).toBuffer();
+    : await joined.gif({ loop: 0, delay: delays, effort: 3, interFrameMaxError: 8 }).toBuffer();
   writeFileAtomic(path, buf);
 }

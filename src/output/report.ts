@@ -14,15 +14,16 @@ import { esc } from './svg.js';
 import { formatValue } from './ticks.js';
 import { pickFrames, svgWidth } from './png.js';
 
-/** A frame written during the run. */
-export interface FrameFile { step: number; svg?: string; png?: string }
+import type { FrameFile, RunCaseFile } from './frames.js';
+export type { FrameFile };
 
 export interface WorkOfFracture { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string }
 
 export interface ReportInput {
   c: CaseModel;
   result: AnalysisResult;
-  initialMesh: PolyMesh;
+  /** The mesh the run started from, or its counts. */
+  initialMesh: PolyMesh | { polygons: number; vertices: number };
   frames: FrameFile[];
   /** The curve picture (SVG text), or null for a run of one step. */
   curveSvg: string | null;
@@ -32,6 +33,8 @@ export interface ReportInput {
   meshSvg?: string | null;
   timings: { mesh: number; solve: number; total: number };
   workOfFracture: WorkOfFracture | null;
+  /** The rupta that ran the case and the case file's hash (case.json of the run folder). */
+  run?: Pick<RunCaseFile, 'rupta' | 'caseHash'>;
   generatedAt?: Date;
   /** Thumbnails in the strip (default 6). */
   thumbnails?: number;
@@ -203,8 +206,9 @@ function modelTables(d: ReportData): string {
   mat += row('Characteristic length l<sub>ch</sub> = E·G<sub>F</sub>/f<sub>t</sub>²', `${sig(lch)} mm`, 'lch');
 
   const im = d.initialMesh;
+  const counts = 'xy' in im ? { polygons: cellCount(im), vertices: vertexCount(im) } : im;
   let mesh = row('Settings', `size ${sig(c.mesh.size)} mm, ${sig(c.mesh.tipSize)} mm within ${sig(c.mesh.refineRadius)} mm of the tips, ${c.mesh.lloyd} Lloyd iterations, seed ${c.mesh.seed}${c.mesh.coarsen ? ', coarsened behind the tip' : ''}`);
-  mesh += row('Initial mesh', `${cellCount(im)} polygons, ${vertexCount(im)} vertices`);
+  mesh += row('Initial mesh', `${counts.polygons} polygons, ${counts.vertices} vertices`);
   mesh += row('Final mesh', `${result.mesh.polygons} polygons, ${result.mesh.vertices} vertices`);
   mesh += row('Degrees of freedom', `${result.dofs.initial} initial, ${result.dofs.final} final, ${result.dofs.max} at most`);
   return table('Specimen, supports and loading', geo, 'geometry') + table('Material', mat, 'material') + table('Mesh', mesh, 'mesh');

@@ -1,30 +1,36 @@
 // The files of one run: curve and probe tables that grow row by row, a frame per step,
 // and at the end the summary, the curve plots, the mesh and the field pictures.
 import { existsSync, readFileSync, readdirSync, rmSync } from 'node:fs';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { AnalysisResult, Snapshot, StepEvent, StepRow } from '../fracture/analysis.js';
 import { InputError } from '../errors.js';
 import { RowWriter, csvCell, ensureDir, writeFileAtomic } from './files.js';
-import { fieldSvg, meshSvg, type FieldPicture } from './field.js';
+import { fieldSvg, meshSvg } from './field.js';
 import { plotPanelsSvg, plotSvg, type PlotOptions, type Series } from './plot.js';
 import { svgToPng, framesToAnimation } from './png.js';
-import type { CurveInset } from './inset.js';
 import { VtkSeries } from './vtk.js';
-import { writeReport, type FrameFile } from './report.js';
+import { writeReport } from './report.js';
+import { CASE_FILE, FrameStore, drawFrames, fmtLoad, readRunInfo, specimenSymbols, type FrameFile, type RunCaseFile } from './frames.js';
+import { VERSION, sha256 } from '../version.js';
+import { s1OverFt } from './stepdata.js';
+
+export { specimenSymbols, s1OverFt };
 
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
 
 export interface RunFilesOptions {
   force?: boolean;
+  /** The case file the run was started from (its hash goes into case.json and the report). */
+  caseFile?: string;
   /** Go on with the run in the folder: the rows of its checkpoint (the tables are cut back to its last step). */
   resume?: StepRow[];
 }
 
 /** Files of one step in frames/ and vtk/ (the only ones --force and a resume delete). */
-const STEP_FILE = /^step-(\d{4,})\.(svg|png|vtu)$/;
+const STEP_FILE = /^step-(\d{4,})\.(svg|png|bin|vtu)$/;
 
 const curveCells = (r: StepRow) => [r.step, r.control, r.load_N, r.displacement_mm, r.cmod_mm, r.crack_length_mm, r.tip_x_mm, r.tip_y_mm,
   r.external_work_Nmm, r.elastic_energy_Nmm, r.dissipated_Nmm, r.iterations];
@@ -49,47 +55,11 @@ function tableUpTo(path: string, header: string, last: number): string {
   return out;
 }
 
-/** Symbols of the supports and loads for pictures. */
-export function specimenSymbols(c: CaseModel): Pick<FieldPicture, 'supports' | 'loads'> {
-  const supports: NonNullable<FieldPicture['supports']> = [];
-  for (const s of c.supports) {
-    if (s.at) supports.push({ x: s.at[0], y: s.at[1], fix: s.fix });
-    else if (s.along) for (let k = 0; k <= 4; k++) {
-      const t = k / 4;
-      supports.push({ x: s.along[0][0] + t * (s.along[1][0] - s.along[0][0]), y: s.along[0][1] + t * (s.along[1][1] - s.along[0][1]), fix: s.fix });
-    }
-  }
-  const loads: NonNullable<FieldPicture['loads']> = [];
-  for (const l of c.loads) {
-    if (l.at) loads.push({ x: l.at[0], y: l.at[1], dx: l.direction[0], dy: l.direction[1] });
-    else if (l.along) for (let k = 0; k <= 4; k++) {
-      const t = k / 4;
-      loads.push({ x: l.along[0][0] + t * (l.along[1][0] - l.along[0][0]), y: l.along[0][1] + t * (l.along[1][1] - l.along[0][1]), dx: l.direction[0], dy: l.direction[1] });
-    }
-  }
-  return { supports, loads };
-}
-
-/** Major principal stress per cell divided by ft. */
-export function s1OverFt(cellStress: Float64Array, ft: number): Float64Array {
-  const n = cellStress.length / 3, out = new Float64Array(n);
-  for (let c = 0; c < n; c++) {
-    const sxx = cellStress[3 * c], syy = cellStress[3 * c + 1], sxy = cellStress[3 * c + 2];
-    out[c] = ((sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy)) / ft;
-  }
-  return out;
-}
-
-// a load that rounds to zero is printed without a sign
-const fmtLoad = (F: number) => (Math.abs(F) >= 1000 ? `${(F / 1000).toFixed(2)} kN` : `${(Math.abs(F) < 0.05 ? 0 : F).toFixed(1)} N`);
-
 export class RunFiles {
   private curve: RowWriter;
   private probes: RowWriter;
-  private framePngs: string[] = [];
-  private frames: FrameFile[] = [];
+  private store: FrameStore | null = null;
   private pending: Promise<void>[] = [];
-  private rows: StepRow[] = [];
   private vtk: VtkSeries | null = null;
   readonly framesDir: string;
 
@@ -110,12 +80,17 @@ export class RunFiles {
       rmSync(join(dir, 'vtk', 'steps.pvd'), { force: true });
     }
     ensureDir(dir);
-    if (c.crack && c.output.frames.length > 0) ensureDir(this.framesDir);
+    // the case as run: redrawing frames and report needs nothing but the folder
+    const caseHash: RunCaseFile['caseHash'] = opt.caseFile && existsSync(opt.caseFile)
+      ? { sha256: sha256(readFileSync(opt.caseFile)), of: 'case file', file: basename(opt.caseFile) }
+      : { sha256: sha256(JSON.stringify(c)), of: 'validated case' };
+    const info: RunCaseFile = { format: 1, rupta: VERSION, caseHash, case: c };
+    writeFileAtomic(join(dir, CASE_FILE), JSON.stringify(info, null, 1) + '\n');
+    if (c.crack && c.output.frames.length > 0) this.store = new FrameStore(this.framesDir, c.material.ft, c.output.every, c.output.maxFrames);
     if (resume) {
       // the tables as they stood at the checkpoint; the rows after it are computed again
       writeFileAtomic(join(dir, 'curve.csv'), CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
       writeFileAtomic(join(dir, 'probes.csv'), tableUpTo(join(dir, 'probes.csv'), PROBE_HEADER, last));
-      this.seedFrames(resume);
     }
     this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
     this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
@@ -130,61 +105,18 @@ export class RunFiles {
     }
   }
 
-  /** Rows, frames and PNG list of the steps before a resume, as the uninterrupted run had them. */
-  private seedFrames(rows: StepRow[]): void {
-    this.rows = rows.slice();
-    const o = this.c.output;
-    if (!this.c.crack || o.frames.length === 0) return;
-    for (const r of rows) {
-      if (r.step % o.every !== 0) continue;
-      const name = join(this.framesDir, `step-${String(r.step).padStart(4, '0')}`);
-      const frame: FrameFile = { step: r.step };
-      if (o.frames.includes('svg') && existsSync(`${name}.svg`)) frame.svg = `${name}.svg`;
-      if (o.frames.includes('png') && existsSync(`${name}.png`)) { frame.png = `${name}.png`; this.framePngs.push(frame.png); }
-      if (frame.svg || frame.png) this.frames.push(frame);
-    }
-  }
-
-  /** Rows at once; the frame is drawn now and rasterised in the background. */
+  /** Rows at once; the state of the step is kept for the frames, which are drawn once the run has ended. */
   step(ev: StepEvent): void {
     const r = ev.row;
     this.curve.append(curveCells(r));
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
-    this.rows.push(r);
-    const o = this.c.output;
-    if (r.step % o.every !== 0) return;
-    const wantFrame = !!this.c.crack && o.frames.length > 0;
-    if (!wantFrame && !this.vtk) return;
+    const vtkNow = this.vtk && r.step % this.c.output.every === 0;
+    if (!vtkNow && !this.store) return;
     const snap = ev.snapshot();
-    if (this.vtk) {
+    if (this.vtk && vtkNow) {
       this.vtk.write(r.step, { mesh: snap.mesh, u: snap.u, cellStress: snap.cellStress, cohesive: snap.cohesive, nuZ: this.c.model === 'plane-strain' ? this.c.material.nu : 0 });
     }
-    if (!wantFrame) return;
-    const svg = this.frameSvg(snap);
-    const name = `step-${String(r.step).padStart(4, '0')}`;
-    const frame: FrameFile = { step: r.step };
-    this.frames.push(frame);
-    if (o.frames.includes('svg')) { frame.svg = join(this.framesDir, `${name}.svg`); writeFileAtomic(frame.svg, svg); }
-    if (o.frames.includes('png')) {
-      const png = join(this.framesDir, `${name}.png`);
-      frame.png = png;
-      this.framePngs.push(png);
-      this.pending.push(svgToPng(svg, png, o.pngWidth));
-      if (this.pending.length > 4) { const p = this.pending; this.pending = [Promise.all(p).then(() => undefined)]; }
-    }
-  }
-
-  frameSvg(s: Snapshot): string {
-    const r = s.row;
-    const caption = [
-      `Step ${r.step}: load ${fmtLoad(r.load_N)}, load-point displacement ${r.displacement_mm.toFixed(4)} mm` +
-        (r.cmod_mm !== null ? `, CMOD ${r.cmod_mm.toFixed(4)} mm` : '') + `, crack length ${r.crack_length_mm.toFixed(1)} mm.`,
-    ];
-    return fieldSvg({
-      mesh: s.mesh, values: s1OverFt(s.cellStress, this.c.material.ft), valueLabel: 'σ₁ / ft', range: [-1, 1], diverging: true,
-      displacement: s.u, showMesh: true, cracks: s.cracks, cohesive: s.cohesive, ...specimenSymbols(this.c),
-      inset: frameInset(this.rows, r.step), title: this.c.title, caption, widthPx: 1000,
-    });
+    this.store?.add(snap);
   }
 
   /** Everything written once the analysis has ended. */
@@ -192,6 +124,8 @@ export class RunFiles {
     this.curve.close();
     this.probes.close();
     const c = this.c;
+    // frames on worker threads while this thread draws the other pictures
+    const framesDrawn = drawFrames(this.dir);
     // mesh picture of the initial mesh
     const meshPicture = meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` });
     writeFileAtomic(join(this.dir, 'mesh.svg'), meshPicture);
@@ -213,13 +147,12 @@ export class RunFiles {
     }
     await Promise.all(this.pending);
     this.pending = [];
-    if (c.crack && c.output.animation !== 'none' && this.framePngs.length > 1) {
-      await framesToAnimation(this.framePngs, join(this.dir, `animation.${c.output.animation}`), { format: c.output.animation, maxFrames: 60, maxWidth: 720 });
-    }
+    const frames = await framesDrawn;
+    await writeAnimation(this.dir, c, frames);
     const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
     writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
     await writeReport(join(this.dir, 'report.html'), {
-      c, result, initialMesh: extra.initialMesh, frames: this.frames, finalSvg, meshSvg: meshPicture,
+      c, result, initialMesh: extra.initialMesh, frames, finalSvg, meshSvg: meshPicture, run: readRunInfo(this.dir),
       curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
       timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
       workOfFracture: workOfFractureEstimate(c, result),
@@ -228,15 +161,12 @@ export class RunFiles {
   }
 }
 
-/** The opening the frames plot: CMOD when there is a gauge, else the load-point displacement. */
-function frameInset(rows: StepRow[], step: number): CurveInset | undefined {
-  if (rows.length === 0) return undefined;
-  const gauge = rows.some((r) => r.cmod_mm !== null);
-  const x = rows.map((r) => (gauge ? r.cmod_mm ?? NaN : r.displacement_mm));
-  const y = rows.map((r) => r.load_N);
-  let k = rows.length - 1;
-  while (k > 0 && rows[k].step > step) k--;
-  return { x, y, current: k, xLabel: gauge ? 'CMOD (mm)' : 'Displacement (mm)', yLabel: 'Load (N)' };
+/** The animation of a run's frames (PNG frames only), or none as the case asks. */
+export async function writeAnimation(dir: string, c: CaseModel, frames: FrameFile[]): Promise<void> {
+  const pngs = frames.flatMap((f) => (f.png ? [f.png] : []));
+  if (c.crack && c.output.animation !== 'none' && pngs.length > 1) {
+    await framesToAnimation(pngs, join(dir, `animation.${c.output.animation}`), { format: c.output.animation, maxFrames: c.output.maxFrames, maxWidth: 720 });
+  }
 }
 
 /** Lab or other curves to overlay: a list goes with the opening the prediction is plotted against (CMOD when there is a gauge). */

@@ -1,0 +1,41 @@
+// Frames, animation and report drawn again from a finished run folder, from its own files only:
+// case.json, curve.csv, summary.json, frames/step-NNNN.bin, mesh.svg and field-s1.svg.
+
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { AnalysisResult } from '../fracture/analysis.js';
+import { InputError } from '../errors.js';
+import { drawFrames, readCurveRows, readRunInfo } from './frames.js';
+import { curveSvg, writeAnimation } from './runfiles.js';
+import { writeReport, type WorkOfFracture } from './report.js';
+
+interface Summary {
+  status: AnalysisResult['status']; reason: string; peak: AnalysisResult['peak']; crackPaths: AnalysisResult['crackPaths'];
+  dofs: AnalysisResult['dofs']; mesh: AnalysisResult['mesh']; probes: AnalysisResult['probes'];
+  timings_s: { mesh: number; solve: number; total: number }; workOfFracture: WorkOfFracture | null;
+}
+
+export async function redrawRun(dir: string): Promise<{ frames: number }> {
+  if (!existsSync(dir)) throw new InputError(`the run folder ${dir} does not exist`);
+  const info = readRunInfo(dir), c = info.case;
+  const rows = readCurveRows(dir);
+  const sp = join(dir, 'summary.json');
+  if (!existsSync(sp)) throw new InputError(`${dir} holds no summary.json: the run has not finished; go on with it by rupta run --resume`);
+  const s = JSON.parse(readFileSync(sp, 'utf8')) as Summary;
+  const frames = await drawFrames(dir);
+  await writeAnimation(dir, c, frames);
+  const text = (f: string): string | null => (existsSync(join(dir, f)) ? readFileSync(join(dir, f), 'utf8') : null);
+  const meshPicture = text('mesh.svg');
+  // the mesh picture's caption gives the initial counts
+  const m = meshPicture ? /(\d+) polygons, (\d+) vertices\./.exec(meshPicture) : null;
+  const result: AnalysisResult = {
+    status: s.status, reason: s.reason, rows, peak: s.peak, crackPaths: s.crackPaths, dofs: s.dofs, mesh: s.mesh, probes: s.probes,
+    timings_s: { solve: s.timings_s.solve },
+  };
+  await writeReport(join(dir, 'report.html'), {
+    c, result, initialMesh: m ? { polygons: Number(m[1]), vertices: Number(m[2]) } : s.mesh, frames,
+    finalSvg: text('field-s1.svg'), meshSvg: meshPicture, curveSvg: rows.length > 1 ? curveSvg(c, rows) : null,
+    timings: s.timings_s, workOfFracture: s.workOfFracture, run: info,
+  });
+  return { frames: frames.length };
+}
