@@ -57,7 +57,7 @@ const cases: [string, (c: Obj) => void, string][] = [
   ["point of three numbers", (c) => { c.supports[0].at = [20, 0, 0]; }, "supports[0].at must be an [x, y] point in mm (found [20, 0, 0])"],
   ["softening unknown", (c) => { c.material.softening = 'cubic'; }, "material.softening must be one of linear, bilinear, exponential (found \"cubic\")"],
   ["zero load direction", (c) => { c.loads[0].direction = [0, 0]; }, "loads[0].direction must be a non-zero [x, y] direction, dimensionless (found [0, 0])"],
-  ["rigid body free in x", (c) => { c.supports[1].fix = 'y'; }, "supports must hold the specimen against rigid-body motion in x, y and rotation (found no support fixing x)"],
+  ["rigid body free in x", (c) => { c.supports[1].fix = 'y'; }, "supports must hold the specimen against rigid-body motion in x, y and rotation, together with the displacements the loads prescribe (found no support or load holding x)"],
   ["format 2", (c) => { c.format = 2; }, "format must be 1, the only case-file format so far (found 2)"],
   ["control.by typo value", (c) => { c.control.by = 'CMOD'; }, "control.by must be one of displacement, cmod, force (found \"CMOD\")"],
   ["crack start notch-tips without notches", (c) => { c.geometry.notches = []; }, "crack.start must be anywhere or a list of [x, y] points in mm when the geometry has no notches (found \"notch-tips\")"],

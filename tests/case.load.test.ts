@@ -155,9 +155,21 @@ describe('messages', () => {
   });
   it('supports that leave a rotation free are refused', () => {
     const c = parse(demoText);
-    c.supports = [{ at: [20, 0], fix: 'xy' }];
+    c.supports = [{ at: [20, 0], fix: 'x' }, { at: [420, 0], fix: 'x' }]; // with the load, only x twice and y once
     expect(errorOf(() => parseCase(JSON.stringify(c), 'x.json')))
-      .toBe('supports must hold the specimen against rigid-body motion in x, y and rotation (found supports that leave a rotation free)');
+      .toBe('supports must hold the specimen against rigid-body motion in x, y and rotation, together with the displacements the loads prescribe (found supports and loads that leave a rotation free)');
+  });
+  it('counts the displacements the loads prescribe: a bar pulled at both ends is held', () => {
+    const c = parse(demoText);
+    c.geometry = { outline: [[0, 0], [200, 0], [200, 20], [0, 20]], notches: [{ from: [100, 0], to: [100, 5], width: 1 }] };
+    c.supports = [{ at: [50, 0], fix: 'y' }];
+    c.loads = [{ along: [[0, 0], [0, 20]], direction: [-1, 0] }, { along: [[200, 0], [200, 20]], direction: [1, 0] }];
+    c.control = { by: 'displacement', target: 0.05 };
+    c.probes = [];
+    delete c.crack;
+    expect(() => parseCase(JSON.stringify(c), 'x.json')).not.toThrow();
+    c.loads = [{ along: [[200, 0], [200, 20]], direction: [0, 1] }]; // pulled sideways: nothing holds x
+    expect(errorOf(() => parseCase(JSON.stringify(c), 'x.json'))).toMatch(/found no support or load holding x/);
   });
   it('checkCase guards models built in scripts', () => {
     const c: CaseModel = parseCase(demoText, 'beam-3pb-demo.yaml');

@@ -271,7 +271,8 @@ export function reportHtml(d: ReportData): string {
   parts.push('<!DOCTYPE html>\n<html lang="en">\n<head>\n<meta charset="utf-8">\n<meta name="viewport" content="width=device-width, initial-scale=1">\n');
   // an empty icon keeps the browser from asking for one
   parts.push(`<link rel="icon" href="data:,">\n<title>${esc(c.title)}: rupta report</title>\n<style>${CSS}</style>\n</head>\n<body>\n`);
-  parts.push(`<h1>${esc(c.title)}</h1>\n<p class="meta">Cohesive crack analysis by rupta, case “${esc(c.name)}”, written ${esc(when.toISOString().slice(0, 16).replace('T', ' '))} UTC.</p>\n`);
+  const by = d.run ? `rupta ${esc(d.run.rupta)}` : 'rupta';
+  parts.push(`<h1>${esc(c.title)}</h1>\n<p class="meta">Cohesive crack analysis by ${by}, case “${esc(c.name)}”, written ${esc(when.toISOString().slice(0, 16).replace('T', ' '))} UTC.</p>\n`);
   parts.push(`<p class="caution" id="caution"><strong>Caution.</strong> These ${esc(CAUTION)}.</p>\n`);
   if (result.status !== 'complete') parts.push(`<p class="caution status-bad" id="status-note"><strong>The run did not complete (${esc(result.status)}):</strong> ${esc(result.reason)}. The results below cover the steps that converged.</p>\n`);
 
@@ -299,11 +300,16 @@ export function reportHtml(d: ReportData): string {
     const grows = c.crack ? `; the run refines it ahead of each growing tip${c.mesh.coarsen ? ' and coarsens it behind' : ''}` : '';
     parts.push(`<figure id="mesh-picture">${pic}<figcaption>Initial mesh with supports and loads${grows}.</figcaption></figure>\n`);
   }
-  parts.push('<h2>Run time</h2>\n');
+  parts.push('<h2>Run</h2>\n');
 
   let tm = row('Meshing', `${fix(d.timings.mesh, 2)} s`);
   tm += row('Solving', `${fix(d.timings.solve, 2)} s`);
   tm += row('Whole run', `${fix(d.timings.total, 2)} s`, 'run-time');
+  if (d.run) {
+    tm += row('Program', `rupta ${esc(d.run.rupta)}`, 'version');
+    const h = d.run.caseHash;
+    tm += row(h.of === 'case file' ? `SHA-256 of the case file${h.file ? ` ${esc(h.file)}` : ''}` : 'SHA-256 of the validated case', `<code>${esc(h.sha256)}</code>`, 'case-hash');
+  }
   parts.push(table('', tm, 'timings'));
 
   parts.push('<h2>Cautions</h2>\n<ul id="cautions">\n');

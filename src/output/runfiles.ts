@@ -14,6 +14,7 @@ import { VtkSeries } from './vtk.js';
 import { writeReport } from './report.js';
 import { CASE_FILE, FrameStore, drawFrames, fmtLoad, readRunInfo, specimenSymbols, type FrameFile, type RunCaseFile } from './frames.js';
 import { VERSION, sha256 } from '../version.js';
+import { cracksCsv, cracksDxf } from './exports.js';
 import { s1OverFt } from './stepdata.js';
 
 export { specimenSymbols, s1OverFt };
@@ -65,7 +66,8 @@ export class RunFiles {
 
   constructor(readonly dir: string, readonly c: CaseModel, opt: RunFilesOptions = {}) {
     const resume = opt.resume ?? null;
-    if (existsSync(dir) && readdirSync(dir).length > 0 && !opt.force && !resume) {
+    // the mesh preview of `rupta mesh` is no run: running into its folder is what the user expects
+    if (existsSync(dir) && readdirSync(dir).some((f) => f !== 'mesh.svg') && !opt.force && !resume) {
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
     this.framesDir = join(dir, 'frames');
@@ -151,6 +153,10 @@ export class RunFiles {
     await writeAnimation(this.dir, c, frames);
     const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
     writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
+    if (c.crack) {
+      writeFileAtomic(join(this.dir, 'cracks.csv'), cracksCsv(result.crackPaths));
+      writeFileAtomic(join(this.dir, 'cracks.dxf'), cracksDxf(c, result.crackPaths));
+    }
     await writeReport(join(this.dir, 'report.html'), {
       c, result, initialMesh: extra.initialMesh, frames, finalSvg, meshSvg: meshPicture, run: readRunInfo(this.dir),
       curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
