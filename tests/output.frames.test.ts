@@ -221,7 +221,7 @@ describe('other output settings', () => {
     expect(m.pages).toBe(4);
     expect(m.width).toBe(200);
     expect(existsSync(join(d, 'animation.gif'))).toBe(false);
-    expect(readFileSync(join(d, 'report.html'), 'utf8')).toMatch(/<div class="strip" id="frames">/);
+    expect(readFileSync(join(d, 'report.html'), 'utf8')).toMatch(/<div class="stepper" id="stepper">/);
   });
 
   it('writes VTK but no frames for an elastic analysis', async () => {

@@ -214,8 +214,11 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
   }
 }
 
-/** Frames of a finished (or stopped) run folder, drawn on up to two worker threads; pictures of other steps are removed. */
-export async function drawFrames(dir: string, opt: { workers?: number } = {}): Promise<FrameFile[]> {
+/**
+ * Frames of a finished (or stopped) run folder, drawn on up to two worker threads; pictures of other
+ * steps are removed, and with prune (a complete run, which no resume needs) their stored states too.
+ */
+export async function drawFrames(dir: string, opt: { workers?: number; prune?: boolean } = {}): Promise<FrameFile[]> {
   const c = readRunCase(dir);
   const framesDir = join(dir, 'frames');
   const plan = c.crack && c.output.frames.length > 0 ? planFrames(dir, c) : null;
@@ -227,6 +230,7 @@ export async function drawFrames(dir: string, opt: { workers?: number } = {}): P
     }
   }
   if (!plan) return [];
+  if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) rmSync(join(framesDir, `${stepName(k)}.bin`), { force: true });
   const compiled = import.meta.url.endsWith('.js');
   const n = compiled ? Math.min(Math.max(0, Math.floor(opt.workers ?? 2)), availableParallelism(), 2, plan.steps.length) : 0;
   if (n === 0) await drawFrameSteps(dir, plan, plan.steps);

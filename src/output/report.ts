@@ -1,5 +1,5 @@
-// report.html: one self-contained page per run (inline SVG and embedded PNG, no scripts, no
-// network) with the model, the curve, the results table, a strip of frames and the cautions.
+// report.html: one self-contained page per run (inline SVG and embedded PNG, no network) with the
+// results, the curve, the frames to step through (a small inline script), the model and the cautions.
 
 import { existsSync, readFileSync } from 'node:fs';
 import sharp, { type Sharp } from 'sharp';
@@ -15,6 +15,7 @@ import { formatValue } from './ticks.js';
 import { pickFrames, svgWidth } from './png.js';
 
 import type { FrameFile, RunCaseFile } from './frames.js';
+import { stepperHtml, type StepperFrame } from './stepper.js';
 export type { FrameFile };
 
 export interface WorkOfFracture { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string }
@@ -43,11 +44,16 @@ export interface ReportInput {
 /** What reportHtml needs once the pictures are embedded. */
 export interface ReportData extends Omit<ReportInput, 'frames' | 'finalSvg' | 'thumbnails' | 'meshSvg'> {
   strip: { step: number; caption: string; src: string }[];
+  /** The section that steps through every frame (with two frames or more); it takes the place of the strip and the last frame. */
+  stepper?: string;
   /** data: URI of the final picture. */
   finalPicture?: string;
   /** The mesh picture: SVG text to inline, or a data: URI when the SVG is too large to inline. */
   meshPicture?: string;
 }
+
+/** Width of the frames one steps through in the page (px). */
+const STEPPER_WIDTH = 900;
 
 /** Above this size an SVG picture goes into the page as PNG. */
 const INLINE_SVG_MAX = 400_000;
@@ -56,6 +62,20 @@ export const CAUTION = 'predictions are model results that support, never replac
 
 /** Write report.html, embedding thumbnails of the chosen frames. */
 export async function writeReport(path: string, input: ReportInput): Promise<void> {
+  if (input.frames.length >= 2) {
+    // every frame, at a width that keeps the page small; the slider shows the last one first
+    const shown: StepperFrame[] = [];
+    for (const f of input.frames) {
+      const src = await thumbnail(f, STEPPER_WIDTH);
+      if (src) shown.push({ step: f.step, src, caption: frameCaption(input.result.rows.find((r) => r.step === f.step)) });
+    }
+    if (shown.length >= 2) {
+      let meshPicture: string | undefined;
+      if (input.meshSvg) meshPicture = input.meshSvg.length <= INLINE_SVG_MAX ? input.meshSvg : await pngDataUri(svgRaster(Buffer.from(input.meshSvg), 1100));
+      writeFileAtomic(path, reportHtml({ ...input, strip: [], stepper: stepperHtml(shown, input.result.rows), meshPicture }));
+      return;
+    }
+  }
   const strip: ReportData['strip'] = [];
   for (const f of chooseFrames(input.frames, input.result, input.thumbnails ?? 6)) {
     const src = await thumbnail(f, 480);
@@ -105,7 +125,7 @@ async function pngDataUri(img: Sharp): Promise<string> {
   let b64 = '';
   for (let level = 9; level >= 0; level--) {
     // palette PNG: these pictures have few colours, so it is much smaller at no visible cost
-    b64 = (await flat.clone().png({ palette: true, quality: 95, compressionLevel: level, effort: 8 }).toBuffer()).toString('base64');
+    b64 = (await flat.clone().png({ palette: true, colours: 128, dither: 0, compressionLevel: level, effort: 1 }).toBuffer()).toString('base64');
     if (!b64.includes('http')) break;
   }
   return `data:image/png;base64,${b64}`;
@@ -260,6 +280,11 @@ figure{margin:0 0 14px}figcaption{color:var(--muted);font-size:13px;margin-top:4
 .strip img,.final img{width:100%;height:auto;border:1px solid var(--rule)}
 .cols{display:grid;grid-template-columns:1fr 1fr;gap:0 24px}
 @media (max-width:800px){.cols{grid-template-columns:1fr}}
+.stepper{display:grid;grid-template-columns:3fr 2fr;gap:0 24px;align-items:start}
+.stepper-frame img{width:100%;height:auto;border:1px solid var(--rule)}
+.stepper input[type=range]{width:100%;margin:8px 0 14px}
+.stepper label{display:block}#stepper-step{font-weight:bold}
+@media (max-width:900px){.stepper{grid-template-columns:1fr}}
 @media print{body{padding:0;max-width:none}h2{break-after:avoid}figure,table{break-inside:avoid}}
 `;
 
@@ -287,6 +312,7 @@ export function reportHtml(d: ReportData): string {
     const inset = d.strip.length ? '; the inset marks the step on the curve' : '';
     parts.push(`<figure class="final" id="final"><img src="${d.finalPicture}" alt="The last step"><figcaption>Last step: major principal stress over the tensile strength${what}, deformed shape magnified as stated${inset}.</figcaption></figure>\n`);
   }
+  if (d.stepper) parts.push('<h2>Frames</h2>\n', d.stepper);
   if (d.strip.length) {
     parts.push('<h2>Frames</h2>\n<div class="strip" id="frames">\n');
     for (const f of d.strip) parts.push(`<figure><img src="${f.src}" alt="Frame of step ${f.step}"><figcaption>${esc(f.caption)}</figcaption></figure>\n`);

@@ -127,7 +127,7 @@ export class RunFiles {
     this.probes.close();
     const c = this.c;
     // frames on worker threads while this thread draws the other pictures
-    const framesDrawn = drawFrames(this.dir);
+    const framesDrawn = drawFrames(this.dir, { prune: result.status === 'complete' });
     // mesh picture of the initial mesh
     const meshPicture = meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` });
     writeFileAtomic(join(this.dir, 'mesh.svg'), meshPicture);
