@@ -116,11 +116,13 @@ program
 
 program
   .command('redraw')
-  .description('draw the frames, the animation and report.html of a finished run folder again, from its own files')
+  .description('draw the frames, the animation and report.html of a finished run folder again, from its own files (the report takes up compare*.json and fit*.json found there)')
   .argument('<run-dir>', 'output folder of a rupta run')
-  .action(async (dir: string) => {
-    const { frames } = await redrawRun(dir);
-    process.stdout.write(`redrew ${frames} frame${frames === 1 ? '' : 's'}, the animation and report.html in ${dir}\n`);
+  .option('--report-only', 'write report.html again (with the comparisons and fits now in the folder), keep the frames as they are')
+  .action(async (dir: string, o: { reportOnly?: boolean }) => {
+    const { frames } = await redrawRun(dir, { frames: !o.reportOnly });
+    process.stdout.write(o.reportOnly ? `wrote report.html in ${dir} (${frames} frame${frames === 1 ? '' : 's'})\n`
+      : `redrew ${frames} frame${frames === 1 ? '' : 's'}, the animation and report.html in ${dir}\n`);
   });
 
 registerNewCommand(program);

@@ -76,7 +76,7 @@ describe('report.html stepping through the frames', () => {
       await page.keyboard.press('End');
       expect((await shown()).step).toBe('Step 12 (4 of 4)');
       // the frame drawn is a real picture
-      const natural = await page.locator('#stepper-frame').evaluate((img: HTMLImageElement) => img.naturalWidth);
+      const natural = await page.locator('#stepper-frame').evaluate((img) => (img as unknown as { naturalWidth: number }).naturalWidth);
       expect(natural).toBeGreaterThan(100);
       expect(problems).toEqual([]);
       expect(requests).toEqual([]);

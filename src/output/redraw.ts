@@ -1,11 +1,12 @@
 // Frames, animation and report drawn again from a finished run folder, from its own files only:
-// case.json, curve.csv, summary.json, frames/step-NNNN.bin, mesh.svg and field-s1.svg.
+// case.json, curve.csv, summary.json, frames/step-NNNN.bin, mesh.svg and field-s1.svg (and the
+// compare*.json and fit*.json that the lab commands wrote there).
 
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { AnalysisResult } from '../fracture/analysis.js';
 import { InputError } from '../errors.js';
-import { drawFrames, readCurveRows, readRunInfo } from './frames.js';
+import { drawFrames, readCurveRows, readRunInfo, type FrameFile } from './frames.js';
 import { curveSvg, writeAnimation } from './runfiles.js';
 import { writeReport, type WorkOfFracture } from './report.js';
 
@@ -15,15 +16,35 @@ interface Summary {
   timings_s: { mesh: number; solve: number; total: number }; workOfFracture: WorkOfFracture | null;
 }
 
-export async function redrawRun(dir: string): Promise<{ frames: number }> {
+/** Pictures of the frames as they are in the folder (for a report written again without drawing them). */
+function framesInFolder(dir: string): FrameFile[] {
+  const fd = join(dir, 'frames');
+  if (!existsSync(fd)) return [];
+  const by = new Map<number, FrameFile>();
+  for (const f of readdirSync(fd)) {
+    const m = /^step-(\d{4,})\.(svg|png)$/.exec(f);
+    if (!m) continue;
+    const k = Number(m[1]), e = by.get(k) ?? { step: k };
+    e[m[2] as 'svg' | 'png'] = join(fd, f);
+    by.set(k, e);
+  }
+  return [...by.values()].sort((a, b) => a.step - b.step);
+}
+
+/** Frames (unless frames is false), animation and report of a run folder, again; the report takes up compare*.json and fit*.json found there. */
+export async function redrawRun(dir: string, opt: { frames?: boolean } = {}): Promise<{ frames: number }> {
   if (!existsSync(dir)) throw new InputError(`the run folder ${dir} does not exist`);
   const info = readRunInfo(dir), c = info.case;
   const rows = readCurveRows(dir);
   const sp = join(dir, 'summary.json');
   if (!existsSync(sp)) throw new InputError(`${dir} holds no summary.json: the run has not finished; go on with it by rupta run --resume`);
   const s = JSON.parse(readFileSync(sp, 'utf8')) as Summary;
-  const frames = await drawFrames(dir);
-  await writeAnimation(dir, c, frames);
+  let frames: FrameFile[];
+  if (opt.frames === false) frames = framesInFolder(dir);
+  else {
+    frames = await drawFrames(dir);
+    await writeAnimation(dir, c, frames);
+  }
   const text = (f: string): string | null => (existsSync(join(dir, f)) ? readFileSync(join(dir, f), 'utf8') : null);
   const meshPicture = text('mesh.svg');
   // the mesh picture's caption gives the initial counts

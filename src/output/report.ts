@@ -2,6 +2,7 @@
 // results, the curve, the frames to step through (a small inline script), the model and the cautions.
 
 import { existsSync, readFileSync } from 'node:fs';
+import { dirname } from 'node:path';
 import sharp, { type Sharp } from 'sharp';
 import type { CaseModel, Vec2 } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
@@ -16,6 +17,7 @@ import { pickFrames, svgWidth } from './png.js';
 
 import type { FrameFile, RunCaseFile } from './frames.js';
 import { stepperHtml, type StepperFrame } from './stepper.js';
+import { labSections } from './labsections.js';
 export type { FrameFile };
 
 export interface WorkOfFracture { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string }
@@ -46,6 +48,8 @@ export interface ReportData extends Omit<ReportInput, 'frames' | 'finalSvg' | 't
   strip: { step: number; caption: string; src: string }[];
   /** The section that steps through every frame (with two frames or more); it takes the place of the strip and the last frame. */
   stepper?: string;
+  /** Sections for the comparisons and fits found in the run folder (HTML). */
+  lab?: string;
   /** data: URI of the final picture. */
   finalPicture?: string;
   /** The mesh picture: SVG text to inline, or a data: URI when the SVG is too large to inline. */
@@ -62,6 +66,7 @@ export const CAUTION = 'predictions are model results that support, never replac
 
 /** Write report.html, embedding thumbnails of the chosen frames. */
 export async function writeReport(path: string, input: ReportInput): Promise<void> {
+  const lab = await labSections(dirname(path), (png) => pngDataUri(sharp(png)));
   if (input.frames.length >= 2) {
     // every frame, at a width that keeps the page small; the slider shows the last one first
     const shown: StepperFrame[] = [];
@@ -72,7 +77,7 @@ export async function writeReport(path: string, input: ReportInput): Promise<voi
     if (shown.length >= 2) {
       let meshPicture: string | undefined;
       if (input.meshSvg) meshPicture = input.meshSvg.length <= INLINE_SVG_MAX ? input.meshSvg : await pngDataUri(svgRaster(Buffer.from(input.meshSvg), 1100));
-      writeFileAtomic(path, reportHtml({ ...input, strip: [], stepper: stepperHtml(shown, input.result.rows), meshPicture }));
+      writeFileAtomic(path, reportHtml({ ...input, strip: [], stepper: stepperHtml(shown, input.result.rows), meshPicture, lab }));
       return;
     }
   }
@@ -91,7 +96,7 @@ export async function writeReport(path: string, input: ReportInput): Promise<voi
     meshPicture = input.meshSvg.length <= INLINE_SVG_MAX ? input.meshSvg
       : await pngDataUri(svgRaster(Buffer.from(input.meshSvg), 1100));
   }
-  writeFileAtomic(path, reportHtml({ ...input, strip, finalPicture, meshPicture }));
+  writeFileAtomic(path, reportHtml({ ...input, strip, finalPicture, meshPicture, lab }));
 }
 
 /** Frames for the strip: evenly spaced from first to last, with the one nearest the peak. */
@@ -275,6 +280,7 @@ caption{text-align:left;font-weight:bold;padding:4px 0}
 th,td{text-align:left;vertical-align:top;padding:5px 10px;border-bottom:1px solid var(--rule)}
 th{width:34%;font-weight:normal;color:var(--muted)}
 tbody tr:nth-child(odd){background:var(--band)}
+table.lab th{width:auto}table.lab th[scope=col]{color:var(--ink);font-weight:bold}
 figure{margin:0 0 14px}figcaption{color:var(--muted);font-size:13px;margin-top:4px}
 .strip{display:grid;grid-template-columns:repeat(auto-fill,minmax(320px,1fr));gap:14px}
 .strip img,.final img{width:100%;height:auto;border:1px solid var(--rule)}
@@ -319,6 +325,7 @@ export function reportHtml(d: ReportData): string {
     parts.push('</div>\n');
   }
 
+  if (d.lab) parts.push(d.lab);
   parts.push('<h2>Model</h2>\n');
   parts.push(modelTables(d));
   if (d.meshPicture) {
