@@ -14,7 +14,8 @@ import { InputError } from '../errors.js';
 import { writeFileAtomic, ensureDir } from './files.js';
 import { autoMagnification, bbox, fieldSvg, type FieldPicture } from './field.js';
 import type { CurveInset } from './inset.js';
-import { svgToPng } from './png.js';
+import sharp from 'sharp';
+import { pngDataUri, svgToPngBuffer } from './png.js';
 import { decodeStep, encodeStep, type StepData } from './stepdata.js';
 
 /** The validated case as the run used it, in the run folder. */
@@ -23,8 +24,11 @@ export const stepName = (k: number): string => `step-${String(k).padStart(4, '0'
 const DATA_FILE = /^step-(\d{4,})\.bin$/;
 const PICTURE_FILE = /^step-(\d{4,})\.(svg|png)$/;
 
-/** A frame drawn for the report and the animation. */
-export interface FrameFile { step: number; svg?: string; png?: string }
+/** A frame drawn for the report and the animation; thumb: the report's copy (data URI, STEPPER_WIDTH wide) when drawn with it. */
+export interface FrameFile { step: number; svg?: string; png?: string; thumb?: string }
+
+/** Width of the frames one steps through in report.html (px; a narrower PNG keeps its width). */
+export const STEPPER_WIDTH = 900;
 
 /** Steps between kept states once `latest` steps have run: `every` doubled until at most 2·cap multiples remain. */
 export function strideFor(latest: number, every: number, cap: number): number {
@@ -203,15 +207,21 @@ export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: Frame
   });
 }
 
-/** Draw some of the planned frames into frames/ (in this thread). */
-export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[]): Promise<void> {
+/** Draw some of the planned frames into frames/ (in this thread); returns the report's copy of each. */
+export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[]): Promise<[number, string][]> {
   const c = readRunCase(dir), rows = readCurveRows(dir);
+  const thumbs: [number, string][] = [];
   for (const k of steps) {
     const svg = frameSvg(c, readStep(dir, k), rows, plan);
     const base = join(dir, 'frames', stepName(k));
     if (c.output.frames.includes('svg')) writeFileAtomic(`${base}.svg`, svg);
-    if (c.output.frames.includes('png')) await svgToPng(svg, `${base}.png`, c.output.pngWidth, { palette: true });
+    if (c.output.frames.includes('png')) {
+      const png = await svgToPngBuffer(svg, c.output.pngWidth, { palette: true });
+      writeFileAtomic(`${base}.png`, png);
+      thumbs.push([k, await pngDataUri(sharp(png).resize({ width: STEPPER_WIDTH, kernel: 'lanczos3', withoutEnlargement: true }))]);
+    } else thumbs.push([k, await pngDataUri(sharp(await svgToPngBuffer(svg, STEPPER_WIDTH)))]);
   }
+  return thumbs;
 }
 
 /**
@@ -233,26 +243,28 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
   if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) rmSync(join(framesDir, `${stepName(k)}.bin`), { force: true });
   const compiled = import.meta.url.endsWith('.js');
   const n = compiled ? Math.min(Math.max(0, Math.floor(opt.workers ?? 2)), availableParallelism(), 2, plan.steps.length) : 0;
-  if (n === 0) await drawFrameSteps(dir, plan, plan.steps);
+  let thumbs: [number, string][];
+  if (n === 0) thumbs = await drawFrameSteps(dir, plan, plan.steps);
   else {
     // interleaved shares: early frames (small cracks) and late ones cost about the same in each
     const shares = Array.from({ length: n }, (_, w) => plan.steps.filter((_, i) => i % n === w));
-    await Promise.all(shares.map((steps) => onWorker({ dir, plan, steps })));
+    thumbs = (await Promise.all(shares.map((steps) => onWorker({ dir, plan, steps })))).flat();
   }
+  const thumbOf = new Map(thumbs);
   return plan.steps.map((k) => {
     const base = join(framesDir, stepName(k));
-    const f: FrameFile = { step: k };
+    const f: FrameFile = { step: k, thumb: thumbOf.get(k) };
     if (c.output.frames.includes('svg')) f.svg = `${base}.svg`;
     if (c.output.frames.includes('png')) f.png = `${base}.png`;
     return f;
   });
 }
 
-function onWorker(job: { dir: string; plan: FramePlan; steps: number[] }): Promise<void> {
+function onWorker(job: { dir: string; plan: FramePlan; steps: number[] }): Promise<[number, string][]> {
   return new Promise((resolve, reject) => {
     const w = new Worker(new URL('./frameworker.js', import.meta.url), { workerData: job });
     let done = false;
-    w.once('message', (m: { error?: string }) => { done = true; if (m.error) reject(new Error(m.error)); else resolve(); });
+    w.once('message', (m: { error?: string; thumbs?: [number, string][] }) => { done = true; if (m.error) reject(new Error(m.error)); else resolve(m.thumbs ?? []); });
     w.once('error', (e) => { done = true; reject(e); });
     w.once('exit', (code) => { if (!done) reject(new Error(`the frame worker stopped with code ${code}`)); });
   });

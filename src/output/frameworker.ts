@@ -6,6 +6,6 @@ if (!isMainThread && parentPort) {
   const job = workerData as { dir: string; plan: FramePlan; steps: number[] };
   const port = parentPort;
   drawFrameSteps(job.dir, job.plan, job.steps)
-    .then(() => port.postMessage({}))
+    .then((thumbs) => port.postMessage({ thumbs }))
     .catch((e: unknown) => port.postMessage({ error: e instanceof Error ? e.message : String(e) }));
 }

@@ -13,9 +13,9 @@ import { characteristicLength } from '../case/describe.js';
 import { writeFileAtomic } from './files.js';
 import { esc } from './svg.js';
 import { formatValue } from './ticks.js';
-import { pickFrames, svgWidth } from './png.js';
+import { pickFrames, pngDataUri, svgWidth } from './png.js';
 
-import type { FrameFile, RunCaseFile } from './frames.js';
+import { STEPPER_WIDTH, type FrameFile, type RunCaseFile } from './frames.js';
 import { stepperHtml, type StepperFrame } from './stepper.js';
 import { labSections } from './labsections.js';
 export type { FrameFile };
@@ -56,8 +56,6 @@ export interface ReportData extends Omit<ReportInput, 'frames' | 'finalSvg' | 't
   meshPicture?: string;
 }
 
-/** Width of the frames one steps through in the page (px). */
-const STEPPER_WIDTH = 900;
 
 /** Above this size an SVG picture goes into the page as PNG. */
 const INLINE_SVG_MAX = 400_000;
@@ -71,7 +69,7 @@ export async function writeReport(path: string, input: ReportInput): Promise<voi
     // every frame, at a width that keeps the page small; the slider shows the last one first
     const shown: StepperFrame[] = [];
     for (const f of input.frames) {
-      const src = await thumbnail(f, STEPPER_WIDTH);
+      const src = f.thumb ?? await thumbnail(f, STEPPER_WIDTH);
       if (src) shown.push({ step: f.step, src, caption: frameCaption(input.result.rows.find((r) => r.step === f.step)) });
     }
     if (shown.length >= 2) {
@@ -122,18 +120,6 @@ async function thumbnail(f: FrameFile, width: number): Promise<string | null> {
   if (f.svg && existsSync(f.svg)) return pngDataUri(svgRaster(readFileSync(f.svg), width));
   if (f.png && existsSync(f.png)) return pngDataUri(sharp(readFileSync(f.png)).resize({ width, kernel: 'lanczos3', withoutEnlargement: true }));
   return null;
-}
-
-/** A PNG data URI whose text never contains "http", so the page can be checked for outside addresses by a plain search. */
-async function pngDataUri(img: Sharp): Promise<string> {
-  const flat = img.flatten({ background: '#ffffff' });
-  let b64 = '';
-  for (let level = 9; level >= 0; level--) {
-    // palette PNG: these pictures have few colours, so it is much smaller at no visible cost
-    b64 = (await flat.clone().png({ palette: true, colours: 128, dither: 0, compressionLevel: level, effort: 1 }).toBuffer()).toString('base64');
-    if (!b64.includes('http')) break;
-  }
-  return `data:image/png;base64,${b64}`;
 }
 
 /** Short text under a thumbnail. */

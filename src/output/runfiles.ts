@@ -147,22 +147,26 @@ export class RunFiles {
       writeFileAtomic(join(this.dir, 'curve.svg'), svg);
       this.pending.push(svgToPng(svg, join(this.dir, 'curve.png'), c.output.pngWidth));
     }
-    await Promise.all(this.pending);
-    this.pending = [];
-    const frames = await framesDrawn;
-    await writeAnimation(this.dir, c, frames);
+    // the numbers first, the pictures after them
     const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
     writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
     if (c.crack) {
       writeFileAtomic(join(this.dir, 'cracks.csv'), cracksCsv(result.crackPaths));
       writeFileAtomic(join(this.dir, 'cracks.dxf'), cracksDxf(c, result.crackPaths));
     }
-    await writeReport(join(this.dir, 'report.html'), {
-      c, result, initialMesh: extra.initialMesh, frames, finalSvg, meshSvg: meshPicture, run: readRunInfo(this.dir),
-      curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
-      timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
-      workOfFracture: workOfFractureEstimate(c, result),
-    });
+    await Promise.all(this.pending);
+    this.pending = [];
+    const frames = await framesDrawn;
+    // the animation (libvips threads) and the page at once
+    await Promise.all([
+      writeAnimation(this.dir, c, frames),
+      writeReport(join(this.dir, 'report.html'), {
+        c, result, initialMesh: extra.initialMesh, frames, finalSvg, meshSvg: meshPicture, run: readRunInfo(this.dir),
+        curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
+        timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
+        workOfFracture: workOfFractureEstimate(c, result),
+      }),
+    ]);
     return summary;
   }
 }
