@@ -12,7 +12,7 @@ const REQUIRED: Record<string, string[]> = {
   control: ['by', 'target', 'increments', 'stopAtLoadFraction'],
   crack: ['start', 'criterion', 'growthStep', 'averagingRadius'],
   mesh: ['size', 'tipSize', 'refineRadius', 'coarsen', 'seed', 'lloyd'],
-  output: ['frames', 'every', 'animation', 'vtk'],
+  output: ['frames', 'every', 'maxFrames', 'animation', 'vtk'],
 };
 const ALLOWED: Record<string, string[]> = {
   ...REQUIRED,

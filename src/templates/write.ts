@@ -150,8 +150,8 @@ export function caseText(c: CaseSpec): string {
   for (const pr of c.probes) L.push(`  - {name: ${pr.name}, at: ${p(pr.at)}}`);
   L.push(
     '',
-    '# A picture of every step and an animation of the whole run.',
-    'output: {frames: [svg, png], every: 1, animation: gif, vtk: false}',
+    '# Up to 40 pictures evenly spaced over the run (add svg to frames for SVG copies) and an animation.',
+    'output: {frames: [png], every: 1, maxFrames: 40, animation: gif, vtk: false}',
     '',
   );
   return L.join('\n');
