@@ -272,7 +272,7 @@ figure{margin:0 0 14px}figcaption{color:var(--muted);font-size:13px;margin-top:4
 .strip img,.final img{width:100%;height:auto;border:1px solid var(--rule)}
 .cols{display:grid;grid-template-columns:1fr 1fr;gap:0 24px}
 @media (max-width:800px){.cols{grid-template-columns:1fr}}
-.stepper{display:grid;grid-template-columns:3fr 2fr;gap:0 24px;align-items:start}
+.stepper{display:grid;grid-template-columns:minmax(0,3fr) minmax(0,2fr);gap:0 24px;align-items:start}
 .stepper-frame img{width:100%;height:auto;border:1px solid var(--rule)}
 .stepper input[type=range]{width:100%;margin:8px 0 14px}
 .stepper label{display:block}#stepper-step{font-weight:bold}
