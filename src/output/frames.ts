@@ -24,10 +24,10 @@ export const stepName = (k: number): string => `step-${String(k).padStart(4, '0'
 const DATA_FILE = /^step-(\d{4,})\.bin$/;
 const PICTURE_FILE = /^step-(\d{4,})\.(svg|png)$/;
 
-/** A frame drawn for the report and the animation; thumb: the report's copy (data URI, STEPPER_WIDTH wide) when drawn with it. */
+/** A frame drawn for the report and the animation; thumb: the report's copy (data URI: the PNG frame, or the SVG one drawn STEPPER_WIDTH wide). */
 export interface FrameFile { step: number; svg?: string; png?: string; thumb?: string }
 
-/** Width of the frames one steps through in report.html (px; a narrower PNG keeps its width). */
+/** Width of SVG-only frames in report.html (px); PNG frames go in as they are. */
 export const STEPPER_WIDTH = 900;
 
 /** Steps between kept states once `latest` steps have run: `every` doubled until at most 2·cap multiples remain. */
@@ -218,7 +218,9 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
     if (c.output.frames.includes('png')) {
       const png = await svgToPngBuffer(svg, c.output.pngWidth, { palette: true });
       writeFileAtomic(`${base}.png`, png);
-      thumbs.push([k, await pngDataUri(sharp(png).resize({ width: STEPPER_WIDTH, kernel: 'lanczos3', withoutEnlargement: true }))]);
+      // the frame itself: a smaller copy would save little on a palette PNG and cost a resize and an encode
+      const uri = `data:image/png;base64,${png.toString('base64')}`;
+      thumbs.push([k, uri.includes('http') ? await pngDataUri(sharp(png)) : uri]);
     } else thumbs.push([k, await pngDataUri(sharp(await svgToPngBuffer(svg, STEPPER_WIDTH)))]);
   }
   return thumbs;

@@ -69,7 +69,7 @@ export async function writeReport(path: string, input: ReportInput): Promise<voi
     // every frame, at a width that keeps the page small; the slider shows the last one first
     const shown: StepperFrame[] = [];
     for (const f of input.frames) {
-      const src = f.thumb ?? await thumbnail(f, STEPPER_WIDTH);
+      const src = f.thumb ?? (f.png && existsSync(f.png) ? pngFileUri(readFileSync(f.png)) : null) ?? await thumbnail(f, STEPPER_WIDTH);
       if (src) shown.push({ step: f.step, src, caption: frameCaption(input.result.rows.find((r) => r.step === f.step)) });
     }
     if (shown.length >= 2) {
@@ -120,6 +120,12 @@ async function thumbnail(f: FrameFile, width: number): Promise<string | null> {
   if (f.svg && existsSync(f.svg)) return pngDataUri(svgRaster(readFileSync(f.svg), width));
   if (f.png && existsSync(f.png)) return pngDataUri(sharp(readFileSync(f.png)).resize({ width, kernel: 'lanczos3', withoutEnlargement: true }));
   return null;
+}
+
+/** A PNG file's bytes as a data URI, or null when its text would contain "http" (then it is encoded again). */
+function pngFileUri(png: Buffer): string | null {
+  const uri = `data:image/png;base64,${png.toString('base64')}`;
+  return uri.includes('http') ? null : uri;
 }
 
 /** Short text under a thumbnail. */
