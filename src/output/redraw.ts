@@ -60,3 +60,10 @@ export async function redrawRun(dir: string, opt: { frames?: boolean } = {}): Pr
   });
   return { frames: frames.length };
 }
+
+/** After compare or fit wrote into a folder: the report again when the folder is a finished run's (true), else nothing (false). */
+export async function refreshRunReport(dir: string): Promise<boolean> {
+  if (!existsSync(join(dir, 'case.json')) || !existsSync(join(dir, 'summary.json')) || !existsSync(join(dir, 'curve.csv'))) return false;
+  await redrawRun(dir, { frames: false });
+  return true;
+}
