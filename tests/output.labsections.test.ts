@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { RunFiles } from '../src/output/runfiles.js';
-import { redrawRun } from '../src/output/redraw.js';
+import { redrawRun, refreshRunReport } from '../src/output/redraw.js';
 import { externalReferences } from '../src/output/report.js';
 import { fixtureCase, fixtureRun } from './output.fixture.js';
 
@@ -32,6 +32,11 @@ beforeAll(async () => {
   writeFileSync(join(dir, 'compare-old.json'), '{ not json');
   await redrawRun(dir, { frames: false });
 }, 60000);
+
+it('writes the report again only in the folder of a finished run', async () => {
+  expect(await refreshRunReport(dir)).toBe(true);
+  expect(await refreshRunReport(join(dir, 'frames'))).toBe(false);
+});
 
 describe('report sections for comparisons and fits', () => {
   const page = () => readFileSync(join(dir, 'report.html'), 'utf8');
