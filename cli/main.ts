@@ -22,6 +22,7 @@ function wholeNumber(name: string, v: string): number {
 }
 import { registerLabCommands } from './lab.js';
 import { registerNewCommand } from './new.js';
+import { registerStudyCommand } from './study.js';
 
 const program = new Command();
 program
@@ -127,6 +128,7 @@ program
 
 registerNewCommand(program);
 registerLabCommands(program);
+registerStudyCommand(program);
 
 /** A usage error of commander as one line: what is wrong, for which command, where its help is. */
 function usageSentence(e: CommanderError, argv: readonly string[]): string {
