@@ -135,4 +135,13 @@ describe('the command line around a run', () => {
     const mb = dirSize(run) / 1e6;
     expect(mb).toBeLessThan(10);
   });
+
+  it('gathers a comparison written into the run folder into its report', async () => {
+    const r = await rupta(['compare', run, join(ROOT, 'cases', 'fit-demo-lab.csv')], tmp, 120_000);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stdout).toContain('and report.html again');
+    const html = readFileSync(join(run, 'report.html'), 'utf8');
+    expect(html).toContain('<h2>Comparison with measurements</h2>');
+    expect(html).toContain('id="stepper"'); // the frames stay in the page
+  });
 });

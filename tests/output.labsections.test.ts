@@ -43,22 +43,24 @@ describe('report sections for comparisons and fits', () => {
   it('shows the comparison table, the series statistics and the notes', () => {
     const p = page();
     expect(p).toContain('id="lab-compare"');
-    expect(p).toMatch(/<td>B-1<\/td><td>1900<\/td><td>\+5\.3 %<\/td>/);
-    expect(p).toMatch(/<td>B-2<\/td><td>2100<\/td><td>−4\.8 %<\/td>/);
-    expect(p).toContain('Series of 2 specimens');
-    expect(p).toMatch(/Peak load<\/td><td>2000 N<\/td><td>141 N<\/td><td>7\.07 %/);
+    expect(p).toMatch(/<td>B-1<\/td><td>1900\.0<\/td><td>\+5\.3 %<\/td>/);
+    expect(p).toMatch(/<td>B-2<\/td><td>2100\.0<\/td><td>-4\.8 %<\/td>/);
+    expect(p).toContain('2 specimens, mean ± 1 SD');
+    expect(p).toContain('2000.0 ± 141.4 (CoV 7.1 %)');
     expect(p).toContain('a note &lt;with&gt; markup');
   });
   it('shows the fitted values with their spread and the status', () => {
     const p = page();
     expect(p).toContain('id="lab-fit"');
-    expect(p).toContain('status <strong>fitted</strong>');
-    expect(p).toMatch(/<td>ft<\/td><td>3 MPa<\/td><td><strong>3\.21<\/strong> MPa<\/td><td>2\.00 %<\/td><td>yes<\/td>/);
-    expect(p).toContain('24 simulations of at most 40');
+    expect(p).toContain('Fitted against B-1, B-2');
+    expect(p).toMatch(/<td>ft<\/td><td>MPa<\/td><td>3<\/td><td>3\.21<\/td><td>±3\.9 %<\/td>/);
+    expect(p).toContain('24 of at most 40 simulations');
+    expect(p).toContain('From <code>fit.json</code>');
   });
   it('says in one line which file it could not read, and keeps the frames and the page self-contained', () => {
     const p = page();
     expect(p).toMatch(/compare-old\.json could not be read: /);
+    expect(p.match(/<h2>Comparison with measurements<\/h2>/g)).toHaveLength(2); // one heading per file
     expect(p).toContain('id="stepper"');
     expect(externalReferences(p)).toEqual([]);
   });
