@@ -12,10 +12,12 @@ import { plotPanelsSvg, plotSvg, type PlotOptions, type Series } from './plot.js
 import { svgToPng, framesToAnimation } from './png.js';
 import { VtkSeries } from './vtk.js';
 import { writeReport } from './report.js';
-import { CASE_FILE, FrameStore, drawFrames, fmtLoad, readRunInfo, specimenSymbols, type FrameFile, type RunCaseFile } from './frames.js';
+import { CASE_FILE, FrameStore, drawFrames, readRunInfo, specimenSymbols, type FrameFile, type RunCaseFile } from './frames.js';
 import { VERSION, sha256 } from '../version.js';
 import { cracksCsv, cracksDxf } from './exports.js';
 import { s1OverFt } from './stepdata.js';
+import { GAUGE_HEADER, GaugeReader } from './gauges.js';
+import { curvePeaks, fmtLoad, runWarnings, wedgeRatio, workOfFractureEstimate } from './warnings.js';
 
 export { specimenSymbols, s1OverFt };
 
@@ -59,6 +61,9 @@ function tableUpTo(path: string, header: string, last: number): string {
 export class RunFiles {
   private curve: RowWriter;
   private probes: RowWriter;
+  /** gauges.csv, when the case names extra gauges. */
+  private gauges: RowWriter | null = null;
+  private gaugeReader: GaugeReader | null = null;
   private store: FrameStore | null = null;
   private pending: Promise<void>[] = [];
   private vtk: VtkSeries | null = null;
@@ -93,9 +98,14 @@ export class RunFiles {
       // the tables as they stood at the checkpoint; the rows after it are computed again
       writeFileAtomic(join(dir, 'curve.csv'), CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
       writeFileAtomic(join(dir, 'probes.csv'), tableUpTo(join(dir, 'probes.csv'), PROBE_HEADER, last));
+      if (c.gauges?.length) writeFileAtomic(join(dir, 'gauges.csv'), tableUpTo(join(dir, 'gauges.csv'), GAUGE_HEADER, last));
     }
     this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
     this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
+    if (c.gauges?.length) {
+      this.gauges = new RowWriter(join(dir, 'gauges.csv'), GAUGE_HEADER, { keepExisting: !!resume });
+      this.gaugeReader = new GaugeReader(c.gauges);
+    }
     if (c.output.vtk) {
       this.vtk = new VtkSeries(join(dir, 'vtk'));
       if (resume) {
@@ -112,6 +122,10 @@ export class RunFiles {
     const r = ev.row;
     this.curve.append(curveCells(r));
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
+    if (this.gauges && this.gaugeReader) {
+      const s = ev.snapshot();
+      for (const g of this.gaugeReader.read(s.mesh, s.u)) this.gauges.append([r.step, g.gauge, g.opening_mm, g.sliding_mm]);
+    }
     const vtkNow = this.vtk && r.step % this.c.output.every === 0;
     if (!vtkNow && !this.store) return;
     const snap = ev.snapshot();
@@ -125,6 +139,7 @@ export class RunFiles {
   async finish(result: AnalysisResult, extra: { meshSeconds: number; totalSeconds: number; initialMesh: PolyMesh; final: Snapshot | null }): Promise<Record<string, unknown>> {
     this.curve.close();
     this.probes.close();
+    this.gauges?.close();
     const c = this.c;
     // frames on worker threads while this thread draws the other pictures
     const framesDrawn = drawFrames(this.dir, { prune: result.status === 'complete' });
@@ -148,7 +163,7 @@ export class RunFiles {
       this.pending.push(svgToPng(svg, join(this.dir, 'curve.png'), c.output.pngWidth));
     }
     // the numbers first, the pictures after them
-    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
+    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds, extra.final);
     writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
     if (c.crack) {
       writeFileAtomic(join(this.dir, 'cracks.csv'), cracksCsv(result.crackPaths));
@@ -165,6 +180,7 @@ export class RunFiles {
         curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
         timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
         workOfFracture: workOfFractureEstimate(c, result),
+        warnings: summary.warnings as string[],
       }),
     ]);
     return summary;
@@ -187,58 +203,32 @@ export function curveSvg(c: CaseModel, rows: StepRow[], more: CurveOverlays = []
   const hasGauge = rows.some((r) => r.cmod_mm !== null);
   const extra = Array.isArray(more) ? (hasGauge ? { cmod: more } : { displacement: more }) : more;
   const y = rows.map((r) => r.load_N);
-  let ip = 0;
-  for (let i = 1; i < y.length; i++) if (Math.abs(y[i]) > Math.abs(y[ip])) ip = i;
+  const pk = curvePeaks(rows), ip = pk.peakIndex, il = pk.laterIndex;
   const panel = (x: number[], xLabel: string, title: string, over: Series[]): PlotOptions => ({
     series: [{ label: 'rupta prediction', x, y }, ...over], xLabel, yLabel: 'Load (N)', title,
-    marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }],
+    marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }, ...(il >= 0 ? [{ x: x[il], y: y[il], label: `later ${fmtLoad(y[il])}` }] : [])],
   });
-  const disp = panel(rows.map((r) => r.displacement_mm), 'Load-point displacement (mm)', 'Load point', extra.displacement ?? []);
+  // a wedge: load_N is the splitting force, and the machine's vertical force rides beside it
+  const k = c.wedge ? wedgeRatio(c.wedge.angle) : 0;
+  const vertical: Series[] = c.wedge ? [{ label: `vertical machine force (wedge ${c.wedge.angle}°)`, x: rows.map((r) => r.displacement_mm), y: y.map((v) => k * v) }] : [];
+  const disp = panel(rows.map((r) => r.displacement_mm), c.wedge ? 'Opening at the load line (mm)' : 'Load-point displacement (mm)', c.wedge ? 'Splitting force' : 'Load point', [...vertical, ...(extra.displacement ?? [])]);
   if (!hasGauge) return plotSvg({ ...disp, title: c.title });
   const cmod = panel(rows.map((r) => r.cmod_mm ?? NaN), 'CMOD (mm)', 'Crack mouth', extra.cmod ?? []);
   return plotPanelsSvg({ panels: [disp, cmod], title: c.title });
 }
 
-/** Work of fracture: the work of the machine over the ligament area (RILEM TC 50-FMC, no self-weight term). */
-export function workOfFractureEstimate(c: CaseModel, result: AnalysisResult): { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string } | null {
-  const last = result.rows[result.rows.length - 1];
-  if (!c.crack || !last) return null;
-  // ligament: from each notch tip straight ahead to the far boundary
-  let lig = 0;
-  for (const n of c.geometry.notches) lig += ligamentLength(c, n.to, [n.to[0] - n.from[0], n.to[1] - n.from[1]]);
-  if (!(lig > 0)) lig = last.crack_length_mm;
-  const A = lig * c.thickness;
-  const W = last.external_work_Nmm;
-  const frac = result.peak.load_N !== 0 ? last.load_N / result.peak.load_N : 0;
-  return {
-    W_Nmm: W, ligamentArea_mm2: A, GF_Nmm: A > 0 ? W / A : 0,
-    note: `run ended at ${(100 * frac).toFixed(1).replace(/^-(0\.0)$/, '$1')} % of the peak load; the tail beyond it is not counted, so the estimate is a lower bound`,
-  };
-}
-
-function ligamentLength(c: CaseModel, p: [number, number], d: [number, number]): number {
-  const L = Math.hypot(d[0], d[1]);
-  const ux = d[0] / L, uy = d[1] / L;
-  const o = c.geometry.outline;
-  let best = Infinity;
-  for (let i = 0; i < o.length; i++) {
-    const a = o[i], b = o[(i + 1) % o.length];
-    const ex = b[0] - a[0], ey = b[1] - a[1], den = ux * ey - uy * ex;
-    if (Math.abs(den) < 1e-12) continue;
-    const wx = a[0] - p[0], wy = a[1] - p[1];
-    const t = (wx * ey - wy * ex) / den, s = (wx * uy - wy * ux) / den;
-    if (t > 1e-9 && s >= 0 && s <= 1) best = Math.min(best, t);
-  }
-  return Number.isFinite(best) ? best : 0;
-}
-
-export function summaryOf(c: CaseModel, r: AnalysisResult, meshSeconds: number, totalSeconds: number): Record<string, unknown> {
+export function summaryOf(c: CaseModel, r: AnalysisResult, meshSeconds: number, totalSeconds: number, final: Snapshot | null = null): Record<string, unknown> {
+  // the peak is the curve's first maximum; a later, higher one is reported beside it
+  const pk = curvePeaks(r.rows);
   return {
     format: 1,
     title: c.title,
     status: r.status,
     reason: r.reason,
-    peak: r.peak,
+    peak: r.rows.length > 0 ? pk.peak : r.peak,
+    ...(pk.later ? { laterMaximum: pk.later } : {}),
+    ...(c.wedge ? { wedge: { angle_deg: c.wedge.angle, verticalPerSplitting: wedgeRatio(c.wedge.angle), peakVertical_N: wedgeRatio(c.wedge.angle) * pk.peak.load_N } } : {}),
+    warnings: runWarnings(c, r, final),
     crackPaths: r.crackPaths,
     steps: Math.max(0, r.rows.length - 1),
     dofs: r.dofs,
