@@ -16,6 +16,7 @@ import { cutRay, twinAlong, defaultCut } from './cut.js';
 import { refineAround, coarsenAway } from './adapt.js';
 import { tipStress, growthDirection, hoopDirection } from './criterion.js';
 import { meshState, restoreMesh, type AnalysisState, type LoopState, type Peak } from './checkpoint.js';
+import { measureTips, type TipMeasure } from './tips.js';
 
 export interface StepRow {
   step: number; control: number; load_N: number; displacement_mm: number; cmod_mm: number | null;
@@ -127,7 +128,7 @@ export class Analysis {
       const a = nearestVertex(initial, n.from[0], n.from[1]);
       const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
       const dx = (n.to[0] - n.from[0]) / L, dy = (n.to[1] - n.from[1]) / L;
-      const cut = cutRay(this.wm, a, dx, dy, L, { ...defaultCut, snapFraction: 0.1 });
+      const cut = cutRay(this.wm, a, dx, dy, L, { snapFraction: 0.02, snapAngle: 0.02 });
       const startOnBoundary = on[a] === 1;
       const tw = twinAlong(this.wm, cut.path, null, startOnBoundary, cut.end === 'boundary');
       this.cracks.push({ kind: 'notch', path: cut.path, twins: tw.map((t) => t[1]) });
@@ -764,6 +765,12 @@ export class Analysis {
     if (this.dirty) this.rebuild();
     this.sys.kT.values.set(this.sys.kBulk.values);
     return submatrixInto(this.sys.kT, this.sys.kff);
+  }
+
+  /** Stress intensity factors and MTS directions at every slit and crack tip of the last solved state. */
+  tipFactors(): TipMeasure[] {
+    if (this.dirty) this.rebuild();
+    return measureTips(this.wm, this.cracks, this.compact, this.work.u, { E: this.c.material.E, nu: this.c.material.nu, model: this.c.model, D: this.D }, this.c);
   }
 
   /** Free dofs of the current mesh. */
