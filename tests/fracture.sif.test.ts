@@ -2,10 +2,13 @@
 // Shih 1987) on sharp slits cut into the polygon mesh, against handbook expressions
 // (REFERENCES.md). Each specimen is one elastic run under force control; K is read at the
 // outer of two nested rings, and the two rings must agree within 2 % (path independence).
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseCase } from '../src/case/index.js';
 import { Analysis } from '../src/fracture/analysis.js';
-import { meshCase } from '../src/run.js';
+import { meshCase, runCase } from '../src/run.js';
 import { mtsKink } from '../src/fracture/sif.js';
 import type { TipMeasure } from '../src/fracture/tips.js';
 
@@ -171,5 +174,29 @@ output: {frames: []}
       // the kink turns the slit toward the plane normal to the load (Erdogan & Sih 1963)
       expect(Math.sign(mtsKink(b.KI!, b.KII!))).toBe(-1);
     }
+  });
+
+  it('an elastic run with a slit writes tips.csv: one row per tip, K in MPa√m, the MTS direction (DESIGN.md output list)', async () => {
+    const c = parseCase(inclinedPlate(30), 'tips.yaml');
+    const dir = mkdtempSync(join(tmpdir(), 'tips-'));
+    try {
+      await runCase(c, { out: dir, force: true });
+      const lines = readFileSync(join(dir, 'tips.csv'), 'utf8').trim().split('\n');
+      expect(lines[0]).toBe('step,crack,tip,x_mm,y_mm,KI_MPa_sqrtm,KII_MPa_sqrtm,kink_deg');
+      // step 0 (unloaded) and the elastic step, two tips each
+      const rows = lines.slice(1).map((l) => l.split(',').map(Number));
+      expect(rows.length).toBe(4);
+      const last = rows.filter((r) => r[0] === 1);
+      const sigma = 200 / 200, K0 = sigma * Math.sqrt(Math.PI * 10) / Math.sqrt(1000), b = 60 * Math.PI / 180;
+      for (const r of last) {
+        expect(r[1]).toBe(1);
+        // K in MPa√m: the mesh is in mm, so MPa√mm / √1000
+        expect(rel(r[5], K0 * Math.sin(b) ** 2)).toBeLessThan(0.05);
+        expect(rel(r[6], K0 * Math.sin(b) * Math.cos(b))).toBeLessThan(0.05);
+        // the tip at the slit's end (30° from +x) kinks clockwise by the MTS angle
+        const along = r[2] === 2 ? 30 : 210, th = mtsKink(Math.sin(b) ** 2, Math.sin(b) * Math.cos(b)) * 180 / Math.PI;
+        expect(Math.abs(((r[7] - along - th + 540) % 360) - 180)).toBeLessThan(1.5);
+      }
+    } finally { rmSync(dir, { recursive: true, force: true }); }
   });
 });

@@ -16,7 +16,7 @@ import { cutRay, twinAlong, defaultCut } from './cut.js';
 import { refineAround, coarsenAway } from './adapt.js';
 import { tipStress, growthDirection, hoopDirection } from './criterion.js';
 import { meshState, restoreMesh, type AnalysisState, type LoopState, type Peak } from './checkpoint.js';
-import { measureTips, type TipMeasure } from './tips.js';
+import { measureTips, tipRows, type TipMeasure, type TipRow } from './tips.js';
 
 export interface StepRow {
   step: number; control: number; load_N: number; displacement_mm: number; cmod_mm: number | null;
@@ -36,7 +36,7 @@ export interface Snapshot {
   row: StepRow;
 }
 
-export interface StepEvent { row: StepRow; probes: ProbeRow[]; snapshot: () => Snapshot }
+export interface StepEvent { row: StepRow; probes: ProbeRow[]; tips: TipRow[]; snapshot: () => Snapshot }
 
 export interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
 /** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
@@ -528,6 +528,8 @@ export class Analysis {
     const crack = this.c.crack!;
     if (this.initiate() > 0) return 1;
     const { m, stress, areas, cent } = this.fields();
+    // K at the slit tips of the state before any cut of this round (the mesh changes as tips grow)
+    let measured: TipMeasure[] | null = null;
     let grown = 0;
     for (const t of this.tips) {
       if (!t.active) continue;
@@ -540,8 +542,16 @@ export class Analysis {
       // the tip gives K_II/K_I, and the kink follows the maximum tangential stress. A tip with
       // no faces yet (a blunt notch) follows the largest hoop stress around it; a fresh start
       // point with no direction grows perpendicular to the major principal stress.
+      // Out of a sharp slit the first segment follows the maximum tangential stress criterion
+      // with K_I and K_II from the interaction integral.
+      let slitDir: [number, number] | null = null;
+      if (t.crack < 0 && t.slit !== undefined && t.slit >= 0) {
+        measured ??= this.tipFactors();
+        const k = measured.find((q) => q.v === t.v);
+        if (k && k.kink !== null && k.KI !== null && k.KI > 0) slitDir = [Math.cos(k.kink), Math.sin(k.kink)];
+      }
       const faces = t.crack >= 0 ? t.crack : t.slit !== undefined && t.slit >= 0 ? t.slit : -1;
-      let [gx, gy] = (faces >= 0 ? this.faceKink(faces, t, crack.averagingRadius) : null)
+      let [gx, gy] = slitDir ?? (faces >= 0 ? this.faceKink(faces, t, crack.averagingRadius) : null)
         ?? (t.dx !== 0 || t.dy !== 0
           ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
           : growthDirection(ts, t.dx, t.dy));
@@ -725,7 +735,7 @@ export class Analysis {
       cracks: this.crackPolylines(),
       cohesive: this.cohesiveSegments(m, kap),
     });
-    return { row, probes, snapshot };
+    return { row, probes, tips: tipRows(step, this.tipFactors(), this.cracks), snapshot };
   }
 
   crackPolylines(): { points: [number, number][]; kind: 'notch' | 'crack' }[] {

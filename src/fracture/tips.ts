@@ -5,8 +5,7 @@
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CaseModel } from '../case/model.js';
 import type { WorkMesh } from './workmesh.js';
-import { boundaryVertices } from '../solver/driven.js';
-import { SifWork, mtsKink, tipFactors, type Elastic } from './sif.js';
+import { PER_SQRT_M, SifWork, mtsKink, tipFactors, type Elastic } from './sif.js';
 
 /** A crack (slit or grown): its path of vertex ids and the twin of each (−1: not twinned). */
 export interface CrackLine { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
@@ -27,15 +26,17 @@ export interface TipMeasure {
 }
 
 /** Ends of the cracks that lie inside the material, with the direction of their last segment. */
-export function crackEnds(wm: WorkMesh, cracks: CrackLine[]): { crack: number; end: 0 | 1; v: number; back: number[] }[] {
+export function crackEnds(cracks: CrackLine[]): { crack: number; end: 0 | 1; v: number; back: number[] }[] {
   const out: { crack: number; end: 0 | 1; v: number; back: number[] }[] = [];
+  // an end from which another crack has grown is no longer a tip
+  const starts = new Set<number>();
+  for (const k of cracks) if (k.path.length > 1) starts.add(k.path[0]);
   cracks.forEach((k, i) => {
     const n = k.path.length;
     if (n < 2) return;
     if (k.twins[0] < 0) out.push({ crack: i, end: 0, v: k.path[0], back: k.path.slice(1) });
-    if (k.twins[n - 1] < 0) out.push({ crack: i, end: 1, v: k.path[n - 1], back: k.path.slice(0, n - 1).reverse() });
+    if (k.twins[n - 1] < 0 && !starts.has(k.path[n - 1])) out.push({ crack: i, end: 1, v: k.path[n - 1], back: k.path.slice(0, n - 1).reverse() });
   });
-  void wm;
   return out;
 }
 
@@ -44,7 +45,7 @@ export function crackEnds(wm: WorkMesh, cracks: CrackLine[]): { crack: number; e
  * 0.9 of the distance to the outline (crack faces excepted), to any other crack and to loads
  * and supports, at most `cap`.
  */
-function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, on: Uint8Array, c: CaseModel, cracks: CrackLine[], own: number, tip: number, back: number[], dx: number, dy: number, cap: number): number {
+function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, c: CaseModel, cracks: CrackLine[], own: number, tip: number, back: number[], dx: number, dy: number, cap: number): number {
   const x0 = wm.x[tip], y0 = wm.y[tip];
   // the straight part of the own crack: as far back as the path stays within 10° of the tip's line
   let straight = 0;
@@ -54,12 +55,30 @@ function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, on: Uint8Array, c
     straight = L;
   }
   let R = Math.min(cap, 0.5 * straight);
-  const nv = m.xy.length >> 1;
   const onCrack = new Set<number>();
   for (const k of cracks) { for (const v of k.path) onCrack.add(v); for (const v of k.twins) if (v >= 0) onCrack.add(v); }
-  for (let i = 0; i < nv; i++) {
-    if (!on[i] || wm.face[vertexOf[i]] || onCrack.has(vertexOf[i])) continue;
-    R = Math.min(R, 0.9 * Math.hypot(m.xy[2 * i] - x0, m.xy[2 * i + 1] - y0));
+  // outline edges near the tip: edges of the cells within reach that no other cell shares
+  const { xy, cellStart, cellVerts } = m, nc = cellStart.length - 1, reach2 = R * R / 0.81;
+  const edges = new Set<string>(), near: number[] = [];
+  for (let e = 0; e < nc; e++) {
+    let inside = false;
+    for (let k = cellStart[e]; k < cellStart[e + 1] && !inside; k++) {
+      const v = cellVerts[k];
+      inside = (xy[2 * v] - x0) ** 2 + (xy[2 * v + 1] - y0) ** 2 < reach2;
+    }
+    if (!inside) continue;
+    near.push(e);
+    for (let k = cellStart[e]; k < cellStart[e + 1]; k++) edges.add(`${cellVerts[k]},${cellVerts[k + 1 < cellStart[e + 1] ? k + 1 : cellStart[e]]}`);
+  }
+  for (const e of near) {
+    for (let k = cellStart[e]; k < cellStart[e + 1]; k++) {
+      const a = cellVerts[k], b = cellVerts[k + 1 < cellStart[e + 1] ? k + 1 : cellStart[e]];
+      if (edges.has(`${b},${a}`)) continue;
+      for (const v of [a, b]) {
+        if (wm.face[vertexOf[v]] || onCrack.has(vertexOf[v])) continue;
+        R = Math.min(R, 0.9 * Math.hypot(xy[2 * v] - x0, xy[2 * v + 1] - y0));
+      }
+    }
   }
   cracks.forEach((k, i) => {
     if (i === own) return;
@@ -83,9 +102,8 @@ export function measureTips(
   wm: WorkMesh, cracks: CrackLine[], cp: { mesh: PolyMesh; vertexOf: Int32Array; compactOf: Int32Array },
   u: Float64Array, el: Elastic, c: CaseModel,
 ): TipMeasure[] {
-  const ends = crackEnds(wm, cracks);
+  const ends = crackEnds(cracks);
   if (ends.length === 0) return [];
-  const on = boundaryVertices(cp.mesh);
   const work = new SifWork();
   const cap = Math.max(c.mesh.refineRadius, 8 * c.mesh.tipSize);
   return ends.map((e) => {
@@ -95,10 +113,32 @@ export function measureTips(
     let p = e.back[0];
     for (const v of e.back) { p = v; if (Math.hypot(x - wm.x[v], y - wm.y[v]) >= 2 * c.mesh.tipSize) break; }
     const L = Math.hypot(x - wm.x[p], y - wm.y[p]), dx = (x - wm.x[p]) / L, dy = (y - wm.y[p]) / L;
-    const R = room(wm, cp.mesh, cp.vertexOf, on, c, cracks, e.crack, e.v, e.back, dx, dy, cap);
+    const R = room(wm, cp.mesh, cp.vertexOf, c, cracks, e.crack, e.v, e.back, dx, dy, cap);
     const base = { crack: e.crack, end: e.end, v: e.v, x, y, dx, dy, R };
     if (!(R >= 2 * c.mesh.tipSize)) return { ...base, KI: null, KII: null, spread: null, kink: null };
     const f = tipFactors(cp.mesh, u, el, { x, y, dx, dy }, R, work);
-    return { ...base, KI: f.KI, KII: f.KII, spread: f.spread, kink: Math.atan2(dy, dx) + mtsKink(f.KI, f.KII) };
+    // an unloaded tip has no direction to take
+    const kink = f.KI === 0 && f.KII === 0 ? null : Math.atan2(dy, dx) + mtsKink(f.KI, f.KII);
+    return { ...base, KI: f.KI, KII: f.KII, spread: f.spread, kink };
+  });
+}
+
+/** One row of tips.csv. */
+export interface TipRow { step: number; crack: number; tip: number; x_mm: number; y_mm: number; KI_MPa_sqrtm: number | null; KII_MPa_sqrtm: number | null; kink_deg: number | null }
+
+/**
+ * Rows of tips.csv: cracks numbered from 1 in the order of the case's slits and then of the
+ * cracks grown, tip 1 at a crack's start and 2 at its far end. K in MPa√m at traction-free
+ * tips; at the end of a cohesive crack the faces carry tractions and no K is written.
+ */
+export function tipRows(step: number, tips: TipMeasure[], cracks: CrackLine[]): TipRow[] {
+  return tips.map((t) => {
+    const free = cracks[t.crack].kind === 'notch';
+    return {
+      step, crack: t.crack + 1, tip: t.end + 1, x_mm: t.x, y_mm: t.y,
+      KI_MPa_sqrtm: free && t.KI !== null ? t.KI * PER_SQRT_M : null,
+      KII_MPa_sqrtm: free && t.KII !== null ? t.KII * PER_SQRT_M : null,
+      kink_deg: t.kink === null ? null : t.kink * 180 / Math.PI,
+    };
   });
 }

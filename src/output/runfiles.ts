@@ -16,6 +16,10 @@ import { writeReport, type FrameFile } from './report.js';
 
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
+export const TIPS_HEADER = 'step,crack,tip,x_mm,y_mm,KI_MPa_sqrtm,KII_MPa_sqrtm,kink_deg';
+
+/** A run has crack tips to report when it has a sharp slit or grows cracks. */
+export const hasTips = (c: CaseModel): boolean => !!c.crack || c.geometry.notches.some((n) => n.width === 0);
 
 export interface RunFilesOptions {
   force?: boolean;
@@ -86,6 +90,7 @@ const fmtLoad = (F: number) => (Math.abs(F) >= 1000 ? `${(F / 1000).toFixed(2)} 
 export class RunFiles {
   private curve: RowWriter;
   private probes: RowWriter;
+  private tips: RowWriter | null = null;
   private framePngs: string[] = [];
   private frames: FrameFile[] = [];
   private pending: Promise<void>[] = [];
@@ -115,10 +120,13 @@ export class RunFiles {
       // the tables as they stood at the checkpoint; the rows after it are computed again
       writeFileAtomic(join(dir, 'curve.csv'), CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
       writeFileAtomic(join(dir, 'probes.csv'), tableUpTo(join(dir, 'probes.csv'), PROBE_HEADER, last));
+      if (hasTips(c)) writeFileAtomic(join(dir, 'tips.csv'), tableUpTo(join(dir, 'tips.csv'), TIPS_HEADER, last));
       this.seedFrames(resume);
     }
     this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
     this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
+    if (hasTips(c)) this.tips = new RowWriter(join(dir, 'tips.csv'), TIPS_HEADER, { keepExisting: !!resume });
+    else rmSync(join(dir, 'tips.csv'), { force: true });
     if (c.output.vtk) {
       this.vtk = new VtkSeries(join(dir, 'vtk'));
       if (resume) {
@@ -150,6 +158,7 @@ export class RunFiles {
     const r = ev.row;
     this.curve.append(curveCells(r));
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
+    if (this.tips) for (const t of ev.tips) this.tips.append([t.step, t.crack, t.tip, t.x_mm, t.y_mm, t.KI_MPa_sqrtm, t.KII_MPa_sqrtm, t.kink_deg]);
     this.rows.push(r);
     const o = this.c.output;
     if (r.step % o.every !== 0) return;
@@ -191,6 +200,7 @@ export class RunFiles {
   async finish(result: AnalysisResult, extra: { meshSeconds: number; totalSeconds: number; initialMesh: PolyMesh; final: Snapshot | null }): Promise<Record<string, unknown>> {
     this.curve.close();
     this.probes.close();
+    this.tips?.close();
     const c = this.c;
     // mesh picture of the initial mesh
     const meshPicture = meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` });
