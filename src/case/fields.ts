@@ -41,13 +41,14 @@ export const FIELDS: Record<string, FieldSpec> = {
   'geometry.notches[].to': { what: POINT, unit: 'mm' },
   'geometry.notches[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
 
-  material: { what: 'a mapping {E, nu, ft, GF, softening, shearWeight}' },
+  material: { what: 'a mapping {E, nu, ft, GF, softening, shearWeight, KIc}' },
   'material.E': { what: POSITIVE, unit: 'MPa', range: { gt: 0 } },
   'material.nu': { what: 'a number of at least 0 and below 0.5', unit: '-', range: { ge: 0, lt: 0.5 } },
   'material.ft': { what: POSITIVE, unit: 'MPa', range: { gt: 0 } },
   'material.GF': { what: POSITIVE, unit: 'N/mm', range: { gt: 0 } },
   'material.softening': { what: 'one of linear, bilinear, exponential' },
   'material.shearWeight': { what: NONNEG, unit: '-', range: { ge: 0 } },
+  'material.KIc': { what: 'a positive number (the fracture toughness, needed by crack.model lefm)', unit: 'MPa√m', range: { gt: 0 } },
 
   supports: { what: 'a list of at least one support' },
   'supports[]': { what: 'a support with exactly one of at: [x, y] or along: [[x, y], [x, y]], and fix: x, y or xy' },
@@ -75,13 +76,14 @@ export const FIELDS: Record<string, FieldSpec> = {
   'control.increments': { what: 'a whole number from 1 to 100000', range: { ge: 1, le: 100000, int: true } },
   'control.stopAtLoadFraction': { what: 'a fraction of the peak load of at least 0 (never stop) and below 1', unit: '-', range: { ge: 0, lt: 1 } },
 
-  crack: { what: 'a mapping {start, criterion, growthStep, averagingRadius, insertAt}; write crack: {} for all defaults or leave crack out for an elastic analysis' },
+  crack: { what: 'a mapping {start, criterion, growthStep, averagingRadius, insertAt, model}; write crack: {} for all defaults or leave crack out for an elastic analysis' },
   'crack.start': { what: 'notch-tips, anywhere or a list of [x, y] points', unit: 'mm' },
   'crack.start[]': { what: POINT, unit: 'mm' },
   'crack.criterion': { what: 'principal-stress' },
   'crack.growthStep': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
   'crack.averagingRadius': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
   'crack.insertAt': { what: 'a fraction of ft from 0.5 to 1', unit: '-', range: { ge: 0.5, le: 1 } },
+  'crack.model': { what: 'one of cohesive, lefm' },
 
   mesh: { what: 'a mapping {size, tipSize, refineRadius, coarsen, seed, lloyd}' },
   'mesh.size': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },

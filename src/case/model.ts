@@ -38,6 +38,8 @@ export interface Material {
   softening: Softening;
   /** β in the effective opening √(w² + β s²). */
   shearWeight: number;
+  /** Fracture toughness K_Ic (MPa√m), needed by crack.model lefm. */
+  KIc?: number;
 }
 
 export interface CrackSettings {
@@ -47,6 +49,8 @@ export interface CrackSettings {
   averagingRadius: number;
   /** Fraction of ft at which the next segment is laid, still intact, ahead of a tip. */
   insertAt: number;
+  /** cohesive: faces joined by the traction–separation law; lefm: traction-free cracks that grow where K reaches KIc. */
+  model: 'cohesive' | 'lefm';
 }
 
 export interface MeshSettings {

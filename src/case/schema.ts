@@ -51,6 +51,7 @@ const crack = z.strictObject({
   growthStep: num.optional(),
   averagingRadius: num.optional(),
   insertAt: num.optional(),
+  model: z.enum(['cohesive', 'lefm']).optional(),
 });
 
 const mesh = z.strictObject({
@@ -88,6 +89,7 @@ export const caseSchema = z.strictObject({
     GF: num,
     softening: z.enum(['linear', 'bilinear', 'exponential']).optional(),
     shearWeight: num.optional(),
+    KIc: num.optional(),
   }),
   supports: z.array(support).min(1),
   loads: z.array(load).min(1),

@@ -31,11 +31,23 @@ export function crackEnds(cracks: CrackLine[]): { crack: number; end: 0 | 1; v: 
   // an end from which another crack has grown is no longer a tip
   const starts = new Set<number>();
   for (const k of cracks) if (k.path.length > 1) starts.add(k.path[0]);
+  // the path behind a crack's start, where it grew out of the end of another crack
+  const behind = (k: CrackLine, depth: number): number[] => {
+    if (depth > 8) return [];
+    const s = k.path[0];
+    for (const o of cracks) {
+      if (o === k || o.path.length < 2) continue;
+      const n = o.path.length;
+      if (o.path[n - 1] === s) return [...o.path.slice(0, n - 1).reverse(), ...behind(o, depth + 1)];
+      if (o.path[0] === s && o.twins[0] < 0) return o.path.slice(1);
+    }
+    return [];
+  };
   cracks.forEach((k, i) => {
     const n = k.path.length;
     if (n < 2) return;
     if (k.twins[0] < 0) out.push({ crack: i, end: 0, v: k.path[0], back: k.path.slice(1) });
-    if (k.twins[n - 1] < 0 && !starts.has(k.path[n - 1])) out.push({ crack: i, end: 1, v: k.path[n - 1], back: k.path.slice(0, n - 1).reverse() });
+    if (k.twins[n - 1] < 0 && !starts.has(k.path[n - 1])) out.push({ crack: i, end: 1, v: k.path[n - 1], back: [...k.path.slice(0, n - 1).reverse(), ...behind(k, 0)] });
   });
   return out;
 }
@@ -48,13 +60,16 @@ export function crackEnds(cracks: CrackLine[]): { crack: number; end: 0 | 1; v: 
 function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, c: CaseModel, cracks: CrackLine[], own: number, tip: number, back: number[], dx: number, dy: number, cap: number): number {
   const x0 = wm.x[tip], y0 = wm.y[tip];
   // the straight part of the own crack: as far back as the path stays within 10° of the tip's line
-  let straight = 0;
+  let straight = 0, bent = false, chain = 0;
   for (const v of back) {
     const rx = x0 - wm.x[v], ry = y0 - wm.y[v], L = Math.hypot(rx, ry);
-    if (L > 0 && (rx * dx + ry * dy) / L < Math.cos(Math.PI / 18)) break;
-    straight = L;
+    if (L > 0 && (rx * dx + ry * dy) / L < Math.cos(Math.PI / 18)) bent = true;
+    if (!bent) straight = L;
+    chain = Math.max(chain, L);
   }
-  let R = Math.min(cap, 0.5 * straight);
+  // past a kink the faces are not along x1 and the integral loses a little; a freshly kinked
+  // tip still gets a domain of four tip cells where its crack is long enough
+  let R = Math.min(cap, Math.max(0.5 * straight, Math.min(4 * c.mesh.tipSize, 0.5 * chain)));
   const onCrack = new Set<number>();
   for (const k of cracks) { for (const v of k.path) onCrack.add(v); for (const v of k.twins) if (v >= 0) onCrack.add(v); }
   // outline edges near the tip: edges of the cells within reach that no other cell shares
