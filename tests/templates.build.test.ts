@@ -18,6 +18,9 @@ const ALLOWED: Record<string, string[]> = {
   ...REQUIRED,
   geometry: ['outline', 'holes', 'notches'],
   control: [...REQUIRED.control!, 'gauge'],
+  // the brittle mode's toughness and model (the ceramic bar)
+  material: [...REQUIRED.material!, 'KIc'],
+  crack: [...(REQUIRED.crack ?? []), 'model'],
 };
 
 const raw = (t: Template, values: Record<string, number | string> = {}): RawCase => parse(t.build(values)) as RawCase;

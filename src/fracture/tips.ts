@@ -95,9 +95,11 @@ function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, c: CaseModel, cra
       }
     }
   }
+  // other cracks, apart from the ones this tip's crack grew out of
+  const mine = new Set(back);
   cracks.forEach((k, i) => {
     if (i === own) return;
-    for (const v of k.path) R = Math.min(R, 0.9 * Math.hypot(wm.x[v] - x0, wm.y[v] - y0));
+    for (const v of k.path) if (!mine.has(v) && v !== tip) R = Math.min(R, 0.9 * Math.hypot(wm.x[v] - x0, wm.y[v] - y0));
   });
   for (const q of [...c.supports, ...c.loads]) {
     const [p0, p1] = q.along ?? [q.at!, q.at!];

@@ -96,7 +96,8 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values, crackMod
       need(tpl, 'bearing-width', bw, 0, span / 4, 'mm', `for a span of ${fmt(span)} mm`);
       xn = q(m + e);
       loads = [{ at: pt(m, D), direction: [0, -1], width: bw, note: 'mid-span, top face' }];
-      loadsNote = [`The machine pushes down at mid-span through a ${fmt(bw)} mm wide bearing strip.`];
+      loadsNote = [bw > 0 ? `The machine pushes down at mid-span through a ${fmt(bw)} mm wide bearing strip.`
+        : 'The machine pushes down at mid-span through a roller (line contact, a point in the plane).'];
       probes.push({ name: 'load-point', at: pt(m, D) });
     } else {
       const ls = num(v, 'load-span');
@@ -196,6 +197,8 @@ export const ceramicBendBar = beamTemplate('ceramic-bend-bar', '3pb',
   'small alumina bar in three-point bending with a sharp notch and fine tip cells',
   ['Small ceramic bend bar with a sharp notch in three-point bending. The process zone of a',
     'ceramic is micrometres long, so the crack is modelled by linear elastic fracture',
-    'mechanics (crack.model lefm): traction-free, growing where K reaches KIc.'],
-  { length: 45, span: 40, depth: 4, thickness: 3, notchDepth: 1, notchWidth: 0, supportWidth: 0.4, bearingWidth: 0.4, material: 'ceramic-alumina', title: 'Notched ceramic bend bar, demo batch', crackModel: 'lefm' },
+    'mechanics (crack.model lefm): traction-free, growing where K reaches KIc. A 3 x 4 mm',
+    'bar on a 16 mm span (S/W = 4), the three-point set-up of the single-edge V-notched beam',
+    'test (ISO 23146; dimensions from memory).'],
+  { length: 20, span: 16, depth: 4, thickness: 3, notchDepth: 1, notchWidth: 0, supportWidth: 0, bearingWidth: 0, material: 'ceramic-alumina', title: 'Notched ceramic bend bar, demo batch', crackModel: 'lefm' },
   [length('eccentricity', 0, 'offset of the notch from mid-span, to the right', -100000, 100000)]);
