@@ -735,7 +735,24 @@ export class Analysis {
       cracks: this.crackPolylines(),
       cohesive: this.cohesiveSegments(m, kap),
     });
-    return { row, probes, tips: tipRows(step, this.tipFactors(), this.cracks), snapshot };
+    return { row, probes, tips: tipRows(step, this.tipDirections(), this.cracks), snapshot };
+  }
+
+  /**
+   * K and directions at every tip for tips.csv: at a slit the MTS kink of its K; at the end of a
+   * cohesive crack the direction the growth criterion takes there (null once the tip has stopped).
+   */
+  private tipDirections(): TipMeasure[] {
+    const out = this.tipFactors();
+    for (const m of out) {
+      if (this.cracks[m.crack].kind !== 'cohesive') continue;
+      const t = this.tips.find((q) => q.active && q.crack === m.crack && q.v === m.v);
+      if (!t) { m.kink = null; continue; }
+      const [fx, fy] = this.faceKink(t.crack, t, this.c.crack?.averagingRadius ?? 0) ?? [t.dx, t.dy];
+      const [gx, gy] = limitTurn(t.dx, t.dy, fx, fy, MAX_TURN);
+      m.kink = Math.atan2(gy, gx);
+    }
+    return out;
   }
 
   crackPolylines(): { points: [number, number][]; kind: 'notch' | 'crack' }[] {
