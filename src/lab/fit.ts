@@ -269,6 +269,7 @@ export async function fitCase(c: CaseModel, lab: LabCurve, opt: FitOptions = {})
   const params = [...new Set(opt.params ?? FIT_PARAMS)];
   if (params.length === 0) throw new InputError('--params names no parameter: choose from E, ft, GF');
   if (!c.crack && (params.includes('ft') || params.includes('GF'))) throw new InputError('the case has no crack section, so only E can be fitted (--params E)');
+  if (c.crack?.model === 'lefm' && (params.includes('ft') || params.includes('GF'))) throw new InputError('crack.model lefm does not use ft or GF, so only E can be fitted (--params E)');
   const hasGauge = c.control.by === 'cmod' || c.control.gauge !== undefined;
   const xAxis: XAxis = opt.xAxis ?? (/disp|defl|stroke|travel/i.test(lab.xLabel) || !hasGauge ? 'displacement' : 'cmod');
   const measured = measuredFunction({ x: lab.x, y: lab.y });

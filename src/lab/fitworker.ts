@@ -4,6 +4,7 @@ import { isMainThread, parentPort } from 'node:worker_threads';
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { Analysis } from '../fracture/analysis.js';
+import { LefmAnalysis } from '../fracture/lefm.js';
 
 /** The curve of one simulation, as plain arrays (they cross the thread boundary). */
 export interface SimCurve {
@@ -24,7 +25,7 @@ export async function simulateCurve(c: CaseModel, mesh: PolyMesh): Promise<SimCu
   const L: number[] = [], D: number[] = [], C: number[] = [];
   let gauge = true;
   try {
-    const a = new Analysis(c, mesh);
+    const a = c.crack?.model === 'lefm' ? new LefmAnalysis(c, mesh) : new Analysis(c, mesh);
     const r = await a.run((e) => {
       L.push(e.row.load_N); D.push(e.row.displacement_mm);
       if (e.row.cmod_mm === null) gauge = false; else C.push(e.row.cmod_mm);
