@@ -7,6 +7,7 @@ import { parseCase } from '../src/case/index.js';
 import { LefmAnalysis } from '../src/fracture/lefm.js';
 import { meshCase } from '../src/run.js';
 import { describeCase } from '../src/case/describe.js';
+import { mtsKink } from '../src/fracture/sif.js';
 
 describe('crack.model lefm: ceramic bend bar (template example)', () => {
   it('runs to separation; K_Ic from the peak by the SEVNB expression within 3 % of the input; energy released = G·area', async () => {
@@ -38,3 +39,52 @@ describe('crack.model lefm: ceramic bend bar (template example)', () => {
     expect(Math.abs(last.dissipated_Nmm / expected - 1)).toBeLessThan(0.05);
   });
 });
+
+describe('crack.model lefm: slanted central slit under remote tension', () => {
+  it('both tips of the point-symmetric problem grow together, first along the MTS kink (Erdogan & Sih 1963), then alike', async () => {
+    const W = 160, a = 10, b = 45 * Math.PI / 180;
+    const c = parseCase(`
+format: 1
+title: slanted slit, brittle
+units: mm-N-MPa
+thickness: 1
+geometry:
+  outline: [[0,0],[${W},0],[${W},${W}],[0,${W}]]
+  notches: [{from: [${80 - a * Math.sin(b)}, ${80 - a * Math.cos(b)}], to: [${80 + a * Math.sin(b)}, ${80 + a * Math.cos(b)}], width: 0}]
+material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: 1}
+supports: [{along: [[0,0],[${W},0]], fix: y}, {at: [0,0], fix: x}]
+loads: [{along: [[0,${W}],[${W},${W}]], direction: [0, 1]}]
+control: {by: displacement, target: 1, increments: 10}
+crack: {model: lefm, growthStep: 1.5}
+mesh: {size: 16, tipSize: 0.5, refineRadius: 6, seed: 3}
+output: {frames: []}
+`, 'slit-lefm.yaml');
+    const an = new LefmAnalysis(c, meshCase(c).mesh);
+    an.stopRequested = () => an.growthLog.length >= 8;
+    const res = await an.run(() => {});
+    expect(res.status).toBe('interrupted');
+    const log = an.growthLog;
+    // ties: every critical state grows both tips
+    for (let i = 0; i + 1 < log.length; i += 2) {
+      const p = log[i], q = log[i + 1];
+      // point symmetry about the centre: opposite positions, opposite directions
+      expect(Math.hypot(p.x + q.x - W, p.y + q.y - W)).toBeLessThan(0.2);
+      const dot = p.dx * q.dx + p.dy * q.dy;
+      expect(Math.acos(Math.max(-1, Math.min(1, -dot))) * 180 / Math.PI).toBeLessThan(2);
+    }
+    // the first growth: the slit direction turned by the MTS kink of the central-slit K (REFERENCES.md)
+    const th = mtsKink(Math.sin(b) ** 2, Math.sin(b) * Math.cos(b));
+    const up = log.slice(0, 2).find((g) => g.y > 80)!;
+    const slit = Math.atan2(Math.cos(b), Math.sin(b));
+    const got = Math.atan2(up.dy, up.dx) - slit;
+    console.log(`lefm slit β = 45°: first kink ${(got * 180 / Math.PI).toFixed(2)}° against MTS ${(th * 180 / Math.PI).toFixed(2)}°; later directions ${log.filter((g) => g.y > 80).map((g) => (Math.atan2(g.dy, g.dx) * 180 / Math.PI).toFixed(1)).join(', ')}`);
+    expect(Math.abs(got - th) * 180 / Math.PI).toBeLessThan(2);
+  });
+
+  it('refuses a brittle case without KIc or without a sharp slit, in one sentence (InputError)', () => {
+    const base = readFileSync(new URL('../cases/ceramic-bend-bar-example.yaml', import.meta.url), 'utf8');
+    expect(() => parseCase(base.replace(/^  KIc: .*$/m, ''), 'x.yaml')).toThrow(/^material\.KIc must be a positive number .*MPa√m.*lefm/);
+    expect(() => parseCase(base.replace('width: 0}', 'width: 0.1}'), 'x.yaml')).toThrow(/crack\.model lefm needs a sharp slit/);
+  });
+});
+
