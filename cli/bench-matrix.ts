@@ -1,10 +1,14 @@
 // Timing of the sparse LDLᵀ solver on a Matrix Market file, and a grid stiffness to feed it.
 // Usage: node .build/cli/bench-matrix.js FILE  |  node .build/cli/bench-matrix.js --grid NX NY FILE
 
-import { pathToFileURL } from 'node:url';
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import {
-  amdOrder,
   analyze,
+  fillReducingOrder,
   assemblyMap,
   blockMapOffsets,
   factorize,
@@ -14,10 +18,13 @@ import {
   readMatrixMarket,
   writeMatrixMarket,
   type CsrMatrix,
+  type OrderingMethod,
 } from '../src/linalg/index.js';
 
 export interface BenchResult {
   n: number;
+  ordering: OrderingMethod;
+  /** Entries of L without amalgamation zeros. */
   nnzL: number;
   /** ordering + symbolic + numeric, seconds */
   factor_s: number;
@@ -29,12 +36,12 @@ export interface BenchResult {
   residual: number;
 }
 
-/** Factor and solve the matrix in file with b = 1; residual is the relative infinity norm. */
-export function benchMatrix(file: string): BenchResult {
-  const A = readMatrixMarket(file);
+/** Factor and solve the matrix (a file or one already read) with b = 1; residual is the relative infinity norm. */
+export function benchMatrix(file: string | CsrMatrix, ordering: OrderingMethod = 'auto'): BenchResult {
+  const A = typeof file === 'string' ? readMatrixMarket(file) : file;
   const n = A.n;
   const t0 = performance.now();
-  const perm = amdOrder(A);
+  const perm = fillReducingOrder(A, ordering);
   const t1 = performance.now();
   const sym = analyze(A, { ordering: perm });
   const t2 = performance.now();
@@ -49,7 +56,8 @@ export function benchMatrix(file: string): BenchResult {
   for (let i = 0; i < n; i++) res = Math.max(res, Math.abs(r[i] - b[i]));
   return {
     n,
-    nnzL: F.nnzL,
+    ordering,
+    nnzL: sym.nnzLExact,
     factor_s: (t3 - t0) / 1000,
     ordering_s: (t1 - t0) / 1000,
     symbolic_s: (t2 - t1) / 1000,
@@ -57,6 +65,32 @@ export function benchMatrix(file: string): BenchResult {
     solve_s: (t4 - t3) / 1000,
     residual: n > 0 ? res : 0,
   };
+}
+
+export interface ReferenceTiming {
+  n: number;
+  nnzL: number;
+  analyse_s: number;
+  factorize_s: number;
+}
+
+/**
+ * Times of the SuiteSparse supernodal Cholesky (CHOLMOD, its default ordering) on the same file, one
+ * per repetition, from the small driver cli/bench-cholmod.c built on demand; a sentence saying why when
+ * the Debian packages (libsuitesparse-dev, libopenblas-dev) or a C compiler are missing.
+ */
+export function cholmodTimes(file: string, repeat: number): ReferenceTiming[] | string {
+  if (!existsSync('/usr/include/suitesparse/cholmod.h')) return 'CHOLMOD headers not found (apt-get install libsuitesparse-dev libopenblas-dev)';
+  const src = fileURLToPath(new URL('../../cli/bench-cholmod.c', import.meta.url));
+  const exe = join(mkdtempSync(join(tmpdir(), 'rupta-bench-')), 'bench-cholmod');
+  try {
+    execFileSync('cc', ['-O2', '-o', exe, src, '-lcholmod', '-lsuitesparseconfig'], { stdio: 'pipe' });
+  } catch (e) {
+    return `the CHOLMOD driver did not build: ${String((e as { stderr?: Buffer }).stderr ?? e).split('\n')[0]}`;
+  }
+  // one thread for BLAS, as our factorization runs on one
+  const out = execFileSync(exe, [file, String(repeat)], { encoding: 'utf8', env: { ...process.env, OPENBLAS_NUM_THREADS: '1' } });
+  return out.trim().split('\n').map((l) => JSON.parse(l) as ReferenceTiming);
 }
 
 /** Stiffness of a unit square, bilinear, plane stress (E = 1, ν = 0.3, thickness 1), row-major 8×8. */

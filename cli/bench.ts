@@ -1,9 +1,10 @@
 // npm run bench: timings of mesh generation, assembly, ordering + factorization and solve on
-// plates of about 10k, 50k and 200k dofs, of a crack-growth run of the demo beam, of an
-// elastic run with stress intensity factors (about 5k dofs) and of the ceramic bend bar in the
-// brittle mode, run with all its files to separation (--no-sif skips these two, --no-plates
-// the plates).
-// npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix (one JSON line).
+// plates of about 10k, 50k and 200k dofs (both fill-reducing orderings side by side), of a
+// crack-growth run of the demo beam, of an elastic run with stress intensity factors (about 5k
+// dofs) and of the ceramic bend bar in the brittle mode, run with all its files to separation
+// (--no-sif skips these two, --no-plates the plates).
+// npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
+// and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file.
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -14,8 +15,8 @@ import type { CaseModel } from '../src/case/model.js';
 import { buildDomain } from '../src/geometry/domain.js';
 import { generateMesh } from '../src/mesh/generate.js';
 import { Analysis } from '../src/fracture/analysis.js';
-import { analyze, factorize } from '../src/linalg/index.js';
-import { benchMatrix } from './bench-matrix.js';
+import { DISSECTION_FROM_ROWS, analyze, factorize, type OrderingMethod } from '../src/linalg/index.js';
+import { benchMatrix, cholmodTimes, type BenchResult } from './bench-matrix.js';
 import { runCase } from '../src/run.js';
 
 const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
@@ -39,12 +40,29 @@ mesh: {size: ${h}, tipSize: ${h}, refineRadius: ${h}, lloyd: 8, seed: 1}
 `, 'bench-plate.yaml');
 }
 
+const ORDERINGS: OrderingMethod[] = ['mindegree', 'dissection'];
+const autoPick = (n: number): OrderingMethod => (n >= DISSECTION_FROM_ROWS ? 'dissection' : 'mindegree');
+
+/** One line per ordering: medians of the factorization runs, and its ratios to the first ordering. */
+function orderingLines(runs: Map<OrderingMethod, BenchResult[]>, n: number): string[] {
+  const base = runs.get(ORDERINGS[0])!;
+  const baseTotal = median(base.map((r) => r.factor_s));
+  return ORDERINGS.map((o) => {
+    const rs = runs.get(o)!;
+    const f = median(rs.map((r) => r.factor_s));
+    return `  ${o.padEnd(10)}${o === autoPick(n) ? '*' : ' '} nnz(L) ${(rs[0].nnzL / 1e6).toFixed(3)} M (×${(rs[0].nnzL / base[0].nnzL).toFixed(3)})` +
+      `  ordering ${median(rs.map((r) => r.ordering_s)).toFixed(3)} s  symbolic ${median(rs.map((r) => r.symbolic_s)).toFixed(3)} s` +
+      `  numeric ${median(rs.map((r) => r.numeric_s)).toFixed(3)} s  total ${f.toFixed(3)} s (×${(f / baseTotal).toFixed(2)})  solve ${median(rs.map((r) => r.solve_s)).toFixed(3)} s`;
+  });
+}
+
 function elastic(targetDofs: number, repeat: number): void {
   // Voronoi meshes have about two vertices per cell: dofs ≈ 4 × cells, cells ≈ area / (2.6 h²)
   const h = Math.sqrt((1e6 * 4) / (2.6 * targetDofs));
   const c = plateCase(h);
-  const t = { mesh: [] as number[], assembly: [] as number[], factor: [] as number[], solve: [] as number[] };
-  let dofs = 0, nnzL = 0, polys = 0;
+  const t = { mesh: [] as number[], assembly: [] as number[], factor: [] as number[] };
+  const runs = new Map<OrderingMethod, BenchResult[]>(ORDERINGS.map((o) => [o, []]));
+  let dofs = 0, polys = 0;
   for (let r = 0; r < repeat; r++) {
     let t0 = now();
     const mesh = generateMesh(buildDomain(c), c.mesh);
@@ -54,15 +72,34 @@ function elastic(targetDofs: number, repeat: number): void {
     const K = a.stiffnessMatrix(); // a fresh topology: pattern, element stiffnesses, supports eliminated
     t.assembly.push(now() - t0);
     t0 = now();
-    const F = factorize(K, analyze(K));
+    factorize(K, analyze(K)); // what a run does: the default ordering
     t.factor.push(now() - t0);
-    const b = new Float64Array(K.n).fill(1), x = new Float64Array(K.n);
-    t0 = now();
-    F.solve(b, x);
-    t.solve.push(now() - t0);
-    dofs = K.n; nnzL = F.nnzL; polys = mesh.cellStart.length - 1;
+    for (const o of ORDERINGS) runs.get(o)!.push(benchMatrix(K, o));
+    dofs = K.n; polys = mesh.cellStart.length - 1;
   }
-  console.log(`${String(dofs).padStart(7)} free dofs ${String(polys).padStart(7)} polygons  mesh ${median(t.mesh).toFixed(2)} s  assembly ${median(t.assembly).toFixed(2)} s  ordering+factor ${median(t.factor).toFixed(2)} s  solve ${median(t.solve).toFixed(3)} s  nnz(L) ${nnzL}`);
+  console.log(`${String(dofs).padStart(7)} free dofs ${String(polys).padStart(7)} polygons  mesh ${median(t.mesh).toFixed(2)} s  assembly ${median(t.assembly).toFixed(2)} s  analyse+factor (default ordering) ${median(t.factor).toFixed(2)} s`);
+  for (const l of orderingLines(runs, dofs)) console.log(l);
+}
+
+/** Both orderings on a Matrix Market file and, where installed, the SuiteSparse supernodal Cholesky. */
+function matrixFile(file: string, repeat: number): void {
+  const runs = new Map<OrderingMethod, BenchResult[]>(ORDERINGS.map((o) => [o, []]));
+  for (let r = 0; r < repeat; r++) for (const o of ORDERINGS) runs.get(o)!.push(benchMatrix(file, o));
+  const n = runs.get(ORDERINGS[0])![0].n;
+  console.log(`${file}: ${n} rows (medians of ${repeat}; * = the default ordering at this size)`);
+  for (const l of orderingLines(runs, n)) console.log(l);
+  const ref = cholmodTimes(file, repeat);
+  if (typeof ref === 'string') {
+    console.log(`  reference skipped: ${ref}`);
+    return;
+  }
+  const ours = runs.get(autoPick(n))!;
+  const oursAnalyse = median(ours.map((r) => r.ordering_s + r.symbolic_s));
+  const oursNumeric = median(ours.map((r) => r.numeric_s));
+  const refAnalyse = median(ref.map((r) => r.analyse_s));
+  const refNumeric = median(ref.map((r) => r.factorize_s));
+  console.log(`  SuiteSparse CHOLMOD (supernodal, its default ordering, one BLAS thread): nnz(L) ${(ref[0].nnzL / 1e6).toFixed(3)} M  analyse ${refAnalyse.toFixed(3)} s  factorize ${refNumeric.toFixed(3)} s`);
+  console.log(`  ours / CHOLMOD: analyse+factorize ×${((oursAnalyse + oursNumeric) / (refAnalyse + refNumeric)).toFixed(2)}, factorize alone ×${(oursNumeric / refNumeric).toFixed(2)}, nnz(L) ×${(ours[0].nnzL / ref[0].nnzL).toFixed(3)}`);
 }
 
 async function growth(repeat: number): Promise<void> {
@@ -148,9 +185,7 @@ const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
 if (mi >= 0) {
   const file = args[mi + 1];
   if (!file) { process.stderr.write('rupta bench: --matrix needs a Matrix Market file\n'); process.exit(2); }
-  const rs = Array.from({ length: repeat }, () => benchMatrix(file));
-  const pick = rs.sort((a, b) => a.factor_s + a.solve_s - b.factor_s - b.solve_s)[rs.length >> 1];
-  process.stdout.write(JSON.stringify({ n: pick.n, nnzL: pick.nnzL, factor_s: pick.factor_s, solve_s: pick.solve_s, residual: pick.residual }) + '\n');
+  matrixFile(file, repeat);
 } else {
   console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
   if (!args.includes('--no-plates')) for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);

@@ -8,64 +8,13 @@ import { join } from 'node:path';
 import type { CaseModel } from '../case/model.js';
 import { InputError } from '../errors.js';
 import { writeFileAtomic } from '../output/files.js';
-import type { WorkMesh } from './workmesh.js';
-import type { Crack, ProbeRow, StepRow, Tip } from './analysis.js';
+import type { AnalysisState } from './state.js';
+
+export type { AnalysisState, LoopState, Peak } from './state.js';
+export type { MeshState } from './workmesh.js';
 
 export const CHECKPOINT_FILE = 'checkpoint.json';
 const FORMAT = 1;
-
-/** Every array of the work mesh, including the order of the cells around each vertex (the cuts depend on it). */
-export interface MeshState {
-  x: Float64Array; y: Float64Array;
-  cells: (number[] | null)[]; family: number[]; families: WorkMesh['families'];
-  pinned: Uint8Array; face: Uint8Array; cracked: boolean[];
-  from: ({ v: number[]; w: number[] } | null)[];
-  cellsAround: number[][] | null;
-}
-
-export interface Peak { load_N: number; displacement_mm: number; cmod_mm: number | null; step: number }
-
-/** Where the loop stands between two steps: increment, fraction of it tried next, control level reached, steps done. */
-export interface LoopState {
-  inc: number; frac: number; done: number; step: number; peak: Peak;
-  /** The last step was driven by the crack opening and the case's control value fell: drive the next one so too. */
-  opening?: boolean;
-}
-
-export interface AnalysisState {
-  mesh: MeshState;
-  cracks: Crack[]; tips: Tip[];
-  kappa: [number, number][];
-  uw: Float64Array; lambda: number; W: number; lastF: number; lastLambda: number;
-  loop: LoopState;
-  rows: StepRow[]; lastProbes: ProbeRow[];
-  dofs: { initial: number; final: number; max: number };
-  growthLog: { tip: number; x: number; y: number; dx: number; dy: number; first: boolean; sxx: number; syy: number; sxy: number }[];
-  solveTime: number;
-}
-
-type Adjacency = { v2c: number[][] | null };
-
-/** A deep copy of the work mesh's state. */
-export function meshState(wm: WorkMesh): MeshState {
-  const around = (wm as unknown as Adjacency).v2c;
-  return {
-    x: Float64Array.from(wm.x), y: Float64Array.from(wm.y),
-    cells: wm.cells.map((c) => (c ? c.slice() : null)), family: wm.family.slice(),
-    families: wm.families.map((f) => ({ ...f, children: f.children.slice() })),
-    pinned: wm.pinned.slice(), face: wm.face.slice(), cracked: wm.cracked.slice(),
-    from: Array.from(wm.from, (f) => (f ? { v: f.v.slice(), w: f.w.slice() } : null)),
-    cellsAround: around ? around.map((l) => l.slice()) : null,
-  };
-}
-
-/** Put a saved state into a work mesh (which then owns the arrays). */
-export function restoreMesh(wm: WorkMesh, s: MeshState): void {
-  wm.x = Array.from(s.x); wm.y = Array.from(s.y);
-  wm.cells = s.cells; wm.family = s.family; wm.families = s.families;
-  wm.pinned = s.pinned; wm.face = s.face; wm.cracked = s.cracked; wm.from = s.from;
-  (wm as unknown as Adjacency).v2c = s.cellsAround;
-}
 
 /** Fingerprint of a case: any change to the validated model (not to comments or layout) changes it. */
 export function caseHash(c: CaseModel): string {

@@ -79,3 +79,132 @@ export function hoopDirection(
   if (den < 0) best += Math.max(-0.5, Math.min(0.5, 0.5 * (vm - vp) / den)) * step;
   return [Math.cos(a0 + best), Math.sin(a0 + best)];
 }
+
+/** The laid faces of one tip's crack, seen from the tip. */
+export interface TipFaces {
+  path: readonly number[]; twins: readonly number[];
+  /** The tip is the path's last vertex (else its first). */
+  fromEnd: boolean;
+}
+
+/** The cohesive state the checks read: trial history per pair and the pair of a plus-face vertex. */
+export interface FaceLoad { pairOf: ReadonlyMap<number, number>; kap: Float64Array; penalty: number; ft: number }
+
+/** Traction of the face pair next to the tip over ft, in the trial state (past the peak: more than 1); 0 without pairs. */
+export function endPairLoad(f: TipFaces, l: FaceLoad): number {
+  const P = f.path, n = P.length;
+  for (let j = 0; j < n; j++) {
+    const i = f.fromEnd ? n - 1 - j : j;
+    if (f.twins[i] < 0) continue;
+    const p = l.pairOf.get(P[i]);
+    return p === undefined ? 0 : l.kap[p] * l.penalty / l.ft;
+  }
+  return 0;
+}
+
+/** Length along the crack from the tip back to the nearest face pair whose traction has reached a·ft (Infinity if none). */
+export function frontDistance(f: TipFaces, l: FaceLoad, x: ArrayLike<number>, y: ArrayLike<number>, a: number): number {
+  const P = f.path, n = P.length, fromEnd = f.fromEnd;
+  const reach = a * l.ft / l.penalty;
+  let d = 0;
+  for (let j = 0; j < n; j++) {
+    const i = fromEnd ? n - 1 - j : j;
+    if (j > 0) { const q = fromEnd ? P[i + 1] : P[i - 1]; d += Math.hypot(x[P[i]] - x[q], y[P[i]] - y[q]); }
+    if (f.twins[i] < 0) continue;
+    const p = l.pairOf.get(P[i]);
+    if (p !== undefined && l.kap[p] >= reach) return d;
+  }
+  return Infinity;
+}
+
+export interface ReadinessInput {
+  /** Averaged major principal stress ahead of the tip (MPa). */
+  s1: number; ft: number;
+  /** Fraction of ft at which the next segment is laid; growth step (mm). */
+  insertAt: number; growthStep: number;
+  /** The tip's laid faces: front distance (mm) and end-pair load (fraction of ft); null for a tip without faces. */
+  faces: { frontDistance: number; endPairLoad: number } | null;
+}
+
+/**
+ * How close a tip is to laying its next segment (≥ 1: lay it). The segment is laid intact
+ * (the penalty branch of the law), so it changes the response very little until its
+ * traction reaches ft; laying it before that keeps the faces from taking more than ft at
+ * insertion, where the energy above the law would be lost. A tip without faces lays its
+ * first segment as soon as the stress ahead of it is tensile (the bulk is linear, so the
+ * direction does not depend on the load level). A grown tip lays the next one when either
+ *  - the averaged stress ahead reaches insertAt·ft while the laid interface is short (the
+ *    crack's front, the nearest face pair whose traction has reached insertAt·ft, lies
+ *    within one growth step of the tip), or
+ *  - the face pair next to the tip reaches insertAt·ft: the cohesive zone has caught up
+ *    with the end of the interface (an average that takes in a compressed zone ahead, a
+ *    beam near its top, would otherwise hold the tip back while its faces are overloaded).
+ */
+export function readiness(r: ReadinessInput): number {
+  if (!r.faces) return r.s1 > 0 ? Infinity : 0;
+  const a = r.insertAt;
+  const byStress = r.faces.frontDistance <= r.growthStep * (1 + 1e-9) ? r.s1 / (a * r.ft) : 0;
+  return Math.max(byStress, r.faces.endPairLoad / a);
+}
+
+/** Readiness beyond which a step was too long: the segment laid would start above ft. */
+export function overshootLimit(insertAt: number): number { return Math.max(1.05, 1 / insertAt); }
+
+/**
+ * Largest softening of any cohesive point between the committed (kap) and trial (kapTrial)
+ * histories, as a fraction of ft; the step that takes a point over its peak counts ten
+ * times, so the peak load is caught. l0 = ft/penalty is the end of the intact branch.
+ */
+export function softeningJump(kap: Float64Array, kapTrial: Float64Array, ft: number, penalty: number, stress: (w: number) => number): number {
+  const l0 = ft / penalty;
+  const tau = (k: number) => (k <= l0 ? penalty * k : stress(k - l0));
+  let worst = 0;
+  for (let p = 0; p < kap.length; p++) {
+    const k0 = kap[p], k1 = kapTrial[p];
+    if (k1 <= l0 || k1 <= k0) continue;
+    const drop = k0 <= l0 ? 10 * (ft - tau(k1)) : tau(k0) - tau(k1);
+    if (drop > worst) worst = drop;
+  }
+  return worst / ft;
+}
+
+/** Largest turn of a grown crack per growth step (rad). */
+export const MAX_TURN = Math.PI / 12;
+
+/** Direction (gx, gy) turned back toward (dx, dy) so that it deviates by at most maxTurn. */
+export function limitTurn(dx: number, dy: number, gx: number, gy: number, maxTurn: number): [number, number] {
+  const a = Math.atan2(dx * gy - dy * gx, dx * gx + dy * gy);
+  if (Math.abs(a) <= maxTurn) return [gx, gy];
+  const b = Math.atan2(dy, dx) + Math.sign(a) * maxTurn;
+  return [Math.cos(b), Math.sin(b)];
+}
+
+/**
+ * Kink by the maximum tangential stress criterion (Erdogan & Sih 1963) with the mode mixity
+ * from the face displacements behind the tip: near a sharp tip the sliding and opening jumps
+ * are both ∝ √r with the same factor (κ + 1)/G, so K_II/K_I is their ratio; on intact
+ * cohesive faces the jumps are the tractions over the penalty, so the ratio is shear over
+ * normal stress on the crack line. `beta` undoes the sliding weight of the law on cohesive
+ * faces (1 on traction-free ones). Null when the faces are not open.
+ */
+export function faceKink(path: readonly number[], twins: readonly number[], beta: number,
+  x: ArrayLike<number>, y: ArrayLike<number>, u: Float64Array,
+  t: { v: number; dx: number; dy: number }, R: number): [number, number] | null {
+  const tx = x[t.v], ty = y[t.v], nx = -t.dy, ny = t.dx;
+  // the face on the left of the tip's direction
+  const pathDir = (x[path[path.length - 1]] - x[path[0]]) * t.dx + (y[path[path.length - 1]] - y[path[0]]) * t.dy;
+  let jn = 0, jt = 0;
+  for (let i = 0; i < path.length; i++) {
+    if (twins[i] < 0) continue;
+    const r = Math.hypot(x[path[i]] - tx, y[path[i]] - ty);
+    if (r <= 0 || r > 1.5 * R) continue;
+    const [l, rr] = pathDir > 0 ? [path[i], twins[i]] : [twins[i], path[i]];
+    const dux = u[2 * l] - u[2 * rr], duy = u[2 * l + 1] - u[2 * rr + 1];
+    jn += dux * nx + duy * ny; jt += dux * t.dx + duy * t.dy;
+  }
+  if (!(jn > 0)) return null;
+  const ratio = beta * jt / jn; // K_II / K_I
+  const th = Math.abs(ratio) < 1e-12 ? 0 : 2 * Math.atan((1 - Math.sqrt(1 + 8 * ratio * ratio)) / (4 * ratio));
+  const c = Math.cos(th), s = Math.sin(th);
+  return [c * t.dx - s * t.dy, s * t.dx + c * t.dy];
+}

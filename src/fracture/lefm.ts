@@ -16,6 +16,7 @@ import { InputError, RunStopped } from '../errors.js';
 import { submatrixInto, type CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong } from './cut.js';
+import { SLIT_CUT } from './growth.js';
 import { refineAround, coarsenAway } from './adapt.js';
 import { measureTips, tipRows, type CrackLine, type TipMeasure } from './tips.js';
 import { mtsEquivalent } from './sif.js';
@@ -63,7 +64,7 @@ export class LefmAnalysis {
       if (n.width > 0) continue;
       const a = nearest(initial.xy, n.from[0], n.from[1]);
       const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
-      const cut = cutRay(this.wm, a, (n.to[0] - n.from[0]) / L, (n.to[1] - n.from[1]) / L, L, { snapFraction: 0.02, snapAngle: 0.02 });
+      const cut = cutRay(this.wm, a, (n.to[0] - n.from[0]) / L, (n.to[1] - n.from[1]) / L, L, SLIT_CUT);
       const tw = twinAlong(this.wm, cut.path, null, on[a] === 1, cut.end === 'boundary');
       this.cracks.push({ kind: 'notch', path: cut.path, twins: tw.map((t) => t[1]), grown: false });
     }

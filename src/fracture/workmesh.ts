@@ -3,6 +3,15 @@
 // cell), so displacements and crack-face pairs keyed by vertex id survive every change.
 import type { PolyMesh } from '../mesh/polymesh.js';
 
+/** Every array of the work mesh, including the order of the cells around each vertex (the cuts depend on it). */
+export interface MeshState {
+  x: Float64Array; y: Float64Array;
+  cells: (number[] | null)[]; family: number[]; families: WorkMesh['families'];
+  pinned: Uint8Array; face: Uint8Array; cracked: boolean[];
+  from: ({ v: number[]; w: number[] } | null)[];
+  cellsAround: number[][] | null;
+}
+
 export class WorkMesh {
   x: number[] = [];
   y: number[] = [];
@@ -35,6 +44,27 @@ export class WorkMesh {
   }
 
   get vertexCount(): number { return this.x.length; }
+
+  /** A deep copy of every array, as plain data. */
+  state(): MeshState {
+    const around = this.v2c;
+    return {
+      x: Float64Array.from(this.x), y: Float64Array.from(this.y),
+      cells: this.cells.map((c) => (c ? c.slice() : null)), family: this.family.slice(),
+      families: this.families.map((f) => ({ ...f, children: f.children.slice() })),
+      pinned: this.pinned.slice(), face: this.face.slice(), cracked: this.cracked.slice(),
+      from: Array.from(this.from, (f) => (f ? { v: f.v.slice(), w: f.w.slice() } : null)),
+      cellsAround: around ? around.map((l) => l.slice()) : null,
+    };
+  }
+
+  /** Take over a saved state (the mesh then owns its arrays). */
+  restore(s: MeshState): void {
+    this.x = Array.from(s.x); this.y = Array.from(s.y);
+    this.cells = s.cells; this.family = s.family; this.families = s.families;
+    this.pinned = s.pinned; this.face = s.face; this.cracked = s.cracked; this.from = s.from;
+    this.v2c = s.cellsAround;
+  }
 
   /** Grow a per-vertex field (k values per vertex) to the current vertex count by interpolation. */
   extendField(f: Float64Array, k: number): Float64Array {

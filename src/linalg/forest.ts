@@ -1,5 +1,5 @@
-// Depth-first postorder of a forest given as child lists (head/next), shared by the
-// minimum-degree assembly tree and the elimination tree.
+// Depth-first postorder of a forest given as child lists (head/next), used for the
+// elimination tree.
 
 /**
  * Writes the vertices 0..count−1 in postorder into out (roots are those with parent −1,

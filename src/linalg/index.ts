@@ -16,7 +16,7 @@ export {
   csrFromTriplets,
   toDense,
 } from './csr.js';
-export { amdOrder } from './amd.js';
+export { type OrderingMethod, fillReducingOrder, DISSECTION_FROM_ROWS } from './ordering.js';
 export { type Symbolic, type AnalyzeOptions, analyze } from './symbolic.js';
 export { type Factor, factorize } from './ldlt.js';
 export { readMatrixMarket, writeMatrixMarket } from './mtx.js';

@@ -2,7 +2,7 @@
 // fundamental supernodes with relaxed amalgamation, row structures and the storage layout.
 
 import type { CsrPattern } from './csr.js';
-import { amdOrder } from './amd.js';
+import { fillReducingOrder } from './ordering.js';
 import { forestPostorder } from './forest.js';
 
 /** Everything the numeric factorization needs that depends only on the pattern. */
@@ -46,8 +46,8 @@ export interface Symbolic {
 }
 
 export interface AnalyzeOptions {
-  /** 'amd' (default), 'natural', or a permutation new → old. */
-  ordering?: 'amd' | 'natural' | Int32Array;
+  /** 'auto' (default: by size, see ordering.ts), 'dissection', 'mindegree', 'natural', or a permutation new → old. */
+  ordering?: 'auto' | 'dissection' | 'mindegree' | 'natural' | Int32Array;
   /** Relaxed amalgamation on (default true). */
   amalgamate?: boolean;
 }
@@ -96,7 +96,14 @@ function trapezoid(k: number, m: number): number {
   return k * m - (k * (k - 1)) / 2;
 }
 
-/** Whether merging is worth its zeros (size limits and zero fractions as commonly used for relaxed supernodes). */
+/**
+ * Whether merging is worth its zeros. Relaxed supernodes, which accept some explicit zeros for larger
+ * dense blocks: Ashcraft & Grimes 1989, "The influence of relaxed supernode partitions on the
+ * multifrontal method", ACM TOMS 15:291–309. The limits (any merge up to 4 columns; up to 16 with
+ * under 80 % zeros, up to 48 with under 10 %, any size under 5 %) are the documented defaults of the
+ * supernodal Cholesky of Chen, Davis, Hager & Rajamanickam 2008, "Algorithm 887: CHOLMOD, supernodal
+ * sparse Cholesky factorization and update/downdate", ACM TOMS 35(3).
+ */
 function acceptMerge(cols: number, zeros: number, entries: number): boolean {
   const z = zeros / entries;
   return cols <= 4 || (cols <= 16 && z < 0.8) || (cols <= 48 && z < 0.1) || z < 0.05;
@@ -106,9 +113,9 @@ function acceptMerge(cols: number, zeros: number, entries: number): boolean {
 export function analyze(p: CsrPattern, opts: AnalyzeOptions = {}): Symbolic {
   const n = p.n;
   const { rowPtr: aPtr, colIdx: aCol } = p;
-  const ordering = opts.ordering ?? 'amd';
+  const ordering = opts.ordering ?? 'auto';
   let perm0: Int32Array;
-  if (ordering === 'amd') perm0 = amdOrder(p);
+  if (ordering === 'auto' || ordering === 'dissection' || ordering === 'mindegree') perm0 = fillReducingOrder(p, ordering);
   else if (ordering === 'natural') {
     perm0 = new Int32Array(n);
     for (let i = 0; i < n; i++) perm0[i] = i;
@@ -167,7 +174,7 @@ export function analyze(p: CsrPattern, opts: AnalyzeOptions = {}): Symbolic {
     fParent[s] = pl === -1 ? -1 : colSuperF[pl];
   }
 
-  // relaxed amalgamation: absorb a chain of supernodes into the next one when it is their parent
+  // relaxed amalgamation (Ashcraft & Grimes 1989): absorb a chain of supernodes into the next one when it is their parent
   const amalgamate = opts.amalgamate ?? true;
   const sStart: number[] = [];
   {

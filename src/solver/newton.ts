@@ -1,12 +1,13 @@
 // Newton–Raphson with line search for one load step under path-following control.
 // The load factor λ is an unknown beside the free displacements; one scalar constraint
 // closes the system (bordered solve with two back-substitutions per iteration):
-//   displacement: λ = target;  cmod: gauge(u) = target;  force: F(u) = target.
+//   displacement: λ = target;  cmod: gauge(u) = target;  force: F(u) = target;
+//   opening: Σ A·w over all crack-face pairs = target (drives a step through a snap-back).
 import type { CohesiveParams } from '../cohesive/interface.js';
 import { SingularMatrixError } from '../errors.js';
 import type { System } from './system.js';
 
-export type ControlKind = 'displacement' | 'cmod' | 'force';
+export type ControlKind = 'displacement' | 'cmod' | 'force' | 'opening';
 
 export interface StepResult { converged: boolean; iterations: number; reason: string }
 
@@ -50,14 +51,15 @@ function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
   const fd = sys.freeDofs;
   for (let i = 0; i < fd.length; i++) { const v = w.f[fd[i]]; w.r[i] = v; const av = Math.abs(v); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
   const F = sys.loadForce(w.f);
-  const g = kind === 'displacement' ? lambda - target : kind === 'cmod' ? sys.gaugeReading(w.u) - target : F - target;
+  const g = kind === 'displacement' ? lambda - target : kind === 'cmod' ? sys.gaugeReading(w.u) - target
+    : kind === 'opening' ? sys.openingReading(w.u) - target : F - target;
   return { rmax, g, F };
 }
 
 export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
   kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
   const m = sys.nFree, fd = sys.freeDofs;
-  const { gauge, gaugeW } = sys.driven;
+  const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
   if (kind === 'displacement') st.lambda = target;
   const sec = opt.secant ?? false;
   let res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
@@ -85,7 +87,7 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     // constraint gradient (g_f over free dofs, g_λ)
     w.gf.fill(0);
     if (kind === 'displacement') gl = 1;
-    else if (kind === 'cmod') {
+    else if (kind === 'cmod' || kind === 'opening') {
       gl = 0;
       for (let i = 0; i < gauge.length; i++) {
         const fi = sys.freeOf[gauge[i]];

@@ -185,5 +185,33 @@ export class System {
     return g;
   }
 
+  /**
+   * The crack opening summed over all face pairs, Σ A·w (mm³), as a gauge: it grows while
+   * the cracks open even where the load and the mouth opening both turn back (snap-back).
+   * Built on first use; the pairs only change with the topology.
+   */
+  get openingGauge(): { gauge: Int32Array; gaugeW: Float64Array } {
+    if (this.opening) return this.opening;
+    const P = this.pairs, n = P.plus.length;
+    const gauge = new Int32Array(4 * n), gaugeW = new Float64Array(4 * n);
+    for (let p = 0; p < n; p++) {
+      const a = P.plus[p], b = P.minus[p], A = P.area[p];
+      gauge.set([2 * a, 2 * a + 1, 2 * b, 2 * b + 1], 4 * p);
+      gaugeW.set([A * P.nx[p], A * P.ny[p], -A * P.nx[p], -A * P.ny[p]], 4 * p);
+    }
+    this.opening = { gauge, gaugeW };
+    return this.opening;
+  }
+
+  private opening: { gauge: Int32Array; gaugeW: Float64Array } | null = null;
+
+  /** Σ A·w of displacement u (mm³). */
+  openingReading(u: Float64Array): number {
+    const { gauge, gaugeW } = this.openingGauge;
+    let g = 0;
+    for (let i = 0; i < gauge.length; i++) g += gaugeW[i] * u[gauge[i]];
+    return g;
+  }
+
   get cellBlocks(): number { return this.nCellBlocks; }
 }

@@ -1,0 +1,157 @@
+// One topology's equations for the loop: the compact mesh of the work mesh, its System with
+// the face pairs of the cohesive cracks, and the maps between the displacement vector on
+// stable vertex ids (uw) and the compact (u) and free (uf) vectors of the System.
+import type { PolyMesh } from '../mesh/polymesh.js';
+import { interfaceEnergy, type CohesiveParams } from '../cohesive/interface.js';
+import { System, type PairGeom, type DrivenDofs } from '../solver/system.js';
+import { NewtonWork } from '../solver/newton.js';
+import type { Driven } from '../solver/driven.js';
+import { RunStopped } from '../errors.js';
+import { submatrixInto, type CsrMatrix } from '../linalg/index.js';
+import type { WorkMesh } from './workmesh.js';
+import type { Crack } from './state.js';
+
+export class Equations {
+  readonly compact: ReturnType<WorkMesh['toPolyMesh']>;
+  readonly sys: System;
+  readonly work: NewtonWork;
+  /** Free displacements of the last converged (or restored) state. */
+  readonly uf: Float64Array;
+  /** Cohesive histories per pair: committed, and of the last evaluation. */
+  readonly kap: Float64Array;
+  readonly kapTrial: Float64Array;
+  /** Plus-face vertex (stable id) of each pair, and the pair of a plus-face vertex. */
+  readonly pairPlus: number[];
+  readonly pairOf: Map<number, number>;
+
+  /** The equations of the work mesh as it is; throws RunStopped above maxDofs. */
+  constructor(wm: WorkMesh, cracks: readonly Crack[], driven: Driven, D: Float64Array, thickness: number,
+    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number) {
+    const cp = wm.toPolyMesh();
+    this.compact = cp;
+    const co = cp.compactOf;
+    const nd = 2 * cp.vertexOf.length;
+    if (maxDofs && nd > maxDofs) throw new RunStopped(`the mesh grew to ${nd} dofs, above the limit of ${maxDofs}`);
+    const dof = (d: { v: number; comp: number }) => 2 * co[d.v] + d.comp;
+    const dd: DrivenDofs = {
+      fixed: Int32Array.from(driven.fixed.filter((d) => co[d.v] >= 0).map(dof)),
+      load: Int32Array.from(driven.load.filter((d) => co[d.v] >= 0).map(dof)),
+      loadW: Float64Array.from(driven.load.filter((d) => co[d.v] >= 0).map((d) => d.w)),
+      gauge: Int32Array.from(driven.gauge.filter((d) => co[d.v] >= 0).map(dof)),
+      gaugeW: Float64Array.from(driven.gauge.filter((d) => co[d.v] >= 0).map((d) => d.w)),
+    };
+    const { geom, plus } = pairGeometry(wm, cracks, co, thickness);
+    this.pairPlus = plus;
+    this.pairOf = new Map(plus.map((v, i) => [v, i]));
+    this.sys = new System(cp.mesh, D, thickness, geom, dd);
+    this.work = new NewtonWork(this.sys);
+    this.uf = new Float64Array(this.sys.nFree);
+    this.gather(uw);
+    this.kap = Float64Array.from(plus.map((v) => kappa.get(v) ?? 0));
+    this.kapTrial = this.kap.slice();
+  }
+
+  get dofs(): number { return 2 * this.compact.vertexOf.length; }
+
+  /** uf from the displacements on stable ids. */
+  gather(uw: Float64Array): void {
+    const fd = this.sys.freeDofs, vo = this.compact.vertexOf, uf = this.uf;
+    for (let i = 0; i < fd.length; i++) uf[i] = uw[2 * vo[fd[i] >> 1] + (fd[i] & 1)];
+  }
+
+  /** The last evaluated displacement (work.u) onto the stable ids. */
+  scatter(uw: Float64Array): void {
+    const u = this.work.u, vo = this.compact.vertexOf;
+    for (let i = 0; i < vo.length; i++) { uw[2 * vo[i]] = u[2 * i]; uw[2 * vo[i] + 1] = u[2 * i + 1]; }
+  }
+
+  /** Make the trial histories the committed ones, also on the stable ids. */
+  commit(kappa: Map<number, number>): void {
+    this.kap.set(this.kapTrial);
+    this.pairPlus.forEach((v, i) => kappa.set(v, this.kapTrial[i]));
+  }
+
+  /** Elastic energy (bulk and intact faces) and energy dissipated on the faces (N·mm) of the last evaluated state. */
+  energies(coh: CohesiveParams): { elastic: number; dissipated: number } {
+    const sys = this.sys, u = this.work.u, f = new Float64Array(sys.nDof);
+    sys.internal(u, null, this.kap, this.kapTrial, f, false, 0);
+    let e = 0;
+    for (let i = 0; i < u.length; i++) e += 0.5 * u[i] * f[i];
+    let d = 0;
+    const P = sys.pairs;
+    for (let p = 0; p < P.plus.length; p++) {
+      const a = P.plus[p], b = P.minus[p];
+      const dx = u[2 * a] - u[2 * b], dy = u[2 * a + 1] - u[2 * b + 1];
+      const w = dx * P.nx[p] + dy * P.ny[p], s = dx * P.ny[p] - dy * P.nx[p];
+      const en = interfaceEnergy(coh, w, s, this.kap[p]);
+      e += en.stored * P.area[p];
+      d += en.dissipated * P.area[p];
+    }
+    return { elastic: e, dissipated: d };
+  }
+
+  /** Crack face area (mm²) whose traction has reached ft, and the part of it fully separated (no traction left). */
+  faceAreas(coh: CohesiveParams): { reached_mm2: number; separated_mm2: number } {
+    const P = this.sys.pairs, l0 = coh.law.ft / coh.penalty, wc = coh.law.wc;
+    let reached = 0, separated = 0;
+    for (let p = 0; p < P.plus.length; p++) {
+      if (this.kap[p] > l0) reached += P.area[p];
+      if (this.kap[p] >= l0 + wc) separated += P.area[p];
+    }
+    return { reached_mm2: reached, separated_mm2: separated };
+  }
+
+  /** The constrained bulk stiffness (free dofs only). */
+  stiffnessMatrix(): CsrMatrix {
+    this.sys.kT.values.set(this.sys.kBulk.values);
+    return submatrixInto(this.sys.kT, this.sys.kff);
+  }
+
+  /** Which value of the last equilibrium evaluation is NaN or infinite, and where (null if none). */
+  nonFinitePlace(): string | null {
+    const u = this.work.u, f = this.work.f, xy = this.sys.mesh.xy;
+    for (let i = 0; i < u.length; i++) {
+      const bad = !Number.isFinite(u[i]) ? ['displacement', u[i]] as const : !Number.isFinite(f[i]) ? ['internal force', f[i]] as const : null;
+      if (!bad) continue;
+      const v = i >> 1;
+      return `the ${bad[0]} ${i & 1 ? 'uy' : 'ux'} became ${bad[1]} at the vertex near [${xy[2 * v].toFixed(2)}, ${xy[2 * v + 1].toFixed(2)}] mm`;
+    }
+    return null;
+  }
+}
+
+/** Node pairs of the cohesive cracks (compact ids) with their normals and tributary face areas, and the plus vertex (stable id) of each. */
+export function pairGeometry(wm: WorkMesh, cracks: readonly Crack[], co: Int32Array, thickness: number): { geom: PairGeom; plus: number[] } {
+  const plus: number[] = [], minus: number[] = [], nx: number[] = [], ny: number[] = [], area: number[] = [];
+  const { x, y } = wm;
+  for (const k of cracks) {
+    if (k.kind !== 'cohesive') continue;
+    const P = k.path, n = P.length;
+    for (let i = 0; i < n; i++) {
+      if (k.twins[i] < 0) continue;
+      const a = i > 0 ? P[i - 1] : P[i], b = i + 1 < n ? P[i + 1] : P[i];
+      const tx = x[b] - x[a], ty = y[b] - y[a], L = Math.hypot(tx, ty);
+      const len = 0.5 * ((i > 0 ? Math.hypot(x[P[i]] - x[P[i - 1]], y[P[i]] - y[P[i - 1]]) : 0)
+        + (i + 1 < n ? Math.hypot(x[P[i + 1]] - x[P[i]], y[P[i + 1]] - y[P[i]]) : 0));
+      plus.push(co[P[i]]); minus.push(co[k.twins[i]]);
+      // plus = left face; its normal points from the minus (right) face to it
+      nx.push(-ty / L); ny.push(tx / L); area.push(len * thickness);
+    }
+  }
+  const plusV: number[] = [];
+  for (const k of cracks) if (k.kind === 'cohesive') k.path.forEach((v, i) => { if (k.twins[i] >= 0) plusV.push(v); });
+  return {
+    geom: { plus: Int32Array.from(plus), minus: Int32Array.from(minus), nx: Float64Array.from(nx), ny: Float64Array.from(ny), area: Float64Array.from(area) },
+    plus: plusV,
+  };
+}
+
+/** Cell centroids of a compact mesh taken from the work mesh (the same formula as everywhere the loop uses them). */
+export function centroidsOf(wm: WorkMesh, m: PolyMesh, cellOf: Int32Array | number[]): Float64Array {
+  const nc = m.cellStart.length - 1, cent = new Float64Array(2 * nc);
+  for (let c = 0; c < nc; c++) {
+    const cc = wm.centroid(cellOf[c]);
+    cent[2 * c] = cc[0]; cent[2 * c + 1] = cc[1];
+  }
+  return cent;
+}

@@ -1,0 +1,298 @@
+// Growth: the cracks and tips before loading (notch slits, start points, pre-cut cracks),
+// a crack's start anywhere in the material, and the segments each ready tip lays. These
+// change the work mesh and the crack record; the caller rebuilds the equations after.
+import type { CaseModel } from '../case/model.js';
+import type { PolyMesh } from '../mesh/polymesh.js';
+import type { CohesiveParams } from '../cohesive/interface.js';
+import { cellAreas, cellStresses } from '../vem/stress.js';
+import { boundaryVertices } from '../solver/driven.js';
+import { WorkMesh } from './workmesh.js';
+import { cutRay, twinAlong, defaultCut } from './cut.js';
+import { refineAround, coarsenAway } from './adapt.js';
+import {
+  tipStress, growthDirection, hoopDirection, faceKink, limitTurn, MAX_TURN,
+  readiness, endPairLoad, frontDistance, type FaceLoad,
+} from './criterion.js';
+import { centroidsOf, type Equations } from './equations.js';
+import type { CrackState, Tip } from './state.js';
+import { measureTips, type TipMeasure } from './tips.js';
+
+/** What growth reads and changes: the case, the mesh, the crack record, and the equations of the current state. */
+export interface GrowthRoom { c: CaseModel; wm: WorkMesh; s: CrackState; coh: CohesiveParams; eq: Equations; D: Float64Array }
+
+/** Cell stresses, areas and centroids of the last evaluated state, for the tip checks. */
+export function fields(g: GrowthRoom): { m: PolyMesh; stress: Float64Array; areas: Float64Array; cent: Float64Array } {
+  const m = g.eq.sys.mesh;
+  const stress = cellStresses(m, g.eq.work.u, g.D);
+  const areas = cellAreas(m);
+  return { m, stress, areas, cent: centroidsOf(g.wm, m, g.eq.compact.cellOf) };
+}
+
+/**
+ * Cuts keep to their line: snapping to a vertex within 20 % of an edge or along an edge within
+ * 7° turned a slit's end, and grown segments, by several degrees, differently at the two tips
+ * of a point-symmetric problem and from one mesh seed to the next.
+ */
+export const SLIT_CUT = { snapFraction: 0.02, snapAngle: 0.02 };
+const GROWTH_CUT = { snapFraction: 0.1, snapAngle: 0.03 };
+
+/** Width-0 notches are cut into the mesh as traction-free cracks. */
+export function insertNotchSlits(c: CaseModel, wm: WorkMesh, s: CrackState, initial: PolyMesh): void {
+  const on = boundaryVertices(initial);
+  for (const n of c.geometry.notches) {
+    if (n.width > 0) continue;
+    const a = nearestVertex(initial, n.from[0], n.from[1]);
+    const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
+    const dx = (n.to[0] - n.from[0]) / L, dy = (n.to[1] - n.from[1]) / L;
+    const cut = cutRay(wm, a, dx, dy, L, SLIT_CUT);
+    const startOnBoundary = on[a] === 1;
+    const tw = twinAlong(wm, cut.path, null, startOnBoundary, cut.end === 'boundary');
+    s.cracks.push({ kind: 'notch', path: cut.path, twins: tw.map((t) => t[1]) });
+  }
+}
+
+/** A cohesive crack cut in before loading, from a boundary point straight to another. */
+export function cohesiveCut(wm: WorkMesh, s: CrackState, from: [number, number], to: [number, number]): void {
+  const a = nearestLive(wm, from[0], from[1]);
+  const L = Math.hypot(to[0] - from[0], to[1] - from[1]);
+  const cut = cutRay(wm, a, (to[0] - from[0]) / L, (to[1] - from[1]) / L, L, { ...defaultCut, snapFraction: 0.1 });
+  const tw = twinAlong(wm, cut.path, null, true, cut.end === 'boundary');
+  s.cracks.push({ kind: 'cohesive', path: cut.path, twins: tw.map((t) => t[1]) });
+}
+
+/** The tips the case starts from (notch tips or given points), with the mesh refined around each. */
+export function placeTips(c: CaseModel, wm: WorkMesh, s: CrackState): void {
+  const crack = c.crack, tips = s.tips;
+  if (!crack) return;
+  if (crack.start === 'notch-tips') {
+    let slit = 0;
+    for (const n of c.geometry.notches) {
+      const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
+      const dx = (n.to[0] - n.from[0]) / L, dy = (n.to[1] - n.from[1]) / L;
+      if (n.width > 0) {
+        tips.push({ crack: -1, v: nearestLive(wm, n.to[0], n.to[1]), dx, dy, back: null, active: true });
+      } else {
+        const k = s.cracks.filter((q) => q.kind === 'notch')[slit++];
+        const ki = s.cracks.indexOf(k);
+        const end = k.path[k.path.length - 1];
+        if (k.twins[k.twins.length - 1] < 0) {
+          const prev = k.path[k.path.length - 2];
+          tips.push({ crack: -1, v: end, dx, dy, back: [wm.x[prev], wm.y[prev]], active: true, slit: ki });
+        }
+        if (k.twins[0] < 0) {
+          const next = k.path[1];
+          tips.push({ crack: -1, v: k.path[0], dx: -dx, dy: -dy, back: [wm.x[next], wm.y[next]], active: true, slit: ki });
+        }
+      }
+    }
+  } else if (Array.isArray(crack.start)) {
+    for (const p of crack.start) tips.push({ crack: -1, v: nearestLive(wm, p[0], p[1]), dx: 0, dy: 0, back: null, active: true });
+  }
+  for (const t of tips) refineAround(wm, wm.x[t.v], wm.y[t.v], c.mesh.refineRadius, c.mesh.tipSize);
+}
+
+/** How close tip t is to laying its next segment (≥ 1: lay it), from the averaged stress s1 ahead of it and its faces' trial state. */
+export function tipReadiness(g: GrowthRoom, t: Tip, s1: number): number {
+  const crack = g.c.crack!, insertAt = crack.insertAt ?? 1;
+  let faces = null;
+  if (t.crack >= 0) {
+    const k = g.s.cracks[t.crack];
+    const f = { path: k.path, twins: k.twins, fromEnd: k.path[k.path.length - 1] === t.v };
+    const l: FaceLoad = { pairOf: g.eq.pairOf, kap: g.eq.kapTrial, penalty: g.coh.penalty, ft: g.coh.law.ft };
+    faces = { frontDistance: frontDistance(f, l, g.wm.x, g.wm.y, insertAt), endPairLoad: endPairLoad(f, l) };
+  }
+  return readiness({ s1, ft: g.c.material.ft, insertAt, growthStep: crack.growthStep, faces });
+}
+
+/** Largest readiness among the active tips with faces (0 without): more than a little over 1 and the step was too long. */
+export function tipOvershoot(g: GrowthRoom): number {
+  const crack = g.c.crack;
+  if (!crack || !g.s.tips.some((t) => t.active)) return 0;
+  const { m, stress, areas, cent } = fields(g);
+  let worst = 0;
+  for (const t of g.s.tips) {
+    // a tip without faces lays its first segment at any load
+    if (!t.active || t.crack < 0) continue;
+    const ts = tipStress(m, stress, cent, areas, g.wm.x[t.v], g.wm.y[t.v], t.dx, t.dy, crack.averagingRadius, 2);
+    // past its peak the end pair's ratio grows fast; any value over the limit only cuts the step
+    worst = Math.max(worst, Math.min(10, tipReadiness(g, t, ts.s1)));
+  }
+  return worst;
+}
+
+/**
+ * `crack.start: anywhere`: once the major principal stress of some cell, away from the
+ * supports and load points, reaches ft, a crack starts at the vertex nearest to it,
+ * perpendicular to that stress; inside the material it gets two tips running apart.
+ * Returns 1 when a crack started (the mesh is refined around it).
+ */
+export function initiate(g: GrowthRoom): number {
+  const { c, wm } = g, crack = c.crack!, tips = g.s.tips;
+  if (crack.start !== 'anywhere' || tips.length > 0) return 0;
+  const { m, stress, cent } = fields(g);
+  const keep = Math.max(2 * c.mesh.tipSize, crack.averagingRadius);
+  const away: { x: number; y: number; r: number }[] = [];
+  for (const q of [...c.supports, ...c.loads]) {
+    const pts = q.at ? [q.at] : q.along ? [q.along[0], q.along[1], [(q.along[0][0] + q.along[1][0]) / 2, (q.along[0][1] + q.along[1][1]) / 2]] : [];
+    for (const p of pts) away.push({ x: p[0], y: p[1], r: q.width / 2 + keep + (q.along ? Math.hypot(q.along[1][0] - q.along[0][0], q.along[1][1] - q.along[0][1]) / 2 : 0) });
+  }
+  let best = -1, bestS = -Infinity;
+  for (let k = 0; k < m.cellStart.length - 1; k++) {
+    const x = cent[2 * k], y = cent[2 * k + 1];
+    if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
+    const sxx = stress[3 * k], syy = stress[3 * k + 1], sxy = stress[3 * k + 2];
+    const s1 = (sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy);
+    if (s1 > bestS) { bestS = s1; best = k; }
+  }
+  if (best < 0 || bestS < c.material.ft) return 0;
+  const x = cent[2 * best], y = cent[2 * best + 1];
+  const v = nearestLive(wm, x, y);
+  const ts = tipStress(m, stress, cent, cellAreas(m), wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
+  const [dx, dy] = growthDirection(ts, 1, 0);
+  if (onOutline(wm, v)) {
+    // from the boundary the crack runs into the material
+    const sgn = dx * (x - wm.x[v]) + dy * (y - wm.y[v]) >= 0 ? 1 : -1;
+    tips.push({ crack: -1, v, dx: sgn * dx, dy: sgn * dy, back: null, active: true });
+  } else {
+    const a = tips.length;
+    tips.push({ crack: -1, v, dx, dy, back: null, active: true, partner: a + 1 });
+    tips.push({ crack: -1, v, dx: -dx, dy: -dy, back: null, active: true, partner: a });
+  }
+  refineAround(wm, wm.x[v], wm.y[v], c.mesh.refineRadius, c.mesh.tipSize);
+  return 1;
+}
+
+/** Check every active tip (or start a crack); grow those that meet the criterion. Returns how many grew (the mesh changed if > 0). */
+export function grow(g: GrowthRoom): number {
+  const { c, wm, s } = g, crack = c.crack!;
+  if (initiate(g) > 0) return 1;
+  const { m, stress, areas, cent } = fields(g);
+  // K at the slit tips of the state before any cut of this round (the mesh changes as tips grow)
+  let measured: TipMeasure[] | null = null;
+  let grown = 0;
+  for (const t of s.tips) {
+    if (!t.active) continue;
+    const tx = wm.x[t.v], ty = wm.y[t.v];
+    const ts = tipStress(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius, 2);
+    if (tipReadiness(g, t, ts.s1) < 1) continue;
+    // The stress at a cohesive tip is nearly isotropic (on faces carrying a uniform traction
+    // the stress along the crack equals the traction across it), so its principal axes say
+    // little about the path. The mode mixity does: sliding over opening of the faces behind
+    // the tip gives K_II/K_I, and the kink follows the maximum tangential stress. A tip with
+    // no faces yet (a blunt notch) follows the largest hoop stress around it; a fresh start
+    // point with no direction grows perpendicular to the major principal stress.
+    // Out of a sharp slit the first segment follows the maximum tangential stress criterion
+    // with K_I and K_II from the interaction integral.
+    let slitDir: [number, number] | null = null;
+    if (t.crack < 0 && t.slit !== undefined && t.slit >= 0) {
+      measured ??= tipMeasures(g);
+      const k = measured.find((q) => q.v === t.v);
+      if (k && k.kink !== null && k.KI !== null && k.KI > 0) slitDir = [Math.cos(k.kink), Math.sin(k.kink)];
+    }
+    const faces = t.crack >= 0 ? t.crack : t.slit !== undefined && t.slit >= 0 ? t.slit : -1;
+    const fk = faces >= 0 ? s.cracks[faces] : null;
+    let [gx, gy] = slitDir ?? (fk ? faceKink(fk.path, fk.twins, fk.kind === 'cohesive' ? g.coh.beta : 1, wm.x, wm.y, s.uw, t, crack.averagingRadius) : null)
+      ?? (t.dx !== 0 || t.dy !== 0
+        ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
+        : growthDirection(ts, t.dx, t.dy));
+    // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
+    if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
+    s.growthLog.push({ tip: s.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
+    // a crack stops a tip cell short of where the machine or a support touches the
+    // specimen: cut through a loaded point, the halves would hang on one vertex
+    const len = Math.min(crack.growthStep, contactRoom(c, tx, ty) - c.mesh.tipSize);
+    if (len < 0.5 * c.mesh.tipSize) { t.active = false; continue; }
+    const cut = cutRay(wm, t.v, gx, gy, len, GROWTH_CUT);
+    if (cut.path.length < 2) { t.active = false; continue; }
+    if (t.crack < 0) { s.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = s.cracks.length - 1; }
+    const k = s.cracks[t.crack];
+    const through = cut.end === 'boundary';
+    if (cut.end === 'crack') t.active = false;
+    // an interior start stays one vertex until its partner tip has cut the other way
+    const partner = t.partner !== undefined ? s.tips[t.partner] : null;
+    const interiorStart = t.back === null && partner !== null && partner.crack < 0;
+    const tw = twinAlong(wm, cut.path, t.back, !interiorStart, through);
+    if (interiorStart) partner!.back = [wm.x[cut.path[1]], wm.y[cut.path[1]]];
+    k.twins[k.twins.length - 1] = tw[0][1];
+    for (let i = 1; i < cut.path.length; i++) { k.path.push(cut.path[i]); k.twins.push(tw[i][1]); }
+    const end = cut.path[cut.path.length - 1], prev = cut.path[cut.path.length - 2];
+    t.back = [wm.x[prev], wm.y[prev]];
+    const L = Math.hypot(wm.x[end] - tx, wm.y[end] - ty);
+    t.dx = (wm.x[end] - tx) / L; t.dy = (wm.y[end] - ty) / L;
+    t.v = end;
+    if (through) t.active = false;
+    else refineAround(wm, wm.x[end], wm.y[end], c.mesh.refineRadius, c.mesh.tipSize);
+    grown++;
+  }
+  if (grown > 0) {
+    const at = s.tips.filter((t) => t.active).map((t) => [wm.x[t.v], wm.y[t.v]] as [number, number]);
+    if (c.mesh.coarsen && at.length > 0) coarsenAway(wm, at, 2 * c.mesh.refineRadius + 2 * c.mesh.size);
+  }
+  return grown;
+}
+
+/** K_I, K_II and the MTS direction at every slit and crack end of the last evaluated state. */
+export function tipMeasures(g: GrowthRoom): TipMeasure[] {
+  return measureTips(g.wm, g.s.cracks, g.eq.compact, g.eq.work.u, { E: g.c.material.E, nu: g.c.material.nu, model: g.c.model, D: g.D }, g.c);
+}
+
+/**
+ * K and directions at every tip for tips.csv: at a slit the MTS kink of its K; at the end of a
+ * cohesive crack the direction the growth criterion takes there (null once the tip has stopped).
+ */
+export function tipDirections(g: GrowthRoom): TipMeasure[] {
+  const out = tipMeasures(g), { s, wm } = g;
+  for (const m of out) {
+    const k = s.cracks[m.crack];
+    if (k.kind !== 'cohesive') continue;
+    const t = s.tips.find((q) => q.active && q.crack === m.crack && q.v === m.v);
+    if (!t) { m.kink = null; continue; }
+    const [fx, fy] = faceKink(k.path, k.twins, g.coh.beta, wm.x, wm.y, s.uw, t, g.c.crack?.averagingRadius ?? 0) ?? [t.dx, t.dy];
+    const [gx, gy] = limitTurn(t.dx, t.dy, fx, fy, MAX_TURN);
+    m.kink = Math.atan2(gy, gx);
+  }
+  return out;
+}
+
+/** True once a crack has run from boundary to boundary (its last tip left the material). */
+export function separated(s: CrackState): boolean {
+  return s.tips.some((t) => !t.active && t.crack >= 0 && s.cracks[t.crack].twins.at(-1)! >= 0);
+}
+
+/** Distance from (x, y) to the nearest load or support (a point, a bearing strip or a segment). */
+function contactRoom(c: CaseModel, x: number, y: number): number {
+  let room = Infinity;
+  for (const q of [...c.supports, ...c.loads]) {
+    const [p0, p1] = q.along ?? [q.at!, q.at!];
+    const ex = p1[0] - p0[0], ey = p1[1] - p0[1], L2 = ex * ex + ey * ey;
+    const s = L2 > 0 ? Math.max(0, Math.min(1, ((x - p0[0]) * ex + (y - p0[1]) * ey) / L2)) : 0;
+    room = Math.min(room, Math.hypot(x - p0[0] - s * ex, y - p0[1] - s * ey) - q.width / 2);
+  }
+  return room;
+}
+
+/** Vertex v lies on the outline (an edge of it has one cell only). */
+function onOutline(wm: WorkMesh, v: number): boolean {
+  for (const c of wm.cellsOf(v)) {
+    const vs = wm.cells[c]!, n = vs.length, k = vs.indexOf(v);
+    if (wm.neighbourAcross(c, v, vs[(k + 1) % n]) < 0 || wm.neighbourAcross(c, vs[(k + n - 1) % n], v) < 0) return true;
+  }
+  return false;
+}
+
+/** The vertex with cells nearest to (x, y). */
+export function nearestLive(wm: WorkMesh, x: number, y: number): number {
+  let best = -1, bd = Infinity;
+  for (let v = 0; v < wm.vertexCount; v++) {
+    if (wm.cellsOf(v).length === 0) continue;
+    const d = Math.hypot(wm.x[v] - x, wm.y[v] - y);
+    if (d < bd) { bd = d; best = v; }
+  }
+  return best;
+}
+
+export function nearestVertex(m: PolyMesh, x: number, y: number): number {
+  let best = 0, bd = Infinity;
+  for (let v = 0; v < m.xy.length >> 1; v++) { const d = Math.hypot(m.xy[2 * v] - x, m.xy[2 * v + 1] - y); if (d < bd) { bd = d; best = v; } }
+  return best;
+}

@@ -1,0 +1,96 @@
+// Everything the staggered loop keeps between steps, as one plain record (typed arrays,
+// arrays, plain objects): a snapshot is a structured clone, undoing is putting one back,
+// and a checkpoint is a snapshot with the loop position, written out as JSON.
+import type { MeshState, WorkMesh } from './workmesh.js';
+
+export interface StepRow {
+  step: number; control: number; load_N: number; displacement_mm: number; cmod_mm: number | null;
+  crack_length_mm: number; tip_x_mm: number | null; tip_y_mm: number | null;
+  external_work_Nmm: number; elastic_energy_Nmm: number; dissipated_Nmm: number; iterations: number;
+}
+
+export interface ProbeRow { step: number; probe: string; x_mm: number; y_mm: number; ux_mm: number; uy_mm: number; sxx_MPa: number; syy_MPa: number; sxy_MPa: number; s1_MPa: number }
+
+export interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
+/** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
+export interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number }
+
+/** One growth event: tip index, position, chosen direction, whether it was the kink out of the start, and the averaged stress there. */
+export interface GrowthEvent { tip: number; x: number; y: number; dx: number; dy: number; first: boolean; sxx: number; syy: number; sxy: number }
+
+export interface Peak { load_N: number; displacement_mm: number; cmod_mm: number | null; step: number }
+
+/** Where the loop stands between two steps: increment, fraction of it tried next, control level reached, steps done. */
+export interface LoopState {
+  inc: number; frac: number; done: number; step: number; peak: Peak;
+  /** The last step was driven by the crack opening and the case's control value fell: drive the next one so too. */
+  opening?: boolean;
+}
+
+/** The loop's data besides the mesh, keyed by stable vertex ids (never by one topology's numbering). */
+export interface CrackState {
+  cracks: Crack[]; tips: Tip[];
+  /** Cohesive history (largest equivalent opening, mm) by the plus-face vertex of each pair. */
+  kappa: Map<number, number>;
+  /** Displacements on the stable vertex ids (2 per vertex), the control level λ, and the external work W with the last load and λ it was summed to. */
+  uw: Float64Array; lambda: number; W: number; lastF: number; lastLambda: number;
+  rows: StepRow[]; lastProbes: ProbeRow[];
+  dofs: { initial: number; final: number; max: number };
+  growthLog: GrowthEvent[];
+  /** Wall time spent in the equilibrium solves (ms). */
+  solveTime: number;
+}
+
+/** The parts a step attempt changes (undone when the attempt is cut). */
+export const SOLUTION = ['uw', 'lambda', 'W', 'lastF', 'lastLambda'] as const;
+/** The parts a growth event changes besides the mesh (undone with it when the re-solve fails). */
+export const GEOMETRY = ['cracks', 'tips', 'growthLog'] as const;
+
+export type Part = keyof CrackState;
+/** A snapshot of some parts of the record, and of the mesh when it was taken too. */
+export type Saved<K extends Part> = Pick<CrackState, K> & { mesh?: MeshState };
+
+export function emptyState(vertices: number): CrackState {
+  return {
+    cracks: [], tips: [], kappa: new Map(),
+    uw: new Float64Array(2 * vertices), lambda: 0, W: 0, lastF: 0, lastLambda: 0,
+    rows: [], lastProbes: [], dofs: { initial: 0, final: 0, max: 0 }, growthLog: [], solveTime: 0,
+  };
+}
+
+/** Deep copies of the named parts (and of the mesh when given). */
+export function save<K extends Part>(s: CrackState, parts: readonly K[], wm?: WorkMesh): Saved<K> {
+  const out = {} as Saved<K>;
+  for (const k of parts) out[k] = structuredClone(s[k]) as Saved<K>[K];
+  if (wm) out.mesh = wm.state();
+  return out;
+}
+
+/** Put saved parts back (copies, so one snapshot can be put back more than once); the mesh too when it was saved. */
+export function restore<K extends Part>(s: CrackState, saved: Saved<K>, wm?: WorkMesh): void {
+  for (const k of Object.keys(saved) as (K | 'mesh')[]) {
+    if (k === 'mesh') continue;
+    (s as unknown as Record<string, unknown>)[k] = structuredClone(saved[k]);
+  }
+  if (saved.mesh && wm) wm.restore(structuredClone(saved.mesh));
+}
+
+/** What a checkpoint holds: the whole record (histories as [vertex, κ] pairs), the mesh and the loop position. */
+export interface AnalysisState extends Omit<CrackState, 'kappa'> {
+  mesh: MeshState;
+  kappa: [number, number][];
+  loop: LoopState;
+}
+
+/** Everything the loop needs to go on from `at` (deep copies: the run may go on at once). */
+export function checkpointState(s: CrackState, wm: WorkMesh, at: LoopState): AnalysisState {
+  const { kappa, ...rest } = structuredClone(s);
+  return { ...rest, kappa: [...kappa.entries()], mesh: wm.state(), loop: structuredClone(at) };
+}
+
+/** The record of a checkpoint, taken over (its arrays are not copied); the mesh goes into wm. */
+export function fromCheckpoint(a: AnalysisState, wm: WorkMesh): CrackState {
+  wm.restore(a.mesh);
+  const { mesh: _m, loop: _l, kappa, ...rest } = a;
+  return { ...rest, kappa: new Map(kappa) };
+}
