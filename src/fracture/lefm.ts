@@ -9,11 +9,12 @@ import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { elasticMatrix } from '../vem/material.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
-import { System, type PairGeom } from '../solver/system.js';
+import type { System } from '../solver/system.js';
 import { NewtonWork, solveStep } from '../solver/newton.js';
 import { selectDriven, boundaryVertices, type Driven } from '../solver/driven.js';
 import { InputError, RunStopped } from '../errors.js';
-import { submatrixInto, type CsrMatrix } from '../linalg/index.js';
+import type { CsrMatrix } from '../linalg/index.js';
+import { Equations } from './equations.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong } from './cut.js';
 import { SLIT_CUT } from './growth.js';
@@ -21,8 +22,6 @@ import { refineAround, coarsenAway } from './adapt.js';
 import { measureTips, tipRows, type CrackLine, type TipMeasure } from './tips.js';
 import { mtsEquivalent } from './sif.js';
 import type { AnalysisOptions, AnalysisResult, ProbeRow, Snapshot, StepEvent, StepRow } from './analysis.js';
-
-const NO_PAIRS: PairGeom = { plus: new Int32Array(0), minus: new Int32Array(0), nx: new Float64Array(0), ny: new Float64Array(0), area: new Float64Array(0) };
 
 /** Tips whose equivalent K is within this fraction of the largest grow together: the two rings of
  * the interaction integral agree to about 1 %, so closer K cannot tell the tips of a symmetric problem apart. */
@@ -44,6 +43,7 @@ export class LefmAnalysis {
   private sys!: System;
   private work!: NewtonWork;
   private compact!: ReturnType<WorkMesh['toPolyMesh']>;
+  private eq!: Equations;
   private dirty = true;
   private solveTime = 0;
 
@@ -75,21 +75,11 @@ export class LefmAnalysis {
     }
   }
 
+  /** The equations of the mesh as it is (no face pairs: every crack here is traction-free). */
   private rebuild(): void {
-    const cp = this.wm.toPolyMesh();
-    this.compact = cp;
-    const co = cp.compactOf, nd = 2 * cp.vertexOf.length;
-    if (this.opt.maxDofs && nd > this.opt.maxDofs) throw new RunStopped(`the mesh grew to ${nd} dofs, above the limit of ${this.opt.maxDofs}`);
-    const dof = (d: { v: number; comp: number }) => 2 * co[d.v] + d.comp;
-    const live = (d: { v: number }) => co[d.v] >= 0;
-    this.sys = new System(cp.mesh, this.D, this.c.thickness, NO_PAIRS, {
-      fixed: Int32Array.from(this.driven.fixed.filter(live).map(dof)),
-      load: Int32Array.from(this.driven.load.filter(live).map(dof)),
-      loadW: Float64Array.from(this.driven.load.filter(live).map((d) => d.w)),
-      gauge: Int32Array.from(this.driven.gauge.filter(live).map(dof)),
-      gaugeW: Float64Array.from(this.driven.gauge.filter(live).map((d) => d.w)),
-    });
-    this.work = new NewtonWork(this.sys);
+    const eq = new Equations(this.wm, [], this.driven, this.D, this.c.thickness, new Map(), new Float64Array(2 * this.wm.vertexCount), this.opt.maxDofs);
+    this.compact = eq.compact; this.sys = eq.sys; this.work = eq.work; this.eq = eq;
+    const nd = eq.dofs;
     if (this.dofs.initial === 0) this.dofs.initial = nd;
     this.dofs.max = Math.max(this.dofs.max, nd);
     this.dofs.final = nd;
@@ -176,8 +166,7 @@ export class LefmAnalysis {
   /** The constrained bulk stiffness of the current mesh (free dofs only). */
   stiffnessMatrix(): CsrMatrix {
     if (this.dirty) this.rebuild();
-    this.sys.kT.values.set(this.sys.kBulk.values);
-    return submatrixInto(this.sys.kT, this.sys.kff);
+    return this.eq.stiffnessMatrix();
   }
 
   async run(onStep: (e: StepEvent) => void | Promise<void>): Promise<AnalysisResult> {
