@@ -5,6 +5,7 @@
 // (--no-sif skips these two, --no-plates the plates).
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file.
+// npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -18,6 +19,7 @@ import { Analysis } from '../src/fracture/analysis.js';
 import { DISSECTION_FROM_ROWS, analyze, factorize, type OrderingMethod } from '../src/linalg/index.js';
 import { benchMatrix, cholmodTimes, type BenchResult } from './bench-matrix.js';
 import { runCase } from '../src/run.js';
+import { benchStudy } from './bench-study.js';
 
 const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
 const now = () => performance.now() / 1000;
@@ -182,7 +184,10 @@ const args = process.argv.slice(2);
 const mi = args.indexOf('--matrix');
 const ri = args.indexOf('--repeat');
 const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
-if (mi >= 0) {
+const opt = (name: string, d: number) => { const i = args.indexOf(name); return i >= 0 ? Math.max(1, Number(args[i + 1]) || d) : d; };
+if (args.includes('--study')) {
+  await benchStudy(opt('--variants', 16), opt('--jobs', 2), args.includes('--slurm'));
+} else if (mi >= 0) {
   const file = args[mi + 1];
   if (!file) { process.stderr.write('rupta bench: --matrix needs a Matrix Market file\n'); process.exit(2); }
   matrixFile(file, repeat);

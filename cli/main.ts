@@ -13,6 +13,7 @@ import { Analysis } from '../src/fracture/analysis.js';
 import { Progress } from './progress.js';
 import { registerLabCommands } from './lab.js';
 import { registerNewCommand } from './new.js';
+import { registerStudyCommand } from './study.js';
 
 const program = new Command();
 program
@@ -95,6 +96,7 @@ program
 
 registerNewCommand(program);
 registerLabCommands(program);
+registerStudyCommand(program);
 
 /** A usage error of commander as one line: what is wrong, for which command, where its help is. */
 function usageSentence(e: CommanderError, argv: readonly string[]): string {

@@ -29,3 +29,8 @@ export { workOfFracture, rilemGF } from './lab/work.js';
 export { compareCurves, readRunCurve, compareTable } from './lab/compare.js';
 export { fitCase } from './lab/fit.js';
 export * as output from './output/index.js';
+export { runStudy, type StudyOptions, type StudyResult, type StudyEvent } from './study/study.js';
+export { loadStudy, studyFromData, type StudySpec } from './study/spec.js';
+export { expandStudy, type Variant } from './study/expand.js';
+export { fitSizeEffect, sizeEffectLaw, type SizeEffectFit } from './study/sizeeffect.js';
+export type { StudyRow } from './study/collect.js';

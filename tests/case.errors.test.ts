@@ -51,7 +51,7 @@ const cases: [string, (c: Obj) => void, string][] = [
   ["no supports", (c) => { c.supports = []; }, "supports must be a list of at least one support (found an empty list)"],
   ["unknown top-level key", (c) => { c.colour = 'red'; }, "colour is not a known key; the known top-level keys are format, title, units, model, thickness, geometry, material, supports, loads, control, crack, mesh, probes, output"],
   ["misplaced holes key", (c) => { c.holes = []; }, "holes is not a known key here; did you mean geometry.holes?"],
-  ["unknown key without a near name", (c) => { c.material.density = 2400; }, "material.density is not a known key; the known keys of material are E, nu, ft, GF, softening, shearWeight, KIc"],
+  ["unknown key without a near name", (c) => { c.material.density = 2400; }, "material.density is not a known key; the known keys of material are E, nu, ft, GF, softening, shearWeight, KIc, strengthField"],
   ["hole with both shapes", (c) => { c.geometry.holes = [{circle: {center: [100, 50], radius: 5}, polygon: [[1,1],[2,1],[2,2]]}]; }, "geometry.holes[0] must be either {circle: {center, radius}} or {polygon: [[x, y], ...]} (found a mapping with keys circle, polygon)"],
   ["support with at and along", (c) => { c.supports[0].along = [[0,0],[10,0]]; }, "supports[0] must be a support with exactly one of at: [x, y] or along: [[x, y], [x, y]], and fix: x, y or xy (found a mapping with keys at, fix, along)"],
   ["point of three numbers", (c) => { c.supports[0].at = [20, 0, 0]; }, "supports[0].at must be an [x, y] point in mm (found [20, 0, 0])"],

@@ -29,6 +29,7 @@ function checkNumbers(c: CaseModel): void {
   const m = c.material;
   num(m.E, ['material', 'E']); num(m.nu, ['material', 'nu']); num(m.ft, ['material', 'ft']);
   num(m.GF, ['material', 'GF']); num(m.shearWeight, ['material', 'shearWeight']);
+  if (m.strengthField) for (const k of ['cov', 'correlationLength', 'seed', 'pointsPerLength'] as const) num(m.strengthField[k], ['material', 'strengthField', k]);
   c.geometry.holes.forEach((h, i) => { if (h.kind === 'circle') num(h.radius, ['geometry', 'holes', i, 'circle', 'radius']); });
   c.geometry.notches.forEach((n, i) => num(n.width, ['geometry', 'notches', i, 'width']));
   c.supports.forEach((s, i) => num(s.width, ['supports', i, 'width']));

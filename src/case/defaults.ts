@@ -127,6 +127,13 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       softening: c.material.softening ?? DEFAULTS.softening,
       shearWeight: c.material.shearWeight ?? DEFAULTS.shearWeight,
       ...(c.material.KIc !== undefined ? { KIc: c.material.KIc } : {}),
+      ...(c.material.strengthField ? { strengthField: {
+        distribution: c.material.strengthField.distribution ?? 'lognormal',
+        cov: c.material.strengthField.cov,
+        correlationLength: c.material.strengthField.correlationLength,
+        seed: c.material.strengthField.seed ?? 1,
+        pointsPerLength: c.material.strengthField.pointsPerLength ?? 2,
+      } } : {}),
     },
     supports,
     loads,

@@ -41,7 +41,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'geometry.notches[].to': { what: POINT, unit: 'mm' },
   'geometry.notches[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
 
-  material: { what: 'a mapping {E, nu, ft, GF, softening, shearWeight, KIc}' },
+  material: { what: 'a mapping {E, nu, ft, GF, softening, shearWeight, KIc, strengthField}' },
   'material.E': { what: POSITIVE, unit: 'MPa', range: { gt: 0 } },
   'material.nu': { what: 'a number of at least 0 and below 0.5', unit: '-', range: { ge: 0, lt: 0.5 } },
   'material.ft': { what: POSITIVE, unit: 'MPa', range: { gt: 0 } },
@@ -49,6 +49,12 @@ export const FIELDS: Record<string, FieldSpec> = {
   'material.softening': { what: 'one of linear, bilinear, exponential' },
   'material.shearWeight': { what: NONNEG, unit: '-', range: { ge: 0 } },
   'material.KIc': { what: 'a positive number (the fracture toughness, needed by crack.model lefm)', unit: 'MPa√m', range: { gt: 0 } },
+  'material.strengthField': { what: 'a mapping {distribution, cov, correlationLength, seed, pointsPerLength}' },
+  'material.strengthField.distribution': { what: 'one of normal, lognormal' },
+  'material.strengthField.cov': { what: 'a coefficient of variation from 0 to 1', unit: '-', range: { ge: 0, le: 1 } },
+  'material.strengthField.correlationLength': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
+  'material.strengthField.seed': { what: 'a whole number of at least 0', unit: '-', range: { ge: 0, int: true } },
+  'material.strengthField.pointsPerLength': { what: 'a whole number from 1 to 8', unit: '-', range: { ge: 1, le: 8, int: true } },
 
   supports: { what: 'a list of at least one support' },
   'supports[]': { what: 'a support with exactly one of at: [x, y] or along: [[x, y], [x, y]], and fix: x, y or xy' },

@@ -40,6 +40,20 @@ export interface Material {
   shearWeight: number;
   /** Fracture toughness K_Ic (MPa√m), needed by crack.model lefm. */
   KIc?: number;
+  /** A spatially random tensile strength about ft (study variants); absent: ft everywhere. */
+  strengthField?: StrengthFieldSettings;
+}
+
+/** A seeded Gaussian random field of ft with exponential covariance (src/study/field.ts). */
+export interface StrengthFieldSettings {
+  distribution: 'normal' | 'lognormal';
+  /** Coefficient of variation of ft (-). */
+  cov: number;
+  /** mm */
+  correlationLength: number;
+  seed: number;
+  /** Grid nodes per correlation length where the field is drawn. */
+  pointsPerLength: number;
 }
 
 export interface CrackSettings {

@@ -90,6 +90,13 @@ export const caseSchema = z.strictObject({
     softening: z.enum(['linear', 'bilinear', 'exponential']).optional(),
     shearWeight: num.optional(),
     KIc: num.optional(),
+    strengthField: z.strictObject({
+      distribution: z.enum(['normal', 'lognormal']).optional(),
+      cov: num,
+      correlationLength: num,
+      seed: num.optional(),
+      pointsPerLength: num.optional(),
+    }).optional(),
   }),
   supports: z.array(support).min(1),
   loads: z.array(load).min(1),

@@ -9,6 +9,7 @@ import { boundaryVertices } from '../solver/driven.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
 import { refineAround, coarsenAway } from './adapt.js';
+import { weakestDirection } from '../study/field.js';
 import {
   tipStress, growthDirection, hoopDirection, faceKink, limitTurn, MAX_TURN,
   readiness, endPairLoad, frontDistance, type FaceLoad,
@@ -18,7 +19,11 @@ import type { CrackState, Tip } from './state.js';
 import { measureTips, type TipMeasure } from './tips.js';
 
 /** What growth reads and changes: the case, the mesh, the crack record, and the equations of the current state. */
-export interface GrowthRoom { c: CaseModel; wm: WorkMesh; s: CrackState; coh: CohesiveParams; eq: Equations; D: Float64Array }
+export interface GrowthRoom {
+  c: CaseModel; wm: WorkMesh; s: CrackState; coh: CohesiveParams; eq: Equations; D: Float64Array;
+  /** ft at a point where the case has a random strength field (material.strengthField), else null. */
+  ftAt: ((x: number, y: number) => number) | null;
+}
 
 /** Cell stresses, areas and centroids of the last evaluated state, for the tip checks. */
 export function fields(g: GrowthRoom): { m: PolyMesh; stress: Float64Array; areas: Float64Array; cent: Float64Array } {
@@ -101,7 +106,7 @@ export function tipReadiness(g: GrowthRoom, t: Tip, s1: number): number {
     const l: FaceLoad = { pairOf: g.eq.pairOf, kap: g.eq.kapTrial, penalty: g.coh.penalty, ft: g.coh.law.ft };
     faces = { frontDistance: frontDistance(f, l, g.wm.x, g.wm.y, insertAt), endPairLoad: endPairLoad(f, l) };
   }
-  return readiness({ s1, ft: g.c.material.ft, insertAt, growthStep: crack.growthStep, faces });
+  return readiness({ s1, ft: g.ftAt ? g.ftAt(g.wm.x[t.v], g.wm.y[t.v]) : g.c.material.ft, insertAt, growthStep: crack.growthStep, faces });
 }
 
 /** Largest readiness among the active tips with faces (0 without): more than a little over 1 and the step was too long. */
@@ -195,6 +200,8 @@ export function grow(g: GrowthRoom): number {
       ?? (t.dx !== 0 || t.dy !== 0
         ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
         : growthDirection(ts, t.dx, t.dy));
+    // in a random strength field the crack leans toward the weaker material just ahead
+    if (g.ftAt) [gx, gy] = weakestDirection(g.ftAt, tx, ty, gx, gy, crack.growthStep, MAX_TURN);
     // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
     if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
     s.growthLog.push({ tip: s.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
