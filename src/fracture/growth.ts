@@ -239,8 +239,8 @@ export function grow(g: GrowthRoom): number {
 }
 
 /** K_I, K_II and the MTS direction at every slit and crack end of the last evaluated state. */
-export function tipMeasures(g: GrowthRoom): TipMeasure[] {
-  return measureTips(g.wm, g.s.cracks, g.eq.compact, g.eq.work.u, { E: g.c.material.E, nu: g.c.material.nu, model: g.c.model, D: g.D }, g.c);
+export function tipMeasures(g: GrowthRoom, withK?: (crack: number) => boolean): TipMeasure[] {
+  return measureTips(g.wm, g.s.cracks, g.eq.compact, g.eq.work.u, { E: g.c.material.E, nu: g.c.material.nu, model: g.c.model, D: g.D }, g.c, withK);
 }
 
 /**
@@ -248,7 +248,8 @@ export function tipMeasures(g: GrowthRoom): TipMeasure[] {
  * cohesive crack the direction the growth criterion takes there (null once the tip has stopped).
  */
 export function tipDirections(g: GrowthRoom): TipMeasure[] {
-  const out = tipMeasures(g), { s, wm } = g;
+  // K only at traction-free tips (written to tips.csv); a cohesive tip needs its direction alone
+  const out = tipMeasures(g, (k) => g.s.cracks[k].kind !== 'cohesive'), { s, wm } = g;
   for (const m of out) {
     const k = s.cracks[m.crack];
     if (k.kind !== 'cohesive') continue;

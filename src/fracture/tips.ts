@@ -113,11 +113,11 @@ function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, c: CaseModel, cra
 /**
  * K_I, K_II and the MTS direction at every tip. m, vertexOf, compactOf: the compact mesh of the
  * current state; u its displacements (2 per compact vertex). A domain smaller than two tip
- * cells gives no K.
+ * cells gives no K; so does a crack for which withK is false (its end is listed all the same).
  */
 export function measureTips(
   wm: WorkMesh, cracks: CrackLine[], cp: { mesh: PolyMesh; vertexOf: Int32Array; compactOf: Int32Array },
-  u: Float64Array, el: Elastic, c: CaseModel,
+  u: Float64Array, el: Elastic, c: CaseModel, withK: (crack: number) => boolean = () => true,
 ): TipMeasure[] {
   const ends = crackEnds(cracks);
   if (ends.length === 0) return [];
@@ -130,6 +130,7 @@ export function measureTips(
     let p = e.back[0];
     for (const v of e.back) { p = v; if (Math.hypot(x - wm.x[v], y - wm.y[v]) >= 2 * c.mesh.tipSize) break; }
     const L = Math.hypot(x - wm.x[p], y - wm.y[p]), dx = (x - wm.x[p]) / L, dy = (y - wm.y[p]) / L;
+    if (!withK(e.crack)) return { crack: e.crack, end: e.end, v: e.v, x, y, dx, dy, R: 0, KI: null, KII: null, spread: null, kink: null };
     const R = room(wm, cp.mesh, cp.vertexOf, c, cracks, e.crack, e.v, e.back, dx, dy, cap);
     const base = { crack: e.crack, end: e.end, v: e.v, x, y, dx, dy, R };
     if (!(R >= 2 * c.mesh.tipSize)) return { ...base, KI: null, KII: null, spread: null, kink: null };
