@@ -16,8 +16,10 @@ const REQUIRED: Record<string, string[]> = {
 };
 const ALLOWED: Record<string, string[]> = {
   ...REQUIRED,
+  // test rigs: a wedge and extra named gauges
+  '': [...REQUIRED['']!, 'wedge', 'gauges'],
   geometry: ['outline', 'holes', 'notches'],
-  control: [...REQUIRED.control!, 'gauge'],
+  control: [...REQUIRED.control!, 'gauge', 'reading'],
   // the brittle mode's toughness and model (the ceramic bar)
   material: [...REQUIRED.material!, 'KIc'],
   crack: [...(REQUIRED.crack ?? []), 'model'],

@@ -63,6 +63,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'supports[].along[]': { what: POINT, unit: 'mm' },
   'supports[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'supports[].fix': { what: 'one of x, y, xy' },
+  'supports[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped' },
 
   loads: { what: 'a list of at least one load' },
   'loads[]': { what: 'a load with exactly one of at: [x, y] or along: [[x, y], [x, y]], and direction: [x, y]' },
@@ -71,10 +72,13 @@ export const FIELDS: Record<string, FieldSpec> = {
   'loads[].along[]': { what: POINT, unit: 'mm' },
   'loads[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'loads[].direction': { what: 'a non-zero [x, y] direction', unit: '-' },
+  'loads[].share': { what: 'a positive share of the machine force, given on every load or on none (a spreader)', unit: '-', range: { gt: 0 } },
+  'loads[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped, pressure (a uniform pressure over the strip)' },
 
-  control: { what: 'a mapping {by, gauge, target, increments, stopAtLoadFraction}' },
+  control: { what: 'a mapping {by, gauge, reading, target, increments, stopAtLoadFraction}' },
   'control.by': { what: 'one of displacement, cmod, force' },
-  'control.gauge': { what: 'a mapping {from: [x, y], to: [x, y]}' },
+  'control.gauge': { what: 'a mapping {from: [x, y], to: [x, y]} or the name of one of gauges' },
+  'control.reading': { what: 'one of opening (along the gauge, the CMOD), sliding (across it)' },
   'control.gauge.from': { what: POINT, unit: 'mm' },
   'control.gauge.to': { what: POINT, unit: 'mm' },
   // The unit of the target follows control.by (see unitFor).
@@ -103,6 +107,14 @@ export const FIELDS: Record<string, FieldSpec> = {
   'probes[]': { what: 'a mapping {name, at}' },
   'probes[].name': { what: 'a non-empty name' },
   'probes[].at': { what: POINT, unit: 'mm' },
+
+  wedge: { what: 'a mapping {angle}' },
+  'wedge.angle': { what: 'the included angle of the wedge, above 0 and below 90', unit: 'degrees', range: { gt: 0, lt: 90 } },
+  gauges: { what: 'a list of gauges, each {name, from: [x, y], to: [x, y]}' },
+  'gauges[]': { what: 'a mapping {name, from: [x, y], to: [x, y]}' },
+  'gauges[].name': { what: 'a non-empty name' },
+  'gauges[].from': { what: POINT, unit: 'mm' },
+  'gauges[].to': { what: POINT, unit: 'mm' },
 
   output: { what: 'a mapping {frames, every, animation, vtk, pngWidth}' },
   'output.frames': { what: 'a list of picture formats (svg, png)' },

@@ -12,19 +12,39 @@ export interface Notch { from: Vec2; to: Vec2; width: number }
 
 export type Fix = 'x' | 'y' | 'xy';
 
+/**
+ * How a strip of width > 0 meets the specimen: `rocker`, a rigid platen on a pivot at its
+ * centre (its points share one displacement along the held or loaded axis and it may rotate);
+ * `clamped`, every point of the strip held (or driven) alike, with no rotation; `pressure` (loads
+ * only), a uniform pressure over the strip, its points free to move apart. Absent: rocker.
+ */
+export type Platen = 'rocker' | 'clamped' | 'pressure';
+
 /** A support at a point or along a segment of the boundary; width spreads a point over a bearing strip. */
-export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix }
+export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix; platen?: Platen }
 
 /** Where the machine moves the specimen; direction is a unit vector. */
-export interface Load { at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2 }
+export interface Load {
+  at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2; platen?: Platen;
+  /** Share of the one machine force this load point takes through a spreader (all loads have one, or none). */
+  share?: number;
+}
 
 export type ControlKind = 'displacement' | 'cmod' | 'force';
 
+/** Two points of the specimen's face; opening is the change of distance along from→to, sliding the relative motion across it (to the left of from→to). */
 export interface Gauge { from: Vec2; to: Vec2 }
+
+/** An extra gauge written to gauges.csv every step (test rigs). */
+export interface NamedGauge extends Gauge { name: string }
 
 export interface Control {
   by: ControlKind;
   gauge?: Gauge;
+  /** Name of the gauge in `gauges` the control reads, when it was given by name. */
+  gaugeName?: string;
+  /** What cmod control drives: the control gauge's opening (the CMOD, also when absent) or its sliding. */
+  reading?: 'opening' | 'sliding';
   /** mm for displacement and cmod control, N for force control. */
   target: number;
   increments: number;
@@ -101,4 +121,8 @@ export interface CaseModel {
   mesh: MeshSettings;
   probes: Probe[];
   output: OutputSettings;
+  /** A wedge drives the two loads apart (test rigs): included angle in degrees; load_N is the splitting force. */
+  wedge?: { angle: number };
+  /** Extra named gauges (test rigs). */
+  gauges?: NamedGauge[];
 }

@@ -27,19 +27,26 @@ const hole = z
 
 const notch = z.strictObject({ from: point, to: point, width: num.optional() });
 
+// test rigs: how a bearing strip meets the specimen
+const platen = z.enum(['rocker', 'clamped', 'pressure']);
+const supportPlaten = z.enum(['rocker', 'clamped']);
+
 const support = z
-  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']) })
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']), platen: supportPlaten.optional() })
   .superRefine(oneOf('at', 'along'));
 
 const load = z
-  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point })
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point, platen: platen.optional(), share: num.optional() })
   .superRefine(oneOf('at', 'along'));
 
 const gauge = z.strictObject({ from: point, to: point });
+// test rigs: extra gauges anywhere on the face, named; the control gauge may name one
+const namedGauge = z.strictObject({ name: z.string(), from: point, to: point });
 
 const control = z.strictObject({
   by: z.enum(['displacement', 'cmod', 'force']).optional(),
-  gauge: gauge.optional(),
+  gauge: z.union([gauge, z.string()]).optional(),
+  reading: z.enum(['opening', 'sliding']).optional(),
   target: num,
   increments: num.optional(),
   stopAtLoadFraction: num.optional(),
@@ -104,6 +111,8 @@ export const caseSchema = z.strictObject({
   crack: crack.optional(),
   mesh: mesh.optional(),
   probes: z.array(z.strictObject({ name: z.string().min(1), at: point })).optional(),
+  gauges: z.array(namedGauge).optional(),
+  wedge: z.strictObject({ angle: num }).optional(),
   output: output.optional(),
 });
 

@@ -231,7 +231,7 @@ export class Analysis {
   private record(step: number, control: number): StepEvent {
     const ev = recordStep({
       c: this.c, wm: this.wm, s: this.s, eq: this.eq, coh: this.coh, D: this.D,
-      gauge: this.driven.gaugeVerts !== null, probeVerts: this.probeVerts, iterations: this.iterations,
+      gauge: this.driven.gaugeVerts !== null, opening: this.driven.opening, probeVerts: this.probeVerts, iterations: this.iterations,
       tips: tipRows(step, tipDirections(this.room()), this.s.cracks),
     }, step, control);
     this.iterations = 0;

@@ -221,6 +221,13 @@ export function grow(g: GrowthRoom): number {
     const tw = twinAlong(wm, cut.path, t.back, !interiorStart, through);
     if (interiorStart) partner!.back = [wm.x[cut.path[1]], wm.y[cut.path[1]]];
     k.twins[k.twins.length - 1] = tw[0][1];
+    // the second tip of an interior start twins the start vertex for both cracks: the first
+    // one, running the other way, has the copy on its left, so it takes the copy as its path
+    // vertex (the plus face) and the original as its twin
+    if (partner && partner.crack >= 0 && k.path.length === 1 && tw[0][1] >= 0) {
+      const q = s.cracks[partner.crack];
+      if (q.path[0] === k.path[0] && q.twins[0] < 0) { q.twins[0] = q.path[0]; q.path[0] = tw[0][1]; }
+    }
     for (let i = 1; i < cut.path.length; i++) { k.path.push(cut.path[i]); k.twins.push(tw[i][1]); }
     const end = cut.path[cut.path.length - 1], prev = cut.path[cut.path.length - 2];
     t.back = [wm.x[prev], wm.y[prev]];

@@ -5,6 +5,7 @@ import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
 import { RunStopped } from '../errors.js';
+import { readDofs, type VertexDof } from '../solver/driven.js';
 import type { WorkMesh } from './workmesh.js';
 import type { Equations } from './equations.js';
 import type { Crack, CrackState, ProbeRow, StepRow, Tip } from './state.js';
@@ -79,6 +80,8 @@ export interface RecordRoom {
   c: CaseModel; wm: WorkMesh; s: CrackState; eq: Equations; coh: CohesiveParams; D: Float64Array;
   /** The case has a gauge to read (its mouth opening goes into cmod_mm). */
   gauge: boolean;
+  /** The control gauge's opening weights (stable vertex ids). */
+  opening: readonly VertexDof[];
   /** Probe vertices (stable ids), in the order of c.probes. */
   probeVerts: readonly number[];
   /** Newton iterations since the last recorded step. */
@@ -92,7 +95,8 @@ export function recordStep(r: RecordRoom, step: number, control: number): StepEv
   const { c, wm, s, eq, coh } = r, sys = eq.sys;
   const en = eq.energies(coh);
   const F = sys.loadForce(eq.work.f);
-  const gauge = r.gauge ? sys.gaugeReading(eq.work.u) : null;
+  // the CMOD column is the control gauge's opening, also when the control reads its sliding
+  const gauge = r.gauge ? readDofs(r.opening, eq.work.u, eq.compact.compactOf) : null;
   const reached = reachedFt(eq, coh);
   const tip = s.tips.find((t) => s.cracks[t.crack]?.kind === 'cohesive') ?? s.tips[0];
   const front = tip ? frontVertex(s.cracks, tip, reached) : -1;

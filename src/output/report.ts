@@ -17,7 +17,8 @@ import { pickFrames, svgWidth } from './png.js';
 /** A frame written during the run. */
 export interface FrameFile { step: number; svg?: string; png?: string }
 
-export interface WorkOfFracture { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string }
+import { curvePeaks, wedgeRatio, type WorkOfFracture } from './warnings.js';
+export type { WorkOfFracture };
 
 export interface ReportInput {
   c: CaseModel;
@@ -32,6 +33,8 @@ export interface ReportInput {
   meshSvg?: string | null;
   timings: { mesh: number; solve: number; total: number };
   workOfFracture: WorkOfFracture | null;
+  /** One sentence per way the run is not physical (summary.json's warnings). */
+  warnings?: string[];
   generatedAt?: Date;
   /** Thumbnails in the strip (default 6). */
   thumbnails?: number;
@@ -78,7 +81,8 @@ export function chooseFrames(frames: FrameFile[], result: AnalysisResult, count:
   if (frames.length > count && frames[0].step === 0) frames = frames.slice(1);
   const pick = new Set(pickFrames(frames.length, Math.max(1, count - 1)));
   let near = 0;
-  for (let i = 1; i < frames.length; i++) if (Math.abs(frames[i].step - result.peak.step) < Math.abs(frames[near].step - result.peak.step)) near = i;
+  const ps = result.peak.step;
+  for (let i = 1; i < frames.length; i++) if (Math.abs(frames[i].step - ps) < Math.abs(frames[near].step - ps)) near = i;
   pick.add(near);
   return [...pick].sort((a, b) => a - b).map((i) => frames[i]);
 }
@@ -211,16 +215,18 @@ function modelTables(d: ReportData): string {
 }
 
 function resultsTable(d: ReportData): string {
-  const { c, result } = d, p = result.peak, last = result.rows[result.rows.length - 1];
+  const { c, result } = d, pk = curvePeaks(result.rows), p = result.rows.length > 0 ? pk.peak : result.peak, last = result.rows[result.rows.length - 1];
   let t = row('Status', `${esc(result.status)}: ${esc(result.reason)}`);
   t += row('Steps', String(Math.max(0, result.rows.length - 1)));
-  t += row('Peak load', `${load(p.load_N)} (step ${p.step})`, 'peak-load');
+  t += row('Peak load', `${load(p.load_N)} (step ${p.step}, the first maximum of the curve)`, 'peak-load');
+  if (c.wedge) t += row('Vertical machine force at peak', `${load(wedgeRatio(c.wedge.angle) * p.load_N)} (frictionless wedge of ${c.wedge.angle}°; the peak load above is the splitting force)`, 'wedge');
+  if (pk.later) t += row('Later maximum', `${load(pk.later.load_N)} (step ${pk.later.step}), after the load fell to ${load(result.rows[pk.minimum].load_N)}`, 'later-maximum');
   t += row('Load-point displacement at peak', `${sig(p.displacement_mm)} mm`);
   t += row('CMOD at peak', p.cmod_mm !== null ? `${sig(p.cmod_mm)} mm` : '— (no gauge)');
   const wf = d.workOfFracture;
   if (wf) {
-    t += row('Work of fracture', `${sig(wf.W_Nmm)} N·mm over a ligament of ${sig(wf.ligamentArea_mm2)} mm²`);
-    t += row('G<sub>F</sub> estimate (work / ligament area)', `${sig(wf.GF_Nmm, 3)} N/mm, ${sig((100 * wf.GF_Nmm) / c.material.GF, 3)} % of the input G<sub>F</sub>; ${esc(wf.note)}`, 'gf');
+    t += row('Work of fracture', `${sig(wf.W_Nmm)} N·mm over a ligament of ${sig(wf.ligamentArea_mm2)} mm² (work of the machine ${sig(wf.externalWork_Nmm)} N·mm less ${sig(wf.storedElastic_Nmm)} N·mm still stored)`);
+    t += row(`G<sub>F</sub> estimate (work / ligament area${wf.lowerBound ? ', a lower bound' : ''})`, `${sig(wf.GF_Nmm, 3)} N/mm, ${sig((100 * wf.GF_Nmm) / c.material.GF, 3)} % of the input G<sub>F</sub>; ${esc(wf.note)}`, 'gf');
   }
   if (last) {
     t += row('Final crack length', `${fix(last.crack_length_mm, 1)} mm`, 'crack-length');
@@ -270,6 +276,11 @@ export function reportHtml(d: ReportData): string {
   parts.push(`<h1>${esc(c.title)}</h1>\n<p class="meta">Cohesive crack analysis by rupta, case “${esc(c.name)}”, written ${esc(when.toISOString().slice(0, 16).replace('T', ' '))} UTC.</p>\n`);
   parts.push(`<p class="caution" id="caution"><strong>Caution.</strong> These ${esc(CAUTION)}.</p>\n`);
   if (result.status !== 'complete') parts.push(`<p class="caution status-bad" id="status-note"><strong>The run did not complete (${esc(result.status)}):</strong> ${esc(result.reason)}. The results below cover the steps that converged.</p>\n`);
+  if (d.warnings && d.warnings.length > 0) {
+    parts.push('<div class="caution status-bad" id="warnings"><strong>Warnings: parts of this result are not physical.</strong>\n<ul>\n');
+    for (const w of d.warnings) parts.push(`<li>${esc(w)}</li>\n`);
+    parts.push('</ul></div>\n');
+  }
 
   parts.push('<h2>Results</h2>\n');
   parts.push(resultsTable(d));

@@ -13,6 +13,8 @@ import { svgToPng, framesToAnimation } from './png.js';
 import type { CurveInset } from './inset.js';
 import { VtkSeries } from './vtk.js';
 import { writeReport, type FrameFile } from './report.js';
+import { GAUGE_HEADER, GaugeReader } from './gauges.js';
+import { curvePeaks, fmtLoad, runWarnings, wedgeRatio, workOfFractureEstimate } from './warnings.js';
 
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
@@ -85,12 +87,14 @@ export function s1OverFt(cellStress: Float64Array, ft: number): Float64Array {
 }
 
 // a load that rounds to zero is printed without a sign
-const fmtLoad = (F: number) => (Math.abs(F) >= 1000 ? `${(F / 1000).toFixed(2)} kN` : `${(Math.abs(F) < 0.05 ? 0 : F).toFixed(1)} N`);
 
 export class RunFiles {
   private curve: RowWriter;
   private probes: RowWriter;
   private tips: RowWriter | null = null;
+  /** gauges.csv, when the case names extra gauges. */
+  private gauges: RowWriter | null = null;
+  private gaugeReader: GaugeReader | null = null;
   private framePngs: string[] = [];
   private frames: FrameFile[] = [];
   private pending: Promise<void>[] = [];
@@ -121,12 +125,17 @@ export class RunFiles {
       writeFileAtomic(join(dir, 'curve.csv'), CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
       writeFileAtomic(join(dir, 'probes.csv'), tableUpTo(join(dir, 'probes.csv'), PROBE_HEADER, last));
       if (hasTips(c)) writeFileAtomic(join(dir, 'tips.csv'), tableUpTo(join(dir, 'tips.csv'), TIPS_HEADER, last));
+      if (c.gauges?.length) writeFileAtomic(join(dir, 'gauges.csv'), tableUpTo(join(dir, 'gauges.csv'), GAUGE_HEADER, last));
       this.seedFrames(resume);
     }
     this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
     this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
     if (hasTips(c)) this.tips = new RowWriter(join(dir, 'tips.csv'), TIPS_HEADER, { keepExisting: !!resume });
     else rmSync(join(dir, 'tips.csv'), { force: true });
+    if (c.gauges?.length) {
+      this.gauges = new RowWriter(join(dir, 'gauges.csv'), GAUGE_HEADER, { keepExisting: !!resume });
+      this.gaugeReader = new GaugeReader(c.gauges);
+    }
     if (c.output.vtk) {
       this.vtk = new VtkSeries(join(dir, 'vtk'));
       if (resume) {
@@ -160,6 +169,10 @@ export class RunFiles {
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
     if (this.tips) for (const t of ev.tips) this.tips.append([t.step, t.crack, t.tip, t.x_mm, t.y_mm, t.KI_MPa_sqrtm, t.KII_MPa_sqrtm, t.kink_deg]);
     this.rows.push(r);
+    if (this.gauges && this.gaugeReader) {
+      const s = ev.snapshot();
+      for (const g of this.gaugeReader.read(s.mesh, s.u)) this.gauges.append([r.step, g.gauge, g.opening_mm, g.sliding_mm]);
+    }
     const o = this.c.output;
     if (r.step % o.every !== 0) return;
     const wantFrame = !!this.c.crack && o.frames.length > 0;
@@ -201,6 +214,7 @@ export class RunFiles {
     this.curve.close();
     this.probes.close();
     this.tips?.close();
+    this.gauges?.close();
     const c = this.c;
     // mesh picture of the initial mesh
     const meshPicture = meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` });
@@ -226,13 +240,14 @@ export class RunFiles {
     if (c.crack && c.output.animation !== 'none' && this.framePngs.length > 1) {
       await framesToAnimation(this.framePngs, join(this.dir, `animation.${c.output.animation}`), { format: c.output.animation, maxFrames: 60, maxWidth: 720 });
     }
-    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds);
+    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds, extra.final);
     writeFileAtomic(join(this.dir, 'summary.json'), JSON.stringify(summary, null, 2) + '\n');
     await writeReport(join(this.dir, 'report.html'), {
       c, result, initialMesh: extra.initialMesh, frames: this.frames, finalSvg, meshSvg: meshPicture,
       curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
       timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
       workOfFracture: workOfFractureEstimate(c, result),
+      warnings: summary.warnings as string[],
     });
     return summary;
   }
@@ -257,58 +272,32 @@ export function curveSvg(c: CaseModel, rows: StepRow[], more: CurveOverlays = []
   const hasGauge = rows.some((r) => r.cmod_mm !== null);
   const extra = Array.isArray(more) ? (hasGauge ? { cmod: more } : { displacement: more }) : more;
   const y = rows.map((r) => r.load_N);
-  let ip = 0;
-  for (let i = 1; i < y.length; i++) if (Math.abs(y[i]) > Math.abs(y[ip])) ip = i;
+  const pk = curvePeaks(rows), ip = pk.peakIndex, il = pk.laterIndex;
   const panel = (x: number[], xLabel: string, title: string, over: Series[]): PlotOptions => ({
     series: [{ label: 'rupta prediction', x, y }, ...over], xLabel, yLabel: 'Load (N)', title,
-    marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }],
+    marks: [{ x: x[ip], y: y[ip], label: `peak ${fmtLoad(y[ip])}` }, ...(il >= 0 ? [{ x: x[il], y: y[il], label: `later ${fmtLoad(y[il])}` }] : [])],
   });
-  const disp = panel(rows.map((r) => r.displacement_mm), 'Load-point displacement (mm)', 'Load point', extra.displacement ?? []);
+  // a wedge: load_N is the splitting force, and the machine's vertical force rides beside it
+  const k = c.wedge ? wedgeRatio(c.wedge.angle) : 0;
+  const vertical: Series[] = c.wedge ? [{ label: `vertical machine force (wedge ${c.wedge.angle}°)`, x: rows.map((r) => r.displacement_mm), y: y.map((v) => k * v) }] : [];
+  const disp = panel(rows.map((r) => r.displacement_mm), c.wedge ? 'Opening at the load line (mm)' : 'Load-point displacement (mm)', c.wedge ? 'Splitting force' : 'Load point', [...vertical, ...(extra.displacement ?? [])]);
   if (!hasGauge) return plotSvg({ ...disp, title: c.title });
   const cmod = panel(rows.map((r) => r.cmod_mm ?? NaN), 'CMOD (mm)', 'Crack mouth', extra.cmod ?? []);
   return plotPanelsSvg({ panels: [disp, cmod], title: c.title });
 }
 
-/** Work of fracture: the work of the machine over the ligament area (RILEM TC 50-FMC, no self-weight term). */
-export function workOfFractureEstimate(c: CaseModel, result: AnalysisResult): { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string } | null {
-  const last = result.rows[result.rows.length - 1];
-  if (!c.crack || !last) return null;
-  // ligament: from each notch tip straight ahead to the far boundary
-  let lig = 0;
-  for (const n of c.geometry.notches) lig += ligamentLength(c, n.to, [n.to[0] - n.from[0], n.to[1] - n.from[1]]);
-  if (!(lig > 0)) lig = last.crack_length_mm;
-  const A = lig * c.thickness;
-  const W = last.external_work_Nmm;
-  const frac = result.peak.load_N !== 0 ? last.load_N / result.peak.load_N : 0;
-  return {
-    W_Nmm: W, ligamentArea_mm2: A, GF_Nmm: A > 0 ? W / A : 0,
-    note: `run ended at ${(100 * frac).toFixed(1).replace(/^-(0\.0)$/, '$1')} % of the peak load; the tail beyond it is not counted, so the estimate is a lower bound`,
-  };
-}
-
-function ligamentLength(c: CaseModel, p: [number, number], d: [number, number]): number {
-  const L = Math.hypot(d[0], d[1]);
-  const ux = d[0] / L, uy = d[1] / L;
-  const o = c.geometry.outline;
-  let best = Infinity;
-  for (let i = 0; i < o.length; i++) {
-    const a = o[i], b = o[(i + 1) % o.length];
-    const ex = b[0] - a[0], ey = b[1] - a[1], den = ux * ey - uy * ex;
-    if (Math.abs(den) < 1e-12) continue;
-    const wx = a[0] - p[0], wy = a[1] - p[1];
-    const t = (wx * ey - wy * ex) / den, s = (wx * uy - wy * ux) / den;
-    if (t > 1e-9 && s >= 0 && s <= 1) best = Math.min(best, t);
-  }
-  return Number.isFinite(best) ? best : 0;
-}
-
-export function summaryOf(c: CaseModel, r: AnalysisResult, meshSeconds: number, totalSeconds: number): Record<string, unknown> {
+export function summaryOf(c: CaseModel, r: AnalysisResult, meshSeconds: number, totalSeconds: number, final: Snapshot | null = null): Record<string, unknown> {
+  // the peak is the curve's first maximum; a later, higher one is reported beside it
+  const pk = curvePeaks(r.rows);
   return {
     format: 1,
     title: c.title,
     status: r.status,
     reason: r.reason,
-    peak: r.peak,
+    peak: r.rows.length > 0 ? pk.peak : r.peak,
+    ...(pk.later ? { laterMaximum: pk.later } : {}),
+    ...(c.wedge ? { wedge: { angle_deg: c.wedge.angle, verticalPerSplitting: wedgeRatio(c.wedge.angle), peakVertical_N: wedgeRatio(c.wedge.angle) * pk.peak.load_N } } : {}),
+    warnings: runWarnings(c, r, final),
     crackPaths: r.crackPaths,
     steps: Math.max(0, r.rows.length - 1),
     dofs: r.dofs,

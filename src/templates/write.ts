@@ -6,9 +6,12 @@ import { fmt } from './options.js';
 
 interface Placed { at?: Vec2; along?: [Vec2, Vec2]; width: number; note: string }
 export interface SupportSpec extends Placed { fix: Fix }
-export interface LoadSpec extends Placed { direction: Vec2 }
+/** A load; `share` puts it on a spreader with the other loads (test rigs). */
+export interface LoadSpec extends Placed { direction: Vec2; share?: number }
 
 export interface CaseSpec {
+  /** Test rigs: a wedge drives the two loads apart. */
+  wedge?: { angle: number };
   /** Comment lines at the top of the file. */
   about: string[];
   template: string;
@@ -27,7 +30,7 @@ export interface CaseSpec {
   loadsNote: string[];
   loads: LoadSpec[];
   controlNote: string[];
-  control: { by: 'displacement' | 'cmod'; gauge?: { from: Vec2; to: Vec2; note: string }; target: number; targetNote: string; increments: number };
+  control: { by: 'displacement' | 'cmod'; gauge?: { from: Vec2; to: Vec2; note: string }; reading?: 'sliding'; target: number; targetNote: string; increments: number };
   crackNote: string[];
   crackStart: 'notch-tips' | 'anywhere' | Vec2[];
   crackStartNote: string;
@@ -127,11 +130,14 @@ export function caseText(c: CaseSpec): string {
   L.push('', ...comments(c.loadsNote), 'loads:');
   for (const l of c.loads) {
     const w = l.along ? '' : `, width: ${fmt(l.width)}`;
-    L.push(line(`  - {${placed(l)}, direction: ${p(l.direction)}${w}}`, l.note));
+    const sh = l.share !== undefined ? `, share: ${fmt(l.share)}` : '';
+    L.push(line(`  - {${placed(l)}, direction: ${p(l.direction)}${w}${sh}}`, l.note));
   }
+  if (c.wedge) L.push(line(`wedge: {angle: ${fmt(c.wedge.angle)}}`, 'degrees, included angle; friction left out'));
   const k = c.control;
   L.push('', ...comments(c.controlNote), 'control:', `  by: ${k.by}`);
   if (k.gauge) L.push(line(`  gauge: {from: ${p(k.gauge.from)}, to: ${p(k.gauge.to)}}`, k.gauge.note));
+  if (k.reading) L.push(line(`  reading: ${k.reading}`, 'across the gauge: the crack mouth sliding'));
   L.push(
     line(`  target: ${fmt(k.target)}`, k.targetNote),
     line(`  increments: ${k.increments}`, 'steps from zero to the target'),
