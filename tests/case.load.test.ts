@@ -40,7 +40,7 @@ describe('shipped cases', () => {
     const c = loadCase(demoPath.pathname);
     expect(c.material).toEqual({ E: 32000, nu: 0.2, ft: 3.1, GF: 0.11, softening: 'bilinear', shearWeight: 1 });
     expect(c.control).toEqual({ by: 'cmod', gauge: { from: [219, 0], to: [221, 0] }, reading: 'opening', target: 1, increments: 100, stopAtLoadFraction: 0.05 });
-    expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8 });
+    expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8, model: 'cohesive' });
     expect(c.mesh).toEqual({ size: 10, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8 });
   });
   it('elastic plate has no crack section', () => {
@@ -64,7 +64,7 @@ describe('defaults', () => {
     expect(c.control).toEqual({ by: 'displacement', reading: 'opening', target: 0.3, increments: 100, stopAtLoadFraction: 0.05 });
     // Shortest side 100 mm / 10, tip size / 5, radius 10 tips, step 2 tips, averaging 3 tips.
     expect(c.mesh).toEqual({ size: 10, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8 });
-    expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8 });
+    expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8, model: 'cohesive' });
     expect(c.probes).toEqual([]);
     expect(c.gauges).toEqual([]);
     expect(c.output).toEqual({ frames: ['png'], every: 1, maxFrames: 40, animation: 'gif', vtk: false, pngWidth: 1200 });

@@ -102,7 +102,7 @@ const rows: Row[] = [
   { what: 'misspelt supports', mutate: (c) => { c.suports = c.supports; delete c.supports; }, want: 'suports is not a known key; did you mean supports?' },
   { what: 'holes at the top level', mutate: (c) => { c.holes = []; }, want: 'holes is not a known key here; did you mean geometry.holes?' },
   { what: 'unknown key, no near name', mutate: (c) => { c.material.density = 2400; },
-    want: 'material.density is not a known key; the known keys of material are E, nu, ft, GF, softening, shearWeight, strengthField' },
+    want: 'material.density is not a known key; the known keys of material are E, nu, ft, GF, softening, shearWeight, KIc, strengthField' },
   // YAML and JSON syntax, empty and missing files.
   { what: 'YAML indentation', file: 'indent.yaml', text: 'format: 1\nunits: mm-N-MPa\n  thickness: 50\n', want: /^indent\.yaml is not valid YAML at line 2, column \d+: / },
   { what: 'YAML unclosed bracket', file: 'bracket.yaml', text: 'format: 1\ngeometry:\n  outline: [[0, 0], [440, 0]\n', want: /^bracket\.yaml is not valid YAML at line \d+, column \d+: .*\]/ },

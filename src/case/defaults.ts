@@ -104,6 +104,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       growthStep: c.crack.growthStep ?? 2 * tipSize,
       averagingRadius: c.crack.averagingRadius ?? 3 * tipSize,
       insertAt: c.crack.insertAt ?? DEFAULTS.insertAt,
+      model: c.crack.model ?? 'cohesive',
     };
   }
   const place = (p: { at?: Vec2; along?: Vec2[] }) =>
@@ -137,6 +138,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       E: c.material.E, nu: c.material.nu, ft: c.material.ft, GF: c.material.GF,
       softening: c.material.softening ?? DEFAULTS.softening,
       shearWeight: c.material.shearWeight ?? DEFAULTS.shearWeight,
+      ...(c.material.KIc !== undefined ? { KIc: c.material.KIc } : {}),
       ...(c.material.strengthField ? { strengthField: {
         distribution: c.material.strengthField.distribution ?? 'lognormal',
         cov: c.material.strengthField.cov,

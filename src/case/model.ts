@@ -58,6 +58,8 @@ export interface Material {
   softening: Softening;
   /** β in the effective opening √(w² + β s²). */
   shearWeight: number;
+  /** Fracture toughness K_Ic (MPa√m), needed by crack.model lefm. */
+  KIc?: number;
   /** A spatially random tensile strength about ft (study variants); absent: ft everywhere. */
   strengthField?: StrengthFieldSettings;
 }
@@ -81,6 +83,8 @@ export interface CrackSettings {
   averagingRadius: number;
   /** Fraction of ft at which the next segment is laid, still intact, ahead of a tip. */
   insertAt: number;
+  /** cohesive: faces joined by the traction–separation law; lefm: traction-free cracks that grow where K reaches KIc. */
+  model: 'cohesive' | 'lefm';
 }
 
 export interface MeshSettings {

@@ -58,6 +58,7 @@ const crack = z.strictObject({
   growthStep: num.optional(),
   averagingRadius: num.optional(),
   insertAt: num.optional(),
+  model: z.enum(['cohesive', 'lefm']).optional(),
 });
 
 const mesh = z.strictObject({
@@ -96,6 +97,7 @@ export const caseSchema = z.strictObject({
     GF: num,
     softening: z.enum(['linear', 'bilinear', 'exponential']).optional(),
     shearWeight: num.optional(),
+    KIc: num.optional(),
     strengthField: z.strictObject({
       distribution: z.enum(['normal', 'lognormal']).optional(),
       cov: num,

@@ -23,6 +23,10 @@ export { specimenSymbols, s1OverFt };
 
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
+export const TIPS_HEADER = 'step,crack,tip,x_mm,y_mm,KI_MPa_sqrtm,KII_MPa_sqrtm,kink_deg';
+
+/** A run has crack tips to report when it has a sharp slit or grows cracks. */
+export const hasTips = (c: CaseModel): boolean => !!c.crack || c.geometry.notches.some((n) => n.width === 0);
 
 export interface RunFilesOptions {
   force?: boolean;
@@ -61,6 +65,7 @@ function tableUpTo(path: string, header: string, last: number): string {
 export class RunFiles {
   private curve: RowWriter;
   private probes: RowWriter;
+  private tips: RowWriter | null = null;
   /** gauges.csv, when the case names extra gauges. */
   private gauges: RowWriter | null = null;
   private gaugeReader: GaugeReader | null = null;
@@ -98,10 +103,13 @@ export class RunFiles {
       // the tables as they stood at the checkpoint; the rows after it are computed again
       writeFileAtomic(join(dir, 'curve.csv'), CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
       writeFileAtomic(join(dir, 'probes.csv'), tableUpTo(join(dir, 'probes.csv'), PROBE_HEADER, last));
+      if (hasTips(c)) writeFileAtomic(join(dir, 'tips.csv'), tableUpTo(join(dir, 'tips.csv'), TIPS_HEADER, last));
       if (c.gauges?.length) writeFileAtomic(join(dir, 'gauges.csv'), tableUpTo(join(dir, 'gauges.csv'), GAUGE_HEADER, last));
     }
     this.curve = new RowWriter(join(dir, 'curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
     this.probes = new RowWriter(join(dir, 'probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
+    if (hasTips(c)) this.tips = new RowWriter(join(dir, 'tips.csv'), TIPS_HEADER, { keepExisting: !!resume });
+    else rmSync(join(dir, 'tips.csv'), { force: true });
     if (c.gauges?.length) {
       this.gauges = new RowWriter(join(dir, 'gauges.csv'), GAUGE_HEADER, { keepExisting: !!resume });
       this.gaugeReader = new GaugeReader(c.gauges);
@@ -122,6 +130,7 @@ export class RunFiles {
     const r = ev.row;
     this.curve.append(curveCells(r));
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
+    if (this.tips) for (const t of ev.tips) this.tips.append([t.step, t.crack, t.tip, t.x_mm, t.y_mm, t.KI_MPa_sqrtm, t.KII_MPa_sqrtm, t.kink_deg]);
     if (this.gauges && this.gaugeReader) {
       const s = ev.snapshot();
       for (const g of this.gaugeReader.read(s.mesh, s.u)) this.gauges.append([r.step, g.gauge, g.opening_mm, g.sliding_mm]);
@@ -139,6 +148,7 @@ export class RunFiles {
   async finish(result: AnalysisResult, extra: { meshSeconds: number; totalSeconds: number; initialMesh: PolyMesh; final: Snapshot | null }): Promise<Record<string, unknown>> {
     this.curve.close();
     this.probes.close();
+    this.tips?.close();
     this.gauges?.close();
     const c = this.c;
     // frames on worker threads while this thread draws the other pictures

@@ -34,6 +34,8 @@ export interface CaseSpec {
   crackNote: string[];
   crackStart: 'notch-tips' | 'anywhere' | Vec2[];
   crackStartNote: string;
+  /** lefm: traction-free cracks grown where K reaches KIc (the material needs a KIc). */
+  crackModel?: 'lefm';
   mesh: MeshChoice;
   meshNote: string[];
   probesNote: string[];
@@ -116,6 +118,7 @@ export function caseText(c: CaseSpec): string {
     line(`  GF: ${fmt(m.GF)}`, 'N/mm, fracture energy'),
     line(`  softening: ${c.material.softening}`, 'traction-separation law of the crack'),
     line('  shearWeight: 1', 'weight of sliding in the effective opening'),
+    ...(c.crackModel === 'lefm' && m.KIc !== undefined ? [line(`  KIc: ${fmt(m.KIc)}`, 'MPa m^0.5, fracture toughness (crack.model lefm)')] : []),
     '',
     ...comments(c.supportsNote),
     'supports:',
@@ -146,6 +149,7 @@ export function caseText(c: CaseSpec): string {
     line('  criterion: principal-stress', 'grow where the averaged stress reaches ft'),
     line(`  growthStep: ${fmt(c.mesh.growthStep)}`, 'mm per growth step'),
     line(`  averagingRadius: ${fmt(c.mesh.averagingRadius)}`, 'mm, stress averaged ahead of the tip'),
+    ...(c.crackModel === 'lefm' ? [line('  model: lefm', 'traction-free crack, grows where K reaches KIc')] : []),
     '',
     ...comments(c.meshNote),
     `mesh: {size: ${fmt(c.mesh.size)}, tipSize: ${fmt(c.mesh.tipSize)}, refineRadius: ${fmt(c.mesh.refineRadius)}, coarsen: true, seed: 1, lloyd: 8}`,
