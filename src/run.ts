@@ -9,6 +9,7 @@ import type { LoopState } from './fracture/checkpoint.js';
 import { checkHeldPieces } from './fracture/pieces.js';
 import { OutputFolder, checkedFilePath, defaultOutDir } from './output/folder.js';
 import { shellQuote } from './output/shell.js';
+import { LefmAnalysis } from './fracture/lefm.js';
 import { RunFiles } from './output/runfiles.js';
 import { writeMatrixMarket } from './linalg/mtx.js';
 import { readCheckpoint, removeCheckpoint, writeCheckpoint } from './fracture/checkpoint.js';
@@ -26,6 +27,8 @@ export interface RunOptions {
   stopRequested?: () => boolean;
   /** Go on from the checkpoint in the output folder (refused when the case has changed). */
   resume?: boolean;
+  /** The case file the run was started from: its hash goes into case.json and the report. */
+  caseFile?: string;
   /** Converged steps between checkpoints (default 5; 0: only when interrupted). */
   checkpointEvery?: number;
 }
@@ -48,6 +51,8 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   const dir = opt.out ?? defaultOutDir(c.name);
   if (opt.resume && opt.force) throw new InputError('--resume goes on with the run in the output folder and --force starts it afresh: give one of them, not both');
   const matrixFile = opt.exportMatrix !== undefined ? checkedFilePath(opt.exportMatrix, 'the --export-matrix file') : undefined;
+  const lefm = c.crack?.model === 'lefm';
+  if (opt.resume && lefm) throw new InputError('--resume goes on from a checkpoint, and crack.model lefm runs write none (they take seconds): run the case again with --force');
   // nothing to go on with in a folder that is not there (and no empty folder made to say so)
   if (opt.resume && lstatOrNull(dir) === null) readCheckpoint(dir, c);
   const created = lstatOrNull(dir) === null;
@@ -55,15 +60,15 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   folder.lock();
   try {
     const resumed = opt.resume ? readCheckpoint(dir, c) : null;
-    if (!opt.force && !resumed && folder.holdsFiles()) {
+    if (!opt.force && !resumed && folder.holdsFiles(['mesh.svg'])) {
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
     const { mesh, seconds } = meshCase(c);
-    const a = new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
+    const a = lefm ? new LefmAnalysis(c, mesh, { maxDofs: opt.maxDofs }) : new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
     // a specimen cut into pieces that are not each held would run to a meaningless curve
-    checkHeldPieces(c, mesh, a.wm);
-    const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows });
-    if (resumed) a.restore(resumed);
+    if (a instanceof Analysis) checkHeldPieces(c, mesh, a.wm);
+    const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows, caseFile: opt.caseFile });
+    if (resumed && a instanceof Analysis) a.restore(resumed);
     if (opt.stopRequested) a.stopRequested = opt.stopRequested;
     if (matrixFile) writeMatrixMarket(a.stiffnessMatrix(), matrixFile, `rupta: constrained stiffness of ${c.title}`);
     let lastEvent: StepEvent | null = null;
@@ -71,10 +76,10 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
       files.step(e);
       lastEvent = e;
       // a checkpoint of the start, so that a run cut off before its first periodic one can still be finished
-      if (e.row.step === 0 && !resumed) { await files.flush(); writeCheckpoint(dir, c, a.state(START)); }
+      if (e.row.step === 0 && !resumed && a instanceof Analysis) { await files.flush(); writeCheckpoint(dir, c, a.state(START)); }
       opt.onStep?.(e, (performance.now() - t0) / 1000);
     }, async (s) => {
-      // every frame up to the checkpoint is on disk before it is written
+      // every picture up to the checkpoint is on disk before it is written
       await files.flush();
       writeCheckpoint(dir, c, s);
     });

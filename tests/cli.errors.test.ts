@@ -91,9 +91,9 @@ const rows: Row[] = [
   { what: 'probe names twice', mutate: (c) => { c.probes[1].name = 'load-point'; }, want: 'probes[1].name must be a name no other probe uses (found "load-point" twice)' },
   // Rigid-body motion.
   { what: 'nothing fixes x', mutate: (c) => { c.supports[1].fix = 'y'; },
-    want: 'supports must hold the specimen against rigid-body motion in x, y and rotation (found no support fixing x)' },
-  { what: 'a single pin leaves rotation free', mutate: (c) => { c.supports = [{ at: [420, 0], fix: 'xy' }]; },
-    want: 'supports must hold the specimen against rigid-body motion in x, y and rotation (found supports that leave a rotation free)' },
+    want: 'supports must hold the specimen against rigid-body motion in x, y and rotation, together with the displacements the loads prescribe (found no support or load holding x)' },
+  { what: 'two rollers in x leave rotation free', mutate: (c) => { c.supports = [{ at: [20, 0], fix: 'x' }, { at: [420, 0], fix: 'x' }]; },
+    want: 'supports must hold the specimen against rigid-body motion in x, y and rotation, together with the displacements the loads prescribe (found supports and loads that leave a rotation free)' },
   // Mesh too large to run.
   { what: 'mesh over the polygon limit', mutate: (c) => { c.mesh.size = 0.05; c.mesh.tipSize = 0.01; },
     want: /^mesh\.size and mesh\.tipSize must give at most 2000000 polygons \(found about \d+ polygons with size 0\.05 mm and tipSize 0\.01 mm\)$/ },
@@ -102,7 +102,7 @@ const rows: Row[] = [
   { what: 'misspelt supports', mutate: (c) => { c.suports = c.supports; delete c.supports; }, want: 'suports is not a known key; did you mean supports?' },
   { what: 'holes at the top level', mutate: (c) => { c.holes = []; }, want: 'holes is not a known key here; did you mean geometry.holes?' },
   { what: 'unknown key, no near name', mutate: (c) => { c.material.density = 2400; },
-    want: 'material.density is not a known key; the known keys of material are E, nu, ft, GF, softening, shearWeight, strengthField' },
+    want: 'material.density is not a known key; the known keys of material are E, nu, ft, GF, softening, shearWeight, KIc, strengthField' },
   // YAML and JSON syntax, empty and missing files.
   { what: 'YAML indentation', file: 'indent.yaml', text: 'format: 1\nunits: mm-N-MPa\n  thickness: 50\n', want: /^indent\.yaml is not valid YAML at line 2, column \d+: / },
   { what: 'YAML unclosed bracket', file: 'bracket.yaml', text: 'format: 1\ngeometry:\n  outline: [[0, 0], [440, 0]\n', want: /^bracket\.yaml is not valid YAML at line \d+, column \d+: .*\]/ },

@@ -125,14 +125,14 @@ describe('writeReport', () => {
     await writeReport(path, { ...base, frames, finalSvg: null, meshSvg: meshSvg(run.mesh, { ...specimenSymbols(c), title: 'mesh' }) });
   }, 20000);
 
-  it('embeds the strip of frames as PNG thumbnails and the last frame large', async () => {
+  it('embeds every frame to step through, 900 px wide or as wide as a smaller PNG, the last one shown first', async () => {
     const page = readFileSync(path, 'utf8');
-    const uris = [...page.matchAll(/src="data:image\/png;base64,([^"]+)"/g)].map((m) => m[1]);
-    expect(uris).toHaveLength(1 + 4);
-    const widths = await Promise.all(uris.map(async (b) => (await sharp(Buffer.from(b, 'base64')).metadata()).width));
-    expect(widths[0]).toBe(1100);
-    expect(widths.slice(1)).toEqual([480, 480, 480, 480]);
-    expect(page).toContain('Step 3: 2.00 kN, CMOD 0.030 mm, crack 15.0 mm');
+    const data = JSON.parse(/<script type="application\/json" id="stepper-data">(.*?)<\/script>/s.exec(page)![1]) as { step: number; src: string; caption: string }[];
+    expect(data.map((f) => f.step)).toEqual([1, 3, 5, 7]);
+    const widths = await Promise.all(data.map(async (f) => (await sharp(Buffer.from(f.src.replace(/^data:image\/png;base64,/, ''), 'base64')).metadata()).width));
+    expect(widths).toEqual([900, 900, 600, 900]);
+    expect(data[1].caption).toBe('Step 3: 2.00 kN, CMOD 0.030 mm, crack 15.0 mm');
+    expect(page).toContain(`<img id="stepper-frame" src="${data[3].src}"`);
     expect(page).toMatch(/<figure id="mesh-picture"><svg [^>]*aria-label="Initial mesh"/);
     expect(page).toContain('id="mesh-cells"');
     expect(page).not.toContain('http');

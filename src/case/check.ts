@@ -46,6 +46,11 @@ function checkNumbers(c: CaseModel): void {
     num(c.crack.averagingRadius, ['crack', 'averagingRadius']);
     num(c.crack.insertAt, ['crack', 'insertAt']);
   }
+  if (m.KIc !== undefined) num(m.KIc, ['material', 'KIc']);
+  if (c.crack?.model === 'lefm' && m.KIc === undefined) fail(['material', 'KIc'], 'found none; crack.model lefm grows a crack where K reaches KIc');
+  if (c.crack?.model === 'lefm' && !c.geometry.notches.some((n) => n.width === 0)) {
+    throw new InputError('crack.model lefm needs a sharp slit in geometry.notches (a notch of width 0 mm), where K is defined at its tip (found none)');
+  }
   const g = c.mesh;
   num(g.size, ['mesh', 'size']); num(g.tipSize, ['mesh', 'tipSize']); num(g.refineRadius, ['mesh', 'refineRadius']);
   num(g.seed, ['mesh', 'seed']); num(g.lloyd, ['mesh', 'lloyd']);
@@ -349,23 +354,34 @@ function checkGauges(c: CaseModel, sp: Specimen): void {
   }
 }
 
-/** Rows of the rigid-motion map (u = a − θ y, v = b + θ x) restrained by the supports must have rank 3. */
+/**
+ * Rows of the rigid-motion map (u = a − θ y, v = b + θ x) restrained by the supports and by the
+ * displacements the loads prescribe must have rank 3. The machine drives the load points by one load
+ * factor (an axis-aligned load its own axis, an oblique one both), so a load holds its point like a
+ * support would: a bar pulled at both ends is held in its axis by the two loads. Loads that share one
+ * force through a spreader or a wedge are not counted.
+ */
 function checkRigid(c: CaseModel, sp: Specimen): void {
   const b = bbox(sp.outline);
   const cx = (b.x0 + b.x1) / 2, cy = (b.y0 + b.y1) / 2, L = Math.hypot(b.x1 - b.x0, b.y1 - b.y0);
   const rows: number[][] = [];
   let hasX = false, hasY = false;
-  for (const s of c.supports) {
-    for (const p of s.at ? [s.at] : s.along!) {
-      const x = (p[0] - cx) / L, y = (p[1] - cy) / L;
-      if (s.fix !== 'y') { rows.push([1, 0, -y]); hasX = true; }
-      if (s.fix !== 'x') { rows.push([0, 1, x]); hasY = true; }
-    }
+  const hold = (p: Vec2, x: boolean, y: boolean): void => {
+    const px = (p[0] - cx) / L, py = (p[1] - cy) / L;
+    if (x) { rows.push([1, 0, -py]); hasX = true; }
+    if (y) { rows.push([0, 1, px]); hasY = true; }
+  };
+  for (const s of c.supports) for (const p of s.at ? [s.at] : s.along!) hold(p, s.fix !== 'y', s.fix !== 'x');
+  // loads on a spreader or a wedge share one force and do not hold their points one by one
+  const driven = !c.wedge && !c.loads.some((l) => l.share !== undefined);
+  if (driven) for (const l of c.loads) {
+    const [dx, dy] = l.direction;
+    for (const p of l.at ? [l.at] : l.along!) hold(p, Math.abs(dx) >= 1e-12, Math.abs(dy) >= 1e-12);
   }
-  const why = !hasX ? 'found no support fixing x' : !hasY ? 'found no support fixing y'
-    : rank3(rows) < 3 ? 'found supports that leave a rotation free' : '';
+  const why = !hasX ? 'found no support or load holding x' : !hasY ? 'found no support or load holding y'
+    : rank3(rows) < 3 ? 'found supports and loads that leave a rotation free' : '';
   if (why) {
-    throw new InputError(`supports must hold the specimen against rigid-body motion in x, y and rotation (${why})`);
+    throw new InputError(`supports must hold the specimen against rigid-body motion in x, y and rotation, together with the displacements the loads prescribe (${why})`);
   }
 }
 

@@ -25,8 +25,9 @@ export const DEFAULTS = {
   seed: 1,
   lloyd: 8,
   probes: [] as const,
-  frames: ['svg', 'png'] as const,
+  frames: ['png'] as const,
   every: 1,
+  maxFrames: 40,
   animation: 'gif',
   vtk: false,
   pngWidth: 1200,
@@ -103,6 +104,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       growthStep: c.crack.growthStep ?? 2 * tipSize,
       averagingRadius: c.crack.averagingRadius ?? 3 * tipSize,
       insertAt: c.crack.insertAt ?? DEFAULTS.insertAt,
+      model: c.crack.model ?? 'cohesive',
     };
   }
   const place = (p: { at?: Vec2; along?: Vec2[] }) =>
@@ -113,6 +115,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
   const output: OutputSettings = {
     frames: o.frames ? [...new Set(o.frames)] : [...DEFAULTS.frames],
     every: o.every ?? DEFAULTS.every,
+    maxFrames: o.maxFrames ?? DEFAULTS.maxFrames,
     animation: o.animation ?? DEFAULTS.animation,
     vtk: o.vtk ?? DEFAULTS.vtk,
     pngWidth: o.pngWidth ?? DEFAULTS.pngWidth,
@@ -135,6 +138,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       E: c.material.E, nu: c.material.nu, ft: c.material.ft, GF: c.material.GF,
       softening: c.material.softening ?? DEFAULTS.softening,
       shearWeight: c.material.shearWeight ?? DEFAULTS.shearWeight,
+      ...(c.material.KIc !== undefined ? { KIc: c.material.KIc } : {}),
       ...(c.material.strengthField ? { strengthField: {
         distribution: c.material.strengthField.distribution ?? 'lognormal',
         cov: c.material.strengthField.cov,

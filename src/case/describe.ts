@@ -47,8 +47,11 @@ export function describeCase(c: CaseModel): string {
   if (c.crack) {
     const s = c.crack.start;
     const start = typeof s === 'string' ? s : s.map((p) => fmtPoint(p)).join(', ');
-    lines.push(`  crack      from ${start}, ${c.crack.criterion}, step ${fmtNum(c.crack.growthStep)} mm, `
-      + `averaging radius ${fmtNum(c.crack.averagingRadius)} mm, next segment laid at ${fmtNum(c.crack.insertAt)} ft`);
+    lines.push(c.crack.model === 'lefm'
+      ? `  crack      model lefm (linear elastic fracture mechanics): traction-free cracks from ${start}, a tip grows `
+        + `where its MTS equivalent K reaches KIc ${fmtNum(c.material.KIc ?? NaN)} MPa√m, in the MTS direction, step ${fmtNum(c.crack.growthStep)} mm`
+      : `  crack      model cohesive (${c.material.softening} traction–separation law): from ${start}, ${c.crack.criterion}, step ${fmtNum(c.crack.growthStep)} mm, `
+        + `averaging radius ${fmtNum(c.crack.averagingRadius)} mm, next segment laid at ${fmtNum(c.crack.insertAt)} ft`);
   } else {
     lines.push('  crack      none: elastic analysis, one step at the target');
   }

@@ -58,6 +58,8 @@ export interface Material {
   softening: Softening;
   /** β in the effective opening √(w² + β s²). */
   shearWeight: number;
+  /** Fracture toughness K_Ic (MPa√m), needed by crack.model lefm. */
+  KIc?: number;
   /** A spatially random tensile strength about ft (study variants); absent: ft everywhere. */
   strengthField?: StrengthFieldSettings;
 }
@@ -81,6 +83,8 @@ export interface CrackSettings {
   averagingRadius: number;
   /** Fraction of ft at which the next segment is laid, still intact, ahead of a tip. */
   insertAt: number;
+  /** cohesive: faces joined by the traction–separation law; lefm: traction-free cracks that grow where K reaches KIc. */
+  model: 'cohesive' | 'lefm';
 }
 
 export interface MeshSettings {
@@ -93,6 +97,8 @@ export interface Probe { name: string; at: Vec2 }
 export interface OutputSettings {
   frames: ('svg' | 'png')[];
   every: number;
+  /** At most this many frames, evenly spaced over the run (the last step always among them). */
+  maxFrames: number;
   animation: 'gif' | 'webp' | 'none';
   vtk: boolean;
   /** Width of PNG pictures in pixels. */

@@ -58,6 +58,7 @@ const crack = z.strictObject({
   growthStep: num.optional(),
   averagingRadius: num.optional(),
   insertAt: num.optional(),
+  model: z.enum(['cohesive', 'lefm']).optional(),
 });
 
 const mesh = z.strictObject({
@@ -72,6 +73,7 @@ const mesh = z.strictObject({
 const output = z.strictObject({
   frames: z.array(z.enum(['svg', 'png'])).optional(),
   every: num.optional(),
+  maxFrames: num.optional(),
   animation: z.enum(['gif', 'webp', 'none']).optional(),
   vtk: z.boolean().optional(),
   pngWidth: num.optional(),
@@ -95,6 +97,7 @@ export const caseSchema = z.strictObject({
     GF: num,
     softening: z.enum(['linear', 'bilinear', 'exponential']).optional(),
     shearWeight: num.optional(),
+    KIc: num.optional(),
     strengthField: z.strictObject({
       distribution: z.enum(['normal', 'lognormal']).optional(),
       cov: num,

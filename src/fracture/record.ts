@@ -9,6 +9,7 @@ import { readDofs, type VertexDof } from '../solver/driven.js';
 import type { WorkMesh } from './workmesh.js';
 import type { Equations } from './equations.js';
 import type { Crack, CrackState, ProbeRow, StepRow, Tip } from './state.js';
+import type { TipRow } from './tips.js';
 
 export interface CohesiveSegment { x1: number; y1: number; x2: number; y2: number; damage: number }
 
@@ -20,7 +21,7 @@ export interface Snapshot {
   row: StepRow;
 }
 
-export interface StepEvent { row: StepRow; probes: ProbeRow[]; snapshot: () => Snapshot }
+export interface StepEvent { row: StepRow; probes: ProbeRow[]; tips: TipRow[]; snapshot: () => Snapshot }
 
 /** Whether the face pair of path vertex v has reached ft (a history beyond the intact branch). */
 export type Reached = (v: number) => boolean;
@@ -85,6 +86,8 @@ export interface RecordRoom {
   probeVerts: readonly number[];
   /** Newton iterations since the last recorded step. */
   iterations: number;
+  /** The rows of tips.csv for this step (K and direction at every tip). */
+  tips: TipRow[];
 }
 
 /** The row, probes and snapshot of a converged step; the row goes into s.rows. Throws RunStopped on a non-finite value. */
@@ -127,5 +130,5 @@ export function recordStep(r: RecordRoom, step: number, control: number): StepEv
     cracks: crackPolylines(s.cracks, wm),
     cohesive: cohesiveSegments(s.cracks, wm, coh, pairPlus, kap),
   });
-  return { row, probes, snapshot };
+  return { row, probes, tips: r.tips, snapshot };
 }

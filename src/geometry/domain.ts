@@ -127,7 +127,11 @@ export function buildDomain(c: CaseModel): Domain {
       // a notch starting on the edge is extended outwards so the cut is clean
       const back = nearOutline(n.from) ? Math.max(n.width, 0.05 * L) : 0;
       cut.push([notchRect(n.from, n.to, n.width, back)]);
-    } else slits.push([[n.from[0], n.from[1]], [n.to[0], n.to[1]]]);
+    } else {
+      slits.push([[n.from[0], n.from[1]], [n.to[0], n.to[1]]]);
+      // a slit inside the material has a tip at each end
+      if (!nearOutline(n.from)) tips.push([n.from[0], n.from[1]]);
+    }
   }
 
   // points and strip ends, gathered before the rings so circles can be sized by them

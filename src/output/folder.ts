@@ -123,8 +123,8 @@ export class OutputFolder {
   }
 
   /** Anything in the folder besides the lock and temp files of writers. */
-  holdsFiles(): boolean {
-    return this.list().some((f) => f !== LOCK_FILE && !/^\..*\.tmp$/.test(f));
+  holdsFiles(besides: string[] = []): boolean {
+    return this.list().some((f) => f !== LOCK_FILE && !/^\..*\.tmp$/.test(f) && !besides.includes(f));
   }
 
   /**

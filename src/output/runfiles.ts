@@ -1,33 +1,44 @@
 // The files of one run: curve and probe tables that grow row by row, a frame per step,
 // and at the end the summary, the curve plots, the mesh and the field pictures.
 import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { AnalysisResult, Snapshot, StepEvent, StepRow } from '../fracture/analysis.js';
 import { InputError } from '../errors.js';
 import { RowWriter, csvCell, lstatOrNull } from './files.js';
 import { OutputFolder } from './folder.js';
-import { fieldSvg, meshSvg, type FieldPicture } from './field.js';
+import { fieldSvg, meshSvg } from './field.js';
 import { plotPanelsSvg, plotSvg, type PlotOptions, type Series } from './plot.js';
 import { svgToPng, framesToAnimation } from './png.js';
-import type { CurveInset } from './inset.js';
 import { VtkSeries } from './vtk.js';
-import { writeReport, type FrameFile } from './report.js';
+import { writeReport } from './report.js';
+import { CASE_FILE, FrameStore, drawFrames, readRunInfo, specimenSymbols, type FrameFile, type RunCaseFile } from './frames.js';
+import { VERSION, sha256 } from '../version.js';
+import { cracksCsv, cracksDxf } from './exports.js';
+import { s1OverFt } from './stepdata.js';
 import { GAUGE_HEADER, GaugeReader } from './gauges.js';
 import { curvePeaks, fmtLoad, runWarnings, wedgeRatio, workOfFractureEstimate } from './warnings.js';
 
+export { specimenSymbols, s1OverFt };
+
 export const CURVE_HEADER = 'step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations';
 export const PROBE_HEADER = 'step,probe,x_mm,y_mm,ux_mm,uy_mm,sxx_MPa,syy_MPa,sxy_MPa,s1_MPa';
+export const TIPS_HEADER = 'step,crack,tip,x_mm,y_mm,KI_MPa_sqrtm,KII_MPa_sqrtm,kink_deg';
+
+/** A run has crack tips to report when it has a sharp slit or grows cracks. */
+export const hasTips = (c: CaseModel): boolean => !!c.crack || c.geometry.notches.some((n) => n.width === 0);
 
 export interface RunFilesOptions {
   force?: boolean;
+  /** The case file the run was started from (its hash goes into case.json and the report). */
+  caseFile?: string;
   /** Go on with the run in the folder: the rows of its checkpoint (the tables are cut back to its last step). */
   resume?: StepRow[];
 }
 
 /** Files of one step in frames/ and vtk/ (the only ones --force and a resume delete). */
-const STEP_FILE = /^step-(\d{4,})\.(svg|png|vtu)$/;
+const STEP_FILE = /^step-(\d{4,})\.(svg|png|bin|vtu)$/;
 
 const curveCells = (r: StepRow) => [r.step, r.control, r.load_N, r.displacement_mm, r.cmod_mm, r.crack_length_mm, r.tip_x_mm, r.tip_y_mm,
   r.external_work_Nmm, r.elastic_energy_Nmm, r.dissipated_Nmm, r.iterations];
@@ -40,7 +51,7 @@ function removeStepFiles(folder: OutputFolder, sub: string, after: number): void
   }
 }
 
-/** Complete lines of a table whose first cell (the step) is at most `last`, header first, and how many there were. */
+/** Complete lines of a table whose first cell (the step) is at most `last`, header first. */
 function tableUpTo(path: string, header: string, last: number): { text: string; rows: number } {
   let text = header + '\n', rows = 0;
   if (lstatOrNull(path)?.isFile() !== true) return { text, rows };
@@ -50,68 +61,35 @@ function tableUpTo(path: string, header: string, last: number): { text: string; 
   return { text, rows };
 }
 
-/** Symbols of the supports and loads for pictures. */
-export function specimenSymbols(c: CaseModel): Pick<FieldPicture, 'supports' | 'loads'> {
-  const supports: NonNullable<FieldPicture['supports']> = [];
-  for (const s of c.supports) {
-    if (s.at) supports.push({ x: s.at[0], y: s.at[1], fix: s.fix });
-    else if (s.along) for (let k = 0; k <= 4; k++) {
-      const t = k / 4;
-      supports.push({ x: s.along[0][0] + t * (s.along[1][0] - s.along[0][0]), y: s.along[0][1] + t * (s.along[1][1] - s.along[0][1]), fix: s.fix });
-    }
-  }
-  const loads: NonNullable<FieldPicture['loads']> = [];
-  for (const l of c.loads) {
-    if (l.at) loads.push({ x: l.at[0], y: l.at[1], dx: l.direction[0], dy: l.direction[1] });
-    else if (l.along) for (let k = 0; k <= 4; k++) {
-      const t = k / 4;
-      loads.push({ x: l.along[0][0] + t * (l.along[1][0] - l.along[0][0]), y: l.along[0][1] + t * (l.along[1][1] - l.along[0][1]), dx: l.direction[0], dy: l.direction[1] });
-    }
-  }
-  return { supports, loads };
-}
-
-/** Major principal stress per cell divided by ft. */
-export function s1OverFt(cellStress: Float64Array, ft: number): Float64Array {
-  const n = cellStress.length / 3, out = new Float64Array(n);
-  for (let c = 0; c < n; c++) {
-    const sxx = cellStress[3 * c], syy = cellStress[3 * c + 1], sxy = cellStress[3 * c + 2];
-    out[c] = ((sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy)) / ft;
-  }
-  return out;
-}
-
-// a load that rounds to zero is printed without a sign
-
 export class RunFiles {
   private curve: RowWriter;
   private probes: RowWriter;
+  private tips: RowWriter | null = null;
   /** gauges.csv, when the case names extra gauges. */
   private gauges: RowWriter | null = null;
   private gaugeReader: GaugeReader | null = null;
-  private framePngs: string[] = [];
-  private frames: FrameFile[] = [];
+  private store: FrameStore | null = null;
   private pending: Promise<void>[] = [];
   /** The first failure of a picture drawn in the background, handed on by flush(). */
   private failure: unknown = null;
   private readonly folder: OutputFolder;
-  private rows: StepRow[] = [];
   private vtk: VtkSeries | null = null;
   readonly framesDir: string;
 
   constructor(readonly dir: string, readonly c: CaseModel, opt: RunFilesOptions = {}) {
     const resume = opt.resume ?? null;
     const folder = this.folder = OutputFolder.open(dir);
-    if (!opt.force && !resume && folder.holdsFiles()) {
+    // the mesh preview of `rupta mesh` is no run: running into its folder is what the user expects
+    if (!opt.force && !resume && folder.holdsFiles(['mesh.svg'])) {
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
     const last = resume ? resume[resume.length - 1]?.step ?? -1 : -1;
     // what a writer killed mid-write left behind
     for (const sub of ['', 'frames', 'vtk']) folder.removeTemps(sub);
     // every name written below is checked first: a link, pipe or device in the folder is refused, never followed
-    for (const f of ['curve.csv', 'probes.csv', 'gauges.csv', 'summary.json', 'report.html', 'mesh.svg', 'curve.svg', 'curve.png', 'field-s1.svg', 'field-s1.png', 'animation.gif', 'animation.webp', 'checkpoint.json']) folder.file(f);
-    const wantFrames = !!c.crack && c.output.frames.length > 0;
-    this.framesDir = wantFrames ? folder.subdir('frames') : join(dir, 'frames');
+    for (const f of ['curve.csv', 'probes.csv', 'tips.csv', 'gauges.csv', 'summary.json', 'report.html', 'mesh.svg', 'curve.svg', 'curve.png',
+      'field-s1.svg', 'field-s1.png', 'animation.gif', 'animation.webp', 'checkpoint.json', 'cracks.csv', 'cracks.dxf', CASE_FILE]) folder.file(f);
+    this.framesDir = c.crack && c.output.frames.length > 0 ? folder.subdir('frames') : join(dir, 'frames');
     // an overwritten run loses its step files and checkpoint; a resumed one those after its checkpoint
     if (opt.force || resume) {
       removeStepFiles(folder, 'frames', last);
@@ -121,6 +99,13 @@ export class RunFiles {
       folder.remove('checkpoint.json');
       folder.remove(join('vtk', 'steps.pvd'));
     }
+    // the case as run: redrawing frames and report needs nothing but the folder
+    const caseHash: RunCaseFile['caseHash'] = opt.caseFile && lstatOrNull(opt.caseFile) !== null
+      ? { sha256: sha256(readFileSync(opt.caseFile)), of: 'case file', file: basename(opt.caseFile) }
+      : { sha256: sha256(JSON.stringify(c)), of: 'validated case' };
+    const info: RunCaseFile = { format: 1, rupta: VERSION, caseHash, case: c };
+    folder.write(CASE_FILE, JSON.stringify(info, null, 1) + '\n');
+    if (c.crack && c.output.frames.length > 0) this.store = new FrameStore(this.framesDir, c.material.ft, c.output.every, c.output.maxFrames);
     if (resume) {
       // the tables as they stood at the checkpoint; the rows after it are computed again
       const probes = tableUpTo(folder.file('probes.csv'), PROBE_HEADER, last);
@@ -130,11 +115,13 @@ export class RunFiles {
       }
       folder.write('curve.csv', CURVE_HEADER + '\n' + resume.map((r) => curveCells(r).map(csvCell).join(',') + '\n').join(''));
       folder.write('probes.csv', probes.text);
+      if (hasTips(c)) folder.write('tips.csv', tableUpTo(folder.file('tips.csv'), TIPS_HEADER, last).text);
       if (c.gauges?.length) folder.write('gauges.csv', tableUpTo(folder.file('gauges.csv'), GAUGE_HEADER, last).text);
-      this.seedFrames(resume);
     }
     this.curve = new RowWriter(folder.file('curve.csv'), CURVE_HEADER, { keepExisting: !!resume });
     this.probes = new RowWriter(folder.file('probes.csv'), PROBE_HEADER, { keepExisting: !!resume });
+    if (hasTips(c)) this.tips = new RowWriter(folder.file('tips.csv'), TIPS_HEADER, { keepExisting: !!resume });
+    else folder.remove('tips.csv');
     if (c.gauges?.length) {
       this.gauges = new RowWriter(folder.file('gauges.csv'), GAUGE_HEADER, { keepExisting: !!resume });
       this.gaugeReader = new GaugeReader(c.gauges);
@@ -150,95 +137,60 @@ export class RunFiles {
     }
   }
 
-  /** Rows, frames and PNG list of the steps before a resume, as the uninterrupted run had them. */
-  private seedFrames(rows: StepRow[]): void {
-    this.rows = rows.slice();
-    const o = this.c.output;
-    if (!this.c.crack || o.frames.length === 0) return;
-    for (const r of rows) {
-      if (r.step % o.every !== 0) continue;
-      const name = join(this.framesDir, `step-${String(r.step).padStart(4, '0')}`);
-      const frame: FrameFile = { step: r.step };
-      if (o.frames.includes('svg') && lstatOrNull(`${name}.svg`)?.isFile()) frame.svg = `${name}.svg`;
-      if (o.frames.includes('png') && lstatOrNull(`${name}.png`)?.isFile()) { frame.png = `${name}.png`; this.framePngs.push(frame.png); }
-      if (frame.svg || frame.png) this.frames.push(frame);
-    }
-  }
-
-  /** Rows at once; the frame is drawn now and rasterised in the background. */
+  /** Rows at once; the state of the step is kept for the frames, which are drawn once the run has ended. */
   step(ev: StepEvent): void {
     const r = ev.row;
     this.curve.append(curveCells(r));
     for (const p of ev.probes) this.probes.append([p.step, p.probe, p.x_mm, p.y_mm, p.ux_mm, p.uy_mm, p.sxx_MPa, p.syy_MPa, p.sxy_MPa, p.s1_MPa]);
-    this.rows.push(r);
+    if (this.tips) for (const t of ev.tips) this.tips.append([t.step, t.crack, t.tip, t.x_mm, t.y_mm, t.KI_MPa_sqrtm, t.KII_MPa_sqrtm, t.kink_deg]);
     if (this.gauges && this.gaugeReader) {
       const s = ev.snapshot();
       for (const g of this.gaugeReader.read(s.mesh, s.u)) this.gauges.append([r.step, g.gauge, g.opening_mm, g.sliding_mm]);
     }
-    const o = this.c.output;
-    if (r.step % o.every !== 0) return;
-    const wantFrame = !!this.c.crack && o.frames.length > 0;
-    if (!wantFrame && !this.vtk) return;
+    const vtkNow = this.vtk && r.step % this.c.output.every === 0;
+    if (!vtkNow && !this.store) return;
     const snap = ev.snapshot();
-    if (this.vtk) {
+    if (this.vtk && vtkNow) {
       this.vtk.write(r.step, { mesh: snap.mesh, u: snap.u, cellStress: snap.cellStress, cohesive: snap.cohesive, nuZ: this.c.model === 'plane-strain' ? this.c.material.nu : 0 });
     }
-    if (!wantFrame) return;
-    const svg = this.frameSvg(snap);
-    const name = `step-${String(r.step).padStart(4, '0')}`;
-    const frame: FrameFile = { step: r.step };
-    this.frames.push(frame);
-    if (o.frames.includes('svg')) { frame.svg = this.folder.file(join('frames', `${name}.svg`)); this.folder.write(join('frames', `${name}.svg`), svg); }
-    if (o.frames.includes('png')) {
-      const png = this.folder.file(join('frames', `${name}.png`));
-      frame.png = png;
-      this.framePngs.push(png);
-      this.background(svgToPng(svg, png, o.pngWidth));
-      if (this.pending.length > 4) { const p = this.pending; this.pending = [Promise.all(p).then(() => undefined)]; }
-    }
-    if (this.failure) throw this.failure;
+    this.store?.add(snap);
   }
 
-  /** A picture drawn in the background: its failure is kept (never an unhandled rejection) and raised at the next step or flush. */
+  /** A picture drawn in the background: its failure is kept (never an unhandled rejection) and raised by flush(). */
   private background(p: Promise<void>): void {
     this.pending.push(p.catch((e: unknown) => { this.failure ??= e; }));
   }
 
-  /** Wait for the pictures drawn in the background (before a checkpoint: every frame up to it is then on disk). */
+  /** Wait for the pictures drawn in the background. */
   async flush(): Promise<void> {
     await Promise.all(this.pending);
     this.pending = [];
     if (this.failure) throw this.failure;
   }
 
-  frameSvg(s: Snapshot): string {
-    const r = s.row;
-    const caption = [
-      `Step ${r.step}: load ${fmtLoad(r.load_N)}, load-point displacement ${r.displacement_mm.toFixed(4)} mm` +
-        (r.cmod_mm !== null ? `, CMOD ${r.cmod_mm.toFixed(4)} mm` : '') + `, crack length ${r.crack_length_mm.toFixed(1)} mm.`,
-    ];
-    return fieldSvg({
-      mesh: s.mesh, values: s1OverFt(s.cellStress, this.c.material.ft), valueLabel: 'σ₁ / ft', range: [-1, 1], diverging: true,
-      displacement: s.u, showMesh: true, cracks: s.cracks, cohesive: s.cohesive, ...specimenSymbols(this.c),
-      inset: frameInset(this.rows, r.step), title: this.c.title, caption, widthPx: 1000,
-    });
+  /** Close the tables without the final writes (a run refused or broken off before its end). */
+  close(): void {
+    this.curve.close();
+    this.probes.close();
+    this.tips?.close();
+    this.gauges?.close();
   }
 
   /**
-   * Everything written once the analysis has ended, the summary first (the caller removes the
-   * checkpoint only after this has returned, so a folder cut off here can still be finished).
+   * Everything written once the analysis has ended (the caller removes the checkpoint only
+   * after this has returned, so a folder cut off here can still be finished).
    */
   async finish(result: AnalysisResult, extra: { meshSeconds: number; totalSeconds: number; initialMesh: PolyMesh; final: Snapshot | null }): Promise<Record<string, unknown>> {
     this.curve.close();
     this.probes.close();
+    this.tips?.close();
     this.gauges?.close();
-    const c = this.c, folder = this.folder;
-    await this.flush();
-    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds, extra.final);
-    folder.write('summary.json', JSON.stringify(summary, null, 2) + '\n');
+    const c = this.c;
+    // frames on worker threads while this thread draws the other pictures
+    const framesDrawn = drawFrames(this.dir, { prune: result.status === 'complete' });
     // mesh picture of the initial mesh
     const meshPicture = meshSvg(extra.initialMesh, { ...specimenSymbols(c), title: `${c.title}: mesh` });
-    folder.write('mesh.svg', meshPicture);
+    this.folder.write('mesh.svg', meshPicture);
     let finalSvg: string | null = null;
     if (extra.final) {
       const f = extra.final;
@@ -247,45 +199,44 @@ export class RunFiles {
         displacement: f.u, cracks: f.cracks, cohesive: f.cohesive, ...specimenSymbols(c),
         title: `${c.title}: major principal stress`, caption: [`Step ${f.row.step}, load ${fmtLoad(f.row.load_N)}.`], widthPx: 1000,
       });
-      folder.write('field-s1.svg', svg);
-      this.background(svgToPng(svg, folder.file('field-s1.png'), c.output.pngWidth));
+      this.folder.write('field-s1.svg', svg);
+      this.background(svgToPng(svg, this.folder.file('field-s1.png'), c.output.pngWidth));
     }
     if (result.rows.length > 1) {
       const svg = curveSvg(c, result.rows);
-      folder.write('curve.svg', svg);
-      this.background(svgToPng(svg, folder.file('curve.png'), c.output.pngWidth));
+      this.folder.write('curve.svg', svg);
+      this.background(svgToPng(svg, this.folder.file('curve.png'), c.output.pngWidth));
+    }
+    // the numbers first, the pictures after them
+    const summary = summaryOf(c, result, extra.meshSeconds, extra.totalSeconds, extra.final);
+    this.folder.write('summary.json', JSON.stringify(summary, null, 2) + '\n');
+    if (c.crack) {
+      this.folder.write('cracks.csv', cracksCsv(result.crackPaths));
+      this.folder.write('cracks.dxf', cracksDxf(c, result.crackPaths));
     }
     await this.flush();
-    if (c.crack && c.output.animation !== 'none' && this.framePngs.length > 1) {
-      await framesToAnimation(this.framePngs, folder.file(`animation.${c.output.animation}`), { format: c.output.animation, maxFrames: 60, maxWidth: 720 });
-    }
-    await writeReport(folder.file('report.html'), {
-      c, result, initialMesh: extra.initialMesh, frames: this.frames, finalSvg, meshSvg: meshPicture,
-      curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
-      timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
-      workOfFracture: workOfFractureEstimate(c, result),
-      warnings: summary.warnings as string[],
-    });
+    const frames = await framesDrawn;
+    // the animation (libvips threads) and the page at once
+    await Promise.all([
+      writeAnimation(this.dir, c, frames),
+      writeReport(this.folder.file('report.html'), {
+        c, result, initialMesh: extra.initialMesh, frames, finalSvg, meshSvg: meshPicture, run: readRunInfo(this.dir),
+        curveSvg: result.rows.length > 1 ? curveSvg(c, result.rows) : null,
+        timings: { mesh: extra.meshSeconds, solve: result.timings_s.solve, total: extra.totalSeconds },
+        workOfFracture: workOfFractureEstimate(c, result),
+        warnings: summary.warnings as string[],
+      }),
+    ]);
     return summary;
-  }
-
-  /** Close the tables without the final writes (a run refused or broken off before its end). */
-  close(): void {
-    this.curve.close();
-    this.probes.close();
-    this.gauges?.close();
   }
 }
 
-/** The opening the frames plot: CMOD when there is a gauge, else the load-point displacement. */
-function frameInset(rows: StepRow[], step: number): CurveInset | undefined {
-  if (rows.length === 0) return undefined;
-  const gauge = rows.some((r) => r.cmod_mm !== null);
-  const x = rows.map((r) => (gauge ? r.cmod_mm ?? NaN : r.displacement_mm));
-  const y = rows.map((r) => r.load_N);
-  let k = rows.length - 1;
-  while (k > 0 && rows[k].step > step) k--;
-  return { x, y, current: k, xLabel: gauge ? 'CMOD (mm)' : 'Displacement (mm)', yLabel: 'Load (N)' };
+/** The animation of a run's frames (PNG frames only), or none as the case asks. */
+export async function writeAnimation(dir: string, c: CaseModel, frames: FrameFile[]): Promise<void> {
+  const pngs = frames.flatMap((f) => (f.png ? [f.png] : []));
+  if (c.crack && c.output.animation !== 'none' && pngs.length > 1) {
+    await framesToAnimation(pngs, join(dir, `animation.${c.output.animation}`), { format: c.output.animation, maxFrames: c.output.maxFrames, maxWidth: 720 });
+  }
 }
 
 /** Lab or other curves to overlay: a list goes with the opening the prediction is plotted against (CMOD when there is a gauge). */

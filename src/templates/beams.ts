@@ -2,7 +2,7 @@
 // ceramic bend bar (three-point bending with a sharp notch and fine tip cells).
 import type { Vec2 } from '../case/model.js';
 import {
-  criticalOpening, materialOf, meshFor, mouthTarget, niceDown, nominalStrength, num, optionLine, pt, q, sig2, str, travelTarget,
+  criticalOpening, materialOf, meshFor, mouthTarget, niceDown, nominalStrength, num, optionLine, pt, q, sig2, str, travelTarget, type MeshChoice,
 } from './common.js';
 import { fmt, length, materialOption, meshOptions, need, softeningOption, titleOption, withDefaults } from './options.js';
 import type { Template, TemplateOption, Values } from './types.js';
@@ -13,6 +13,8 @@ type Kind = '3pb' | '4pb' | 'shear';
 interface BeamDefaults {
   length: number; span: number; depth: number; thickness: number; notchDepth: number; notchWidth: number;
   material: string; title: string;
+  /** lefm: a brittle bar, the crack traction-free and grown where K reaches KIc. */
+  crackModel?: 'lefm';
 }
 
 /** Bearing strips a tenth of the depth by default (common practice for bending rigs). */
@@ -37,7 +39,7 @@ function beamOptions(kind: Kind, d: BeamDefaults, extra: TemplateOption[]): Temp
   ];
 }
 
-function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string {
+function buildBeam(tpl: string, kind: Kind, about: string[], v: Values, crackModel?: 'lefm'): string {
   const L = num(v, 'length'), D = num(v, 'depth'), B = num(v, 'thickness');
   const a = num(v, 'notch-depth'), nw = num(v, 'notch-width');
   const strip = (k: string) => (v[k] === 'auto' ? niceDown(STRIP_OF_DEPTH * D) : num(v, k));
@@ -48,7 +50,9 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
   need(tpl, 'notch-depth', a, 0, 0.9 * D, 'mm', `for a depth of ${fmt(D)} mm`);
   need(tpl, 'notch-width', nw, 0, D / 5, 'mm', `for a depth of ${fmt(D)} mm`);
   const mat = materialOf(v);
-  const mesh = meshFor(tpl, v, D / 10, D / 50, mat, D / 2, `for a depth of ${fmt(D)} mm`);
+  const lefm = crackModel === 'lefm' && a > 0 && nw === 0 && mat.preset.KIc !== undefined;
+  // a brittle crack needs no process-zone cells: the tip cells only have to resolve K
+  const mesh = lefm ? lefmMesh(tpl, v, D) : meshFor(tpl, v, D / 10, D / 50, mat, D / 2, `for a depth of ${fmt(D)} mm`);
   // Half the gauge length: the notch mouth corners, or a little either side of a slit.
   const gh = nw > 0 ? nw / 2 : Math.max(mesh.tipSize, D / 50);
 
@@ -97,7 +101,8 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
       need(tpl, 'bearing-width', bw, 0, span / 4, 'mm', `for a span of ${fmt(span)} mm`);
       xn = q(m + e);
       loads = [{ at: pt(m, D), direction: [0, -1], width: bw, note: 'mid-span, top face' }];
-      loadsNote = [`The machine pushes down at mid-span through a ${fmt(bw)} mm wide bearing strip.`];
+      loadsNote = [bw > 0 ? `The machine pushes down at mid-span through a ${fmt(bw)} mm wide bearing strip.`
+        : 'The machine pushes down at mid-span through a roller (line contact, a point in the plane).'];
       probes.push({ name: 'load-point', at: pt(m, D) });
     } else {
       const ls = num(v, 'load-span');
@@ -119,7 +124,10 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
   const gauge = notched ? { from: pt(xn - gh, 0), to: pt(xn + gh, 0), note: nw > 0 ? 'corners of the notch mouth' : 'either side of the slit mouth' } : undefined;
   const elasticTravel = (nominalStrength(mat, D) * span * span) / (6 * mat.preset.E * D);
   const byCmod = notched && kind !== 'shear';
-  const control: CaseSpec['control'] = byCmod
+  const control: CaseSpec['control'] = lefm
+    // some twenty times the mouth opening at the peak: the run ends when the bar comes apart
+    ? { by: 'cmod', gauge: gauge!, target: sig2((100 * nominalStrength(mat, D) * a) / mat.preset.E), targetNote: 'mm of mouth opening, well past separation', increments: 100 }
+    : byCmod
     ? { by: 'cmod', gauge: gauge!, target: mouthTarget(mat, D, a), targetNote: 'mm of mouth opening at the end of the run', increments: 100 }
     : kind === 'shear' && notched
       // driven by the crack mouth sliding, as the test is run in the lab; two critical openings
@@ -146,8 +154,11 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
     ...(notched ? { notches: [{ from: pt(xn, 0), to: pt(xn, a), width: nw, note: nw > 0 ? `${fmt(nw)} mm wide saw cut` : 'a sharp slit' }] } : {}),
     material: mat,
     supportsNote, supports, loadsNote, loads, controlNote, control,
-    crackNote: [notched ? 'One crack grows from the notch tip where the averaged principal stress reaches ft.'
+    crackNote: lefm ? ['Linear elastic fracture mechanics: the crack is traction-free and its tip grows',
+      'where the equivalent K of the maximum tangential stress criterion reaches KIc.']
+      : [notched ? 'One crack grows from the notch tip where the averaged principal stress reaches ft.'
       : 'A crack starts wherever the averaged principal stress first reaches ft.'],
+    ...(lefm ? { crackModel: 'lefm' as const } : {}),
     crackStart: notched ? 'notch-tips' : 'anywhere',
     crackStartNote: notched ? 'the tip of the notch' : 'no notch: the most stressed point',
     mesh,
@@ -160,7 +171,16 @@ function buildBeam(tpl: string, kind: Kind, about: string[], v: Values): string 
 
 function beamTemplate(name: string, kind: Kind, summary: string, about: string[], d: BeamDefaults, extra: TemplateOption[]): Template {
   const options = beamOptions(kind, d, extra);
-  return { name, summary, options, build: (values) => buildBeam(name, kind, about, withDefaults(options, values)) };
+  return { name, summary, options, build: (values) => buildBeam(name, kind, about, withDefaults(options, values), d.crackModel) };
+}
+
+/** Cells for a brittle crack: depth/80 at the tips within ten tip cells, growth by two tip cells. */
+function lefmMesh(tpl: string, v: Values, D: number): MeshChoice {
+  const size = v['mesh-size'] === 'auto' ? q(D / 10) : num(v, 'mesh-size');
+  need(tpl, 'mesh-size', size, 0, D / 2, 'mm', `for a depth of ${fmt(D)} mm`);
+  const tipSize = v['tip-size'] === 'auto' ? q(D / 80) : num(v, 'tip-size');
+  need(tpl, 'tip-size', tipSize, 0, size, 'mm', `for a mesh-size of ${fmt(size)} mm`);
+  return { size, tipSize, refineRadius: q(10 * tipSize), growthStep: q(2 * tipSize), averagingRadius: q(3 * tipSize) };
 }
 
 export const beam3pb = beamTemplate('beam-3pb', '3pb',
@@ -186,6 +206,9 @@ export const beam4pShear = beamTemplate('beam-4p-shear', 'shear',
 export const ceramicBendBar = beamTemplate('ceramic-bend-bar', '3pb',
   'small alumina bar in three-point bending with a sharp notch and fine tip cells',
   ['Small ceramic bend bar with a sharp notch in three-point bending. The process zone of a',
-    'ceramic is a fraction of a millimetre, so the tip cells are some 20 micrometres.'],
-  { length: 45, span: 40, depth: 4, thickness: 3, notchDepth: 1, notchWidth: 0, material: 'ceramic-alumina', title: 'Notched ceramic bend bar, demo batch' },
+    'ceramic is micrometres long, so the crack is modelled by linear elastic fracture',
+    'mechanics (crack.model lefm): traction-free, growing where K reaches KIc. A 3 x 4 mm',
+    'bar on a 16 mm span (S/W = 4), the three-point set-up of the single-edge V-notched beam',
+    'test (ISO 23146; dimensions from memory).'],
+  { length: 20, span: 16, depth: 4, thickness: 3, notchDepth: 1, notchWidth: 0, material: 'ceramic-alumina', title: 'Notched ceramic bend bar, demo batch', crackModel: 'lefm' },
   [length('eccentricity', 0, 'offset of the notch from mid-span, to the right', -100000, 100000)]);

@@ -34,6 +34,8 @@ export interface CaseSpec {
   crackNote: string[];
   crackStart: 'notch-tips' | 'anywhere' | Vec2[];
   crackStartNote: string;
+  /** lefm: traction-free cracks grown where K reaches KIc (the material needs a KIc). */
+  crackModel?: 'lefm';
   mesh: MeshChoice;
   meshNote: string[];
   probesNote: string[];
@@ -116,6 +118,7 @@ export function caseText(c: CaseSpec): string {
     line(`  GF: ${fmt(m.GF)}`, 'N/mm, fracture energy'),
     line(`  softening: ${c.material.softening}`, 'traction-separation law of the crack'),
     line('  shearWeight: 1', 'weight of sliding in the effective opening'),
+    ...(c.crackModel === 'lefm' && m.KIc !== undefined ? [line(`  KIc: ${fmt(m.KIc)}`, 'MPa m^0.5, fracture toughness (crack.model lefm)')] : []),
     '',
     ...comments(c.supportsNote),
     'supports:',
@@ -146,6 +149,7 @@ export function caseText(c: CaseSpec): string {
     line('  criterion: principal-stress', 'grow where the averaged stress reaches ft'),
     line(`  growthStep: ${fmt(c.mesh.growthStep)}`, 'mm per growth step'),
     line(`  averagingRadius: ${fmt(c.mesh.averagingRadius)}`, 'mm, stress averaged ahead of the tip'),
+    ...(c.crackModel === 'lefm' ? [line('  model: lefm', 'traction-free crack, grows where K reaches KIc')] : []),
     '',
     ...comments(c.meshNote),
     `mesh: {size: ${fmt(c.mesh.size)}, tipSize: ${fmt(c.mesh.tipSize)}, refineRadius: ${fmt(c.mesh.refineRadius)}, coarsen: true, seed: 1, lloyd: 8}`,
@@ -156,8 +160,8 @@ export function caseText(c: CaseSpec): string {
   for (const pr of c.probes) L.push(`  - {name: ${pr.name}, at: ${p(pr.at)}}`);
   L.push(
     '',
-    '# A picture of every step and an animation of the whole run.',
-    'output: {frames: [svg, png], every: 1, animation: gif, vtk: false}',
+    '# Up to 40 pictures evenly spaced over the run (add svg to frames for SVG copies) and an animation.',
+    'output: {frames: [png], every: 1, maxFrames: 40, animation: gif, vtk: false}',
     '',
   );
   return L.join('\n');
