@@ -94,7 +94,7 @@ const HOSTILE: [string, [string, string], RegExp][] = [
   ['a crack start outside', edit((c) => { c.crack.start = [[900, 50]]; }), /crack\.start\[0\] must be a point in the specimen/],
   ['cmod without a gauge', edit((c) => { delete c.control.gauge; }), /control\.gauge is required when control\.by is cmod/],
   ['a gauge of zero length', edit((c) => { c.control.gauge.to = c.control.gauge.from; }), /control\.gauge must have distinct from and to points/],
-  ['supports that leave a rotation free', edit((c) => { c.supports = [{ at: [20, 0], fix: 'xy' }]; }), /supports must hold the specimen against rigid-body motion/],
+  ['supports that leave x free', edit((c) => { c.supports = [{ at: [20, 0], fix: 'y' }, { at: [420, 0], fix: 'y' }]; }), /must hold the specimen against rigid-body motion/],
   ['no supports', edit((c) => { c.supports = []; }), /supports/],
   ['an unknown top-level key', edit((c) => { c.extra = 1; }), /extra is not a known key/],
   ['format 2', edit((c) => { c.format = 2; }), /format/],
