@@ -1,14 +1,15 @@
 // The lab commands: compare a run with measured curves, fit material parameters to one.
 import type { Command } from 'commander';
-import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { loadCase } from '../src/case/index.js';
+import { existsSync, readFileSync, rmSync } from 'node:fs';
+import { basename, join } from 'node:path';
+import { loadCase, unitSlipWarnings } from '../src/case/index.js';
 import type { Softening } from '../src/case/model.js';
 import { InputError } from '../src/errors.js';
-import { readLabCurve } from '../src/lab/import.js';
-import { compareCurves, compareJson, compareSvg, compareTable, readRunCurve, type XAxis } from '../src/lab/compare.js';
-import { FIT_PARAMS, fitCase, fitHistoryCsv, fitJson, fitSvg, fitTable, fittedCaseText, type FitParam } from '../src/lab/fit.js';
-import { writeFileAtomic } from '../src/output/files.js';
+import { readLabCurve, type LabColumns, type LabCurve } from '../src/lab/import.js';
+import { compareCurves, compareJson, compareSvg, compareTable, readRunCurve, type Curve, type XAxis } from '../src/lab/compare.js';
+import type { Corrections } from '../src/lab/correct.js';
+import { FIT_HISTORY_HEADER, FIT_PARAMS, fitCase, fitHistoryRow, fitJson, fitSvg, fitTable, fittedCaseText, type FitParam } from '../src/lab/fit.js';
+import { ensureDir, RowWriter, writeFileAtomic } from '../src/output/files.js';
 import { svgToPng } from '../src/output/png.js';
 
 function xAxisOf(v: string | undefined): XAxis | undefined {
@@ -21,6 +22,88 @@ function positive(name: string, v: string | undefined): number | undefined {
   if (v === undefined) return undefined;
   const x = Number(v);
   if (!(x > 0) || !Number.isFinite(x)) throw new InputError(`${name} must be a positive number (found "${v}")`);
+  return x;
+}
+
+/** A column option: a 1-based number or a header name. */
+function columnOf(v: string | undefined): string | number | undefined {
+  if (v === undefined) return undefined;
+  return /^\d+$/.test(v.trim()) ? Number(v.trim()) : v;
+}
+
+interface LabReadOptions { xColumn?: string; loadColumn?: string; xUnit?: string; loadUnit?: string; x?: string }
+interface CorrectionOptions { compliance?: string; toe?: boolean; preload?: string }
+
+function labColumns(o: LabReadOptions): LabColumns {
+  return { x: columnOf(o.xColumn), y: columnOf(o.loadColumn), xUnit: o.xUnit, yUnit: o.loadUnit };
+}
+
+/** The corrections asked for, and whether the compliance is to be estimated. */
+function correctionsOf(o: CorrectionOptions): { corrections: Corrections; estimate: boolean } {
+  const corrections: Corrections = { toe: o.toe === true };
+  let estimate = false;
+  if (o.compliance !== undefined) {
+    if (o.compliance.trim() === 'estimate') estimate = true;
+    else {
+      const v = Number(o.compliance);
+      if (!(v >= 0) || !Number.isFinite(v) || o.compliance.trim() === '') throw new InputError(`--compliance must be the machine compliance in mm/kN (0 or more) or "estimate" (found "${o.compliance}")`);
+      if (v > 10) throw new InputError(`--compliance ${v} mm/kN is beyond any testing machine (a soft one is about 0.01–0.1 mm/kN): give it in mm/kN`);
+      corrections.compliance_mm_per_N = v / 1000;
+    }
+  }
+  if (o.preload !== undefined) {
+    const v = Number(o.preload);
+    if (!(v >= 0) || !Number.isFinite(v) || o.preload.trim() === '') throw new InputError(`--preload must be the seating load in N, 0 or more (found "${o.preload}")`);
+    corrections.preload_N = v;
+  }
+  return { corrections, estimate };
+}
+
+/** The CMOD reading of the same test, for --compliance estimate; null when the file has none. */
+function cmodReading(path: string, o: LabReadOptions): Curve | null {
+  try {
+    const c = readLabCurve(path, { y: columnOf(o.loadColumn), yUnit: o.loadUnit });
+    return c.xKind === 'cmod' ? { x: c.x, y: c.y } : null;
+  } catch (e) {
+    if (e instanceof InputError) return null;
+    throw e;
+  }
+}
+
+/** The column and unit options shared by compare and fit. */
+function labReadOptions(cmd: Command): Command {
+  return cmd
+    .option('--x-column <name|n>', 'column of the opening: a header name (e.g. "Weg", "COD") or a number from 1 (default: found by name)')
+    .option('--load-column <name|n>', 'column of the load: a header name (e.g. "Kraft") or a number from 1 (default: found by name)')
+    .option('--x-unit <unit>', 'unit of the opening column when the header gives none: mm, µm, cm, m or in')
+    .option('--load-unit <unit>', 'unit of the load column when the header gives none: N, kN, daN, lbf or kip')
+    .option('--compliance <mm/kN|estimate>', 'testing machine compliance taken out of a crosshead displacement, in mm/kN, or "estimate" from the file\'s CMOD column')
+    .option('--toe', 'toe correction: zero the opening where the straight part of the rising branch meets zero load')
+    .option('--preload <N>', 'seating load (N) on which the readings were zeroed: added back to loads and openings');
+}
+
+export const LAB_FORMAT_HELP = `
+Measured curves: delimited text as testing machines export it (comma, semicolon, tab or blanks;
+decimal commas; header and comment lines; a units line under the names). Columns are found by
+name in English, German, French and Spanish: load (load, force, Kraft, Last, charge, effort,
+fuerza, carga) and opening, CMOD first (CMOD, COD, opening, Rissöffnung, ouverture, apertura,
+clip) then displacement (displacement, deflection, crosshead, stroke, position, Weg, Traverse,
+Durchbiegung, déplacement, flèche, desplazamiento, flecha). Units in the header ("Kraft [kN]",
+"CMOD (µm)", "Load/lbf") or by --x-unit/--load-unit: N, kN, daN, lbf, kip; mm, µm, cm, m, in.
+A header line "Specimen; B-3" (Probe, Prüfkörper, Éprouvette, Probeta) names the specimen.
+The opening's meaning (CMOD or displacement) chooses the predicted curve it is compared with.
+Example:
+  Specimen;B-3
+  Zeit [s];Kraft [kN];Weg [mm];COD [mm]
+  0,0;0,000;0,000;0,0000
+  0,5;0,412;0,011;0,0021
+`;
+
+/** A whole-number option at least min; fractions and words are refused. */
+function wholeOf(name: string, v: string | undefined, min: number): number | undefined {
+  if (v === undefined) return undefined;
+  const x = Number(v);
+  if (v.trim() === '' || !Number.isInteger(x) || x < min) throw new InputError(`${name} must be a whole number, ${min} or more (found "${v}")`);
   return x;
 }
 
@@ -38,73 +121,137 @@ function softeningOf(v: string | undefined): Softening | undefined {
 }
 
 export function registerLabCommands(program: Command): void {
-  program
+  labReadOptions(program
     .command('compare')
-    .description('overlay measured load–opening curves on a run and tabulate peak, opening at peak, RMSE, area and GF')
+    .description('overlay measured load–opening curves on a run and tabulate peak, opening at peak, RMSE, area and GF, with series statistics')
     .argument('<run-dir>', 'output folder of a rupta run (with curve.csv and summary.json)')
-    .argument('<lab...>', 'measured curves (text files of load and opening columns)')
-    .option('--x <axis>', 'opening to compare against: cmod or displacement (default cmod when the run has a gauge)')
+    .argument('<lab...>', 'measured curves (text files of load and opening columns, see below)')
+    .option('--x <axis>', 'compare the measured opening as cmod or displacement (default from its column name)')
     .option('--ligament-area <mm2>', 'ligament area for GF in mm² (default from summary.json)')
-    .option('--json', 'print the comparison as JSON')
-    .action(async (dir: string, labs: string[], o: { x?: string; ligamentArea?: string; json?: boolean }) => {
+    .option('--out <dir>', 'folder for compare.json, compare.svg and compare.png (default the run folder)')
+    .option('--force', 'overwrite an earlier comparison in that folder')
+    .option('--json', 'print the comparison as JSON'))
+    .addHelpText('after', LAB_FORMAT_HELP)
+    .action(async (dir: string, labs: string[], o: LabReadOptions & CorrectionOptions & { ligamentArea?: string; out?: string; force?: boolean; json?: boolean }) => {
       const run = readRunCurve(dir);
-      const curves = labs.map((p) => readLabCurve(p));
-      const r = compareCurves(run, curves, { xAxis: xAxisOf(o.x), ligamentArea_mm2: positive('--ligament-area', o.ligamentArea) });
+      const cols = labColumns(o);
+      const curves: LabCurve[] = labs.map((p) => readLabCurve(p, cols));
+      const { corrections, estimate } = correctionsOf(o);
+      const out = o.out ?? dir;
+      if (!o.force && existsSync(join(out, 'compare.json'))) throw new InputError(`${join(out, 'compare.json')} already holds a comparison: give --force to replace it, or --out for another folder`);
+      const r = compareCurves(run, curves, {
+        xAxis: xAxisOf(o.x), ligamentArea_mm2: positive('--ligament-area', o.ligamentArea), corrections,
+        estimateFrom: estimate ? labs.map((p) => cmodReading(p, o)) : undefined,
+      });
       const json = compareJson(r);
-      writeFileAtomic(join(dir, 'compare.json'), JSON.stringify(json, null, 2) + '\n');
+      writeFileAtomic(join(out, 'compare.json'), JSON.stringify(json, null, 2) + '\n');
       const svg = compareSvg(r);
-      writeFileAtomic(join(dir, 'compare.svg'), svg);
-      await svgToPng(svg, join(dir, 'compare.png'), 1200);
+      writeFileAtomic(join(out, 'compare.svg'), svg);
+      await svgToPng(svg, join(out, 'compare.png'), 1200);
       if (o.json) process.stdout.write(JSON.stringify(json, null, 2) + '\n');
       else {
         process.stdout.write(compareTable(r));
         for (const c of curves) for (const n of c.notes) process.stdout.write(`read ${c.name}: ${n}\n`);
-        process.stdout.write(`wrote ${join(dir, 'compare.svg')}, compare.png and compare.json\n`);
+        process.stdout.write(`wrote ${join(out, 'compare.svg')}, compare.png and compare.json\n`);
       }
     });
 
-  program
+  labReadOptions(program
     .command('fit')
-    .description('calibrate E, ft and GF of a case so that its curve matches a measured one')
+    .description('calibrate E, ft and GF of a case so that its curve matches one measured curve or a series')
     .argument('<case>', 'case file (YAML or JSON)')
-    .requiredOption('--lab <file>', 'measured curve (text file of load and opening columns)')
+    .requiredOption('--lab <file>', 'measured curve (text file of load and opening columns); repeat for a series', (v: string, prev: string[]) => [...prev, v], [] as string[])
+    .option('--series <how>', 'several --lab curves: all (fit them together, default) or mean (fit their mean curve)')
     .option('--params <list>', 'parameters to fit, comma separated (default E,ft,GF)')
     .option('--softening <law>', 'softening law for the fit: linear, bilinear or exponential (default the case\'s)')
     .option('--x <axis>', 'opening of the measured curve: cmod or displacement (default from its column name)')
-    .option('--mesh-size <mm>', 'cell size of the fitting mesh (default coarser than the case)')
+    .option('--mesh-size <mm>', 'cell size of the fitting mesh (default the case\'s own mesh)')
     .option('--increments <n>', 'control increments of each candidate run (default the case\'s, at least 6 steps up to the measured peak)')
-    .option('--max-evals <n>', 'simulations allowed in all (default 80)')
+    .option('--max-evals <n>', 'simulations allowed in all, every one counted (default 80)')
+    .option('--seeds <n>', 'extra mesh seeds run at the optimum for the model\'s scatter in the ±95 % ranges (default 2)')
+    .option('--sim-timeout <s>', 'time limit of one simulation in seconds (default 8 × the median so far, at least 30)')
     .option('--workers <n>', 'worker threads, 0 for none (default 2)')
     .option('--out <dir>', 'output folder (default out/<case name>-fit)')
+    .option('--force', 'replace the files of an earlier fit in that folder')
     .option('--quiet', 'no progress on stderr')
-    .option('--json', 'print the result as JSON')
-    .action(async (file: string, o: { lab: string; params?: string; softening?: string; x?: string; meshSize?: string; increments?: string; maxEvals?: string; workers?: string; out?: string; quiet?: boolean; json?: boolean }) => {
+    .option('--json', 'print the result as JSON'))
+    .addHelpText('after', LAB_FORMAT_HELP)
+    .action(async (file: string, o: LabReadOptions & CorrectionOptions & { lab: string[]; series?: string; params?: string; softening?: string; meshSize?: string; increments?: string; maxEvals?: string; seeds?: string; simTimeout?: string; workers?: string; out?: string; force?: boolean; quiet?: boolean; json?: boolean }) => {
       const c = loadCase(file);
-      const lab = readLabCurve(o.lab);
-      const workers = o.workers === undefined ? undefined : Number(o.workers);
-      if (workers !== undefined && !(Number.isInteger(workers) && workers >= 0)) throw new InputError(`--workers must be a whole number, 0 or more (found "${o.workers}")`);
-      const inc = positive('--increments', o.increments), maxEvals = positive('--max-evals', o.maxEvals);
-      const r = await fitCase(c, lab, {
-        params: paramsOf(o.params), softening: softeningOf(o.softening), xAxis: xAxisOf(o.x),
-        meshSize: positive('--mesh-size', o.meshSize), increments: inc && Math.round(inc), maxEvals: maxEvals && Math.round(maxEvals), workers,
-        onEval: o.quiet ? undefined : (e) => process.stderr.write(`\r${e.index} runs (${e.phase}), RMSE ${Number.isFinite(e.objective) ? (100 * e.objective).toFixed(2) + ' % of peak' : '—'}   `),
-      });
-      if (!o.quiet) process.stderr.write('\n');
+      for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
+      const labs = o.lab.map((p) => readLabCurve(p, labColumns(o)));
+      if (o.series !== undefined && o.series !== 'all' && o.series !== 'mean') throw new InputError(`--series must be all or mean (found "${o.series}")`);
+      const { corrections, estimate } = correctionsOf(o);
+      if (estimate) throw new InputError('--compliance estimate works in rupta compare (a run and a file with both CMOD and crosshead columns); give fit the compliance it prints, in mm/kN');
+      const workers = wholeOf('--workers', o.workers, 0);
+      const inc = wholeOf('--increments', o.increments, 2), maxEvals = wholeOf('--max-evals', o.maxEvals, 1), seeds = wholeOf('--seeds', o.seeds, 0);
       const dir = o.out ?? join('out', `${c.name}-fit`);
-      const caseOut = join(dir, `${c.name}-fitted.yaml`);
-      writeFileAtomic(caseOut, fittedCaseText(readFileSync(file, 'utf8'), r));
-      const svg = fitSvg(r);
-      writeFileAtomic(join(dir, 'fit.svg'), svg);
-      await svgToPng(svg, join(dir, 'fit.png'), 1200);
-      writeFileAtomic(join(dir, 'fit-history.csv'), fitHistoryCsv(r));
+      const caseOut = join(dir, `${c.name}-fitted.yaml`), bestOut = join(dir, `${c.name}-best-so-far.yaml`);
+      if (!o.force) {
+        const earlier = [caseOut, bestOut, join(dir, 'fit.json'), join(dir, 'fit-history.csv')].find((p) => existsSync(p));
+        if (earlier) throw new InputError(`${dir} already holds a fit (${basename(earlier)}): give --force to replace it, or --out for another folder`);
+      }
+      // opened at the first simulation, so a refused input leaves the folder as it was
+      let history = null as RowWriter | null;
+      const openHistory = (): RowWriter => {
+        ensureDir(dir);
+        for (const p of [caseOut, bestOut]) rmSync(p, { force: true }); // an old fitted case must not outlive a new fit
+        return new RowWriter(join(dir, 'fit-history.csv'), FIT_HISTORY_HEADER);
+      };
+      // the first signal ends the fit after the simulations in hand, keeping the best so far; a second one quits at once
+      let stop = false;
+      const onSignal = () => { if (stop) process.exit(3); stop = true; };
+      process.on('SIGINT', onSignal);
+      process.on('SIGTERM', onSignal);
+      const tty = Boolean(process.stderr.isTTY);
+      let lastLine = 0, secs = 0;
+      let r;
+      try {
+        r = await fitCase(c, labs, {
+          params: paramsOf(o.params), softening: softeningOf(o.softening), xAxis: xAxisOf(o.x), series: o.series as 'all' | 'mean' | undefined, corrections,
+          meshSize: positive('--mesh-size', o.meshSize), increments: inc, maxEvals, workers, seeds, simTimeout_s: positive('--sim-timeout', o.simTimeout),
+          stopRequested: () => stop,
+          onEval: (e) => {
+            (history ??= openHistory()).append(fitHistoryRow(e));
+            if (o.quiet) return;
+            secs += e.seconds;
+            const per = secs / e.index / Math.max(1, workers ?? 2);
+            const b = e.bestMaterial;
+            const line = `${e.count}/${e.limit} simulations (${e.phase})  best RMSE ${Number.isFinite(e.best) ? (100 * e.best).toFixed(2) + ' % of peak' : '—'}`
+              + (Number.isFinite(e.best) ? `  E ${b.E.toPrecision(4)} ft ${b.ft.toPrecision(3)} GF ${b.GF.toPrecision(3)}` : '')
+              + `  ≤ ${Math.ceil((e.limit - e.count) * per)} s left at the limit`;
+            const now = performance.now();
+            if (tty) process.stderr.write(`\r\x1b[2K${line}`);
+            else if (now - lastLine > 5000) { process.stderr.write(line + '\n'); lastLine = now; }
+          },
+        });
+      } finally {
+        history?.close();
+        process.off('SIGINT', onSignal);
+        process.off('SIGTERM', onSignal);
+        if (!o.quiet && tty) process.stderr.write('\n');
+      }
       const json = fitJson(r);
       writeFileAtomic(join(dir, 'fit.json'), JSON.stringify(json, null, 2) + '\n');
       const table = fitTable(r);
       writeFileAtomic(join(dir, 'fit-report.txt'), table);
+      if (r.curves.fitted.x.length > 0) {
+        const svg = fitSvg(r);
+        writeFileAtomic(join(dir, 'fit.svg'), svg);
+        await svgToPng(svg, join(dir, 'fit.png'), 1200);
+      }
+      let wroteCase: string | null = null;
+      if (r.status === 'fitted') wroteCase = caseOut;
+      else if (r.status !== 'failed' && Number.isFinite(r.objective)) wroteCase = bestOut;
+      if (wroteCase) writeFileAtomic(wroteCase, fittedCaseText(readFileSync(file, 'utf8'), r));
       if (o.json) process.stdout.write(JSON.stringify(json, null, 2) + '\n');
       else {
         process.stdout.write(table);
-        process.stdout.write(`wrote ${caseOut} and the report (fit.svg, fit.png, fit-history.csv, fit.json, fit-report.txt) in ${dir}\n`);
+        process.stdout.write(`wrote ${wroteCase ? `${wroteCase} and ` : ''}the report (fit.json, fit-report.txt, fit-history.csv${r.curves.fitted.x.length ? ', fit.svg, fit.png' : ''}) in ${dir}\n`);
+      }
+      if (r.status !== 'fitted') {
+        process.stderr.write(`rupta: the fit ${r.status === 'failed' ? 'failed' : r.status === 'limit' ? 'stopped at --max-evals' : 'was interrupted'}: ${r.reason}\n`);
+        process.exitCode = 3;
       }
     });
 }

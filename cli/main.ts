@@ -2,7 +2,7 @@
 // Exit codes: 0 done, 2 a mistake in the input, 3 a run that stopped early, 1 a fault of ours.
 import { Command, CommanderError } from 'commander';
 import { join } from 'node:path';
-import { loadCase, describeCase } from '../src/case/index.js';
+import { loadCase, describeCase, unitSlipWarnings } from '../src/case/index.js';
 import { InputError, RunStopped } from '../src/errors.js';
 import { runCase, meshCase } from '../src/run.js';
 import { meshStats } from '../src/mesh/stats.js';
@@ -34,6 +34,7 @@ program
   .option('--export-matrix <file>', 'also write the constrained stiffness matrix (Matrix Market)')
   .action(async (file: string, o: { out?: string; force?: boolean; resume?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string }) => {
     const c = loadCase(file);
+    for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
     const progress = new Progress(!o.quiet, c);
     // the first signal ends the run after the step in hand, with every file complete; a second one quits at once
     let interrupted = false;
@@ -69,6 +70,7 @@ program
   .argument('<case>', 'case file (YAML or JSON)')
   .action((file: string) => {
     const c = loadCase(file);
+    for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
     const { mesh, seconds } = meshCase(c);
     const a = new Analysis(c, mesh);
     const st = meshStats(mesh);

@@ -46,39 +46,53 @@ describe('fit helpers', () => {
 });
 
 describe('round trip', () => {
-  it('E, ft and GF of a noisy synthetic curve are fitted back within 3 % (common practice)', async () => {
+  it('E, ft and GF of a synthetic series (three noisy copies of one rupta curve) are fitted back within 3 % (common practice)', async () => {
     const truth = { E: 27000, ft: 3.3, GF: 0.085 };
     const c = loadCase('cases/fit-demo.yaml'); // starts from E 30000, ft 3.0, GF 0.1
-    c.control.target = 0.25; // mm of CMOD: a shorter test keeps this under a minute
-    const opt = { meshSize: 12.5, increments: 50 };
-    // the "measurement": the same coarse model with the true values, seeded noise, kN and decimal commas
+    c.control.target = 0.25; // mm of CMOD: a shorter test keeps this near a minute
+    c.mesh = { ...c.mesh, size: 12.5, tipSize: 3.125 }; // the fit runs on the case's own mesh
+    const opt = { increments: 50 };
+    // the "measurements": the same coarse model with the true values, seeded noise, kN and decimal commas
     const gen = candidateCase(c, { x: f64([0, c.control.target]), y: f64([0, 1]) }, 'cmod', opt);
     gen.material = { ...gen.material, ...truth };
     const sim = await simulateCurve(gen, generateMesh(buildDomain(gen), gen.mesh));
     expect(sim.status).toBe('complete');
     let P = 0;
     for (const v of sim.load) P = Math.max(P, v);
-    const text = syntheticLabText({ x: sim.cmod!, y: sim.load }, { seed: 3, loadNoise_N: 0.005 * P, xNoise_mm: 0.0002, points: 1000, header: ['SYNTHETIC test data'] });
-    expect(text).toMatch(/;\d+,\d+;\d+,\d+/);
-    const lab = parseLabCurve(text, 'synthetic.csv');
-    const r = await fitCase(c, lab, { ...opt, maxEvals: 45 });
+    const texts = [1, 2, 3].map((seed) => syntheticLabText({ x: sim.cmod!, y: sim.load }, { seed, loadNoise_N: 0.01 * P, xNoise_mm: 0.0002, points: 400, header: ['SYNTHETIC test data', `Specimen;S-${seed}`] }));
+    expect(texts[0]).toMatch(/;\d+,\d+;\d+,\d+/);
+    const series = texts.map((t, i) => parseLabCurve(t, `s${i + 1}.csv`));
+    const r = await fitCase(c, series, { ...opt, maxEvals: 60, seeds: 1 });
+    expect(r.status).toBe('fitted');
+    expect(r.labNames).toEqual(['S-1', 'S-2', 'S-3']);
+    expect(r.curves.specimens).toHaveLength(3); // all three are in the objective, not only the last
     for (const p of ['E', 'ft', 'GF'] as const) expect(Math.abs(r.material[p] / truth[p] - 1), p).toBeLessThan(0.03);
     expect(r.objective).toBeLessThan(r.startObjective);
+    expect(r.evaluations).toBeLessThanOrEqual(60);
+    expect(r.history).toHaveLength(r.evaluations); // every simulation is in the history
+    expect(r.history.filter((h) => h.phase === 'seed')).toHaveLength(1);
+    expect(r.notes.join(' ')).toMatch(/combined with the model's own scatter over 2 mesh seeds/);
+    for (const t of r.table) expect(t.relStd).toBeGreaterThanOrEqual(t.relStdModel);
     expect(r.workers).toBe(0); // TypeScript sources: evaluated in-process
-    expect(fitHistoryCsv(r).split('\n')[0]).toBe('evaluation,phase,E_MPa,ft_MPa,GF_Nmm,rmse_over_peak,peak_N,status,seconds');
-    const fitted = fittedCaseText(readFileSync('cases/fit-demo.yaml', 'utf8'), r);
-    expect(fitted).toMatch(/^# Fitted by rupta fit to the measured curve synthetic\.csv/);
+    expect(fitHistoryCsv(r).split('\n')[0]).toBe('evaluation,phase,E_MPa,ft_MPa,GF_Nmm,rmse_over_peak,peak_N,status,seconds,best_rmse_over_peak');
+    const original = readFileSync('cases/fit-demo.yaml', 'utf8');
+    const fitted = fittedCaseText(original, r);
+    expect(fitted).toMatch(/^# Fitted by rupta fit to the measured curves S-1, S-2, S-3/);
     expect(fitted).toContain('# Crack-mouth opening control'); // the user's comments stay
-    expect(fitted).toMatch(/E: \d+ # MPa, fitted \(was 30000\)/);
+    expect(fitted).toMatch(/\n {2}E: \d+ {2,}# MPa, fitted \(was 30000\)\n/); // the comment keeps its column
+    // only the fitted values changed: the rest of the file is the original, line for line
+    const kept = fitted.split('\n').filter((l) => !/^#|^\s*(E|ft|GF):/.test(l));
+    expect(kept.join('\n').trim()).toBe(original.split('\n').filter((l) => !/^#|^\s*(E|ft|GF):/.test(l)).join('\n').trim());
     const back = parseCase(fitted, 'fit-demo-fitted.yaml');
     expect(back.material.ft).toBeCloseTo(r.material.ft, 3);
-    expect(back.mesh.size).toBe(c.mesh.size); // the user's mesh, not the fitting mesh
+    expect(back.mesh.size).toBe(8); // the file's mesh, untouched
     // the same test stopped at 60 % of the peak on the falling branch: GF is flagged
     const k = sim.load.findIndex((v, i) => i > sim.load.indexOf(P) && v < 0.6 * P);
     const cut = syntheticLabText({ x: sim.cmod!.slice(0, k + 1), y: sim.load.slice(0, k + 1) }, { seed: 4, loadNoise_N: 0.005 * P, points: 200 });
     const short = await fitCase(c, parseLabCurve(cut, 'short.csv'), { ...opt, params: ['GF'], maxEvals: 4 });
     expect(short.params).toEqual(['GF']);
+    expect(short.evaluations).toBeLessThanOrEqual(4);
     expect(short.warnings.join(' ')).toMatch(/stopped at \d+ % of the peak load, before the tail: GF is poorly determined/);
-    console.log(`round trip: ${r.evaluations} runs, ${r.wallSeconds.toFixed(1)} s, E ${r.material.E.toFixed(0)}, ft ${r.material.ft.toFixed(4)}, GF ${r.material.GF.toFixed(5)}`);
-  }, 120_000);
+    console.log(`series round trip: ${r.evaluations} runs, ${r.wallSeconds.toFixed(1)} s, E ${r.material.E.toFixed(0)}, ft ${r.material.ft.toFixed(4)}, GF ${r.material.GF.toFixed(5)}; ±95 % ${r.table.map((t) => `${t.name} ${(196 * t.relStd).toFixed(1)} % (mesh seeds ${(196 * t.relStdModel).toFixed(1)} %)`).join(', ')}`);
+  }, 600_000);
 });

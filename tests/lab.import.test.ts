@@ -118,7 +118,7 @@ describe('lab curve import', () => {
     {
       what: 'no column looks like an opening',
       text: 'time,load\n0,0\n1,1\n',
-      message: 'lab.csv: no column named like cmod, opening, displacement or deflection for x; columns are: time, load',
+      message: 'lab.csv: no column named like CMOD, COD, opening, displacement, deflection, crosshead, stroke, position (or Weg, Traverse, Rissöffnung, déplacement, ouverture, desplazamiento, apertura) for x; columns are: time, load (choose one with --x-column)',
     },
     {
       what: 'a column number beyond the data',
@@ -136,7 +136,7 @@ describe('lab curve import', () => {
       what: 'x in a unit that is not a length',
       text: 'time [s],load [N]\n0,0\n1,1\n',
       opts: { x: 'time' },
-      message: 'lab.csv: column "time" is in s: expected a length (mm, µm, cm, m) for x',
+      message: 'lab.csv: column "time" is in s: expected a length (mm, µm, cm, m, in) for x, or give the unit with --x-unit',
     },
     {
       what: 'the empty file',

@@ -7,6 +7,7 @@ import { InputError } from '../errors.js';
 import { plotSvg, PALETTE, type Series } from '../output/plot.js';
 import type { LabCurve } from './import.js';
 import { rilemGF, workOfFracture } from './work.js';
+import { correctCurve, estimateCompliance, type Corrections } from './correct.js';
 
 /** A curve as two arrays of equal length (mm and N). */
 export interface Curve { x: Float64Array; y: Float64Array }
@@ -123,17 +124,36 @@ export function commonRange(curves: Curve[]): [number, number] {
 
 /** Mean of several curves on n evenly spaced openings over their common range. */
 export function meanCurve(curves: Curve[], n = 201): Curve {
+  const { x, y } = meanBand(curves, n);
+  return { x, y };
+}
+
+/** Mean and sample standard deviation (n − 1) of the load of several curves at n openings over their common range. */
+export function meanBand(curves: Curve[], n = 201): Curve & { sd: Float64Array } {
   const mono = curves.map(measuredFunction);
   const [lo, hi] = commonRange(mono);
   if (!(hi > lo)) throw new InputError('the measured curves have no opening range in common, so no mean curve can be drawn');
-  const x = new Float64Array(n), y = new Float64Array(n);
+  const x = new Float64Array(n), y = new Float64Array(n), sd = new Float64Array(n);
+  const k = mono.length;
   for (let i = 0; i < n; i++) {
     const xi = lo + ((hi - lo) * i) / (n - 1);
-    let s = 0;
-    for (const c of mono) s += interpAt(c, xi);
-    x[i] = xi; y[i] = s / mono.length;
+    let s = 0, s2 = 0;
+    for (const c of mono) { const v = interpAt(c, xi); s += v; s2 += v * v; }
+    const m = s / k;
+    x[i] = xi; y[i] = m; sd[i] = k > 1 ? Math.sqrt(Math.max(0, (s2 - k * m * m) / (k - 1))) : 0;
   }
-  return { x, y };
+  return { x, y, sd };
+}
+
+export interface Stat { mean: number; sd: number; cov: number; n: number }
+
+/** Mean, sample standard deviation (n − 1) and coefficient of variation of finite values; null when fewer than two. */
+export function stat(values: (number | null)[]): Stat | null {
+  const v = values.filter((t): t is number => t !== null && Number.isFinite(t));
+  if (v.length < 2) return null;
+  const m = v.reduce((a, b) => a + b, 0) / v.length;
+  const sd = Math.sqrt(v.reduce((a, b) => a + (b - m) * (b - m), 0) / (v.length - 1));
+  return { mean: m, sd, cov: m !== 0 ? sd / Math.abs(m) : NaN, n: v.length };
 }
 
 /** Load-point displacement at the given openings through the predicted displacement–CMOD relation (straight beyond its ends). */
@@ -172,18 +192,69 @@ export interface CompareRow {
   endLoadFraction: number;
 }
 
+/** Statistics of a series of specimens (each over the specimens, not the mean curve). */
+export interface SeriesStats {
+  n: number;
+  peak_N: Stat | null;
+  openingAtPeak_mm: Stat | null;
+  workOfFracture_Nmm: Stat | null;
+  GF_Nmm: Stat | null;
+}
+
 export interface CompareResult {
   title: string;
   xAxis: XAxis;
+  /** Why this axis: the lab column's meaning, the --x option or the run's default. */
+  xAxisReason: string;
+  series: SeriesStats | null;
   prediction: CompareRow;
   specimens: CompareRow[];
   mean: CompareRow | null;
   ligamentArea_mm2: number | null;
   notes: string[];
-  curves: { prediction: Curve; specimens: { name: string; curve: Curve }[]; mean: Curve | null };
+  curves: { prediction: Curve; specimens: { name: string; curve: Curve }[]; mean: (Curve & { sd: Float64Array }) | null };
 }
 
-export interface CompareOptions { xAxis?: XAxis; ligamentArea_mm2?: number }
+export interface CompareOptions {
+  xAxis?: XAxis;
+  ligamentArea_mm2?: number;
+  /** Preload, machine compliance and toe corrections of the measured curves. */
+  corrections?: Corrections;
+  /** --compliance estimate: the CMOD reading of each measured curve's test (same order), or null. */
+  estimateFrom?: (Curve | null)[];
+}
+
+const AXIS_NAME: Record<XAxis, string> = { cmod: 'CMOD', displacement: 'load-point displacement' };
+
+/** Legend names: the specimen id from the file's header, else the file name; repeats get the file name. */
+export function specimenLabels(labs: LabCurve[]): string[] {
+  const ids = labs.map((l) => l.specimen ?? l.name);
+  const repeated = (id: string): boolean => ids.indexOf(id) !== ids.lastIndexOf(id);
+  return ids.map((id, i) => (repeated(id) && labs[i]!.name !== id ? `${id} (${labs[i]!.name})` : id));
+}
+
+/**
+ * The predicted quantity the measured curves are compared with: --x when given, else the
+ * meaning of their x column (CMOD or displacement), else CMOD when the run has a gauge.
+ * Refuses curves of mixed meaning and an axis the run did not record.
+ */
+export function chooseAxis(hasCmod: boolean, labs: LabCurve[], asked: XAxis | undefined, where: string): { xAxis: XAxis; reason: string } {
+  const kinds = [...new Set(labs.map((l) => l.xKind ?? null).filter((k): k is XAxis => k !== null))];
+  let xAxis: XAxis, reason: string;
+  if (asked) { xAxis = asked; reason = 'as --x asks'; }
+  else if (kinds.length > 1) {
+    const a = labs.find((l) => l.xKind === 'cmod')!, b = labs.find((l) => l.xKind === 'displacement')!;
+    throw new InputError(`the measured curves mix openings: ${a.name} has CMOD ("${a.xLabel}") and ${b.name} a displacement ("${b.xLabel}"): compare curves of one kind, or choose the columns with --x-column`);
+  } else if (kinds.length === 1) {
+    xAxis = kinds[0]!;
+    const l = labs.find((t) => t.xKind === xAxis)!;
+    reason = `the measured x column "${l.xLabel}" is ${xAxis === 'cmod' ? 'a crack opening' : 'a displacement'}`;
+  } else { xAxis = hasCmod ? 'cmod' : 'displacement'; reason = `the measured x column says neither CMOD nor displacement, so the run's ${hasCmod ? 'CMOD' : 'displacement'} is used (say which with --x)`; }
+  if (xAxis === 'cmod' && !hasCmod) {
+    throw new InputError(`${where} has no CMOD (no control.gauge in the case), but the measured curve is against CMOD (${reason}): add control.gauge to the case and run it again, or compare a displacement column (--x-column)`);
+  }
+  return { xAxis, reason };
+}
 
 /** Parse curve.csv text of a run folder (the pinned header; columns found by name). */
 export function parseRunCurve(text: string, where: string): Omit<RunCurve, 'title' | 'ligamentArea_mm2'> {
@@ -232,16 +303,53 @@ export function predictionCurve(run: RunCurve, xAxis: XAxis): Curve {
   return { x: run.displacement, y: run.load };
 }
 
+/**
+ * Initial slope of load over opening on the rising branch between two fractions of the peak. At
+ * small openings the opening is the noisier reading, so the line is fitted as opening on load,
+ * which noise in the opening does not bias. Least squares of opening on load between 5 and 40 % of the peak, rising branch. */
+export function initialStiffness(c: Curve, from = 0.05, to = 0.4): number {
+  const k = peakIndex(c.y), P = c.y[k]!;
+  let sx = 0, sy = 0, n = 0;
+  for (let i = 0; i <= k; i++) if (c.y[i]! >= from * P && c.y[i]! <= to * P) { sx += c.x[i]!; sy += c.y[i]!; n++; }
+  if (n < 3) {
+    for (let i = 1; i <= k; i++) if (c.y[i]! >= to * P || i === k) return (c.y[i]! - c.y[0]!) / (c.x[i]! - c.x[0]!);
+    return NaN;
+  }
+  const mx = sx / n, my = sy / n;
+  let syy = 0, sxy = 0;
+  for (let i = 0; i <= k; i++) {
+    if (c.y[i]! < from * P || c.y[i]! > to * P) continue;
+    const dy = c.y[i]! - my;
+    syy += dy * dy; sxy += (c.x[i]! - mx) * dy;
+  }
+  return syy / sxy;
+}
+
 const relErr = (p: number, m: number): number | null => (m !== 0 && Number.isFinite(p) && Number.isFinite(m) ? (p - m) / m : null);
 
 /** Compare a prediction with one or more measured curves. */
-export function compareCurves(run: RunCurve, labs: LabCurve[], opt: CompareOptions = {}): CompareResult {
-  if (labs.length === 0) throw new InputError('compare needs at least one measured curve');
-  const xAxis: XAxis = opt.xAxis ?? (run.cmod ? 'cmod' : 'displacement');
+export function compareCurves(run: RunCurve, rawLabs: LabCurve[], opt: CompareOptions = {}): CompareResult {
+  if (rawLabs.length === 0) throw new InputError('compare needs at least one measured curve');
+  const { xAxis, reason: xAxisReason } = chooseAxis(run.cmod !== null, rawLabs, opt.xAxis, `the run "${run.title}"`);
   const pred = predictionCurve(run, xAxis);
   const predMono = monotone(pred);
   const lig = opt.ligamentArea_mm2 ?? run.ligamentArea_mm2;
-  const notes: string[] = [];
+  const notes: string[] = [`load against ${AXIS_NAME[xAxis]}: ${xAxisReason}`];
+  const labs = rawLabs.map((l, i) => {
+    const k: Corrections = { ...opt.corrections };
+    const cm = opt.estimateFrom?.[i];
+    if (opt.estimateFrom) {
+      if (xAxis !== 'displacement') throw new InputError('--compliance estimate applies to a displacement curve, but the comparison is against CMOD: choose the displacement column with --x-column');
+      if (!cm) throw new InputError(`--compliance estimate needs a CMOD column beside the displacement in ${l.name}, and it has none: give the compliance in mm/kN instead`);
+      if (!run.cmod) throw new InputError('--compliance estimate needs the predicted CMOD, and the run has no gauge: give the compliance in mm/kN instead');
+      const e = estimateCompliance({ x: l.x, y: l.y }, cm, { x: run.displacement, y: run.load }, { x: run.cmod, y: run.load });
+      k.compliance_mm_per_N = e.C_mm_per_N;
+      notes.push(...e.notes.map((t) => `${l.name}: ${t}`));
+    }
+    const r = correctCurve({ x: l.x, y: l.y }, k, xAxis === 'displacement');
+    notes.push(...r.notes.map((t) => `${l.name}: ${t}`));
+    return r.notes.length ? { ...l, x: r.curve.x, y: r.curve.y } : l;
+  });
   if (lig === null) notes.push('no ligament area (summary.json without a work-of-fracture estimate): GF not computed; give --ligament-area');
   if (xAxis === 'cmod') notes.push('measured GF: the work of fracture needs the load-point displacement, so the measured CMOD is turned into it through the predicted displacement–CMOD relation');
   const gfOf = (W: number | null) => (W !== null && lig !== null ? rilemGF(W, lig) : null);
@@ -270,26 +378,39 @@ export function compareCurves(run: RunCurve, labs: LabCurve[], opt: CompareOptio
   };
   const labW = (c: Curve): number => workOfFracture(xAxis === 'cmod' ? displacementFromCmod(run, c.x) : c.x, c.y);
 
-  const specimens = labs.map((l) => rowOf(l.name, { x: l.x, y: l.y }, labW(l)));
+  const labels = specimenLabels(labs);
+  const specimens = labs.map((l, i) => rowOf(labels[i]!, { x: l.x, y: l.y }, labW(l)));
   for (const l of labs) {
-    const looksCmod = /cmod|mouth|opening|\bcod\b/i.test(l.xLabel), looksDisp = /disp|defl|stroke/i.test(l.xLabel);
-    if ((xAxis === 'displacement' && looksCmod && !looksDisp) || (xAxis === 'cmod' && looksDisp && !looksCmod)) {
-      notes.push(`${l.name}: its x column is named "${l.xLabel}" but is compared as ${xAxis === 'cmod' ? 'CMOD' : 'load-point displacement'}`);
+    if (l.xKind && l.xKind !== xAxis) notes.push(`${l.name}: its x column "${l.xLabel}" is ${l.xKind === 'cmod' ? 'a CMOD' : 'a displacement'} but is compared as ${AXIS_NAME[xAxis]}, as --x asks`);
+  }
+  if (xAxis === 'displacement') {
+    // a crosshead reading includes the machine and the seating: a much softer start than predicted points there
+    const kp = initialStiffness(pred);
+    for (let i = 0; i < labs.length; i++) {
+      const km = initialStiffness({ x: labs[i]!.x, y: labs[i]!.y });
+      if (kp > 0 && km > 0 && km < 0.6 * kp) notes.push(`${labels[i]}: its initial slope is ${(100 * km / kp).toFixed(0)} % of the predicted one: a crosshead reading includes the machine's compliance and the seating, so give --compliance (mm/kN) or --compliance estimate, and --toe`);
     }
   }
   for (const r of specimens) {
     if (r.range_mm === null) notes.push(`${r.name}: no opening range in common with the prediction`);
     if (r.endLoadFraction > 0.1) notes.push(`${r.name}: the test ended at ${(100 * r.endLoadFraction).toFixed(0)} % of its peak, so its GF misses the tail (a lower bound)`);
   }
-  let mean: CompareRow | null = null, meanC: Curve | null = null;
+  let mean: CompareRow | null = null, meanC: (Curve & { sd: Float64Array }) | null = null, series: SeriesStats | null = null;
   if (labs.length > 1) {
-    meanC = meanCurve(labs.map((l) => ({ x: l.x, y: l.y })));
+    meanC = meanBand(labs.map((l) => ({ x: l.x, y: l.y })));
     mean = rowOf('mean of specimens', meanC, labW(meanC));
-    notes.push(`mean curve over the openings common to all ${labs.length} specimens (${meanC.x[0]!.toPrecision(3)}–${meanC.x[meanC.x.length - 1]!.toPrecision(3)} mm)`);
+    notes.push(`mean curve and ±1 SD band over the openings common to all ${labs.length} specimens (${meanC.x[0]!.toPrecision(3)}–${meanC.x[meanC.x.length - 1]!.toPrecision(3)} mm)`);
+    series = {
+      n: labs.length,
+      peak_N: stat(specimens.map((r) => r.peak_N)),
+      openingAtPeak_mm: stat(specimens.map((r) => r.openingAtPeak_mm)),
+      workOfFracture_Nmm: stat(specimens.map((r) => r.workOfFracture_Nmm)),
+      GF_Nmm: stat(specimens.map((r) => r.GF_Nmm)),
+    };
   }
   return {
-    title: run.title, xAxis, prediction, specimens, mean, ligamentArea_mm2: lig, notes,
-    curves: { prediction: pred, specimens: labs.map((l) => ({ name: l.name, curve: { x: l.x, y: l.y } })), mean: meanC },
+    title: run.title, xAxis, xAxisReason, series, prediction, specimens, mean, ligamentArea_mm2: lig, notes,
+    curves: { prediction: pred, specimens: labs.map((l, i) => ({ name: labels[i]!, curve: { x: l.x, y: l.y } })), mean: meanC },
   };
 }
 
@@ -311,6 +432,11 @@ export function compareTable(r: CompareResult): string {
     line(head), ...rows.map(line)];
   out.push('errors: (prediction − measured) / measured; RMSE and area over the common opening range; GF = W0 / ligament area (RILEM TC 50-FMC)'
     + (r.ligamentArea_mm2 !== null ? `, ligament ${r.ligamentArea_mm2.toFixed(0)} mm²` : ''));
+  if (r.series) {
+    const f = (t: Stat | null, d: number, unit: string): string => (t === null ? '—' : `${t.mean.toFixed(d)} ± ${t.sd.toFixed(d)} ${unit} (CoV ${(100 * t.cov).toFixed(1)} %)`);
+    out.push(`series of ${r.series.n} specimens (mean ± 1 SD, n − 1): peak ${f(r.series.peak_N, 1, 'N')}; ${xName} at peak ${f(r.series.openingAtPeak_mm, 4, 'mm')}; W0 ${f(r.series.workOfFracture_Nmm, 1, 'N·mm')}`
+      + (r.series.GF_Nmm ? `; GF ${f(r.series.GF_Nmm, 4, 'N/mm')}` : ''));
+  }
   for (const n of r.notes) out.push(`note: ${n}`);
   return out.join('\n') + '\n';
 }
@@ -332,7 +458,11 @@ export function compareSvg(r: CompareResult): string {
     const t = thin(s.curve, 150);
     series.push({ label: s.name, x: t.x, y: t.y, style: 'points', color: PALETTE[1 + (k % (PALETTE.length - 2))] });
   });
-  if (r.curves.mean) series.push({ label: 'mean of specimens', x: r.curves.mean.x, y: r.curves.mean.y, style: 'dashed', color: PALETTE[PALETTE.length - 1] });
+  if (r.curves.mean) {
+    const m = r.curves.mean;
+    series.unshift({ label: '±1 SD of specimens', x: m.x, y: Float64Array.from(m.y, (v, i) => v - m.sd[i]!), y2: Float64Array.from(m.y, (v, i) => v + m.sd[i]!), style: 'band', color: PALETTE[PALETTE.length - 1] });
+    series.push({ label: 'mean of specimens', x: m.x, y: m.y, style: 'dashed', color: PALETTE[PALETTE.length - 1] });
+  }
   const p = r.prediction;
   return plotSvg({
     series, title: `${r.title}: prediction and measurements`,
@@ -343,5 +473,8 @@ export function compareSvg(r: CompareResult): string {
 
 /** The comparison as JSON-ready data (curves left out). */
 export function compareJson(r: CompareResult): Record<string, unknown> {
-  return { format: 1, title: r.title, xAxis: r.xAxis, ligamentArea_mm2: r.ligamentArea_mm2, prediction: r.prediction, specimens: r.specimens, mean: r.mean, notes: r.notes };
+  return {
+    format: 1, title: r.title, xAxis: r.xAxis, xAxisReason: r.xAxisReason, ligamentArea_mm2: r.ligamentArea_mm2,
+    prediction: r.prediction, specimens: r.specimens, mean: r.mean, series: r.series, notes: r.notes,
+  };
 }

@@ -14,12 +14,28 @@ export interface LabCurve {
   yLabel: string;
   xUnit: 'mm';
   yUnit: 'N';
+  /** What the x column measures, from its name or the options; null when nothing says. */
+  xKind?: XKind | null;
+  /** Specimen id from the file's header block ("Specimen: B-3", "Probe", "Éprouvette", "Probeta"), when present. */
+  specimen?: string | null;
   /** What was assumed, converted or dropped while reading. */
   notes: string[];
 }
 
-/** Columns by header name (case-insensitive, unit ignored) or by 1-based number. */
-export interface LabColumns { x?: string | number; y?: string | number }
+/** The two openings a testing machine records against the load. */
+export type XKind = 'cmod' | 'displacement';
+
+/**
+ * Columns by header name (case-insensitive, unit ignored) or by 1-based number; units for
+ * columns whose header has none (or a wrong one); what the x column measures.
+ */
+export interface LabColumns {
+  x?: string | number;
+  y?: string | number;
+  xUnit?: string;
+  yUnit?: string;
+  xKind?: XKind;
+}
 
 type Sep = '\t' | ';' | ',' | ' ';
 const SEPS: Sep[] = ['\t', ';', ',', ' ']; // order breaks ties
@@ -35,16 +51,42 @@ const UNITS: Record<string, Unit> = {
   microns: { label: 'µm', kind: 'length', scale: 1e-3 },
   cm: { label: 'cm', kind: 'length', scale: 10 },
   m: { label: 'm', kind: 'length', scale: 1e3 },
+  in: { label: 'in', kind: 'length', scale: 25.4 },
+  inch: { label: 'in', kind: 'length', scale: 25.4 },
   n: { label: 'N', kind: 'force', scale: 1 },
   kn: { label: 'kN', kind: 'force', scale: 1e3 },
+  dan: { label: 'daN', kind: 'force', scale: 10 },
+  lbf: { label: 'lbf', kind: 'force', scale: 4.4482216152605 }, // exact by definition of the pound-force
+  kip: { label: 'kip', kind: 'force', scale: 4448.2216152605 },
 };
-// Units that may follow a name without brackets ("force_N", "cmod mm"); a bare "m" is too ambiguous.
-const SUFFIX_UNITS = new Set(['mm', 'µm', 'um', 'cm', 'n', 'kn']);
+// Units that may follow a name without brackets ("force_N", "cmod mm"); a bare "m" or "in" is too ambiguous.
+const SUFFIX_UNITS = new Set(['mm', 'µm', 'um', 'cm', 'n', 'kn', 'dan', 'lbf']);
 const OTHER_UNITS = new Set(['s', 'ms', 'min', 'h', '%', '-', 'v', 'mv', 'hz', '°c', 'mpa', 'kpa']);
 
-const X_PATTERNS = [/cmod/, /crack mouth/, /opening/, /\bcod\b/, /displacement/, /\bdisp\b/, /deflection/, /\bdefl\b/];
-const Y_PATTERNS = [/load/, /force/];
-const X_LIKE = 'cmod, opening, displacement or deflection';
+// Column names of machine exports in English, German, French and Spanish, matched on the
+// lower-cased name with accents removed; the opening gauge first, since it is the better reading.
+const CMOD_PATTERNS = [/cmod/, /crack mouth/, /\bcod\b/, /opening/, /rissoffnung/, /rissoeffnung/, /rissaufweitung/, /offnung/,
+  /ouverture/, /apertura/, /clip/];
+const DISP_PATTERNS = [/displacement/, /\bdisp\b/, /deflection/, /\bdefl\b/, /crosshead/, /cross head/, /stroke/, /position/,
+  /travel/, /extension/, /weg\b/, /traverse/, /durchbiegung/, /verschiebung/, /deplacement/, /fleche/, /course/,
+  /desplazamiento/, /deflexion/, /flecha/, /carrera/, /posicion/];
+const X_PATTERNS = [...CMOD_PATTERNS, ...DISP_PATTERNS];
+const Y_PATTERNS = [/load/, /force/, /kraft/, /\blast\b/, /charge/, /effort/, /fuerza/, /carga/];
+const X_LIKE = 'CMOD, COD, opening, displacement, deflection, crosshead, stroke, position (or Weg, Traverse, Rissöffnung, déplacement, ouverture, desplazamiento, apertura)';
+const Y_LIKE = 'load or force (or Kraft, Last, charge, effort, fuerza, carga)';
+// Header lines naming the specimen: "Specimen;B-3", "Probe: P1", "Éprouvette = E2", "Probeta\tQ7".
+const SPECIMEN_KEY = /^(specimen( id| name| no\.?)?|sample( id| name)?|probe|prufkorper|probekorper|eprouvette|echantillon|probeta|muestra)$/;
+
+/** Lower case, accents and ß folded, blanks and underscores as one space. */
+const fold = (s: string): string => s.normalize('NFD').replace(/[\u0300-\u036f]/g, '').replace(/ß/g, 'ss').toLowerCase().replace(/[\s_]+/g, ' ').trim();
+
+/** What an x column measures, from its name; null when the name says neither. */
+export function xKindOf(name: string): XKind | null {
+  const n = fold(name);
+  if (CMOD_PATTERNS.some((re) => re.test(n))) return 'cmod';
+  if (DISP_PATTERNS.some((re) => re.test(n))) return 'displacement';
+  return null;
+}
 
 const NUM = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const NUM_COMMA = /^[+-]?(\d+,\d*|,\d+)([eE][+-]?\d+)?$/;
@@ -94,6 +136,15 @@ function rowClass(fields: string[], sep: Sep): number {
   return other === 0 ? 2 : other === 1 ? 1 : 0;
 }
 
+/** The unit named by an option (--x-unit, --load-unit), or an error naming the option. */
+export function unitOption(u: string, kind: Kind, option: string): Unit {
+  const unit = lookupUnit(u, false);
+  if (!unit || unit.kind !== kind) {
+    throw new InputError(`${option} must be ${kind === 'length' ? 'a length unit: mm, µm, cm, m or in' : 'a force unit: N, kN, daN, lbf or kip'} (found "${u}")`);
+  }
+  return unit;
+}
+
 function lookupUnit(u: string, suffix: boolean): Unit | null {
   const k = u.trim().replace('μ', 'µ').toLowerCase();
   if (suffix && !SUFFIX_UNITS.has(k)) return null;
@@ -126,7 +177,7 @@ function unitToken(field: string): string | null {
   return UNITS[k] || OTHER_UNITS.has(k) ? t : null;
 }
 
-const norm = (s: string): string => s.toLowerCase().replace(/[\s_]+/g, ' ').trim();
+const norm = fold;
 
 function headerFields(line: string, sep: Sep): string[] {
   const f = splitFields(line, sep);
@@ -158,6 +209,8 @@ const quoteLine = (t: string): string => (t.length > 40 ? t.slice(0, 37) + '...'
  */
 export function parseLabCurve(text: string, name: string, opts: LabColumns = {}): LabCurve {
   const notes: string[] = [];
+  if (opts.xUnit !== undefined) unitOption(opts.xUnit, 'length', '--x-unit');
+  if (opts.yUnit !== undefined) unitOption(opts.yUnit, 'force', '--load-unit');
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   if (text.includes('\u0000')) throw new InputError(`${name} looks like a binary or UTF-16 file: expected plain text with rows of numbers`);
   const lines = text.split(/\r\n|\n|\r/);
@@ -244,36 +297,57 @@ export function parseLabCurve(text: string, name: string, opts: LabColumns = {})
         const c = cols.findIndex((col) => re.test(norm(col.name)));
         if (c >= 0) return c;
       }
-      throw new InputError(`${name}: no column named like ${X_LIKE} for x; columns are: ${list}`);
+      throw new InputError(`${name}: no column named like ${X_LIKE} for x; columns are: ${list} (choose one with --x-column)`);
     }
     for (const re of Y_PATTERNS) {
       const c = cols.findIndex((col, k) => k !== other && re.test(norm(col.name)) && !isX(col));
       if (c >= 0) return c;
     }
-    throw new InputError(`${name}: no column named like load or force for y; columns are: ${list}`);
+    throw new InputError(`${name}: no column named like ${Y_LIKE}; columns are: ${list} (choose one with --load-column)`);
   };
   const xi = pick('x', opts.x, -1);
   const yi = pick('y', opts.y, xi);
   if (xi === yi) throw new InputError(`${name}: x and y are both column ${xi + 1} ("${cols[xi]!.name}"): choose two different columns`);
   if (!hasHeader) notes.push(`no header line: x is column ${xi + 1}, y is column ${yi + 1}`);
 
-  const scaleOf = (c: number, kind: Kind, axis: string, base: string): number => {
+  const kindText = (kind: Kind): string => (kind === 'length' ? 'a length (mm, µm, cm, m, in)' : 'a force (N, kN, daN, lbf, kip)');
+  const scaleOf = (c: number, kind: Kind, axis: string, base: string, given: string | undefined, option: string): number => {
     const col = cols[c]!;
+    if (given !== undefined) {
+      const u = unitOption(given, kind, option);
+      if (col.unit !== null && col.unit.label !== u.label) notes.push(`${axis}: column "${col.name}" says ${col.unit.label}, read as ${u.label} as ${option} says`);
+      else if (u.scale !== 1) notes.push(`${axis}: column "${col.name}" in ${u.label} (${option}), converted to ${base}`);
+      return u.scale;
+    }
     if (col.unit === null) {
       if (col.unitText !== null && col.unitText !== '') {
-        throw new InputError(`${name}: column "${col.name}" is in ${col.unitText}: expected ${kind === 'length' ? 'a length (mm, µm, cm, m)' : 'a force (N, kN)'} for ${axis}`);
+        throw new InputError(`${name}: column "${col.name}" is in ${col.unitText}: expected ${kindText(kind)} for ${axis}, or give the unit with ${option}`);
       }
-      notes.push(`${axis}: column "${col.name}" has no unit, taken as ${base}`);
+      notes.push(`${axis}: column "${col.name}" has no unit, taken as ${base} (give ${option} otherwise)`);
       return 1;
     }
     if (col.unit.kind !== kind) {
-      throw new InputError(`${name}: column "${col.name}" is in ${col.unit.label}: expected ${kind === 'length' ? 'a length (mm, µm, cm, m)' : 'a force (N, kN)'} for ${axis}`);
+      throw new InputError(`${name}: column "${col.name}" is in ${col.unit.label}: expected ${kindText(kind)} for ${axis}`);
     }
     if (col.unit.scale !== 1) notes.push(`${axis}: column "${col.name}" in ${col.unit.label}, converted to ${base}`);
     return col.unit.scale;
   };
-  const sx = scaleOf(xi, 'length', 'x', 'mm');
-  const sy = scaleOf(yi, 'force', 'y', 'N');
+  const sx = scaleOf(xi, 'length', 'x', 'mm', opts.xUnit, '--x-unit');
+  const sy = scaleOf(yi, 'force', 'y', 'N', opts.yUnit, '--load-unit');
+  const xKind: XKind | null = opts.xKind ?? (hasHeader ? xKindOf(cols[xi]!.name) : null);
+  if (opts.xKind && hasHeader) {
+    const named = xKindOf(cols[xi]!.name);
+    if (named !== null && named !== opts.xKind) notes.push(`x: column "${cols[xi]!.name}" is named like ${named === 'cmod' ? 'a CMOD' : 'a displacement'} but is read as ${opts.xKind === 'cmod' ? 'CMOD' : 'load-point displacement'} as asked`);
+  }
+
+  // Specimen id from a "key; value" line of the header block.
+  let specimen: string | null = null;
+  for (const i of before) {
+    const m = /^\s*([^:;=\t,]+?)\s*[:;=\t,]\s*(.+?)\s*$/.exec(lines[i]!);
+    if (!m || !SPECIMEN_KEY.test(fold(m[1]!.replace(/^["']|["']$/g, '')))) continue;
+    const v = m[2]!.split(/[;\t,]/)[0]!.replace(/^["']|["']$/g, '').trim();
+    if (v !== '') { specimen = v.length > 40 ? v.slice(0, 40) : v; break; }
+  }
 
   // Data rows.
   const xs: number[] = [], ys: number[] = [], at: number[] = [];
@@ -286,6 +360,9 @@ export function parseLabCurve(text: string, name: string, opts: LabColumns = {})
     const fx = f[xi] ?? '', fy = f[yi] ?? '';
     const vx = toNumber(fx, sep), vy = toNumber(fy, sep);
     if (Number.isNaN(vx) || Number.isNaN(vy)) { bad.push(i); continue; }
+    if (!Number.isFinite(vx * sx) || !Number.isFinite(vy * sy)) {
+      throw new InputError(`${name} line ${i + 1}: the value "${Number.isFinite(vx * sx) ? fy : fx}" is too large for a number: expected a finite ${Number.isFinite(vx * sx) ? 'load' : 'opening'} in the column's unit`);
+    }
     if (!comma && (fx.includes(',') || fy.includes(','))) comma = true;
     xs.push(vx * sx); ys.push(vy * sy); at.push(i + 1);
   }
@@ -327,6 +404,10 @@ export function parseLabCurve(text: string, name: string, opts: LabColumns = {})
     n = cut;
   }
   if (n < 2) throw new InputError(`${name}: only ${n} data point${n === 1 ? '' : 's'} found: a curve needs at least 2`);
+  let yMax = 0, xSpan = 0;
+  for (let k = 0; k < n; k++) { yMax = Math.max(yMax, Math.abs(ys[k]!)); xSpan = Math.max(xSpan, Math.abs(xs[k]! - xs[0]!)); }
+  if (!(yMax > 0)) throw new InputError(`${name}: the load column "${cols[yi]!.name}" is zero in every row: expected a measured load in N or kN (is it the right column? choose one with --load-column)`);
+  if (!(xSpan > 0)) throw new InputError(`${name}: the opening column "${cols[xi]!.name}" never changes: expected a measured CMOD or displacement in mm (is it the right column? choose one with --x-column)`);
 
   return {
     name,
@@ -336,6 +417,8 @@ export function parseLabCurve(text: string, name: string, opts: LabColumns = {})
     yLabel: cols[yi]!.name,
     xUnit: 'mm',
     yUnit: 'N',
+    xKind,
+    specimen,
     notes,
   };
 }

@@ -7,8 +7,10 @@ export interface Series {
   label: string;
   x: ArrayLike<number>;
   y: ArrayLike<number>;
-  style?: 'line' | 'points' | 'dashed';
+  style?: 'line' | 'points' | 'dashed' | 'band';
   color?: string;
+  /** Upper edge of a band (style 'band'; y is the lower edge). */
+  y2?: ArrayLike<number>;
 }
 
 export interface PlotOptions {
@@ -75,7 +77,7 @@ function plotLayers(opts: PlotOptions, W: number, H: number, u: number, idp: str
     if (x < xmin) xmin = x; if (x > xmax) xmax = x;
     if (y < ymin) ymin = y; if (y > ymax) ymax = y;
   };
-  for (const s of opts.series) for (let i = 0; i < Math.min(s.x.length, s.y.length); i++) take(s.x[i], s.y[i]);
+  for (const s of opts.series) for (let i = 0; i < Math.min(s.x.length, s.y.length); i++) { take(s.x[i], s.y[i]); if (s.y2) take(s.x[i], s.y2[i]); }
   for (const m of opts.marks ?? []) take(m.x, m.y);
   // headroom above the highest point, so a peak never sits on the frame
   if (ymax > 0 && ymax > ymin) ymax += 0.04 * (ymax - Math.min(0, ymin));
@@ -120,7 +122,14 @@ function plotLayers(opts: PlotOptions, W: number, H: number, u: number, idp: str
   opts.series.forEach((s, k) => {
     const color = s.color ?? PALETTE[k % PALETTE.length];
     const m = Math.min(s.x.length, s.y.length);
-    if (s.style === 'points') {
+    if (s.style === 'band' && s.y2) {
+      // a filled band between y and y2: along the upper edge, back along the lower one
+      let d = '';
+      const y2 = s.y2;
+      for (let i = 0; i < m; i++) if (Number.isFinite(s.x[i]) && Number.isFinite(y2[i])) d += (d ? 'L' : 'M') + n1(X(s.x[i])) + ' ' + n1(Y(y2[i]));
+      for (let i = m - 1; i >= 0; i--) if (Number.isFinite(s.x[i]) && Number.isFinite(s.y[i])) d += 'L' + n1(X(s.x[i])) + ' ' + n1(Y(s.y[i]));
+      if (d) ser.push(el('path', { d: d + 'Z', fill: color, 'fill-opacity': 0.18, stroke: 'none', class: 'series band', 'data-label': s.label }));
+    } else if (s.style === 'points') {
       const dots: string[] = [];
       for (let i = 0; i < m; i++) {
         if (!Number.isFinite(s.x[i]) || !Number.isFinite(s.y[i])) continue;
@@ -164,6 +173,7 @@ function plotLayers(opts: PlotOptions, W: number, H: number, u: number, idp: str
       const color = s.color ?? PALETTE[k % PALETTE.length];
       const y = ly + 6 * u + (k + 0.5) * rowH;
       if (s.style === 'points') leg.push(el('circle', { cx: lx + 24 * u, cy: y, r: 4 * u, fill: color }));
+      else if (s.style === 'band') leg.push(el('rect', { x: lx + 10 * u, y: y - 7 * u, width: 28 * u, height: 14 * u, fill: color, 'fill-opacity': 0.18 }));
       else leg.push(el('path', { d: `M${n(lx + 10 * u)} ${n(y)}h${n(28 * u)}`, stroke: color, 'stroke-width': 2.6 * u, 'stroke-dasharray': s.style === 'dashed' ? `${n(7 * u)} ${n(4 * u)}` : undefined }));
       leg.push(text(lx + 46 * u, y + 5 * u, s.label, { 'font-size': 14 * u, fill: INK }));
     });

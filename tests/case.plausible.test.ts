@@ -1,0 +1,24 @@
+// Material values that look like unit slips are warned about in one sentence each (ranges
+// common practice for concrete, mortar, rock and ceramics), and the usual ones are quiet.
+import { describe, expect, it } from 'vitest';
+import { join } from 'node:path';
+import { loadCase, unitSlipWarnings } from '../src/case/index.js';
+import { ROOT } from './support/cli.js';
+
+const demo = () => loadCase(join(ROOT, 'cases', 'fit-demo.yaml'));
+const withMat = (m: Partial<{ E: number; ft: number; GF: number }>) => { const c = demo(); c.material = { ...c.material, ...m }; return unitSlipWarnings(c); };
+
+describe('unit-slip warnings', () => {
+  it('the example cases are quiet', () => {
+    for (const f of ['fit-demo.yaml', 'beam-3pb-example.yaml', 'ceramic-bend-bar-example.yaml', 'disc-splitting-example.yaml']) expect(unitSlipWarnings(loadCase(join(ROOT, 'cases', f))), f).toEqual([]);
+  });
+  it('GF 50 as if in N/m', () => {
+    expect(withMat({ GF: 50 })).toEqual(['material.GF is 50 N/mm, far above the 0.005–1 N/mm of concrete, mortar, rock or ceramics: if it was meant in N/m, write 0.05 (N/mm)']);
+  });
+  it('E 25 as if in GPa', () => {
+    expect(withMat({ E: 25 })[0]).toBe('material.E is 25 MPa, far below the 1000–1000000 MPa of quasi-brittle materials: if it was meant in GPa, write 25000 (MPa)');
+  });
+  it('ft in Pa', () => {
+    expect(withMat({ ft: 3e6 })[0]).toBe('material.ft is 3000000 MPa, far above any quasi-brittle material\'s tensile strength: if it was meant in Pa, write 3 (MPa)');
+  });
+});
