@@ -133,6 +133,12 @@ export class Analysis {
     const opt = this.newtonOptions(kind, target);
     let st: StepState = from ?? { uf: eq.uf.slice(), lambda: s.lambda };
     let r = solveStep(eq.sys, this.coh, eq.kap, eq.kapTrial, kind, target, st, opt, eq.work);
+    if (!r.converged && from) {
+      // the predictor may have led Newton astray: once more from the converged state
+      this.iterations += r.iterations;
+      st = { uf: eq.uf.slice(), lambda: s.lambda };
+      r = solveStep(eq.sys, this.coh, eq.kap, eq.kapTrial, kind, target, st, opt, eq.work);
+    }
     if (!r.converged && eq.sys.pairs.plus.length > 0) {
       // points switching between loading and unloading can make Newton cycle: fall back to the secant
       this.iterations += r.iterations;
