@@ -1,14 +1,17 @@
 // npm run bench: timings of mesh generation, assembly, ordering + factorization and solve on
-// plates of about 10k, 50k and 200k dofs (both fill-reducing orderings side by side), and of a
-// crack-growth run of the demo beam.
+// plates of about 10k, 50k and 200k dofs (both fill-reducing orderings side by side), of a
+// crack-growth run of the demo beam, of an elastic run with stress intensity factors (about 5k
+// dofs) and of the ceramic bend bar in the brittle mode, run with all its files to separation
+// (--no-sif skips these two, --no-plates the plates).
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file.
 // npm run bench -- --against DIR: the demo beam (and its 4× finer bulk) by this build and another, side by side.
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
-import { readFileSync } from 'node:fs';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { parseCase } from '../src/case/index.js';
 import type { CaseModel } from '../src/case/model.js';
 import { buildDomain } from '../src/geometry/domain.js';
@@ -16,6 +19,7 @@ import { generateMesh } from '../src/mesh/generate.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { DISSECTION_FROM_ROWS, analyze, factorize, type OrderingMethod } from '../src/linalg/index.js';
 import { benchMatrix, cholmodTimes, type BenchResult } from './bench-matrix.js';
+import { runCase } from '../src/run.js';
 import { benchStudy } from './bench-study.js';
 
 const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
@@ -128,6 +132,55 @@ async function growth(repeat: number): Promise<void> {
   console.log('  ' + lines.join('\n  '));
 }
 
+/** An elastic plate with a slanted sharp slit: mesh, one solve, K at both tips. */
+async function sifElastic(repeat: number): Promise<void> {
+  const c = parseCase(`
+format: 1
+title: bench slit
+units: mm-N-MPa
+thickness: 1
+geometry:
+  outline: [[0,0],[200,0],[200,200],[0,200]]
+  notches: [{from: [95, 91.34], to: [105, 108.66], width: 0}]
+material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1}
+supports: [{along: [[0,0],[200,0]], fix: y}, {at: [0,0], fix: x}]
+loads: [{along: [[0,200],[200,200]], direction: [0, 1]}]
+control: {by: force, target: 200}
+mesh: {size: 20, tipSize: 0.5, refineRadius: 8, seed: 1}
+output: {frames: []}
+`, 'bench-slit.yaml');
+  const total: number[] = [], sif: number[] = [];
+  let dofs = 0, line = '';
+  for (let r = 0; r < repeat; r++) {
+    const t0 = now();
+    const a = new Analysis(c, generateMesh(buildDomain(c), c.mesh));
+    await a.run(() => {});
+    const t1 = now();
+    const tips = a.tipFactors();
+    sif.push(now() - t1); total.push(now() - t0);
+    dofs = a.dofs.final;
+    line = tips.map((t) => `K_I ${t.KI!.toFixed(2)}, K_II ${t.KII!.toFixed(2)} MPa√mm, spread ${(100 * t.spread!).toFixed(2)} %`).join('; ');
+  }
+  console.log(`elastic run with stress intensity factors: ${dofs} dofs, total ${median(total).toFixed(2)} s, of which K at the two tips ${(1000 * median(sif)).toFixed(0)} ms (${line})`);
+}
+
+/** The ceramic bend-bar example (crack.model lefm) with all its files, to separation. */
+async function brittle(repeat: number): Promise<void> {
+  const c = parseCase(readFileSync(fileURLToPath(new URL('../../cases/ceramic-bend-bar-example.yaml', import.meta.url)), 'utf8'), 'ceramic-bend-bar-example.yaml');
+  const total: number[] = [];
+  let note = '';
+  for (let r = 0; r < repeat; r++) {
+    const dir = mkdtempSync(join(tmpdir(), 'rupta-bench-'));
+    const t0 = now();
+    const out = await runCase(c, { out: dir, force: true });
+    total.push(now() - t0);
+    const res = out.result;
+    note = `${res.rows.length - 1} critical states, solve ${res.timings_s.solve.toFixed(1)} s, ${res.status}: ${res.reason}`;
+    rmSync(dir, { recursive: true, force: true });
+  }
+  console.log(`ceramic bend bar (lefm, frames, animation and report): total ${median(total).toFixed(1)} s (median of ${repeat}); ${note}`);
+}
+
 /**
  * The demo beam to 5 % of its peak, and the same beam with a bulk mesh four times finer (same
  * tip cells), run alternately by this build and by another build of rupta (a folder holding its
@@ -191,6 +244,7 @@ if (ai >= 0) {
   matrixFile(file, repeat);
 } else {
   console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
-  for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);
+  if (!args.includes('--no-plates')) for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);
+  if (!args.includes('--no-sif')) { await sifElastic(repeat); await brittle(Math.min(repeat, 2)); }
   if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
 }

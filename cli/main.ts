@@ -11,6 +11,15 @@ import { specimenSymbols } from '../src/output/runfiles.js';
 import { ensureDir, writeFileAtomic } from '../src/output/files.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { Progress } from './progress.js';
+import { redrawRun } from '../src/output/redraw.js';
+import { VERSION } from '../src/version.js';
+
+/** A whole number of at least 1 from an option, or the one-sentence error. */
+function wholeNumber(name: string, v: string): number {
+  const x = Number(v);
+  if (!(Number.isInteger(x) && x >= 1 && x <= 100000)) throw new InputError(`${name} must be a whole number from 1 to 100000 (found "${v}")`);
+  return x;
+}
 import { registerLabCommands } from './lab.js';
 import { registerNewCommand } from './new.js';
 import { registerStudyCommand } from './study.js';
@@ -20,6 +29,7 @@ program
   .name('rupta')
   .description('Cohesive crack paths and load–opening curves of notched quasi-brittle plates.')
   .configureOutput({ outputError: () => {} }) // main() prints usage errors as one line
+  .version(VERSION, '-V, --version', 'print the version of rupta')
   .exitOverride();
 
 program
@@ -32,9 +42,17 @@ program
   .option('--quiet', 'no progress on stderr')
   .option('--json', 'print the summary as JSON on stdout')
   .option('--export-matrix <file>', 'also write the constrained stiffness matrix (Matrix Market)')
-  .action(async (file: string, o: { out?: string; force?: boolean; resume?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string }) => {
+  .option('--every <n>', 'keep a frame only every n steps (default output.every)')
+  .option('--max-frames <n>', 'at most n frames, evenly spaced over the run (default output.maxFrames, 40)')
+  .option('--svg', 'also write each frame as SVG')
+  .option('--no-frames', 'no frames and no animation')
+  .action(async (file: string, o: { out?: string; force?: boolean; resume?: boolean; quiet?: boolean; json?: boolean; exportMatrix?: string; every?: string; maxFrames?: string; svg?: boolean; frames: boolean }) => {
     const c = loadCase(file);
     for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
+    if (o.every !== undefined) c.output.every = wholeNumber('--every', o.every);
+    if (o.maxFrames !== undefined) c.output.maxFrames = wholeNumber('--max-frames', o.maxFrames);
+    if (o.svg && !c.output.frames.includes('svg')) c.output.frames = [...c.output.frames, 'svg'];
+    if (!o.frames) c.output.frames = [];
     const progress = new Progress(!o.quiet, c);
     // the first signal ends the run after the step in hand, with every file complete; a second one quits at once
     let interrupted = false;
@@ -45,7 +63,7 @@ program
     process.on('SIGINT', onSignal);
     process.on('SIGTERM', onSignal);
     const { dir, result, summary } = await runCase(c, {
-      out: o.out, force: o.force, resume: o.resume, exportMatrix: o.exportMatrix,
+      out: o.out, force: o.force, resume: o.resume, exportMatrix: o.exportMatrix, caseFile: file,
       onStep: (e, t) => progress.step(e.row, t),
       stopRequested: () => interrupted,
     });
@@ -91,9 +109,23 @@ program
     ensureDir(dir);
     writeFileAtomic(join(dir, 'mesh.svg'), meshSvg(mesh, { ...specimenSymbols(c), title: `${c.title}: mesh` }));
     const st = meshStats(mesh);
-    process.stdout.write(`${st.polygons} polygons, ${st.vertices} vertices, ${2 * st.vertices} dofs, made in ${seconds.toFixed(2)} s\n`);
+    // the same count as check: the mesh the run starts from (refined at the crack tips)
+    const a = new Analysis(c, mesh);
+    const free = a.freeDofs; // sets up the starting mesh; dofs.initial is read after it
+    process.stdout.write(`${st.polygons} polygons, ${st.vertices} vertices, made in ${seconds.toFixed(2)} s; the run starts with ${a.dofs.initial} dofs, ${free} of them free\n`);
     process.stdout.write(`cell area ${st.minArea.toPrecision(3)}–${st.maxArea.toPrecision(3)} mm², edge ${st.minEdge.toPrecision(3)}–${st.maxEdge.toPrecision(3)} mm, up to ${st.maxVerticesPerCell} vertices per cell\n`);
     process.stdout.write(`wrote ${join(dir, 'mesh.svg')}\n`);
+  });
+
+program
+  .command('redraw')
+  .description('draw the frames, the animation and report.html of a finished run folder again, from its own files (the report takes up compare*.json and fit*.json found there)')
+  .argument('<run-dir>', 'output folder of a rupta run')
+  .option('--report-only', 'write report.html again (with the comparisons and fits now in the folder), keep the frames as they are')
+  .action(async (dir: string, o: { reportOnly?: boolean }) => {
+    const { frames } = await redrawRun(dir, { frames: !o.reportOnly });
+    process.stdout.write(o.reportOnly ? `wrote report.html in ${dir} (${frames} frame${frames === 1 ? '' : 's'})\n`
+      : `redrew ${frames} frame${frames === 1 ? '' : 's'}, the animation and report.html in ${dir}\n`);
   });
 
 registerNewCommand(program);

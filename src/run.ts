@@ -6,6 +6,7 @@ import type { PolyMesh } from './mesh/polymesh.js';
 import { buildDomain } from './geometry/domain.js';
 import { generateMesh } from './mesh/generate.js';
 import { Analysis, type AnalysisResult, type Snapshot, type StepEvent } from './fracture/analysis.js';
+import { LefmAnalysis } from './fracture/lefm.js';
 import { RunFiles } from './output/runfiles.js';
 import { writeMatrixMarket } from './linalg/mtx.js';
 import { readCheckpoint, removeCheckpoint, writeCheckpoint } from './fracture/checkpoint.js';
@@ -21,6 +22,8 @@ export interface RunOptions {
   stopRequested?: () => boolean;
   /** Go on from the checkpoint in the output folder (refused when the case has changed). */
   resume?: boolean;
+  /** The case file the run was started from: its hash goes into case.json and the report. */
+  caseFile?: string;
   /** Converged steps between checkpoints (default 5; 0: only when interrupted). */
   checkpointEvery?: number;
 }
@@ -39,11 +42,13 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   if (opt.out !== undefined && opt.out.trim() === '') throw new InputError('--out needs the name of a folder (found an empty one)');
   const dir = opt.out ?? join('out', c.name);
   if (opt.resume && opt.force) throw new InputError('--resume goes on with the run in the output folder and --force starts it afresh: give one of them, not both');
+  const lefm = c.crack?.model === 'lefm';
+  if (opt.resume && lefm) throw new InputError('--resume goes on from a checkpoint, and crack.model lefm runs write none (they take seconds): run the case again with --force');
   const resumed = opt.resume ? readCheckpoint(dir, c) : null;
-  const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows });
+  const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows, caseFile: opt.caseFile });
   const { mesh, seconds } = meshCase(c);
-  const a = new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
-  if (resumed) a.restore(resumed);
+  const a = lefm ? new LefmAnalysis(c, mesh, { maxDofs: opt.maxDofs }) : new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
+  if (resumed && a instanceof Analysis) a.restore(resumed);
   if (opt.stopRequested) a.stopRequested = opt.stopRequested;
   if (opt.exportMatrix) writeMatrixMarket(a.stiffnessMatrix(), opt.exportMatrix, `rupta: constrained stiffness of ${c.title}`);
   let lastEvent: StepEvent | null = null;

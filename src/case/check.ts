@@ -8,6 +8,9 @@ import {
   bbox, dist, edgeDist, inPolygon, nearestOnSegment, properCross, segDist, segSegDist, selfTouch, signedArea,
 } from './shapes.js';
 
+/** Test rigs: a strip may follow a curved or polygonal boundary that turns by at most this much under it (rad). */
+const MAX_STRIP_TURN = Math.PI / 4;
+
 /** Largest mesh the checks let through (estimated polygons); beyond it a run would not finish. */
 export const MAX_POLYGONS = 2_000_000;
 
@@ -41,6 +44,11 @@ function checkNumbers(c: CaseModel): void {
     num(c.crack.growthStep, ['crack', 'growthStep']);
     num(c.crack.averagingRadius, ['crack', 'averagingRadius']);
     num(c.crack.insertAt, ['crack', 'insertAt']);
+  }
+  if (m.KIc !== undefined) num(m.KIc, ['material', 'KIc']);
+  if (c.crack?.model === 'lefm' && m.KIc === undefined) fail(['material', 'KIc'], 'found none; crack.model lefm grows a crack where K reaches KIc');
+  if (c.crack?.model === 'lefm' && !c.geometry.notches.some((n) => n.width === 0)) {
+    throw new InputError('crack.model lefm needs a sharp slit in geometry.notches (a notch of width 0 mm), where K is defined at its tip (found none)');
   }
   const g = c.mesh;
   num(g.size, ['mesh', 'size']); num(g.tipSize, ['mesh', 'tipSize']); num(g.refineRadius, ['mesh', 'refineRadius']);
@@ -133,14 +141,41 @@ class Specimen {
 
   /** A bearing strip of the given width centred at p lies on one straight piece (or p is on a circular hole). */
   stripFits(p: Vec2, width: number): boolean {
+    return this.stripTurn(p, width) <= MAX_STRIP_TURN;
+  }
+
+  /**
+   * Test rigs: how far (radians) the boundary turns under a strip of the given width, measured
+   * along the boundary both ways from p: 0 on a straight edge, about width/r on an arc of
+   * radius r; Infinity when the strip is longer than half the ring it sits on.
+   */
+  stripTurn(p: Vec2, width: number): number {
     const t = this.tol;
-    if (this.holes.some((h) => h.kind === 'circle' && Math.abs(dist(p, h.center) - h.radius) <= t)) return true;
-    return this.segments().some(([a, b]) => {
-      const len = dist(a, b);
-      if (len === 0 || segDist(p, a, b) > t) return false;
-      const s = ((p[0] - a[0]) * (b[0] - a[0]) + (p[1] - a[1]) * (b[1] - a[1])) / len;
-      return s - width / 2 >= -t && s + width / 2 <= len + t;
-    });
+    for (const h of this.holes) {
+      if (h.kind === 'circle' && Math.abs(dist(p, h.center) - h.radius) <= t) return width <= Math.PI * h.radius ? width / h.radius : Infinity;
+    }
+    const rings = [this.outline, ...this.holes.flatMap((h) => (h.kind === 'polygon' ? [h.points] : []))];
+    for (const ring of rings) {
+      const n = ring.length;
+      for (let i = 0; i < n; i++) {
+        const a = ring[i]!, b = ring[(i + 1) % n]!, len = dist(a, b);
+        if (len === 0 || segDist(p, a, b) > t) continue;
+        let perim = 0;
+        for (let k = 0; k < n; k++) perim += dist(ring[k]!, ring[(k + 1) % n]!);
+        if (width > perim / 2) return Infinity;
+        const dir = (k: number) => { const u = ring[k % n]!, v = ring[(k + 1) % n]!; return Math.atan2(v[1] - u[1], v[0] - u[0]); };
+        const turn = (k: number) => { let d = dir(k) - dir(k + n - 1); while (d > Math.PI) d -= 2 * Math.PI; while (d < -Math.PI) d += 2 * Math.PI; return Math.abs(d); };
+        const s = dist(a, p);
+        let total = 0;
+        // forwards from p to the strip's end, then backwards
+        let left = width / 2 - (len - s), k = i + 1;
+        while (left > t) { total += turn(k); left -= dist(ring[k % n]!, ring[(k + 1) % n]!); k++; }
+        left = width / 2 - s; k = i;
+        while (left > t) { total += turn(k); k = (k + n - 1) % n; left -= dist(ring[k]!, ring[(k + 1) % n]!); }
+        return total;
+      }
+    }
+    return Infinity;
   }
 
   /** Both ends on one straight boundary piece. */
@@ -240,8 +275,9 @@ function placed(sp: Specimen, at: Vec2 | undefined, along: [Vec2, Vec2] | undefi
   if (at) {
     onBoundary(sp, at, [...path, 'at']);
     if (width > 0 && !sp.stripFits(at, width)) {
-      throw new InputError(`${name([...path, 'width'])} must fit on one straight edge of the specimen around ${name([...path, 'at'])} in mm `
-        + `(found ${fmtNum(width)} at ${fmtPoint(at)})`);
+      const turn = sp.stripTurn(at, width);
+      throw new InputError(`${name([...path, 'width'])} must fit on the boundary around ${name([...path, 'at'])} without turning by more than 45° in mm `
+        + `(found ${fmtNum(width)} at ${fmtPoint(at)}, ${Number.isFinite(turn) ? `where the boundary turns by ${Math.round(turn * 180 / Math.PI)}°` : 'longer than half the boundary'})`);
     }
     return;
   }
@@ -259,23 +295,86 @@ function placed(sp: Specimen, at: Vec2 | undefined, along: [Vec2, Vec2] | undefi
   }
 }
 
-/** Rows of the rigid-motion map (u = a − θ y, v = b + θ x) restrained by the supports must have rank 3. */
+/** Test rigs: loads that share one machine force through a spreader all state a share and push along x or y. */
+function checkSpreader(c: CaseModel): void {
+  const shared = c.loads.findIndex((l) => l.share !== undefined);
+  if (shared < 0) return;
+  c.loads.forEach((l, i) => {
+    if (l.share === undefined) {
+      throw new InputError(`loads[${i}].share must be given on every load when loads[${shared}] has one (the loads then share one machine force through a spreader), as a positive number, dimensionless (found none)`);
+    }
+    num(l.share, ['loads', i, 'share']);
+    if (Math.abs(l.direction[0]) > 1e-12 && Math.abs(l.direction[1]) > 1e-12) {
+      throw new InputError(`loads[${i}].direction must be along x or y when the loads share a spreader (found ${fmtPoint(l.direction)})`);
+    }
+  });
+}
+
+/** Test rigs: a wedge drives exactly two loads apart along one axis. */
+function checkWedge(c: CaseModel): void {
+  if (!c.wedge) return;
+  num(c.wedge.angle, ['wedge', 'angle']);
+  const [a, b] = c.loads;
+  const apart = c.loads.length === 2 && a && b && Math.abs(a.direction[0] * b.direction[0] + a.direction[1] * b.direction[1] + 1) < 1e-9
+    && (Math.abs(a.direction[0]) < 1e-12 || Math.abs(a.direction[1]) < 1e-12);
+  if (!apart) throw new InputError(`loads must be two loads in opposite directions along x or y when the case has a wedge (found ${c.loads.length} load${c.loads.length === 1 ? '' : 's'}${c.loads.length === 2 ? ' not opposite along an axis' : ''})`);
+  if (c.loads.some((l) => l.share !== undefined)) throw new InputError('loads[0].share must be left out when the case has a wedge (the wedge shares the force equally)');
+}
+
+/** Test rigs: a gauge point may lie anywhere on the specimen's face (boundary included), not in a hole or notch cut. */
+function inSpecimen(sp: Specimen, p: Vec2, path: Path): void {
+  if (sp.contains(p)) return;
+  const notch = sp.notchAt(p);
+  const why = notch >= 0 ? `inside the cut of geometry.notches[${notch}]` : 'outside the specimen or in a hole';
+  throw new InputError(`${name(path)} must be a point of the specimen in mm (found ${fmtPoint(p)}, ${why})`);
+}
+
+/** Test rigs: named gauges have distinct names and two distinct points of the specimen; a control gauge given by name names one. */
+function checkGauges(c: CaseModel, sp: Specimen): void {
+  const gauges = c.gauges ?? [], names = new Set<string>();
+  gauges.forEach((g, i) => {
+    if (typeof g.name !== 'string' || g.name.trim() === '') fail(['gauges', i, 'name'], `found ${describeValue(g.name)}`);
+    if (names.has(g.name)) throw new InputError(`gauges[${i}].name must be a name no other gauge uses (found ${JSON.stringify(g.name)} twice)`);
+    names.add(g.name);
+    inSpecimen(sp, g.from, ['gauges', i, 'from']);
+    inSpecimen(sp, g.to, ['gauges', i, 'to']);
+    if (dist(g.from, g.to) <= sp.tol) throw new InputError(`gauges[${i}] must have distinct from and to points (found both at ${fmtPoint(g.from)} mm)`);
+  });
+  const n = c.control.gaugeName;
+  if (n !== undefined && !names.has(n)) {
+    throw new InputError(`control.gauge must be {from, to} or the name of one of gauges (found ${JSON.stringify(n)}; `
+      + `${names.size ? `the gauges are ${[...names].join(', ')}` : 'the case names no gauges'})`);
+  }
+}
+
+/**
+ * Rows of the rigid-motion map (u = a − θ y, v = b + θ x) restrained by the supports and by the
+ * displacements the loads prescribe must have rank 3. The machine drives the load points by one load
+ * factor (an axis-aligned load its own axis, an oblique one both), so a load holds its point like a
+ * support would: a bar pulled at both ends is held in its axis by the two loads. Loads that share one
+ * force through a spreader or a wedge are not counted.
+ */
 function checkRigid(c: CaseModel, sp: Specimen): void {
   const b = bbox(sp.outline);
   const cx = (b.x0 + b.x1) / 2, cy = (b.y0 + b.y1) / 2, L = Math.hypot(b.x1 - b.x0, b.y1 - b.y0);
   const rows: number[][] = [];
   let hasX = false, hasY = false;
-  for (const s of c.supports) {
-    for (const p of s.at ? [s.at] : s.along!) {
-      const x = (p[0] - cx) / L, y = (p[1] - cy) / L;
-      if (s.fix !== 'y') { rows.push([1, 0, -y]); hasX = true; }
-      if (s.fix !== 'x') { rows.push([0, 1, x]); hasY = true; }
-    }
+  const hold = (p: Vec2, x: boolean, y: boolean): void => {
+    const px = (p[0] - cx) / L, py = (p[1] - cy) / L;
+    if (x) { rows.push([1, 0, -py]); hasX = true; }
+    if (y) { rows.push([0, 1, px]); hasY = true; }
+  };
+  for (const s of c.supports) for (const p of s.at ? [s.at] : s.along!) hold(p, s.fix !== 'y', s.fix !== 'x');
+  // loads on a spreader or a wedge share one force and do not hold their points one by one
+  const driven = !c.wedge && !c.loads.some((l) => l.share !== undefined);
+  if (driven) for (const l of c.loads) {
+    const [dx, dy] = l.direction;
+    for (const p of l.at ? [l.at] : l.along!) hold(p, Math.abs(dx) >= 1e-12, Math.abs(dy) >= 1e-12);
   }
-  const why = !hasX ? 'found no support fixing x' : !hasY ? 'found no support fixing y'
-    : rank3(rows) < 3 ? 'found supports that leave a rotation free' : '';
+  const why = !hasX ? 'found no support or load holding x' : !hasY ? 'found no support or load holding y'
+    : rank3(rows) < 3 ? 'found supports and loads that leave a rotation free' : '';
   if (why) {
-    throw new InputError(`supports must hold the specimen against rigid-body motion in x, y and rotation (${why})`);
+    throw new InputError(`supports must hold the specimen against rigid-body motion in x, y and rotation, together with the displacements the loads prescribe (${why})`);
   }
 }
 
@@ -321,14 +420,17 @@ export function checkCase(c: CaseModel): void {
     if (l.direction[0] === 0 && l.direction[1] === 0) fail(['loads', i, 'direction'], `found ${fmtPoint(l.direction)}`);
     placed(sp, l.at, l.along, l.width, ['loads', i]);
   });
+  checkSpreader(c);
+  checkWedge(c);
   checkRigid(c, sp);
 
   const { control } = c;
+  checkGauges(c, sp);
   if (control.by === 'cmod' && !control.gauge) throw new InputError('control.gauge is required when control.by is cmod');
   if (control.gauge) {
     const g = control.gauge;
-    onBoundary(sp, g.from, ['control', 'gauge', 'from']);
-    onBoundary(sp, g.to, ['control', 'gauge', 'to']);
+    inSpecimen(sp, g.from, ['control', 'gauge', 'from']);
+    inSpecimen(sp, g.to, ['control', 'gauge', 'to']);
     if (dist(g.from, g.to) <= sp.tol) {
       throw new InputError(`control.gauge must have distinct from and to points (found both at ${fmtPoint(g.from)} mm)`);
     }

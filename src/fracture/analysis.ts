@@ -16,7 +16,8 @@ import { WorkMesh } from './workmesh.js';
 import { strengthOf } from '../study/field.js';
 import { softeningJump, overshootLimit } from './criterion.js';
 import { Equations } from './equations.js';
-import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, type GrowthRoom } from './growth.js';
+import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
+import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
 import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING } from './steps.js';
 import {
@@ -236,7 +237,8 @@ export class Analysis {
   private record(step: number, control: number): StepEvent {
     const ev = recordStep({
       c: this.c, wm: this.wm, s: this.s, eq: this.eq, coh: this.coh, D: this.D,
-      gauge: this.driven.gaugeVerts !== null, probeVerts: this.probeVerts, iterations: this.iterations,
+      gauge: this.driven.gaugeVerts !== null, opening: this.driven.opening, probeVerts: this.probeVerts, iterations: this.iterations,
+      tips: tipRows(step, tipDirections(this.room()), this.s.cracks),
     }, step, control);
     this.iterations = 0;
     return ev;
@@ -248,6 +250,9 @@ export class Analysis {
 
   /** Crack face area (mm²) whose traction has reached ft, and the part of it fully separated (no traction left). */
   faceAreas(): { reached_mm2: number; separated_mm2: number } { return this.equations().faceAreas(this.coh); }
+
+  /** Stress intensity factors and MTS directions at every slit and crack tip of the last solved state. */
+  tipFactors(): TipMeasure[] { this.equations(); return tipMeasures(this.room()); }
 
   /** The constrained bulk stiffness of the current mesh (free dofs only), e.g. for export. */
   stiffnessMatrix(): CsrMatrix { return this.equations().stiffnessMatrix(); }

@@ -18,7 +18,7 @@ const FORMAT = 1;
 
 /** Fingerprint of a case: any change to the validated model (not to comments or layout) changes it. */
 export function caseHash(c: CaseModel): string {
-  return createHash('sha256').update(JSON.stringify({ ...c, name: undefined })).digest('hex');
+  return createHash('sha256').update(JSON.stringify({ ...c, name: undefined, output: undefined })).digest('hex');
 }
 
 const bytes = (a: ArrayBufferView) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');

@@ -48,8 +48,8 @@ function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
   sys.expand(uf, lambda, w.u);
   sys.internal(w.u, coh, kappa, kappaTrial, w.f, tangent, floor, secant);
   let rmax = 0;
-  const fd = sys.freeDofs;
-  for (let i = 0; i < fd.length; i++) { const v = w.f[fd[i]]; w.r[i] = v; const av = Math.abs(v); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
+  sys.restrict(w.f, w.r);
+  for (let i = 0; i < w.r.length; i++) { const av = Math.abs(w.r[i]); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
   const F = sys.loadForce(w.f);
   const g = kind === 'displacement' ? lambda - target : kind === 'cmod' ? sys.gaugeReading(w.u) - target
     : kind === 'opening' ? sys.openingReading(w.u) - target : F - target;
@@ -58,7 +58,7 @@ function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
 
 export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
   kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
-  const m = sys.nFree, fd = sys.freeDofs;
+  const m = sys.nFree;
   const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
   if (kind === 'displacement') st.lambda = target;
   const sec = opt.secant ?? false;
@@ -81,18 +81,13 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     sys.expand(w.gf.fill(0), 1, w.z); // z = load pattern
     matVecT(sys, w.z, w.f);           // f = kT z
     let gl: number;
-    for (let i = 0; i < m; i++) w.kfl[i] = w.f[fd[i]];
+    sys.restrict(w.f, w.kfl);
     factor.solve2(w.r, w.kfl, w.a, w.b); // both in one sweep over the factor
     // constraint gradient (g_f over free dofs, g_λ)
     w.gf.fill(0);
     if (kind === 'displacement') gl = 1;
-    else if (kind === 'cmod' || kind === 'opening') {
-      gl = 0;
-      for (let i = 0; i < gauge.length; i++) {
-        const fi = sys.freeOf[gauge[i]];
-        if (fi >= 0) w.gf[fi] += gaugeW[i]; else gl += gaugeW[i] * w.z[gauge[i]];
-      }
-    } else {
+    else if (kind === 'cmod' || kind === 'opening') gl = sys.gaugeGradient(w.gf, w.z, gauge, gaugeW);
+    else {
       w.gf.set(w.kfl);
       gl = sys.loadForce(w.f);
     }
