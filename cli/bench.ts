@@ -7,12 +7,13 @@
 // npm run bench -- --validation: only the checks and meshing of large hole, outline and probe counts.
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file.
+// npm run bench -- --against DIR: the demo beam (and its 4× finer bulk) by this build and another, side by side.
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join, resolve } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { parseCase } from '../src/case/index.js';
 import type { CaseModel } from '../src/case/model.js';
 import { buildDomain } from '../src/geometry/domain.js';
@@ -183,12 +184,62 @@ async function brittle(repeat: number): Promise<void> {
   console.log(`ceramic bend bar (lefm, frames, animation and report): total ${median(total).toFixed(1)} s (median of ${repeat}); ${note}`);
 }
 
+/**
+ * The demo beam to 5 % of its peak, and the same beam with a bulk mesh four times finer (same
+ * tip cells), run alternately by this build and by another build of rupta (a folder holding its
+ * compiled .build/), so both meet the same load on this shared machine. Times are the process's
+ * CPU time (user + system) per run; the ratios are of the medians.
+ */
+async function against(dir: string, repeat: number): Promise<void> {
+  const root = resolve(dir);
+  const other = {
+    Analysis: (await import(pathToFileURL(join(root, '.build/src/fracture/analysis.js')).href)).Analysis as typeof Analysis,
+    parseCase: (await import(pathToFileURL(join(root, '.build/src/case/index.js')).href)).parseCase as typeof parseCase,
+    buildDomain: (await import(pathToFileURL(join(root, '.build/src/geometry/domain.js')).href)).buildDomain as typeof buildDomain,
+    generateMesh: (await import(pathToFileURL(join(root, '.build/src/mesh/generate.js')).href)).generateMesh as typeof generateMesh,
+  };
+  const ours = { Analysis, parseCase, buildDomain, generateMesh };
+  const demo = readFileSync(fileURLToPath(new URL('../../cases/beam-3pb-demo.yaml', import.meta.url)), 'utf8')
+    .replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+  const variants = [
+    ['demo beam', demo],
+    ['demo beam, bulk 4× finer', demo.replace(/^mesh:.*$/m, 'mesh: {size: 5, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8}')],
+  ] as const;
+  console.log(`this build against ${root} (CPU seconds, medians of ${repeat}, run alternately)`);
+  const cpu = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
+  for (const [name, text] of variants) {
+    const t = { ours: [] as number[], other: [] as number[] };
+    const out: Record<string, string> = {};
+    for (let r = 0; r < repeat; r++) {
+      for (const [who, lib] of [['other', other], ['ours', ours]] as const) {
+        const c = lib.parseCase(text, 'bench-demo.yaml');
+        const t0 = cpu();
+        const a = new lib.Analysis(c, lib.generateMesh(lib.buildDomain(c), c.mesh));
+        let iters = 0;
+        const res = await a.run((e) => { iters += e.row.iterations; });
+        t[who].push(cpu() - t0);
+        const last = res.rows[res.rows.length - 1];
+        const tip = [...res.rows].reverse().find((row) => row.tip_x_mm !== null);
+        out[who] = `${res.rows.length - 1} steps, ${iters} iterations, peak ${res.peak.load_N.toFixed(2)} N, tip [${tip?.tip_x_mm?.toFixed(2)}, ${tip?.tip_y_mm?.toFixed(2)}] mm, crack ${last.crack_length_mm.toFixed(2)} mm`;
+      }
+    }
+    const mo = median(t.ours), mx = median(t.other);
+    console.log(`${name}: this ${mo.toFixed(2)} s, other ${mx.toFixed(2)} s, ratio ×${(mo / mx).toFixed(2)}`);
+    console.log(`  this:  ${out.ours}\n  other: ${out.other}`);
+  }
+}
+
 const args = process.argv.slice(2);
 const mi = args.indexOf('--matrix');
 const ri = args.indexOf('--repeat');
 const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
 const opt = (name: string, d: number) => { const i = args.indexOf(name); return i >= 0 ? Math.max(1, Number(args[i + 1]) || d) : d; };
-if (args.includes('--study')) {
+const ai = args.indexOf('--against');
+if (ai >= 0) {
+  const dir = args[ai + 1];
+  if (!dir) { process.stderr.write('rupta bench: --against needs a folder holding another build of rupta (.build/)\n'); process.exit(2); }
+  await against(dir, repeat);
+} else if (args.includes('--study')) {
   await benchStudy(opt('--variants', 16), opt('--jobs', 2), args.includes('--slurm'));
 } else if (mi >= 0) {
   const file = args[mi + 1];

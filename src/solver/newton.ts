@@ -77,13 +77,12 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     }
     // a = −K⁻¹ r,  b = K⁻¹ k_fλ with k_fλ = kT[f, load]·w
     for (let i = 0; i < m; i++) w.r[i] = -w.r[i];
-    factor.solve(w.r, w.a);
     w.z.fill(0);
     sys.expand(w.gf.fill(0), 1, w.z); // z = load pattern
     matVecT(sys, w.z, w.f);           // f = kT z
     let gl: number;
     sys.restrict(w.f, w.kfl);
-    factor.solve(w.kfl, w.b);
+    factor.solve2(w.r, w.kfl, w.a, w.b); // both in one sweep over the factor
     // constraint gradient (g_f over free dofs, g_λ)
     w.gf.fill(0);
     if (kind === 'displacement') gl = 1;
@@ -100,18 +99,21 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     // du = a − b·dλ; backtracking on the out-of-balance force, but only against a real
     // divergence: the first iteration of a step starts from balance and must move off it
     const r0 = Math.max(res.rmax, 100 * opt.tolF);
-    let eta = 1, best = Infinity, bestEta = 1;
+    let eta = 1, best = Infinity, bestEta = 1, lastEta = 0;
+    let lastTrial = res;
     const lam0 = st.lambda;
     for (let ls = 0; ls < 6; ls++) {
       for (let i = 0; i < m; i++) w.ufTry[i] = st.uf[i] + eta * (w.a[i] - w.b[i] * dl);
-      const trial = residual(sys, coh, kappa, kappaTrial, kind, target, w.ufTry, lam0 + eta * dl, w, false, opt.floor);
-      if (trial.rmax < best) { best = trial.rmax; bestEta = eta; }
-      if (trial.rmax <= 2 * r0) break;
+      // with the tangent: when this trial is taken, its evaluation is the next iteration's
+      lastTrial = residual(sys, coh, kappa, kappaTrial, kind, target, w.ufTry, lam0 + eta * dl, w, true, opt.floor, sec);
+      lastEta = eta;
+      if (lastTrial.rmax < best) { best = lastTrial.rmax; bestEta = eta; }
+      if (lastTrial.rmax <= 2 * r0) break;
       eta *= 0.5;
     }
     for (let i = 0; i < m; i++) st.uf[i] += bestEta * (w.a[i] - w.b[i] * dl);
     st.lambda = lam0 + bestEta * dl;
-    res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
+    res = bestEta === lastEta ? lastTrial : residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
   }
   if (res.rmax <= (opt.tolFEnd ?? opt.tolF) && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: opt.maxIter, reason: '' };
   return { converged: false, iterations: opt.maxIter, reason: `no convergence in ${opt.maxIter} iterations (out-of-balance ${res.rmax.toExponential(2)} N)` };

@@ -5,7 +5,7 @@ import type { PolyMesh } from '../mesh/polymesh.js';
 import { ElementWork, elementStiffness } from '../vem/element.js';
 import {
   patternFromBlocks, assemblyMap, blockMapOffsets, matrixOnPattern, matVec, submatrix, submatrixInto,
-  analyze, factorize, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
+  analyze, factorize, factorizeTrailing, fillReducingOrder, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
 } from '../linalg/index.js';
 import { cohesivePoint, type CohesiveParams } from '../cohesive/interface.js';
 import { reducedMatrix, refill, type Reduced, type Slaves } from './reduce.js';
@@ -199,11 +199,32 @@ export class System {
     }
   }
 
-  /** Ordering and symbolic factorization of the free–free block, once per topology. */
+  /**
+   * Ordering and symbolic factorization of the free–free block, once per topology. The free
+   * dofs of the face pairs are eliminated last: only they change between Newton iterations
+   * (the bulk is linear), so each refactorization redoes only the trailing supernodes.
+   */
   get sym(): Symbolic {
-    if (!this.symbolic) this.symbolic = analyze(this.kff);
+    if (this.symbolic) return this.symbolic;
+    const P = this.pairs, np = P.plus.length;
+    if (np === 0) { this.symbolic = analyze(this.kff); this.firstPairCol = this.nFree; return this.symbolic; }
+    const last = new Uint8Array(this.nFree);
+    const S = this.driven.slaves;
+    for (let p = 0; p < np; p++) for (const v of [P.plus[p], P.minus[p]]) for (let c = 0; c < 2; c++) {
+      const d = 2 * v + c, i = this.freeOf[d], k = this.slaveOf[d];
+      if (i >= 0) last[i] = 1;
+      // a slaved face dof changes the tangent on its masters
+      else if (k >= 0 && S) for (let j = S.slaveStart[k]; j < S.slaveStart[k + 1]; j++) last[this.freeOf[S.masterDof[j]]] = 1;
+    }
+    this.symbolic = analyze(this.kff, { ordering: fillReducingOrder(this.kff, 'auto', {}, last) });
+    let first = this.nFree;
+    for (let i = 0; i < this.nFree; i++) if (last[i] && this.symbolic.iperm[i] < first) first = this.symbolic.iperm[i];
+    this.firstPairCol = first;
     return this.symbolic;
   }
+
+  /** First column (elimination order) of a face-pair dof: the factor's columns before it never change within a topology. */
+  private firstPairCol = 0;
 
   /** Factorize the free–free block of the current tangent kT. */
   factorTangent(): Factor {
@@ -216,7 +237,9 @@ export class System {
       if (same) return this.factor;
     }
     try {
-      this.factor = factorize(this.kff, this.sym, this.factor ?? undefined);
+      const sym = this.sym;
+      this.factor = this.firstPairCol < this.nFree ? factorizeTrailing(this.kff, sym, this.firstPairCol, this.factor ?? undefined)
+        : factorize(this.kff, sym, this.factor ?? undefined);
     } catch (e) {
       this.factoredValues = null; // the reused storage is spoilt
       throw e;
