@@ -22,6 +22,11 @@ export function openFailure(code: string | undefined): string {
  * are checked on the open descriptor, and the read stops at the cap even if the file grows.
  */
 export function readTextFile(path: string, what: string, maxBytes: number): string {
+  return readFileBytes(path, what, maxBytes).toString('utf8');
+}
+
+/** The bytes of a regular file of at most maxBytes, with the same checks as readTextFile (for text of unknown encoding). */
+export function readFileBytes(path: string, what: string, maxBytes: number): Buffer {
   let fd: number;
   try {
     fd = openSync(path, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
@@ -49,7 +54,7 @@ export function readTextFile(path: string, what: string, maxBytes: number): stri
       if (got > maxBytes) throw new InputError(`${what} ${path} must be at most ${mib(maxBytes)} (it grew past that while being read)`);
       if (got === buf.length) { const more = Buffer.alloc(Math.min(2 * buf.length, maxBytes + 1)); buf.copy(more); buf = more; }
     }
-    return buf.toString('utf8', 0, got);
+    return buf.subarray(0, got);
   } finally {
     closeSync(fd);
   }
