@@ -1,13 +1,20 @@
 // npm run bench: timings of mesh generation, assembly, ordering + factorization and solve on
-// plates of about 10k, 50k and 200k dofs (both fill-reducing orderings side by side), and of a
-// crack-growth run of the demo beam.
+// plates of about 10k, 50k and 200k dofs (both fill-reducing orderings side by side), of a
+// crack-growth run of the demo beam, of an elastic run with stress intensity factors (about 5k
+// dofs) and of the ceramic bend bar in the brittle mode, run with all its files to separation
+// (--no-sif skips these two, --no-plates the plates), and of the checks and meshing of large
+// hole, outline and probe counts.
+// npm run bench -- --validation: only the checks and meshing of large hole, outline and probe counts.
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file.
+// npm run bench -- --against DIR: the demo beam (and its 4× finer bulk) by this build and another, side by side.
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // npm run bench -- --order: error against unknowns and wall time for element orders 1 and 2 (also part of the default run).
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { parseCase } from '../src/case/index.js';
 import type { CaseModel } from '../src/case/model.js';
 import { buildDomain } from '../src/geometry/domain.js';
@@ -15,8 +22,10 @@ import { generateMesh } from '../src/mesh/generate.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { DISSECTION_FROM_ROWS, analyze, factorize, type OrderingMethod } from '../src/linalg/index.js';
 import { benchMatrix, cholmodTimes, type BenchResult } from './bench-matrix.js';
+import { runCase } from '../src/run.js';
 import { benchStudy } from './bench-study.js';
 import { benchOrder } from './bench-order.js';
+import { validationBench } from './bench-validation.js';
 
 const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
 const now = () => performance.now() / 1000;
@@ -128,22 +137,125 @@ async function growth(repeat: number): Promise<void> {
   console.log('  ' + lines.join('\n  '));
 }
 
+/** An elastic plate with a slanted sharp slit: mesh, one solve, K at both tips. */
+async function sifElastic(repeat: number): Promise<void> {
+  const c = parseCase(`
+format: 1
+title: bench slit
+units: mm-N-MPa
+thickness: 1
+geometry:
+  outline: [[0,0],[200,0],[200,200],[0,200]]
+  notches: [{from: [95, 91.34], to: [105, 108.66], width: 0}]
+material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1}
+supports: [{along: [[0,0],[200,0]], fix: y}, {at: [0,0], fix: x}]
+loads: [{along: [[0,200],[200,200]], direction: [0, 1]}]
+control: {by: force, target: 200}
+mesh: {size: 20, tipSize: 0.5, refineRadius: 8, seed: 1}
+output: {frames: []}
+`, 'bench-slit.yaml');
+  const total: number[] = [], sif: number[] = [];
+  let dofs = 0, line = '';
+  for (let r = 0; r < repeat; r++) {
+    const t0 = now();
+    const a = new Analysis(c, generateMesh(buildDomain(c), c.mesh));
+    await a.run(() => {});
+    const t1 = now();
+    const tips = a.tipFactors();
+    sif.push(now() - t1); total.push(now() - t0);
+    dofs = a.dofs.final;
+    line = tips.map((t) => `K_I ${t.KI!.toFixed(2)}, K_II ${t.KII!.toFixed(2)} MPa√mm, spread ${(100 * t.spread!).toFixed(2)} %`).join('; ');
+  }
+  console.log(`elastic run with stress intensity factors: ${dofs} dofs, total ${median(total).toFixed(2)} s, of which K at the two tips ${(1000 * median(sif)).toFixed(0)} ms (${line})`);
+}
+
+/** The ceramic bend-bar example (crack.model lefm) with all its files, to separation. */
+async function brittle(repeat: number): Promise<void> {
+  const c = parseCase(readFileSync(fileURLToPath(new URL('../../cases/ceramic-bend-bar-example.yaml', import.meta.url)), 'utf8'), 'ceramic-bend-bar-example.yaml');
+  const total: number[] = [];
+  let note = '';
+  for (let r = 0; r < repeat; r++) {
+    const dir = mkdtempSync(join(tmpdir(), 'rupta-bench-'));
+    const t0 = now();
+    const out = await runCase(c, { out: dir, force: true });
+    total.push(now() - t0);
+    const res = out.result;
+    note = `${res.rows.length - 1} critical states, solve ${res.timings_s.solve.toFixed(1)} s, ${res.status}: ${res.reason}`;
+    rmSync(dir, { recursive: true, force: true });
+  }
+  console.log(`ceramic bend bar (lefm, frames, animation and report): total ${median(total).toFixed(1)} s (median of ${repeat}); ${note}`);
+}
+
+/**
+ * The demo beam to 5 % of its peak, and the same beam with a bulk mesh four times finer (same
+ * tip cells), run alternately by this build and by another build of rupta (a folder holding its
+ * compiled .build/), so both meet the same load on this shared machine. Times are the process's
+ * CPU time (user + system) per run; the ratios are of the medians.
+ */
+async function against(dir: string, repeat: number): Promise<void> {
+  const root = resolve(dir);
+  const other = {
+    Analysis: (await import(pathToFileURL(join(root, '.build/src/fracture/analysis.js')).href)).Analysis as typeof Analysis,
+    parseCase: (await import(pathToFileURL(join(root, '.build/src/case/index.js')).href)).parseCase as typeof parseCase,
+    buildDomain: (await import(pathToFileURL(join(root, '.build/src/geometry/domain.js')).href)).buildDomain as typeof buildDomain,
+    generateMesh: (await import(pathToFileURL(join(root, '.build/src/mesh/generate.js')).href)).generateMesh as typeof generateMesh,
+  };
+  const ours = { Analysis, parseCase, buildDomain, generateMesh };
+  const demo = readFileSync(fileURLToPath(new URL('../../cases/beam-3pb-demo.yaml', import.meta.url)), 'utf8')
+    .replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+  const variants = [
+    ['demo beam', demo],
+    ['demo beam, bulk 4× finer', demo.replace(/^mesh:.*$/m, 'mesh: {size: 5, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8}')],
+  ] as const;
+  console.log(`this build against ${root} (CPU seconds, medians of ${repeat}, run alternately)`);
+  const cpu = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
+  for (const [name, text] of variants) {
+    const t = { ours: [] as number[], other: [] as number[] };
+    const out: Record<string, string> = {};
+    for (let r = 0; r < repeat; r++) {
+      for (const [who, lib] of [['other', other], ['ours', ours]] as const) {
+        const c = lib.parseCase(text, 'bench-demo.yaml');
+        const t0 = cpu();
+        const a = new lib.Analysis(c, lib.generateMesh(lib.buildDomain(c), c.mesh));
+        let iters = 0;
+        const res = await a.run((e) => { iters += e.row.iterations; });
+        t[who].push(cpu() - t0);
+        const last = res.rows[res.rows.length - 1];
+        const tip = [...res.rows].reverse().find((row) => row.tip_x_mm !== null);
+        out[who] = `${res.rows.length - 1} steps, ${iters} iterations, peak ${res.peak.load_N.toFixed(2)} N, tip [${tip?.tip_x_mm?.toFixed(2)}, ${tip?.tip_y_mm?.toFixed(2)}] mm, crack ${last.crack_length_mm.toFixed(2)} mm`;
+      }
+    }
+    const mo = median(t.ours), mx = median(t.other);
+    console.log(`${name}: this ${mo.toFixed(2)} s, other ${mx.toFixed(2)} s, ratio ×${(mo / mx).toFixed(2)}`);
+    console.log(`  this:  ${out.ours}\n  other: ${out.other}`);
+  }
+}
+
 const args = process.argv.slice(2);
 const mi = args.indexOf('--matrix');
 const ri = args.indexOf('--repeat');
 const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
 const opt = (name: string, d: number) => { const i = args.indexOf(name); return i >= 0 ? Math.max(1, Number(args[i + 1]) || d) : d; };
+const ai = args.indexOf('--against');
 if (args.includes('--order')) {
   benchOrder(repeat);
+} else if (ai >= 0) {
+  const dir = args[ai + 1];
+  if (!dir) { process.stderr.write('rupta bench: --against needs a folder holding another build of rupta (.build/)\n'); process.exit(2); }
+  await against(dir, repeat);
 } else if (args.includes('--study')) {
   await benchStudy(opt('--variants', 16), opt('--jobs', 2), args.includes('--slurm'));
 } else if (mi >= 0) {
   const file = args[mi + 1];
   if (!file) { process.stderr.write('rupta bench: --matrix needs a Matrix Market file\n'); process.exit(2); }
   matrixFile(file, repeat);
+} else if (args.includes('--validation')) {
+  validationBench();
 } else {
   console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
-  for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);
+  if (!args.includes('--no-plates')) for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);
+  if (!args.includes('--no-sif')) { await sifElastic(repeat); await brittle(Math.min(repeat, 2)); }
   if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
+  validationBench();
   benchOrder(repeat);
 }

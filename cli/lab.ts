@@ -11,6 +11,7 @@ import type { Corrections } from '../src/lab/correct.js';
 import { FIT_HISTORY_HEADER, FIT_PARAMS, fitCase, fitHistoryRow, fitJson, fitSvg, fitTable, fittedCaseText, type FitParam } from '../src/lab/fit.js';
 import { ensureDir, RowWriter, writeFileAtomic } from '../src/output/files.js';
 import { svgToPng } from '../src/output/png.js';
+import { refreshRunReport } from '../src/output/redraw.js';
 
 function xAxisOf(v: string | undefined): XAxis | undefined {
   if (v === undefined) return undefined;
@@ -148,11 +149,13 @@ export function registerLabCommands(program: Command): void {
       const svg = compareSvg(r);
       writeFileAtomic(join(out, 'compare.svg'), svg);
       await svgToPng(svg, join(out, 'compare.png'), 1200);
+      // a run folder's report gathers the comparison at once
+      const reported = await refreshRunReport(out);
       if (o.json) process.stdout.write(JSON.stringify(json, null, 2) + '\n');
       else {
         process.stdout.write(compareTable(r));
         for (const c of curves) for (const n of c.notes) process.stdout.write(`read ${c.name}: ${n}\n`);
-        process.stdout.write(`wrote ${join(out, 'compare.svg')}, compare.png and compare.json\n`);
+        process.stdout.write(`wrote ${join(out, 'compare.svg')}, compare.png and compare.json${reported ? ', and report.html again' : ''}\n`);
       }
     });
 
@@ -244,6 +247,8 @@ export function registerLabCommands(program: Command): void {
       if (r.status === 'fitted') wroteCase = caseOut;
       else if (r.status !== 'failed' && Number.isFinite(r.objective)) wroteCase = bestOut;
       if (wroteCase) writeFileAtomic(wroteCase, fittedCaseText(readFileSync(file, 'utf8'), r));
+      // with --out at a run folder, its report gathers the fit
+      await refreshRunReport(dir);
       if (o.json) process.stdout.write(JSON.stringify(json, null, 2) + '\n');
       else {
         process.stdout.write(table);

@@ -7,6 +7,7 @@ export class Progress {
   private lastPlain = 0;
   private wrote = false;
   private peak = 0;
+  private readonly eta = new Eta();
   constructor(private readonly on: boolean, private readonly c: CaseModel) {}
 
   step(r: StepRow, elapsed: number): void {
@@ -19,7 +20,7 @@ export class Progress {
     const byLoad = this.c.crack && stop > 0 && this.peak > 0 && Math.abs(r.load_N) < this.peak
       ? (this.peak - Math.abs(r.load_N)) / (this.peak * (1 - stop)) : 0;
     const frac = Math.min(1, Math.max(byControl, byLoad));
-    const eta = frac > 0.02 ? elapsed * (1 - frac) / frac : NaN;
+    const eta = this.eta.add(elapsed, frac);
     const line = `step ${r.step}  load ${r.load_N.toFixed(1)} N` +
       (r.cmod_mm !== null ? `  CMOD ${r.cmod_mm.toFixed(4)} mm` : `  disp ${r.displacement_mm.toFixed(4)} mm`) +
       `  crack ${r.crack_length_mm.toFixed(1)} mm  ${elapsed.toFixed(1)} s` + (Number.isFinite(eta) ? `  ~${eta.toFixed(0)} s left` : '');
@@ -28,4 +29,25 @@ export class Progress {
   }
 
   done(): void { if (this.on && this.tty && this.wrote) process.stderr.write('\n'); }
+}
+
+/**
+ * Time left from the measured time per unit of progress over the recent steps (the last 20 steps
+ * or 20 s, whichever is longer ago), not from the average since the start: steps slow down as the
+ * crack grows and speed up in the tail, and meshing and the first factorization belong to no step.
+ */
+export class Eta {
+  private t: number[] = [];
+  private f: number[] = [];
+  constructor(private readonly steps = 20, private readonly seconds = 20) {}
+
+  /** Seconds left after a step at elapsed time t with progress f in [0, 1], or NaN until known. */
+  add(t: number, f: number): number {
+    this.t.push(t); this.f.push(f);
+    // drop samples older than both limits
+    while (this.t.length > this.steps && t - this.t[1] >= this.seconds) { this.t.shift(); this.f.shift(); }
+    const df = f - this.f[0], dt = t - this.t[0];
+    if (this.t.length < 3 || !(df > 1e-6) || !(dt > 0) || f < 0.02) return NaN;
+    return Math.max(0, (1 - f) * (dt / df));
+  }
 }

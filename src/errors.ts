@@ -24,3 +24,11 @@ export class RunStopped extends Error {
     super(message);
   }
 }
+
+/** The disk filled up (or a quota was reached) while rupta wrote a file: what was written before is kept. */
+export class DiskFull extends Error {
+  override name = 'DiskFull';
+  constructor(readonly path: string, message?: string) {
+    super(message ?? `the disk is full: no space was left to write ${path}`);
+  }
+}

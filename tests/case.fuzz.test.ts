@@ -66,7 +66,7 @@ describe('random mutations of the demo case', () => {
       const raw = mutate(parse(demoText), ms);
       onlyInputErrors(() => caseFromData(raw, 'fuzz'));
       onlyInputErrors(() => parseCase(JSON.stringify(raw) ?? '', 'fuzz.json'));
-    }), { numRuns: 1500, seed: 20261202 });
+    }), { numRuns: 5000, seed: 20261202 });
   });
 
   it('raise nothing but InputError (text)', () => {
@@ -78,6 +78,6 @@ describe('random mutations of the demo case', () => {
         text = text.slice(0, i) + e.insert + text.slice(i + e.cut);
       }
       onlyInputErrors(() => parseCase(text, 'fuzz.yaml'));
-    }), { numRuns: 1500, seed: 20261202 });
+    }), { numRuns: 5000, seed: 20261202 });
   });
 });

@@ -39,8 +39,8 @@ describe('shipped cases', () => {
   it('demo beam keeps its values', () => {
     const c = loadCase(demoPath.pathname);
     expect(c.material).toEqual({ E: 32000, nu: 0.2, ft: 3.1, GF: 0.11, softening: 'bilinear', shearWeight: 1 });
-    expect(c.control).toEqual({ by: 'cmod', gauge: { from: [219, 0], to: [221, 0] }, target: 1, increments: 100, stopAtLoadFraction: 0.05 });
-    expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8 });
+    expect(c.control).toEqual({ by: 'cmod', gauge: { from: [219, 0], to: [221, 0] }, reading: 'opening', target: 1, increments: 100, stopAtLoadFraction: 0.05 });
+    expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8, model: 'cohesive' });
     expect(c.mesh).toEqual({ size: 10, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8, order: 1 });
   });
   it('elastic plate has no crack section', () => {
@@ -61,12 +61,13 @@ describe('defaults', () => {
     expect(c.supports.map((s) => s.width)).toEqual([0, 0]);
     expect(c.loads[0]!.width).toBe(0);
     expect(c.loads[0]!.direction).toEqual([0, -1]);
-    expect(c.control).toEqual({ by: 'displacement', target: 0.3, increments: 100, stopAtLoadFraction: 0.05 });
+    expect(c.control).toEqual({ by: 'displacement', reading: 'opening', target: 0.3, increments: 100, stopAtLoadFraction: 0.05 });
     // Shortest side 100 mm / 10, tip size / 5, radius 10 tips, step 2 tips, averaging 3 tips.
     expect(c.mesh).toEqual({ size: 10, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8, order: 1 });
-    expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8 });
+    expect(c.crack).toEqual({ start: 'notch-tips', criterion: 'principal-stress', growthStep: 4, averagingRadius: 6, insertAt: 0.8, model: 'cohesive' });
     expect(c.probes).toEqual([]);
-    expect(c.output).toEqual({ frames: ['svg', 'png'], every: 1, animation: 'gif', vtk: false, pngWidth: 1200 });
+    expect(c.gauges).toEqual([]);
+    expect(c.output).toEqual({ frames: ['png'], every: 1, maxFrames: 40, animation: 'gif', vtk: false, pngWidth: 1200 });
   });
   it('derives the tip size from a given mesh size', () => {
     const c = parseCase(JSON.stringify({ ...minimal, mesh: { size: 5 } }), 'a.json');
@@ -155,9 +156,21 @@ describe('messages', () => {
   });
   it('supports that leave a rotation free are refused', () => {
     const c = parse(demoText);
-    c.supports = [{ at: [20, 0], fix: 'xy' }];
+    c.supports = [{ at: [20, 0], fix: 'x' }, { at: [420, 0], fix: 'x' }]; // with the load, only x twice and y once
     expect(errorOf(() => parseCase(JSON.stringify(c), 'x.json')))
-      .toBe('supports must hold the specimen against rigid-body motion in x, y and rotation (found supports that leave a rotation free)');
+      .toBe('supports must hold the specimen against rigid-body motion in x, y and rotation, together with the displacements the loads prescribe (found supports and loads that leave a rotation free)');
+  });
+  it('counts the displacements the loads prescribe: a bar pulled at both ends is held', () => {
+    const c = parse(demoText);
+    c.geometry = { outline: [[0, 0], [200, 0], [200, 20], [0, 20]], notches: [{ from: [100, 0], to: [100, 5], width: 1 }] };
+    c.supports = [{ at: [50, 0], fix: 'y' }];
+    c.loads = [{ along: [[0, 0], [0, 20]], direction: [-1, 0] }, { along: [[200, 0], [200, 20]], direction: [1, 0] }];
+    c.control = { by: 'displacement', target: 0.05 };
+    c.probes = [];
+    delete c.crack;
+    expect(() => parseCase(JSON.stringify(c), 'x.json')).not.toThrow();
+    c.loads = [{ along: [[200, 0], [200, 20]], direction: [0, 1] }]; // pulled sideways: nothing holds x
+    expect(errorOf(() => parseCase(JSON.stringify(c), 'x.json'))).toMatch(/found no support or load holding x/);
   });
   it('checkCase guards models built in scripts', () => {
     const c: CaseModel = parseCase(demoText, 'beam-3pb-demo.yaml');

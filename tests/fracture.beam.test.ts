@@ -85,7 +85,8 @@ describe('notched beam opened far into the tail, ligament meshed at the tip size
       // ½ft²/kp lost at the peak), the fully separated ones all of GF
       const GF = c.material.GF, kp = penaltyFor(c.material.E, c.mesh.tipSize);
       expect(last.dissipated_Nmm).toBeGreaterThanOrEqual(GF * separated_mm2);
-      expect(last.dissipated_Nmm).toBeLessThanOrEqual((GF + 0.5 * c.material.ft ** 2 / kp) * reached_mm2);
+      // (the bound is reached when every such point has fully separated: allow the round-off of the sums)
+      expect(last.dissipated_Nmm).toBeLessThanOrEqual((GF + 0.5 * c.material.ft ** 2 / kp) * reached_mm2 * (1 + 1e-12));
       expect(Math.abs(last.dissipated_Nmm / (GF * reached_mm2) - 1)).toBeLessThan(0.05);
     });
   }

@@ -1,4 +1,5 @@
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { execFileSync } from 'node:child_process';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -183,7 +184,13 @@ describe('lab curve import', () => {
     });
 
     it('names a missing file', () => {
-      expect(() => readLabCurve(join(dir, 'none.csv'))).toThrow(/cannot read the lab curve .*none\.csv: no such file/);
+      expect(() => readLabCurve(join(dir, 'none.csv'))).toThrow(/the lab curve .*none\.csv does not exist/);
+    });
+
+    it('refuses a pipe at once instead of waiting for a writer', () => {
+      const p = join(dir, 'pipe.csv');
+      execFileSync('mkfifo', [p]);
+      expect(() => readLabCurve(p)).toThrow(/the lab curve .*pipe\.csv must be a regular file \(found a pipe\)/);
     });
   });
 });

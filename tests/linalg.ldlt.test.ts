@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { Matrix, solve as denseSolve, EigenvalueDecomposition } from 'ml-matrix';
 import { SingularMatrixError } from '../src/errors.js';
-import { analyze, factorize, matVec, toDense, type CsrMatrix } from '../src/linalg/index.js';
+import { analyze, factorize, factorizeTrailing, fillReducingOrder, matVec, toDense, type CsrMatrix } from '../src/linalg/index.js';
 import { gridStiffnessQ4 } from '../cli/bench-matrix.js';
 import { gridLaplacian, randomDominant, rng } from '../src/linalg/samples.js';
 
@@ -80,6 +80,47 @@ describe('sparse LDLᵀ agrees with the dense LU solve of the reference library 
     expect(maxDiff(xb, fresh)).toBeLessThan(1e-12);
     factorize(A, sym, F);
     expect(maxDiff(F.solve(b), x0)).toBe(0);
+  });
+
+  it('rows ordered last and refactorized alone give the bitwise result of a full refactorization', () => {
+    const n = 300;
+    const A = randomDominant(n, 6, 31, 'mixed');
+    // the rows that change: every seventh one, eliminated after all the others
+    const last = Uint8Array.from({ length: n }, (_, i) => (i % 7 === 3 ? 1 : 0));
+    const sym = analyze(A, { ordering: fillReducingOrder(A, 'mindegree', {}, last) });
+    let first = n;
+    for (let i = 0; i < n; i++) if (last[i]) first = Math.min(first, sym.iperm[i]);
+    for (let i = 0; i < n; i++) if (!last[i]) expect(sym.iperm[i]).toBeLessThan(first);
+    const F = factorizeTrailing(A, sym, first);
+    const b = rhs(n, 32);
+    for (let round = 1; round <= 3; round++) {
+      // change only entries whose row and column are both marked (as the face pairs do), symmetrically
+      const B: CsrMatrix = {
+        ...A, values: A.values.map((v, q) => {
+          let i = 0;
+          while (A.rowPtr[i + 1] <= q) i++;
+          const j = A.colIdx[q];
+          return last[i] && last[j] ? v * (1 + 0.3 * Math.sin(Math.min(i, j) * n + Math.max(i, j) + round)) : v;
+        }),
+      };
+      const G = factorizeTrailing(B, sym, first, F);
+      expect(G).toBe(F);
+      const full = factorize(B, sym);
+      expect(Array.from(G.solve(b))).toEqual(Array.from(full.solve(b)));
+      expect(G.negativePivots).toBe(full.negativePivots);
+      expect(maxDiff(G.solve(b), denseSolve(dense(B), Matrix.columnVector(Array.from(b))).to1DArray())).toBeLessThan(1e-10);
+    }
+  });
+
+  it('two right-hand sides in one sweep give what two solves give', () => {
+    const A = randomDominant(150, 8, 41, 'mixed');
+    const F = factorize(A, analyze(A));
+    const b1 = rhs(150, 42), b2 = rhs(150, 43);
+    b2[5] = 0; b2[77] = 0; // zeros skip work in one of the two sweeps only
+    const x1 = new Float64Array(150), x2 = new Float64Array(150);
+    F.solve2(b1, b2, x1, x2);
+    expect(Array.from(x1)).toEqual(Array.from(F.solve(b1)));
+    expect(Array.from(x2)).toEqual(Array.from(F.solve(b2)));
   });
 
   it('the clamped bilinear grid stiffness is solved to a small residual (common practice)', () => {

@@ -18,7 +18,7 @@ export function makeCase(p: {
     control: { by: p.gauge ? 'cmod' : 'displacement', gauge: p.gauge, target: 0.1, increments: 10, stopAtLoadFraction: 0.05 },
     mesh: { size: p.size ?? 10, tipSize: p.tipSize ?? 2, refineRadius: p.refineRadius ?? 20, coarsen: false, seed: p.seed ?? 1, lloyd: p.lloyd ?? 6 },
     probes: (p.probes ?? []).map((at, i) => ({ name: `p${i}`, at })),
-    output: { frames: [], every: 1, animation: 'none', vtk: false, pngWidth: 800 },
+    output: { frames: [], every: 1, maxFrames: 40, animation: 'none', vtk: false, pngWidth: 800 },
   };
 }
 

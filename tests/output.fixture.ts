@@ -51,7 +51,7 @@ export function fixtureRun(steps: number, opts: { gauge?: boolean } = {}): { mes
     const cracks: Snapshot['cracks'] = [{ kind: 'notch', points: [[200, 0], [200, 25]] }];
     if (k > 0) cracks.push({ kind: 'crack', points: [[200, 25], [200, 25 + a]] });
     const snap: Snapshot = { step: k, mesh, u, cellStress: cs, cracks, cohesive, row };
-    events.push({ row, probes: [], snapshot: () => snap });
+    events.push({ row, probes: [], tips: [], snapshot: () => snap });
   }
   let ip = 0;
   rows.forEach((r, i) => { if (r.load_N > rows[ip].load_N) ip = i; });

@@ -7,6 +7,8 @@ import { RunFiles, curveSvg } from '../src/output/runfiles.js';
 import { curveInsetSvg } from '../src/output/inset.js';
 import { plotPanelsSvg } from '../src/output/plot.js';
 import { fixtureCase, fixtureRun } from './output.fixture.js';
+import { evenlySpaced, strideFor } from '../src/output/frames.js';
+import { redrawRun } from '../src/output/redraw.js';
 import { allNodes, byId, parseXml, textOf, texts, type XmlNode } from './output.xml.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'rupta-frames-'));
@@ -97,6 +99,67 @@ describe('frames of a run', () => {
   });
 });
 
+describe('steady frames', () => {
+  it('gives every frame the same pixel size, one magnification and the inset axes of the whole run', async () => {
+    const sizes = new Set<string>(), mags = new Set<string>(), ticks = new Set<string>();
+    for (let k = 0; k <= STEPS; k++) {
+      const m = await sharp(frame(k) + '.png').metadata();
+      sizes.add(`${m.width}x${m.height}`);
+      const root = parseXml(readFileSync(frame(k) + '.svg', 'utf8'));
+      sizes.add(`svg ${root.attrs.width}x${root.attrs.height}`);
+      mags.add(texts(byId(root, 'caption')!).find((t) => /magnified/.test(t))!);
+      ticks.add(texts(byId(root, 'inset')!).join('|'));
+    }
+    expect(sizes.size).toBe(2); // one PNG size and one SVG size
+    expect(mags.size).toBe(1);
+    expect(ticks.size).toBe(1);
+    // the rest of the run is drawn faint ahead of the current step
+    expect(allNodes(byId(parseXml(readFileSync(frame(2) + '.svg', 'utf8')), 'inset')!).some((e) => e.attrs.class === 'inset-rest')).toBe(true);
+  });
+
+  it('caps the frames at output.maxFrames, evenly spaced, the last step always among them, and keeps little step data', async () => {
+    const d = join(dir, 'capped');
+    const cc = fixtureCase({ frames: ['png'], maxFrames: 5, animation: 'none', pngWidth: 200 });
+    const r = fixtureRun(30);
+    const files = new RunFiles(d, cc, { force: true });
+    for (const e of r.events) files.step(e);
+    await files.finish(r.result, { meshSeconds: 0, totalSeconds: 1, initialMesh: r.mesh, final: r.events[30].snapshot() });
+    const names = readdirSync(join(d, 'frames'));
+    const steps = names.filter((f) => f.endsWith('.png')).map((f) => Number(f.slice(5, 9))).sort((a, b) => a - b);
+    expect(steps.length).toBeLessThanOrEqual(5);
+    expect(steps[0]).toBe(0);
+    expect(steps[steps.length - 1]).toBe(30);
+    const gaps = steps.slice(1).map((k, i) => k - steps[i]);
+    for (const g of gaps.slice(0, -1)) expect(g).toBe(gaps[0]);
+    expect(gaps[gaps.length - 1]).toBeLessThanOrEqual(gaps[0]);
+    expect(names.filter((f) => f.endsWith('.bin')).length).toBeLessThanOrEqual(2 * 5 + 1);
+  });
+
+  it('thins stored states by doubling the stride and spaces the drawn frames evenly', () => {
+    expect(strideFor(10, 1, 40)).toBe(1);
+    expect(strideFor(80, 1, 40)).toBe(2);
+    expect(strideFor(79, 1, 40)).toBe(1);
+    expect(strideFor(500, 3, 10)).toBe(48);
+    expect(evenlySpaced([0, 2, 4, 6, 8, 10, 12], 4)).toEqual([0, 4, 8, 12]);
+    expect(evenlySpaced([0, 2, 4, 6, 8, 10, 11], 4)).toEqual([0, 4, 8, 11]);
+    expect(evenlySpaced([0, 2, 4, 6, 8, 10, 11], 3)).toEqual([0, 6, 11]);
+    expect(evenlySpaced([0, 1, 2], 5)).toEqual([0, 1, 2]);
+  });
+
+  it('redraws frames byte for byte, with the animation and the report, from the run folder alone', async () => {
+    const before = new Map<string, Buffer>();
+    for (const f of readdirSync(join(dir, 'frames'))) if (/\.(png|svg)$/.test(f)) before.set(f, readFileSync(join(dir, 'frames', f)));
+    rmSync(join(dir, 'report.html'));
+    rmSync(join(dir, 'animation.gif'));
+    for (const f of before.keys()) rmSync(join(dir, 'frames', f));
+    const r = await redrawRun(dir);
+    expect(r.frames).toBe(STEPS + 1);
+    for (const [f, bytes] of before) expect(readFileSync(join(dir, 'frames', f)).equals(bytes), f).toBe(true);
+    expect(existsSync(join(dir, 'animation.gif'))).toBe(true);
+    expect(readFileSync(join(dir, 'report.html'), 'utf8')).toContain('Fixture beam');
+  });
+});
+
 describe('curve pictures', () => {
   it('puts load–displacement and load–CMOD side by side, each with the peak marked', async () => {
     const root = parseXml(readFileSync(join(dir, 'curve.svg'), 'utf8'));
@@ -152,13 +215,13 @@ describe('other output settings', () => {
     const files = new RunFiles(d, cw, { force: true });
     for (const e of r.events) files.step(e);
     await files.finish(r.result, { meshSeconds: 0, totalSeconds: 1, initialMesh: r.mesh, final: r.events[3].snapshot() });
-    expect(readdirSync(join(d, 'frames')).sort()).toEqual(['step-0000.png', 'step-0001.png', 'step-0002.png', 'step-0003.png']);
+    expect(readdirSync(join(d, 'frames')).filter((f) => !f.endsWith('.bin')).sort()).toEqual(['step-0000.png', 'step-0001.png', 'step-0002.png', 'step-0003.png']);
     const m = await sharp(join(d, 'animation.webp'), { animated: true }).metadata();
     expect(m.format).toBe('webp');
     expect(m.pages).toBe(4);
     expect(m.width).toBe(200);
     expect(existsSync(join(d, 'animation.gif'))).toBe(false);
-    expect(readFileSync(join(d, 'report.html'), 'utf8')).toMatch(/<div class="strip" id="frames">/);
+    expect(readFileSync(join(d, 'report.html'), 'utf8')).toMatch(/<div class="stepper" id="stepper">/);
   });
 
   it('writes VTK but no frames for an elastic analysis', async () => {

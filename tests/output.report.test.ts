@@ -6,7 +6,8 @@ import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { fieldSvg, meshSvg } from '../src/output/field.js';
 import { svgToPng } from '../src/output/png.js';
-import { curveSvg, specimenSymbols, workOfFractureEstimate } from '../src/output/runfiles.js';
+import { curveSvg, specimenSymbols } from '../src/output/runfiles.js';
+import { workOfFractureEstimate } from '../src/output/warnings.js';
 import { CAUTION, chooseFrames, crackAngle, externalReferences, inlineSvg, reportHtml, writeReport, type FrameFile, type ReportData } from '../src/output/report.js';
 import { fixtureCase, fixtureRun } from './output.fixture.js';
 
@@ -33,11 +34,12 @@ function rowText(page: string, id: string): string {
 describe('reportHtml', () => {
   it('holds the results table with peak, openings at peak, GF estimate, crack length and angle', () => {
     expect(html).toContain('<table id="results">');
-    expect(rowText(html, 'peak-load')).toBe('Peak load 2.00 kN (step 3)');
+    expect(rowText(html, 'peak-load')).toBe('Peak load 2.00 kN (step 3, the first maximum of the curve)');
     expect(html).toMatch(/Load-point displacement at peak<\/th><td>0\.045 mm/);
     expect(html).toMatch(/CMOD at peak<\/th><td>0\.03 mm/);
-    // work of fracture over the ligament (RILEM TC 50-FMC 1985): W0 = 140 N·mm, A = (100 − 25)·50 mm²
-    expect(rowText(html, 'gf')).toMatch(/^G F estimate \(work \/ ligament area\) 0\.0373 N\/mm, 33\.9 % of the input G F/);
+    // work of fracture over the ligament (RILEM TC 50-FMC 1985): W0 = 140 − 5 N·mm (the elastic energy
+    // still stored taken off), A = (100 − 25)·50 mm²
+    expect(rowText(html, 'gf')).toMatch(/^G F estimate \(work \/ ligament area, a lower bound\) 0\.036 N\/mm, 32\.7 % of the input G F/);
     expect(rowText(html, 'crack-length')).toBe('Final crack length 35.0 mm');
     // straight up from a vertical notch: 90° from +x, on the notch line (symmetry, common practice)
     expect(rowText(html, 'crack-angle')).toBe('Crack angle 90.0° from +x, start to tip, 0.0° off the notch line');
@@ -123,14 +125,14 @@ describe('writeReport', () => {
     await writeReport(path, { ...base, frames, finalSvg: null, meshSvg: meshSvg(run.mesh, { ...specimenSymbols(c), title: 'mesh' }) });
   }, 20000);
 
-  it('embeds the strip of frames as PNG thumbnails and the last frame large', async () => {
+  it('embeds every frame to step through, 900 px wide or as wide as a smaller PNG, the last one shown first', async () => {
     const page = readFileSync(path, 'utf8');
-    const uris = [...page.matchAll(/src="data:image\/png;base64,([^"]+)"/g)].map((m) => m[1]);
-    expect(uris).toHaveLength(1 + 4);
-    const widths = await Promise.all(uris.map(async (b) => (await sharp(Buffer.from(b, 'base64')).metadata()).width));
-    expect(widths[0]).toBe(1100);
-    expect(widths.slice(1)).toEqual([480, 480, 480, 480]);
-    expect(page).toContain('Step 3: 2.00 kN, CMOD 0.030 mm, crack 15.0 mm');
+    const data = JSON.parse(/<script type="application\/json" id="stepper-data">(.*?)<\/script>/s.exec(page)![1]) as { step: number; src: string; caption: string }[];
+    expect(data.map((f) => f.step)).toEqual([1, 3, 5, 7]);
+    const widths = await Promise.all(data.map(async (f) => (await sharp(Buffer.from(f.src.replace(/^data:image\/png;base64,/, ''), 'base64')).metadata()).width));
+    expect(widths).toEqual([900, 900, 600, 900]);
+    expect(data[1].caption).toBe('Step 3: 2.00 kN, CMOD 0.030 mm, crack 15.0 mm');
+    expect(page).toContain(`<img id="stepper-frame" src="${data[3].src}"`);
     expect(page).toMatch(/<figure id="mesh-picture"><svg [^>]*aria-label="Initial mesh"/);
     expect(page).toContain('id="mesh-cells"');
     expect(page).not.toContain('http');

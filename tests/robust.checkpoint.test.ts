@@ -24,7 +24,7 @@ function sample(): AnalysisState {
     kappa: [[1, 1e-300], [2, -0]],
     uw: Float64Array.from(odd), lambda: -0, W: 1 / 7, lastF: NaN, lastLambda: 2 ** -1074,
     loop: { inc: 3, frac: 0.125, done: 0.07500000000000001, step: 9, peak: { load_N: 2135.3, displacement_mm: 0.072, cmod_mm: null, step: 4 } },
-    rows: [], lastProbes: [], dofs: { initial: 10, final: 12, max: 12 }, growthLog: [], solveTime: 0.5,
+    rows: Array.from({ length: 10 }, (_, i) => ({ step: i, load_N: i / 3 })) as unknown as AnalysisState['rows'], lastProbes: [], dofs: { initial: 10, final: 12, max: 12 }, growthLog: [], solveTime: 0.5,
   };
 }
 
@@ -55,6 +55,19 @@ describe('checkpoint text', () => {
     expect(() => decodeCheckpoint(text, other, 'out/x')).toThrow(InputError);
     expect(() => decodeCheckpoint(text, other, 'out/x')).toThrow(/^the case has changed since the run in out\/x was started/);
     expect(() => decodeCheckpoint(text.slice(0, 100), c, 'out/x')).toThrow(/^the checkpoint in out\/x is damaged/);
-    expect(() => decodeCheckpoint(text.replace('"format":1', '"format":7'), c, 'out/x')).toThrow(/format 7, expected 1/);
+    expect(() => decodeCheckpoint(text.replace('"format":2', '"format":7'), c, 'out/x')).toThrow(/format 7, expected 2/);
+  });
+
+  it('refuses a text that still parses but was damaged or edited, by its checksum and its rows', () => {
+    const text = encodeCheckpoint(c, sample());
+    // one digit changed in the body: valid JSON, wrong checksum
+    const edited = text.replace('"load_N":0.3333333333333333', '"load_N":0.3333333333333334');
+    expect(edited).not.toBe(text);
+    expect(() => decodeCheckpoint(edited, c, 'out/x')).toThrow(/^the checkpoint in out\/x is damaged \(checkpoint\.json does not match its checksum\)/);
+    // emptied rows with a checksum made to match: the rows no longer reach the checkpoint's step
+    const s = sample();
+    s.rows = [];
+    expect(() => decodeCheckpoint(encodeCheckpoint(c, s), c, 'out/x')).toThrow(/is damaged \(its rows or state are incomplete\)/);
+    expect(() => decodeCheckpoint(text.split('\n')[1]!, c, 'out/x')).toThrow(/^the checkpoint in out\/x is (damaged|not one this version)/);
   });
 });

@@ -12,12 +12,17 @@ const REQUIRED: Record<string, string[]> = {
   control: ['by', 'target', 'increments', 'stopAtLoadFraction'],
   crack: ['start', 'criterion', 'growthStep', 'averagingRadius'],
   mesh: ['size', 'tipSize', 'refineRadius', 'coarsen', 'seed', 'lloyd'],
-  output: ['frames', 'every', 'animation', 'vtk'],
+  output: ['frames', 'every', 'maxFrames', 'animation', 'vtk'],
 };
 const ALLOWED: Record<string, string[]> = {
   ...REQUIRED,
+  // test rigs: a wedge and extra named gauges
+  '': [...REQUIRED['']!, 'wedge', 'gauges'],
   geometry: ['outline', 'holes', 'notches'],
-  control: [...REQUIRED.control!, 'gauge'],
+  control: [...REQUIRED.control!, 'gauge', 'reading'],
+  // the brittle mode's toughness and model (the ceramic bar)
+  material: [...REQUIRED.material!, 'KIc'],
+  crack: [...(REQUIRED.crack ?? []), 'model'],
 };
 
 const raw = (t: Template, values: Record<string, number | string> = {}): RawCase => parse(t.build(values)) as RawCase;

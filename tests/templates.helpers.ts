@@ -68,11 +68,26 @@ export function area(ring: P[]): number {
   return s / 2;
 }
 
-/** A bearing strip of that width centred on p fits on one straight piece of the boundary. */
+/**
+ * A bearing strip of that width centred on p fits on one straight piece of the boundary, or
+ * follows the outline (measured along it) while it turns by at most 45° (test rigs).
+ */
 export function stripFits(c: RawCase, p: P, width: number, tol = 1e-9): boolean {
   const ring = c.geometry.outline;
   const pieces: [P, P][] = ring.map((a, i) => [a, ring[(i + 1) % ring.length]!]);
   for (const n of c.geometry.notches ?? []) pieces.push(...notchSides(n));
-  return pieces.some(([a, b]) => segDist(p, a, b) <= tol
-    && Math.hypot(p[0] - a[0], p[1] - a[1]) >= width / 2 - tol && Math.hypot(p[0] - b[0], p[1] - b[1]) >= width / 2 - tol);
+  if (pieces.some(([a, b]) => segDist(p, a, b) <= tol
+    && Math.hypot(p[0] - a[0], p[1] - a[1]) >= width / 2 - tol && Math.hypot(p[0] - b[0], p[1] - b[1]) >= width / 2 - tol)) return true;
+  // walk the outline from p both ways, adding up the turns at the corners passed
+  const n = ring.length, i = ring.findIndex((a, k) => segDist(p, a, ring[(k + 1) % n]!) <= tol);
+  if (i < 0) return false;
+  const at = (k: number) => ring[((k % n) + n) % n]!;
+  const dir = (k: number) => Math.atan2(at(k + 1)[1] - at(k)[1], at(k + 1)[0] - at(k)[0]);
+  const turn = (k: number) => Math.abs(Math.atan2(Math.sin(dir(k) - dir(k - 1)), Math.cos(dir(k) - dir(k - 1))));
+  const len = (k: number) => Math.hypot(at(k + 1)[0] - at(k)[0], at(k + 1)[1] - at(k)[1]);
+  let total = 0, left = width / 2 - Math.hypot(at(i + 1)[0] - p[0], at(i + 1)[1] - p[1]), k = i + 1;
+  while (left > tol) { total += turn(k); left -= len(k); k++; }
+  left = width / 2 - Math.hypot(p[0] - at(i)[0], p[1] - at(i)[1]); k = i;
+  while (left > tol) { total += turn(k); k--; left -= len(k); }
+  return total <= Math.PI / 4 + 1e-9;
 }

@@ -31,6 +31,8 @@ describe('material presets', () => {
     const kic = Math.sqrt(m.GF * m.E / 1000); // MPa m^0.5
     expect(kic).toBeGreaterThanOrEqual(3); expect(kic).toBeLessThanOrEqual(5);
     expect(charLength(m)).toBeLessThan(1); // a process zone well under a millimetre
+    // the toughness of the brittle mode is the same K_Ic as GF was made from
+    expect(m.KIc).toBe(4);
   });
 
   it('each preset states its source honestly', () => {

@@ -15,6 +15,7 @@ export const DEFAULTS = {
   shearWeight: 1,
   supportWidth: 0,
   loadWidth: 0,
+  platen: 'rocker' as const,
   controlBy: 'displacement',
   increments: 100,
   stopAtLoadFraction: 0.05,
@@ -24,8 +25,9 @@ export const DEFAULTS = {
   seed: 1,
   lloyd: 8,
   probes: [] as const,
-  frames: ['svg', 'png'] as const,
+  frames: ['png'] as const,
   every: 1,
+  maxFrames: 40,
   animation: 'gif',
   vtk: false,
   pngWidth: 1200,
@@ -68,6 +70,15 @@ function defaultMeshSize(outline: Vec2[]): number {
   return Math.min(x1 - x0, y1 - y0) / 10;
 }
 
+/** The control gauge: its points, and its name when it names one of `gauges` (checked in check.ts). */
+function controlGauge(c: CaseInput): { gauge?: { from: Vec2; to: Vec2 }; gaugeName?: string } {
+  const g = c.control.gauge;
+  if (g === undefined) return {};
+  if (typeof g !== 'string') return { gauge: { from: copy(g.from), to: copy(g.to) } };
+  const hit = (c.gauges ?? []).find((x) => x.name === g);
+  return hit ? { gauge: { from: copy(hit.from), to: copy(hit.to) }, gaugeName: g } : { gaugeName: g };
+}
+
 /** The model of a structurally valid case, with every default filled in. */
 export function fillDefaults(c: CaseInput, name: string): CaseModel {
   const outline = openOutline(c.geometry.outline);
@@ -94,16 +105,18 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       growthStep: c.crack.growthStep ?? 2 * tipSize,
       averagingRadius: c.crack.averagingRadius ?? 3 * tipSize,
       insertAt: c.crack.insertAt ?? DEFAULTS.insertAt,
+      model: c.crack.model ?? 'cohesive',
     };
   }
   const place = (p: { at?: Vec2; along?: Vec2[] }) =>
     p.at !== undefined ? { at: copy(p.at) } : { along: seg(p.along!) };
-  const supports: Support[] = c.supports.map((s) => ({ ...place(s), width: s.width ?? DEFAULTS.supportWidth, fix: s.fix }));
-  const loads: Load[] = c.loads.map((l) => ({ ...place(l), width: l.width ?? DEFAULTS.loadWidth, direction: unit(l.direction) }));
+  const supports: Support[] = c.supports.map((s) => ({ ...place(s), width: s.width ?? DEFAULTS.supportWidth, fix: s.fix, platen: s.platen ?? DEFAULTS.platen }));
+  const loads: Load[] = c.loads.map((l) => ({ ...place(l), width: l.width ?? DEFAULTS.loadWidth, direction: unit(l.direction), platen: l.platen ?? DEFAULTS.platen, ...(l.share !== undefined ? { share: l.share } : {}) }));
   const o = c.output ?? {};
   const output: OutputSettings = {
     frames: o.frames ? [...new Set(o.frames)] : [...DEFAULTS.frames],
     every: o.every ?? DEFAULTS.every,
+    maxFrames: o.maxFrames ?? DEFAULTS.maxFrames,
     animation: o.animation ?? DEFAULTS.animation,
     vtk: o.vtk ?? DEFAULTS.vtk,
     pngWidth: o.pngWidth ?? DEFAULTS.pngWidth,
@@ -126,6 +139,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       E: c.material.E, nu: c.material.nu, ft: c.material.ft, GF: c.material.GF,
       softening: c.material.softening ?? DEFAULTS.softening,
       shearWeight: c.material.shearWeight ?? DEFAULTS.shearWeight,
+      ...(c.material.KIc !== undefined ? { KIc: c.material.KIc } : {}),
       ...(c.material.strengthField ? { strengthField: {
         distribution: c.material.strengthField.distribution ?? 'lognormal',
         cov: c.material.strengthField.cov,
@@ -138,13 +152,16 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
     loads,
     control: {
       by: c.control.by ?? DEFAULTS.controlBy,
-      ...(c.control.gauge ? { gauge: { from: copy(c.control.gauge.from), to: copy(c.control.gauge.to) } } : {}),
+      ...controlGauge(c),
+      reading: c.control.reading ?? 'opening',
       target: c.control.target,
       increments: c.control.increments ?? DEFAULTS.increments,
       stopAtLoadFraction: c.control.stopAtLoadFraction ?? DEFAULTS.stopAtLoadFraction,
     },
     mesh,
     probes: (c.probes ?? []).map((p) => ({ name: p.name, at: copy(p.at) })),
+    gauges: (c.gauges ?? []).map((g) => ({ name: g.name, from: copy(g.from), to: copy(g.to) })),
+    ...(c.wedge ? { wedge: { angle: c.wedge.angle } } : {}),
     output,
   };
   if (crack) model.crack = crack;

@@ -31,12 +31,15 @@ export function describeCase(c: CaseModel): string {
   lines.push(`  material   E ${fmtNum(m.E)} MPa, ν ${fmtNum(m.nu)}, ft ${fmtNum(m.ft)} MPa, GF ${fmtNum(m.GF)} N/mm, `
     + `l_ch ${n3(characteristicLength(m))} mm`);
   lines.push(`  law        ${m.softening} softening, shear weight ${fmtNum(m.shearWeight)}`);
-  lines.push(`  supports   ${c.supports.map((s) => `${s.fix} ${s.at ? `at ${fmtPoint(s.at)}` : `along ${fmtPoint(s.along![0])}–${fmtPoint(s.along![1])}`}`).join('; ')}`);
+  // test rigs: strips say how they meet the specimen, spreader loads their shares
+  const strip = (q: { at?: unknown; width: number; platen?: string }) => (q.at && q.width > 0 ? ` over ${fmtNum(q.width)} mm (${q.platen ?? 'rocker'})` : '');
+  lines.push(`  supports   ${c.supports.map((s) => `${s.fix} ${s.at ? `at ${fmtPoint(s.at)}` : `along ${fmtPoint(s.along![0])}–${fmtPoint(s.along![1])}`}${strip(s)}`).join('; ')}`);
   lines.push(`  loads      ${c.loads.map((l) => `${l.at ? `at ${fmtPoint(l.at)}` : `along ${fmtPoint(l.along![0])}–${fmtPoint(l.along![1])}`} towards ${fmtPoint(l.direction.map((v) => Number(v.toFixed(3))))}`
-    + (l.width > 0 ? ` over ${fmtNum(l.width)} mm` : '')).join('; ')}`);
+    + strip(l) + (l.share !== undefined ? `, share ${fmtNum(l.share)}` : '')).join('; ')}`
+    + (c.wedge ? `, a ${fmtNum(c.wedge.angle)}° wedge` : ''));
   const ctl = c.control;
   const unit = ctl.by === 'force' ? 'N' : 'mm';
-  const gauge = ctl.gauge ? `, gauge ${fmtPoint(ctl.gauge.from)}–${fmtPoint(ctl.gauge.to)}` : '';
+  const gauge = ctl.gauge ? `, gauge ${fmtPoint(ctl.gauge.from)}–${fmtPoint(ctl.gauge.to)}${ctl.reading === 'sliding' ? ' (sliding)' : ''}` : '';
   lines.push(c.crack
     ? `  control    ${ctl.by} to ${fmtNum(ctl.target)} ${unit} in ${ctl.increments} increments${gauge}, `
       + (ctl.stopAtLoadFraction > 0 ? `stop below ${fmtNum(100 * ctl.stopAtLoadFraction)} % of peak load` : 'no early stop')
@@ -44,8 +47,11 @@ export function describeCase(c: CaseModel): string {
   if (c.crack) {
     const s = c.crack.start;
     const start = typeof s === 'string' ? s : s.map((p) => fmtPoint(p)).join(', ');
-    lines.push(`  crack      from ${start}, ${c.crack.criterion}, step ${fmtNum(c.crack.growthStep)} mm, `
-      + `averaging radius ${fmtNum(c.crack.averagingRadius)} mm, next segment laid at ${fmtNum(c.crack.insertAt)} ft`);
+    lines.push(c.crack.model === 'lefm'
+      ? `  crack      model lefm (linear elastic fracture mechanics): traction-free cracks from ${start}, a tip grows `
+        + `where its MTS equivalent K reaches KIc ${fmtNum(c.material.KIc ?? NaN)} MPa√m, in the MTS direction, step ${fmtNum(c.crack.growthStep)} mm`
+      : `  crack      model cohesive (${c.material.softening} traction–separation law): from ${start}, ${c.crack.criterion}, step ${fmtNum(c.crack.growthStep)} mm, `
+        + `averaging radius ${fmtNum(c.crack.averagingRadius)} mm, next segment laid at ${fmtNum(c.crack.insertAt)} ft`);
   } else {
     lines.push('  crack      none: elastic analysis, one step at the target');
   }

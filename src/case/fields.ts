@@ -41,13 +41,14 @@ export const FIELDS: Record<string, FieldSpec> = {
   'geometry.notches[].to': { what: POINT, unit: 'mm' },
   'geometry.notches[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
 
-  material: { what: 'a mapping {E, nu, ft, GF, softening, shearWeight, strengthField}' },
+  material: { what: 'a mapping {E, nu, ft, GF, softening, shearWeight, KIc, strengthField}' },
   'material.E': { what: POSITIVE, unit: 'MPa', range: { gt: 0 } },
   'material.nu': { what: 'a number of at least 0 and below 0.5', unit: '-', range: { ge: 0, lt: 0.5 } },
   'material.ft': { what: POSITIVE, unit: 'MPa', range: { gt: 0 } },
   'material.GF': { what: POSITIVE, unit: 'N/mm', range: { gt: 0 } },
   'material.softening': { what: 'one of linear, bilinear, exponential' },
   'material.shearWeight': { what: NONNEG, unit: '-', range: { ge: 0 } },
+  'material.KIc': { what: 'a positive number (the fracture toughness, needed by crack.model lefm)', unit: 'MPa√m', range: { gt: 0 } },
   'material.strengthField': { what: 'a mapping {distribution, cov, correlationLength, seed, pointsPerLength}' },
   'material.strengthField.distribution': { what: 'one of normal, lognormal' },
   'material.strengthField.cov': { what: 'a coefficient of variation from 0 to 1', unit: '-', range: { ge: 0, le: 1 } },
@@ -62,6 +63,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'supports[].along[]': { what: POINT, unit: 'mm' },
   'supports[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'supports[].fix': { what: 'one of x, y, xy' },
+  'supports[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped' },
 
   loads: { what: 'a list of at least one load' },
   'loads[]': { what: 'a load with exactly one of at: [x, y] or along: [[x, y], [x, y]], and direction: [x, y]' },
@@ -70,10 +72,13 @@ export const FIELDS: Record<string, FieldSpec> = {
   'loads[].along[]': { what: POINT, unit: 'mm' },
   'loads[].width': { what: NONNEG, unit: 'mm', range: { ge: 0 } },
   'loads[].direction': { what: 'a non-zero [x, y] direction', unit: '-' },
+  'loads[].share': { what: 'a positive share of the machine force, given on every load or on none (a spreader)', unit: '-', range: { gt: 0 } },
+  'loads[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped, pressure (a uniform pressure over the strip)' },
 
-  control: { what: 'a mapping {by, gauge, target, increments, stopAtLoadFraction}' },
+  control: { what: 'a mapping {by, gauge, reading, target, increments, stopAtLoadFraction}' },
   'control.by': { what: 'one of displacement, cmod, force' },
-  'control.gauge': { what: 'a mapping {from: [x, y], to: [x, y]}' },
+  'control.gauge': { what: 'a mapping {from: [x, y], to: [x, y]} or the name of one of gauges' },
+  'control.reading': { what: 'one of opening (along the gauge, the CMOD), sliding (across it)' },
   'control.gauge.from': { what: POINT, unit: 'mm' },
   'control.gauge.to': { what: POINT, unit: 'mm' },
   // The unit of the target follows control.by (see unitFor).
@@ -81,13 +86,14 @@ export const FIELDS: Record<string, FieldSpec> = {
   'control.increments': { what: 'a whole number from 1 to 100000', range: { ge: 1, le: 100000, int: true } },
   'control.stopAtLoadFraction': { what: 'a fraction of the peak load of at least 0 (never stop) and below 1', unit: '-', range: { ge: 0, lt: 1 } },
 
-  crack: { what: 'a mapping {start, criterion, growthStep, averagingRadius, insertAt}; write crack: {} for all defaults or leave crack out for an elastic analysis' },
+  crack: { what: 'a mapping {start, criterion, growthStep, averagingRadius, insertAt, model}; write crack: {} for all defaults or leave crack out for an elastic analysis' },
   'crack.start': { what: 'notch-tips, anywhere or a list of [x, y] points', unit: 'mm' },
   'crack.start[]': { what: POINT, unit: 'mm' },
   'crack.criterion': { what: 'principal-stress' },
   'crack.growthStep': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
   'crack.averagingRadius': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
   'crack.insertAt': { what: 'a fraction of ft from 0.5 to 1', unit: '-', range: { ge: 0.5, le: 1 } },
+  'crack.model': { what: 'one of cohesive, lefm' },
 
   mesh: { what: 'a mapping {size, tipSize, refineRadius, coarsen, seed, lloyd, order}' },
   'mesh.size': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
@@ -103,13 +109,22 @@ export const FIELDS: Record<string, FieldSpec> = {
   'probes[].name': { what: 'a non-empty name' },
   'probes[].at': { what: POINT, unit: 'mm' },
 
-  output: { what: 'a mapping {frames, every, animation, vtk, pngWidth}' },
+  wedge: { what: 'a mapping {angle}' },
+  'wedge.angle': { what: 'the included angle of the wedge, above 0 and below 90', unit: 'degrees', range: { gt: 0, lt: 90 } },
+  gauges: { what: 'a list of gauges, each {name, from: [x, y], to: [x, y]}' },
+  'gauges[]': { what: 'a mapping {name, from: [x, y], to: [x, y]}' },
+  'gauges[].name': { what: 'a non-empty name' },
+  'gauges[].from': { what: POINT, unit: 'mm' },
+  'gauges[].to': { what: POINT, unit: 'mm' },
+
+  output: { what: 'a mapping {frames, every, maxFrames, animation, vtk, pngWidth}' },
   'output.frames': { what: 'a list of picture formats (svg, png)' },
   'output.frames[]': { what: 'one of svg, png' },
   'output.every': { what: 'a whole number of steps from 1 to 100000', range: { ge: 1, le: 100000, int: true } },
+  'output.maxFrames': { what: 'a whole number of frames from 1 to 10000', range: { ge: 1, le: 10000, int: true } },
   'output.animation': { what: 'one of gif, webp, none' },
   'output.vtk': { what: 'true or false' },
-  'output.pngWidth': { what: 'a whole number from 100 to 20000', unit: 'px', range: { ge: 100, le: 20000, int: true } },
+  'output.pngWidth': { what: 'a whole number from 100 to 8000', unit: 'px', range: { ge: 100, le: 8000, int: true } },
 };
 
 /** Field path as written in messages: supports[1].fix. */

@@ -19,6 +19,7 @@ export function describeValue(v: unknown, numeric = false): string {
     const s = v.length > 60 ? `${v.slice(0, 57)}...` : v;
     // "3.1 MPa": the unit is fixed by `units`, so only the number belongs here.
     const hint = !numeric ? '' : Number.isFinite(Number(v)) && v.trim() !== '' ? '; write it without quotes'
+      : /^\s*[-+]?\d+,\d+\s*$/.test(v) ? `, a decimal comma; write ${v.trim().replace(',', '.')} with a point`
       : /^\s*[-+]?(\d|\.\d)/.test(v) ? '; write the number alone' : '';
     return `${JSON.stringify(s)}${hint}`;
   }

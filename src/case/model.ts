@@ -12,19 +12,39 @@ export interface Notch { from: Vec2; to: Vec2; width: number }
 
 export type Fix = 'x' | 'y' | 'xy';
 
+/**
+ * How a strip of width > 0 meets the specimen: `rocker`, a rigid platen on a pivot at its
+ * centre (its points share one displacement along the held or loaded axis and it may rotate);
+ * `clamped`, every point of the strip held (or driven) alike, with no rotation; `pressure` (loads
+ * only), a uniform pressure over the strip, its points free to move apart. Absent: rocker.
+ */
+export type Platen = 'rocker' | 'clamped' | 'pressure';
+
 /** A support at a point or along a segment of the boundary; width spreads a point over a bearing strip. */
-export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix }
+export interface Support { at?: Vec2; along?: [Vec2, Vec2]; width: number; fix: Fix; platen?: Platen }
 
 /** Where the machine moves the specimen; direction is a unit vector. */
-export interface Load { at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2 }
+export interface Load {
+  at?: Vec2; along?: [Vec2, Vec2]; width: number; direction: Vec2; platen?: Platen;
+  /** Share of the one machine force this load point takes through a spreader (all loads have one, or none). */
+  share?: number;
+}
 
 export type ControlKind = 'displacement' | 'cmod' | 'force';
 
+/** Two points of the specimen's face; opening is the change of distance along from→to, sliding the relative motion across it (to the left of from→to). */
 export interface Gauge { from: Vec2; to: Vec2 }
+
+/** An extra gauge written to gauges.csv every step (test rigs). */
+export interface NamedGauge extends Gauge { name: string }
 
 export interface Control {
   by: ControlKind;
   gauge?: Gauge;
+  /** Name of the gauge in `gauges` the control reads, when it was given by name. */
+  gaugeName?: string;
+  /** What cmod control drives: the control gauge's opening (the CMOD, also when absent) or its sliding. */
+  reading?: 'opening' | 'sliding';
   /** mm for displacement and cmod control, N for force control. */
   target: number;
   increments: number;
@@ -38,6 +58,8 @@ export interface Material {
   softening: Softening;
   /** β in the effective opening √(w² + β s²). */
   shearWeight: number;
+  /** Fracture toughness K_Ic (MPa√m), needed by crack.model lefm. */
+  KIc?: number;
   /** A spatially random tensile strength about ft (study variants); absent: ft everywhere. */
   strengthField?: StrengthFieldSettings;
 }
@@ -61,6 +83,8 @@ export interface CrackSettings {
   averagingRadius: number;
   /** Fraction of ft at which the next segment is laid, still intact, ahead of a tip. */
   insertAt: number;
+  /** cohesive: faces joined by the traction–separation law; lefm: traction-free cracks that grow where K reaches KIc. */
+  model: 'cohesive' | 'lefm';
 }
 
 export interface MeshSettings {
@@ -75,6 +99,8 @@ export interface Probe { name: string; at: Vec2 }
 export interface OutputSettings {
   frames: ('svg' | 'png')[];
   every: number;
+  /** At most this many frames, evenly spaced over the run (the last step always among them). */
+  maxFrames: number;
   animation: 'gif' | 'webp' | 'none';
   vtk: boolean;
   /** Width of PNG pictures in pixels. */
@@ -99,4 +125,8 @@ export interface CaseModel {
   mesh: MeshSettings;
   probes: Probe[];
   output: OutputSettings;
+  /** A wedge drives the two loads apart (test rigs): included angle in degrees; load_N is the splitting force. */
+  wedge?: { angle: number };
+  /** Extra named gauges (test rigs). */
+  gauges?: NamedGauge[];
 }

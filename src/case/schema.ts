@@ -27,19 +27,26 @@ const hole = z
 
 const notch = z.strictObject({ from: point, to: point, width: num.optional() });
 
+// test rigs: how a bearing strip meets the specimen
+const platen = z.enum(['rocker', 'clamped', 'pressure']);
+const supportPlaten = z.enum(['rocker', 'clamped']);
+
 const support = z
-  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']) })
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), fix: z.enum(['x', 'y', 'xy']), platen: supportPlaten.optional() })
   .superRefine(oneOf('at', 'along'));
 
 const load = z
-  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point })
+  .strictObject({ at: point.optional(), along: pair.optional(), width: num.optional(), direction: point, platen: platen.optional(), share: num.optional() })
   .superRefine(oneOf('at', 'along'));
 
 const gauge = z.strictObject({ from: point, to: point });
+// test rigs: extra gauges anywhere on the face, named; the control gauge may name one
+const namedGauge = z.strictObject({ name: z.string(), from: point, to: point });
 
 const control = z.strictObject({
   by: z.enum(['displacement', 'cmod', 'force']).optional(),
-  gauge: gauge.optional(),
+  gauge: z.union([gauge, z.string()]).optional(),
+  reading: z.enum(['opening', 'sliding']).optional(),
   target: num,
   increments: num.optional(),
   stopAtLoadFraction: num.optional(),
@@ -51,6 +58,7 @@ const crack = z.strictObject({
   growthStep: num.optional(),
   averagingRadius: num.optional(),
   insertAt: num.optional(),
+  model: z.enum(['cohesive', 'lefm']).optional(),
 });
 
 const mesh = z.strictObject({
@@ -67,6 +75,7 @@ const mesh = z.strictObject({
 const output = z.strictObject({
   frames: z.array(z.enum(['svg', 'png'])).optional(),
   every: num.optional(),
+  maxFrames: num.optional(),
   animation: z.enum(['gif', 'webp', 'none']).optional(),
   vtk: z.boolean().optional(),
   pngWidth: num.optional(),
@@ -90,6 +99,7 @@ export const caseSchema = z.strictObject({
     GF: num,
     softening: z.enum(['linear', 'bilinear', 'exponential']).optional(),
     shearWeight: num.optional(),
+    KIc: num.optional(),
     strengthField: z.strictObject({
       distribution: z.enum(['normal', 'lognormal']).optional(),
       cov: num,
@@ -104,6 +114,8 @@ export const caseSchema = z.strictObject({
   crack: crack.optional(),
   mesh: mesh.optional(),
   probes: z.array(z.strictObject({ name: z.string().min(1), at: point })).optional(),
+  gauges: z.array(namedGauge).optional(),
+  wedge: z.strictObject({ angle: num }).optional(),
   output: output.optional(),
 });
 

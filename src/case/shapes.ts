@@ -70,23 +70,31 @@ export function bbox(pts: readonly Vec2[]): Box {
  * First pair of edges of a closed polygon that touch or cross (i < j), if any;
  * neighbouring edges count only when they fold back over each other.
  */
-export function selfTouch(poly: readonly Vec2[], tol: number): [number, number, Vec2] | undefined {
+export function selfTouch(poly: readonly Vec2[], tol: number, from = 0, fromJ = from + 1): [number, number, Vec2] | undefined {
   const n = poly.length;
-  for (let i = 0; i < n; i++) {
-    const a = poly[i]!, b = poly[(i + 1) % n]!;
-    for (let j = i + 1; j < n; j++) {
-      const c = poly[j]!, d = poly[(j + 1) % n]!;
-      const next = j === i + 1, prev = i === 0 && j === n - 1;
-      if (next || prev) {
-        // Shared vertex; they clash only if one runs back along the other.
-        const far = next ? d : c, farOther = next ? a : b;
-        if (segDist(far, a, b) <= tol || segDist(farOther, c, d) <= tol) return [i, j, next ? b : a];
-        continue;
+  for (let i = from; i < n; i++) {
+    for (let j = i === from ? fromJ : i + 1; j < n; j++) {
+      if (edgesClash(poly, i, j, tol)) {
+        const a = poly[i]!, b = poly[(i + 1) % n]!, c = poly[j]!, d = poly[(j + 1) % n]!;
+        const next = j === i + 1, prev = i === 0 && j === n - 1;
+        return [i, j, next ? b : prev ? a : meetingPoint(a, b, c, d)];
       }
-      if (segSegDist(a, b, c, d) <= tol) return [i, j, meetingPoint(a, b, c, d)];
     }
   }
   return undefined;
+}
+
+/** Edges i < j of a closed polygon touch or cross; neighbouring edges only when one runs back along the other. */
+export function edgesClash(poly: readonly Vec2[], i: number, j: number, tol: number): boolean {
+  const n = poly.length;
+  const a = poly[i]!, b = poly[(i + 1) % n]!, c = poly[j]!, d = poly[(j + 1) % n]!;
+  const next = j === i + 1, prev = i === 0 && j === n - 1;
+  if (next || prev) {
+    // Shared vertex; they clash only if one runs back along the other.
+    const far = next ? d : c, farOther = next ? a : b;
+    return segDist(far, a, b) <= tol || segDist(farOther, c, d) <= tol;
+  }
+  return segSegDist(a, b, c, d) <= tol;
 }
 
 /** Where segments ab and cd cross, or the point of ab nearest to cd when they only come close. */

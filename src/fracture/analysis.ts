@@ -16,7 +16,8 @@ import { WorkMesh } from './workmesh.js';
 import { strengthOf } from '../study/field.js';
 import { softeningJump, overshootLimit } from './criterion.js';
 import { Equations } from './equations.js';
-import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, type GrowthRoom } from './growth.js';
+import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
+import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
 import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING } from './steps.js';
 import {
@@ -127,12 +128,18 @@ export class Analysis {
   }
 
   /** Solve at one control level from the current state; on failure the state is as before. */
-  private solveAt(kind: ControlKind, target: number): { ok: boolean; reason: string } {
+  private solveAt(kind: ControlKind, target: number, from?: StepState): { ok: boolean; reason: string } {
     const eq = this.equations(), s = this.s;
     const t0 = performance.now();
     const opt = this.newtonOptions(kind, target);
-    let st: StepState = { uf: eq.uf.slice(), lambda: s.lambda };
+    let st: StepState = from ?? { uf: eq.uf.slice(), lambda: s.lambda };
     let r = solveStep(eq.sys, this.coh, eq.kap, eq.kapTrial, kind, target, st, opt, eq.work);
+    if (!r.converged && from) {
+      // the predictor may have led Newton astray: once more from the converged state
+      this.iterations += r.iterations;
+      st = { uf: eq.uf.slice(), lambda: s.lambda };
+      r = solveStep(eq.sys, this.coh, eq.kap, eq.kapTrial, kind, target, st, opt, eq.work);
+    }
     if (!r.converged && eq.sys.pairs.plus.length > 0) {
       // points switching between loading and unloading can make Newton cycle: fall back to the secant
       this.iterations += r.iterations;
@@ -230,7 +237,8 @@ export class Analysis {
   private record(step: number, control: number): StepEvent {
     const ev = recordStep({
       c: this.c, wm: this.wm, s: this.s, eq: this.eq, coh: this.coh, D: this.D,
-      gauge: this.driven.gaugeVerts !== null, probeVerts: this.probeVerts, iterations: this.iterations,
+      gauge: this.driven.gaugeVerts !== null, opening: this.driven.opening, probeVerts: this.probeVerts, iterations: this.iterations,
+      tips: tipRows(step, tipDirections(this.room()), this.s.cracks),
     }, step, control);
     this.iterations = 0;
     return ev;
@@ -242,6 +250,9 @@ export class Analysis {
 
   /** Crack face area (mm²) whose traction has reached ft, and the part of it fully separated (no traction left). */
   faceAreas(): { reached_mm2: number; separated_mm2: number } { return this.equations().faceAreas(this.coh); }
+
+  /** Stress intensity factors and MTS directions at every slit and crack tip of the last solved state. */
+  tipFactors(): TipMeasure[] { this.equations(); return tipMeasures(this.room()); }
 
   /** The constrained bulk stiffness of the current mesh (free dofs only), e.g. for export. */
   stiffnessMatrix(): CsrMatrix { return this.equations().stiffnessMatrix(); }
@@ -274,7 +285,7 @@ export class Analysis {
     // while the case's control value still falls back, go on with the crack opening at once
     const skipped = at.opening === true;
     let kind: ControlKind = ctl.by;
-    const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target);
+    const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done));
     if (skipped) at.frac = WHILE_OPENING;
     // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
     // and a tip may not be taken past the point where the segment it lays would start above ft
@@ -309,9 +320,29 @@ export class Analysis {
     return { kind, target };
   }
 
+  /**
+   * Where the next step starts Newton from: the last converged state carried on along the last
+   * step's trend (a secant predictor; the trend is kept only over steps without growth, on the
+   * same mesh). Undefined when there is no trend: Newton then starts from the converged state.
+   */
+  private predict(dLevel: number): StepState | undefined {
+    const s = this.s, tr = s.trend;
+    if (!tr || tr.du.length !== s.uw.length || !(tr.dLevel > 0) || this.dirty) return undefined;
+    const ratio = Math.min(2, dLevel / tr.dLevel);
+    if (!(ratio > 0)) return undefined;
+    const uw = new Float64Array(s.uw.length);
+    for (let i = 0; i < uw.length; i++) uw[i] = s.uw[i] + ratio * tr.du[i];
+    const eq = this.eq, fd = eq.sys.freeDofs, vo = eq.compact.vertexOf, uf = new Float64Array(fd.length);
+    for (let i = 0; i < fd.length; i++) uf[i] = uw[2 * vo[fd[i] >> 1] + (fd[i] & 1)];
+    return { uf, lambda: s.lambda + ratio * tr.dLambda };
+  }
+
   /** Commit a converged step and record it at the case's control level it reached. */
-  private converged(at: LoopState, kind: ControlKind, target: number): StepEvent {
+  private converged(at: LoopState, kind: ControlKind, target: number, start: { uw: Float64Array; lambda: number; level: number; growth: number }): StepEvent {
     const ctl = this.c.control;
+    const s = this.s;
+    s.trend = kind !== 'opening' && s.growthLog.length === start.growth && start.uw.length === s.uw.length
+      ? { du: s.uw.map((v, i) => v - start.uw[i]), dLambda: s.lambda - start.lambda, dLevel: target - start.level } : null;
     this.eq.commit(this.s.kappa);
     // driven by the opening, the level reached is the gauge reading or the load-point travel
     const level = kind !== 'opening' ? target : ctl.by === 'cmod' ? this.eq.sys.gaugeReading(this.eq.work.u) : this.s.lambda;
@@ -353,10 +384,11 @@ export class Analysis {
           await onCheckpoint?.(this.state(mark));
           break;
         }
+        const start = { uw: this.s.uw.slice(), lambda: this.s.lambda, level: at.done, growth: this.s.growthLog.length };
         const step = this.advance(at, target);
         if (step === null) continue;
         if ('end' in step) { reason = step.end; break; }
-        const ev = this.converged(at, step.kind, step.target);
+        const ev = this.converged(at, step.kind, step.target, start);
         await onStep(ev);
         if (!elastic && ctl.stopAtLoadFraction > 0 && at.step > at.peak.step && Math.abs(ev.row.load_N) <= ctl.stopAtLoadFraction * Math.abs(at.peak.load_N)) {
           reason = `the load fell to ${(100 * ctl.stopAtLoadFraction).toFixed(1)} % of the peak`;

@@ -3,11 +3,11 @@
 // stable vertex ids (uw) and the compact (u) and free (uf) vectors of the System.
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { interfaceEnergy, type CohesiveParams } from '../cohesive/interface.js';
-import { System, type PairGeom, type DrivenDofs } from '../solver/system.js';
+import { System, type PairGeom } from '../solver/system.js';
 import { NewtonWork } from '../solver/newton.js';
-import type { Driven } from '../solver/driven.js';
+import { compactDriven, type Driven } from '../solver/driven.js';
 import { RunStopped } from '../errors.js';
-import { submatrixInto, type CsrMatrix } from '../linalg/index.js';
+import type { CsrMatrix } from '../linalg/index.js';
 import type { WorkMesh } from './workmesh.js';
 import type { Crack } from './state.js';
 
@@ -32,14 +32,7 @@ export class Equations {
     const co = cp.compactOf;
     const nd = 2 * cp.vertexOf.length;
     if (maxDofs && nd > maxDofs) throw new RunStopped(`the mesh grew to ${nd} dofs, above the limit of ${maxDofs}`);
-    const dof = (d: { v: number; comp: number }) => 2 * co[d.v] + d.comp;
-    const dd: DrivenDofs = {
-      fixed: Int32Array.from(driven.fixed.filter((d) => co[d.v] >= 0).map(dof)),
-      load: Int32Array.from(driven.load.filter((d) => co[d.v] >= 0).map(dof)),
-      loadW: Float64Array.from(driven.load.filter((d) => co[d.v] >= 0).map((d) => d.w)),
-      gauge: Int32Array.from(driven.gauge.filter((d) => co[d.v] >= 0).map(dof)),
-      gaugeW: Float64Array.from(driven.gauge.filter((d) => co[d.v] >= 0).map((d) => d.w)),
-    };
+    const dd = compactDriven(driven, co);
     const { geom, plus } = pairGeometry(wm, cracks, co, thickness);
     this.pairPlus = plus;
     this.pairOf = new Map(plus.map((v, i) => [v, i]));
@@ -104,7 +97,7 @@ export class Equations {
   /** The constrained bulk stiffness (free dofs only). */
   stiffnessMatrix(): CsrMatrix {
     this.sys.kT.values.set(this.sys.kBulk.values);
-    return submatrixInto(this.sys.kT, this.sys.kff);
+    return this.sys.reduceTangent();
   }
 
   /** Which value of the last equilibrium evaluation is NaN or infinite, and where (null if none). */

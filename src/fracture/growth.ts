@@ -16,6 +16,7 @@ import {
 } from './criterion.js';
 import { centroidsOf, type Equations } from './equations.js';
 import type { CrackState, Tip } from './state.js';
+import { measureTips, type TipMeasure } from './tips.js';
 
 /** What growth reads and changes: the case, the mesh, the crack record, and the equations of the current state. */
 export interface GrowthRoom {
@@ -32,6 +33,14 @@ export function fields(g: GrowthRoom): { m: PolyMesh; stress: Float64Array; area
   return { m, stress, areas, cent: centroidsOf(g.wm, m, g.eq.compact.cellOf) };
 }
 
+/**
+ * Cuts keep to their line: snapping to a vertex within 20 % of an edge or along an edge within
+ * 7° turned a slit's end, and grown segments, by several degrees, differently at the two tips
+ * of a point-symmetric problem and from one mesh seed to the next.
+ */
+export const SLIT_CUT = { snapFraction: 0.02, snapAngle: 0.02 };
+const GROWTH_CUT = { snapFraction: 0.1, snapAngle: 0.03 };
+
 /** Width-0 notches are cut into the mesh as traction-free cracks. */
 export function insertNotchSlits(c: CaseModel, wm: WorkMesh, s: CrackState, initial: PolyMesh): void {
   const on = boundaryVertices(initial);
@@ -40,7 +49,7 @@ export function insertNotchSlits(c: CaseModel, wm: WorkMesh, s: CrackState, init
     const a = nearestVertex(initial, n.from[0], n.from[1]);
     const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
     const dx = (n.to[0] - n.from[0]) / L, dy = (n.to[1] - n.from[1]) / L;
-    const cut = cutRay(wm, a, dx, dy, L, { ...defaultCut, snapFraction: 0.1 });
+    const cut = cutRay(wm, a, dx, dy, L, SLIT_CUT);
     const startOnBoundary = on[a] === 1;
     const tw = twinAlong(wm, cut.path, null, startOnBoundary, cut.end === 'boundary');
     s.cracks.push({ kind: 'notch', path: cut.path, twins: tw.map((t) => t[1]) });
@@ -163,6 +172,8 @@ export function grow(g: GrowthRoom): number {
   const { c, wm, s } = g, crack = c.crack!;
   if (initiate(g) > 0) return 1;
   const { m, stress, areas, cent } = fields(g);
+  // K at the slit tips of the state before any cut of this round (the mesh changes as tips grow)
+  let measured: TipMeasure[] | null = null;
   let grown = 0;
   for (const t of s.tips) {
     if (!t.active) continue;
@@ -175,9 +186,17 @@ export function grow(g: GrowthRoom): number {
     // the tip gives K_II/K_I, and the kink follows the maximum tangential stress. A tip with
     // no faces yet (a blunt notch) follows the largest hoop stress around it; a fresh start
     // point with no direction grows perpendicular to the major principal stress.
+    // Out of a sharp slit the first segment follows the maximum tangential stress criterion
+    // with K_I and K_II from the interaction integral.
+    let slitDir: [number, number] | null = null;
+    if (t.crack < 0 && t.slit !== undefined && t.slit >= 0) {
+      measured ??= tipMeasures(g);
+      const k = measured.find((q) => q.v === t.v);
+      if (k && k.kink !== null && k.KI !== null && k.KI > 0) slitDir = [Math.cos(k.kink), Math.sin(k.kink)];
+    }
     const faces = t.crack >= 0 ? t.crack : t.slit !== undefined && t.slit >= 0 ? t.slit : -1;
     const fk = faces >= 0 ? s.cracks[faces] : null;
-    let [gx, gy] = (fk ? faceKink(fk.path, fk.twins, fk.kind === 'cohesive' ? g.coh.beta : 1, wm.x, wm.y, s.uw, t, crack.averagingRadius) : null)
+    let [gx, gy] = slitDir ?? (fk ? faceKink(fk.path, fk.twins, fk.kind === 'cohesive' ? g.coh.beta : 1, wm.x, wm.y, s.uw, t, crack.averagingRadius) : null)
       ?? (t.dx !== 0 || t.dy !== 0
         ? hoopDirection(m, stress, cent, areas, tx, ty, t.dx, t.dy, crack.averagingRadius)
         : growthDirection(ts, t.dx, t.dy));
@@ -190,7 +209,7 @@ export function grow(g: GrowthRoom): number {
     // specimen: cut through a loaded point, the halves would hang on one vertex
     const len = Math.min(crack.growthStep, contactRoom(c, tx, ty) - c.mesh.tipSize);
     if (len < 0.5 * c.mesh.tipSize) { t.active = false; continue; }
-    const cut = cutRay(wm, t.v, gx, gy, len);
+    const cut = cutRay(wm, t.v, gx, gy, len, GROWTH_CUT);
     if (cut.path.length < 2) { t.active = false; continue; }
     if (t.crack < 0) { s.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = s.cracks.length - 1; }
     const k = s.cracks[t.crack];
@@ -202,6 +221,13 @@ export function grow(g: GrowthRoom): number {
     const tw = twinAlong(wm, cut.path, t.back, !interiorStart, through);
     if (interiorStart) partner!.back = [wm.x[cut.path[1]], wm.y[cut.path[1]]];
     k.twins[k.twins.length - 1] = tw[0][1];
+    // the second tip of an interior start twins the start vertex for both cracks: the first
+    // one, running the other way, has the copy on its left, so it takes the copy as its path
+    // vertex (the plus face) and the original as its twin
+    if (partner && partner.crack >= 0 && k.path.length === 1 && tw[0][1] >= 0) {
+      const q = s.cracks[partner.crack];
+      if (q.path[0] === k.path[0] && q.twins[0] < 0) { q.twins[0] = q.path[0]; q.path[0] = tw[0][1]; }
+    }
     for (let i = 1; i < cut.path.length; i++) { k.path.push(cut.path[i]); k.twins.push(tw[i][1]); }
     const end = cut.path[cut.path.length - 1], prev = cut.path[cut.path.length - 2];
     t.back = [wm.x[prev], wm.y[prev]];
@@ -217,6 +243,30 @@ export function grow(g: GrowthRoom): number {
     if (c.mesh.coarsen && at.length > 0) coarsenAway(wm, at, 2 * c.mesh.refineRadius + 2 * c.mesh.size);
   }
   return grown;
+}
+
+/** K_I, K_II and the MTS direction at every slit and crack end of the last evaluated state. */
+export function tipMeasures(g: GrowthRoom, withK?: (crack: number) => boolean): TipMeasure[] {
+  return measureTips(g.wm, g.s.cracks, g.eq.compact, g.eq.work.u, { E: g.c.material.E, nu: g.c.material.nu, model: g.c.model, D: g.D }, g.c, withK);
+}
+
+/**
+ * K and directions at every tip for tips.csv: at a slit the MTS kink of its K; at the end of a
+ * cohesive crack the direction the growth criterion takes there (null once the tip has stopped).
+ */
+export function tipDirections(g: GrowthRoom): TipMeasure[] {
+  // K only at traction-free tips (written to tips.csv); a cohesive tip needs its direction alone
+  const out = tipMeasures(g, (k) => g.s.cracks[k].kind !== 'cohesive'), { s, wm } = g;
+  for (const m of out) {
+    const k = s.cracks[m.crack];
+    if (k.kind !== 'cohesive') continue;
+    const t = s.tips.find((q) => q.active && q.crack === m.crack && q.v === m.v);
+    if (!t) { m.kink = null; continue; }
+    const [fx, fy] = faceKink(k.path, k.twins, g.coh.beta, wm.x, wm.y, s.uw, t, g.c.crack?.averagingRadius ?? 0) ?? [t.dx, t.dy];
+    const [gx, gy] = limitTurn(t.dx, t.dy, fx, fy, MAX_TURN);
+    m.kink = Math.atan2(gy, gx);
+  }
+  return out;
 }
 
 /** True once a crack has run from boundary to boundary (its last tip left the material). */

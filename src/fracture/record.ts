@@ -5,9 +5,11 @@ import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
 import { RunStopped } from '../errors.js';
+import { readDofs, type VertexDof } from '../solver/driven.js';
 import type { WorkMesh } from './workmesh.js';
 import type { Equations } from './equations.js';
 import type { Crack, CrackState, ProbeRow, StepRow, Tip } from './state.js';
+import type { TipRow } from './tips.js';
 
 export interface CohesiveSegment { x1: number; y1: number; x2: number; y2: number; damage: number }
 
@@ -19,7 +21,7 @@ export interface Snapshot {
   row: StepRow;
 }
 
-export interface StepEvent { row: StepRow; probes: ProbeRow[]; snapshot: () => Snapshot }
+export interface StepEvent { row: StepRow; probes: ProbeRow[]; tips: TipRow[]; snapshot: () => Snapshot }
 
 /** Whether the face pair of path vertex v has reached ft (a history beyond the intact branch). */
 export type Reached = (v: number) => boolean;
@@ -78,10 +80,14 @@ export interface RecordRoom {
   c: CaseModel; wm: WorkMesh; s: CrackState; eq: Equations; coh: CohesiveParams; D: Float64Array;
   /** The case has a gauge to read (its mouth opening goes into cmod_mm). */
   gauge: boolean;
+  /** The control gauge's opening weights (stable vertex ids). */
+  opening: readonly VertexDof[];
   /** Probe vertices (stable ids), in the order of c.probes. */
   probeVerts: readonly number[];
   /** Newton iterations since the last recorded step. */
   iterations: number;
+  /** The rows of tips.csv for this step (K and direction at every tip). */
+  tips: TipRow[];
 }
 
 /** The row, probes and snapshot of a converged step; the row goes into s.rows. Throws RunStopped on a non-finite value. */
@@ -89,7 +95,8 @@ export function recordStep(r: RecordRoom, step: number, control: number): StepEv
   const { c, wm, s, eq, coh } = r, sys = eq.sys;
   const en = eq.energies(coh);
   const F = sys.loadForce(eq.work.f);
-  const gauge = r.gauge ? sys.gaugeReading(eq.work.u) : null;
+  // the CMOD column is the control gauge's opening, also when the control reads its sliding
+  const gauge = r.gauge ? readDofs(r.opening, eq.work.u, eq.compact.compactOf) : null;
   const reached = reachedFt(eq, coh);
   const tip = s.tips.find((t) => s.cracks[t.crack]?.kind === 'cohesive') ?? s.tips[0];
   const front = tip ? frontVertex(s.cracks, tip, reached) : -1;
@@ -123,5 +130,5 @@ export function recordStep(r: RecordRoom, step: number, control: number): StepEv
     cracks: crackPolylines(s.cracks, wm),
     cohesive: cohesiveSegments(s.cracks, wm, coh, pairPlus, kap),
   });
-  return { row, probes, snapshot };
+  return { row, probes, tips: r.tips, snapshot };
 }

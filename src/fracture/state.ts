@@ -37,6 +37,12 @@ export interface CrackState {
   rows: StepRow[]; lastProbes: ProbeRow[];
   dofs: { initial: number; final: number; max: number };
   growthLog: GrowthEvent[];
+  /**
+   * What the last converged step did, for the predictor of the next one: the change of the
+   * displacements (stable ids) and of λ over its change of the case's control level; null
+   * when that step grew a crack or was driven by the crack opening.
+   */
+  trend?: { du: Float64Array; dLambda: number; dLevel: number } | null;
   /** Wall time spent in the equilibrium solves (ms). */
   solveTime: number;
 }
@@ -54,7 +60,7 @@ export function emptyState(vertices: number): CrackState {
   return {
     cracks: [], tips: [], kappa: new Map(),
     uw: new Float64Array(2 * vertices), lambda: 0, W: 0, lastF: 0, lastLambda: 0,
-    rows: [], lastProbes: [], dofs: { initial: 0, final: 0, max: 0 }, growthLog: [], solveTime: 0,
+    rows: [], lastProbes: [], dofs: { initial: 0, final: 0, max: 0 }, growthLog: [], trend: null, solveTime: 0,
   };
 }
 

@@ -89,6 +89,24 @@ function closed(r: Float64Array): [number, number][] {
   return out;
 }
 
+/** The point a distance `len` along the boundary ring from edge e at parameter t (backwards when len < 0). */
+export function walkBoundary(g: EdgeGrid, e: number, t: number, len: number): Vec2 {
+  const v = g.vx, ring = g.ringOf[e], r0 = g.ringStart[ring], r1 = g.ringStart[ring + 1];
+  const prev = (k: number) => (k === r0 ? r1 - 1 : k - 1);
+  let left = Math.abs(len);
+  for (let guard = 0; guard <= r1 - r0; guard++) {
+    const f = g.next[e], ex = v[2 * f] - v[2 * e], ey = v[2 * f + 1] - v[2 * e + 1], L = Math.hypot(ex, ey);
+    const room = len > 0 ? (1 - t) * L : t * L;
+    if (left <= room && L > 0) {
+      const tt = len > 0 ? t + left / L : t - left / L;
+      return [v[2 * e] + tt * ex, v[2 * e + 1] + tt * ey];
+    }
+    left -= room;
+    if (len > 0) { e = f; t = 0; } else { e = prev(e); t = 1; }
+  }
+  return [v[2 * e], v[2 * e + 1]];
+}
+
 export function buildDomain(c: CaseModel): Domain {
   const g = c.geometry;
   const outline0 = orientRing(flatRing(g.outline), true);
@@ -109,7 +127,11 @@ export function buildDomain(c: CaseModel): Domain {
       // a notch starting on the edge is extended outwards so the cut is clean
       const back = nearOutline(n.from) ? Math.max(n.width, 0.05 * L) : 0;
       cut.push([notchRect(n.from, n.to, n.width, back)]);
-    } else slits.push([[n.from[0], n.from[1]], [n.to[0], n.to[1]]]);
+    } else {
+      slits.push([[n.from[0], n.from[1]], [n.to[0], n.to[1]]]);
+      // a slit inside the material has a tip at each end
+      if (!nearOutline(n.from)) tips.push([n.from[0], n.from[1]]);
+    }
   }
 
   // points and strip ends, gathered before the rings so circles can be sized by them
@@ -122,6 +144,7 @@ export function buildDomain(c: CaseModel): Domain {
   }
   if (c.control.gauge) raw.push([...c.control.gauge.from] as Vec2, [...c.control.gauge.to] as Vec2);
   for (const p of c.probes) raw.push([p.at[0], p.at[1]]);
+  for (const g of c.gauges ?? []) raw.push([...g.from] as Vec2, [...g.to] as Vec2);
   for (const s of slits) raw.push([...s[0]] as Vec2, [...s[1]] as Vec2);
   for (const n of g.notches) if (n.width > 0) raw.push([n.to[0], n.to[1]]);
   for (const a of at) raw.push(a.p);
@@ -163,16 +186,14 @@ export function buildDomain(c: CaseModel): Domain {
   }
   const rings = [orientRing(flatRing(res[0][0]), true), ...res[0].slice(1).map(r => orientRing(flatRing(r), false))];
 
-  // strips of width > 0 run along the boundary edge that holds the point
+  // strips of width > 0 run along the boundary, w/2 either way from the point, round
+  // corners and curved outlines and holes alike (test rigs); their ends become vertices
   const grid0 = new EdgeGrid(rings);
   const o = [0, 0, 0];
   for (const a of at) {
     if (!(a.w > 0)) continue;
     grid0.nearest(a.p[0], a.p[1], o);
-    const e = o[1], f = grid0.next[e], v = grid0.vx;
-    const ex = v[2 * f] - v[2 * e], ey = v[2 * f + 1] - v[2 * e + 1], L = Math.hypot(ex, ey);
-    const t0 = Math.max(0, o[2] - a.w / 2 / L), t1 = Math.min(1, o[2] + a.w / 2 / L);
-    const s0: Vec2 = [v[2 * e] + t0 * ex, v[2 * e + 1] + t0 * ey], s1: Vec2 = [v[2 * e] + t1 * ex, v[2 * e + 1] + t1 * ey];
+    const s0 = walkBoundary(grid0, o[1], o[2], -a.w / 2), s1 = walkBoundary(grid0, o[1], o[2], a.w / 2);
     strips.push([s0, s1]);
     raw.push(s0, s1);
   }
@@ -180,7 +201,17 @@ export function buildDomain(c: CaseModel): Domain {
   // snap points that lie on the boundary into the rings; keep interior ones; refuse outside ones
   const points: Vec2[] = [];
   const inserts: { e: number; t: number; x: number; y: number }[] = [];
-  const seen = (p: Vec2) => points.some(q => Math.abs(q[0] - p[0]) <= tolOn && Math.abs(q[1] - p[1]) <= tolOn);
+  // a point within tolOn of one kept already is the same point: kept ones are bucketed by tolOn-sized cells
+  const buckets = new Map<string, Vec2[]>();
+  const cellOf = (v: number) => Math.floor(v / tolOn);
+  const seen = (p: Vec2) => {
+    const i0 = cellOf(p[0]), j0 = cellOf(p[1]);
+    for (let j = j0 - 1; j <= j0 + 1; j++) for (let i = i0 - 1; i <= i0 + 1; i++) {
+      if (buckets.get(`${i},${j}`)?.some(q => Math.abs(q[0] - p[0]) <= tolOn && Math.abs(q[1] - p[1]) <= tolOn)) return true;
+    }
+    return false;
+  };
+  const keep = (p: Vec2) => { const k = `${cellOf(p[0])},${cellOf(p[1])}`; const b = buckets.get(k); if (b) b.push(p); else buckets.set(k, [p]); points.push(p); };
   for (const p of raw) {
     grid0.nearest(p[0], p[1], o);
     const snapTol = Math.max(tolOn, 0.02 * h(p[0], p[1]));
@@ -199,7 +230,7 @@ export function buildDomain(c: CaseModel): Domain {
     }
     // strips and tips follow their snapped point
     for (const s of strips) for (const k of [0, 1]) if (s[k][0] === p[0] && s[k][1] === p[1]) s[k] = q;
-    if (!seen(q)) points.push(q);
+    if (!seen(q)) keep(q);
   }
   const outRings = rings.map((r, ri) => {
     const base = grid0.ringStart[ri], m = r.length >> 1;

@@ -74,6 +74,27 @@ export class EdgeGrid {
     this.fillStates();
   }
 
+  private rings: Int32Array | null = null;
+
+  /** For each cell, how many rings of cells around it hold no edge (Chebyshev distance to the nearest cell with edges). */
+  private emptyRings(): Int32Array {
+    if (this.rings) return this.rings;
+    const { nx, ny } = this, n = nx * ny, d = new Int32Array(n).fill(-1), queue = new Int32Array(n);
+    let head = 0, tail = 0;
+    for (let c = 0; c < n; c++) if (this.cellStart[c + 1] > this.cellStart[c]) { d[c] = 0; queue[tail++] = c; }
+    if (tail === 0) d.fill(0);
+    while (head < tail) {
+      const c = queue[head++], i = c % nx, j = (c - i) / nx;
+      for (let dj = -1; dj <= 1; dj++) for (let di = -1; di <= 1; di++) {
+        const a = i + di, b = j + dj;
+        if (a < 0 || a >= nx || b < 0 || b >= ny) continue;
+        const q = b * nx + a;
+        if (d[q] < 0) { d[q] = d[c] + 1; queue[tail++] = q; }
+      }
+    }
+    return (this.rings = d);
+  }
+
   /** Inside (1) or outside (0) for each grid cell with no edges; -1 where edges pass. */
   private state: Int8Array;
 
@@ -171,7 +192,9 @@ export class EdgeGrid {
     let best = Infinity, be = -1, bt = 0;
     const tt = [0];
     const maxR = Math.max(this.nx, this.ny) + Math.max(Math.abs(ci), Math.abs(cj)) + 1;
-    for (let r = 0; r <= maxR; r++) {
+    // rings nearer than the nearest cell with edges are empty: start at that one
+    const r0 = ci >= 0 && ci < this.nx && cj >= 0 && cj < this.ny ? this.emptyRings()[cj * this.nx + ci] : 0;
+    for (let r = r0; r <= maxR; r++) {
       // cells on ring r are at least (r-1)*cs away
       const lim = (r - 1) * this.cs;
       if (lim > 0 && lim * lim > best) break;

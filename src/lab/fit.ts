@@ -286,6 +286,7 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   const params = [...new Set(opt.params ?? FIT_PARAMS)];
   if (params.length === 0) throw new InputError('--params names no parameter: choose from E, ft, GF');
   if (!c.crack && (params.includes('ft') || params.includes('GF'))) throw new InputError('the case has no crack section, so only E can be fitted (--params E)');
+  if (c.crack?.model === 'lefm' && (params.includes('ft') || params.includes('GF'))) throw new InputError('crack.model lefm does not use ft or GF, so only E can be fitted (--params E)');
   const maxEvals = opt.maxEvals ?? 80;
   if (!(Number.isInteger(maxEvals) && maxEvals >= 1)) throw new InputError(`--max-evals must be a whole number of simulations, 1 or more (found ${maxEvals})`);
   if (opt.increments !== undefined && !(Number.isInteger(opt.increments) && opt.increments >= 2 && opt.increments <= 5000)) {

@@ -4,6 +4,7 @@ import { isMainThread, parentPort } from 'node:worker_threads';
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { Analysis } from '../fracture/analysis.js';
+import { LefmAnalysis } from '../fracture/lefm.js';
 
 /** The curve of one simulation, as plain arrays (they cross the thread boundary). */
 export interface SimCurve {
@@ -28,7 +29,7 @@ export async function simulateCurve(c: CaseModel, mesh: PolyMesh, timeLimit_s = 
   const L: number[] = [], D: number[] = [], C: number[] = [];
   let gauge = true, late = false;
   try {
-    const a = new Analysis(c, mesh);
+    const a = c.crack?.model === 'lefm' ? new LefmAnalysis(c, mesh) : new Analysis(c, mesh);
     if (Number.isFinite(timeLimit_s)) a.stopRequested = () => (late = late || performance.now() - t0 > 1000 * timeLimit_s);
     const r = await a.run((e) => {
       L.push(e.row.load_N); D.push(e.row.displacement_mm);

@@ -2,7 +2,7 @@
 // them: header and comment lines, comma/semicolon/tab/space separators, decimal commas,
 // units in the header. Values come out in mm and N, in the order of the test.
 
-import { readFileSync } from 'node:fs';
+import { readFileBytes } from '../io/read.js';
 import { basename } from 'node:path';
 import { InputError } from '../errors.js';
 
@@ -423,16 +423,14 @@ export function parseLabCurve(text: string, name: string, opts: LabColumns = {})
   };
 }
 
+/** Largest lab curve read (far more than a testing machine's export of one fracture test). */
+export const MAX_LAB_BYTES = 64 * 1024 * 1024;
+
 /** Read a measured curve from a file (UTF-8; Latin-1 if it is not valid UTF-8). */
 export function readLabCurve(path: string, opts: LabColumns = {}): LabCurve {
   const name = basename(path);
-  let buf: Buffer;
-  try {
-    buf = readFileSync(path);
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new InputError(`cannot read the lab curve ${path}: ${code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : String((e as Error).message)}`);
-  }
+  // regular files only, never a pipe or device, and a size cap stated in the refusal
+  const buf = readFileBytes(path, 'the lab curve', MAX_LAB_BYTES);
   let text = buf.toString('utf8');
   const latin1 = text.includes('\uFFFD');
   if (latin1) text = buf.toString('latin1');

@@ -14,6 +14,8 @@ export interface Factor {
   negativePivots: number;
   /** x = A⁻¹ b; allocates only when x is not given. */
   solve(b: Float64Array, x?: Float64Array): Float64Array;
+  /** x1 = A⁻¹ b1 and x2 = A⁻¹ b2 in one sweep over L (each result as solve would give it). */
+  solve2(b1: Float64Array, b2: Float64Array, x1: Float64Array, x2: Float64Array): void;
 }
 
 /** Pivots smaller than this times the largest diagonal entry of A count as zero. */
@@ -27,8 +29,11 @@ class SupernodalFactor implements Factor {
   readonly d: Float64Array;
   readonly stack: Float64Array;
   readonly work: Float64Array;
+  readonly work2: Float64Array;
   readonly childPos: Int32Array;
   readonly stacked: Int32Array;
+  /** Where a trailing refactorization starts from (factorizeTrailing), or null. */
+  mark: SweepMark | null = null;
 
   constructor(readonly sym: Symbolic) {
     this.n = sym.n;
@@ -38,6 +43,7 @@ class SupernodalFactor implements Factor {
     if (sym.stackSize >= 2 ** 31) throw new RangeError(`the update stack would need ${sym.stackSize} entries, more than this solver can index`);
     this.stack = new Float64Array(Math.max(1, sym.stackSize));
     this.work = new Float64Array(sym.n);
+    this.work2 = new Float64Array(sym.n);
     this.childPos = new Int32Array(sym.nsuper);
     this.stacked = new Int32Array(sym.nsuper);
   }
@@ -86,20 +92,104 @@ class SupernodalFactor implements Factor {
     for (let i = 0; i < n; i++) out[perm[i]] = y[i];
     return out;
   }
+
+  solve2(b1: Float64Array, b2: Float64Array, x1: Float64Array, x2: Float64Array): void {
+    const sym = this.sym;
+    const n = this.n;
+    if (b1.length < n || b2.length < n) throw new RangeError(`right-hand sides have ${b1.length} and ${b2.length} entries for ${n} equations`);
+    const y = this.work, z = this.work2;
+    const { perm, superStart, rowPtr, rowIdx, lPtr, nsuper } = sym;
+    const lx = this.lx;
+    const d = this.d;
+    for (let i = 0; i < n; i++) { y[i] = b1[perm[i]]; z[i] = b2[perm[i]]; }
+    // forward: L y = b, the same operations as solve for each right-hand side
+    for (let s = 0; s < nsuper; s++) {
+      const f = superStart[s];
+      const k = superStart[s + 1] - f;
+      const r0 = rowPtr[s];
+      const m = rowPtr[s + 1] - r0;
+      const lp = lPtr[s];
+      for (let j = 0; j < k; j++) {
+        const yj = y[f + j], zj = z[f + j];
+        const cb = lp + j * m;
+        if (yj !== 0 && zj !== 0) {
+          for (let i = j + 1; i < k; i++) { const l = lx[cb + i]; y[f + i] -= l * yj; z[f + i] -= l * zj; }
+          for (let i = k; i < m; i++) { const l = lx[cb + i], q = rowIdx[r0 + i]; y[q] -= l * yj; z[q] -= l * zj; }
+        } else if (yj !== 0) {
+          for (let i = j + 1; i < k; i++) y[f + i] -= lx[cb + i] * yj;
+          for (let i = k; i < m; i++) y[rowIdx[r0 + i]] -= lx[cb + i] * yj;
+        } else if (zj !== 0) {
+          for (let i = j + 1; i < k; i++) z[f + i] -= lx[cb + i] * zj;
+          for (let i = k; i < m; i++) z[rowIdx[r0 + i]] -= lx[cb + i] * zj;
+        }
+      }
+    }
+    for (let i = 0; i < n; i++) { y[i] /= d[i]; z[i] /= d[i]; }
+    // backward: Lᵀ x = y
+    for (let s = nsuper - 1; s >= 0; s--) {
+      const f = superStart[s];
+      const k = superStart[s + 1] - f;
+      const r0 = rowPtr[s];
+      const m = rowPtr[s + 1] - r0;
+      const lp = lPtr[s];
+      for (let j = k - 1; j >= 0; j--) {
+        const cb = lp + j * m;
+        let t = y[f + j], u = z[f + j];
+        for (let i = j + 1; i < k; i++) { const l = lx[cb + i]; t -= l * y[f + i]; u -= l * z[f + i]; }
+        for (let i = k; i < m; i++) { const l = lx[cb + i], q = rowIdx[r0 + i]; t -= l * y[q]; u -= l * z[q]; }
+        y[f + j] = t; z[f + j] = u;
+      }
+    }
+    for (let i = 0; i < n; i++) { x1[perm[i]] = y[i]; x2[perm[i]] = z[i]; }
+  }
 }
 
 /** Numeric LDLᵀ of A on the analysed pattern; refactorizes into reuse's storage when it was made with the same analysis. */
 export function factorize(A: CsrMatrix, sym: Symbolic, reuse?: Factor): Factor {
-  if (A.n !== sym.n || A.colIdx.length !== sym.nnzA) {
-    throw new RangeError(`matrix (order ${A.n}, ${A.colIdx.length} entries) does not match the analysed pattern (order ${sym.n}, ${sym.nnzA} entries)`);
-  }
+  checkPattern(A, sym);
   const F = reuse instanceof SupernodalFactor && reuse.sym === sym ? reuse : new SupernodalFactor(sym);
-  numeric(A, sym, F);
+  F.mark = null;
+  numeric(A, sym, F, null);
   return F;
 }
 
-/** Multifrontal sweep in postorder: assemble A, extend-add the children, factor the panel, push the Schur complement. */
-function numeric(A: CsrMatrix, sym: Symbolic, F: SupernodalFactor): void {
+/**
+ * LDLᵀ of A when only entries in columns ≥ firstCol (the new numbering) change between calls:
+ * the multifrontal sweep up to the supernode holding firstCol is kept from the first call
+ * (its L, D and the update matrices then waiting on the stack), and later calls with reuse
+ * redo only the trailing supernodes. The caller guarantees the rest of A is unchanged.
+ */
+export function factorizeTrailing(A: CsrMatrix, sym: Symbolic, firstCol: number, reuse?: Factor): Factor {
+  checkPattern(A, sym);
+  const F = reuse instanceof SupernodalFactor && reuse.sym === sym ? reuse : new SupernodalFactor(sym);
+  let s0 = 0;
+  while (s0 < sym.nsuper && sym.superStart[s0 + 1] <= firstCol) s0++;
+  if (F.mark && F.mark.s0 === s0) numeric(A, sym, F, F.mark);
+  else { F.mark = null; numeric(A, sym, F, s0); }
+  return F;
+}
+
+function checkPattern(A: CsrMatrix, sym: Symbolic): void {
+  if (A.n !== sym.n || A.colIdx.length !== sym.nnzA) {
+    throw new RangeError(`matrix (order ${A.n}, ${A.colIdx.length} entries) does not match the analysed pattern (order ${sym.n}, ${sym.nnzA} entries)`);
+  }
+}
+
+/** The multifrontal sweep's state on reaching supernode s0: what a trailing refactorization starts from. */
+interface SweepMark {
+  s0: number;
+  /** Entries of A that land in the trailing supernodes' L blocks. */
+  trailingA: Int32Array;
+  stack: Float64Array; onStack: Int32Array; childPos: Int32Array;
+  top: number; nStacked: number; negatives: number;
+}
+
+/**
+ * Multifrontal sweep in postorder: assemble A, extend-add the children, factor the panel, push the
+ * Schur complement. `from` null: the whole sweep; a number s0: the whole sweep, keeping its state at
+ * s0 in F.mark; a mark: only the supernodes from the mark's s0 on, starting from its state.
+ */
+function numeric(A: CsrMatrix, sym: Symbolic, F: SupernodalFactor, from: number | SweepMark | null): void {
   const n = sym.n;
   const { superStart, superParent, rowPtr, lPtr, relPtr, relIdx, aMap, perm, nsuper } = sym;
   const lx = F.lx;
@@ -120,17 +210,37 @@ function numeric(A: CsrMatrix, sym: Symbolic, F: SupernodalFactor): void {
   }
   const tiny = PIVOT_TOLERANCE * maxDiag;
 
-  lx.fill(0);
-  for (let q = 0; q < aMap.length; q++) {
-    const t = aMap[q];
-    if (t >= 0) lx[t] += av[q];
-  }
-
   let top = 0;
   let negatives = 0;
   const onStack = F.stacked; // supernodes whose update matrices wait on the stack, bottom first
   let nStacked = 0;
-  for (let s = 0; s < nsuper; s++) {
+  let sStart = 0;
+  if (from !== null && typeof from !== 'number') {
+    // trailing supernodes only: their A entries afresh, the stack as it was on reaching them
+    const t = from.trailingA;
+    lx.fill(0, lPtr[from.s0]);
+    for (let i = 0; i < t.length; i++) lx[aMap[t[i]]] += av[t[i]];
+    stack.set(from.stack);
+    onStack.set(from.onStack);
+    childPos.set(from.childPos);
+    top = from.top; nStacked = from.nStacked; negatives = from.negatives; sStart = from.s0;
+  } else {
+    lx.fill(0);
+    for (let q = 0; q < aMap.length; q++) {
+      const t = aMap[q];
+      if (t >= 0) lx[t] += av[q];
+    }
+  }
+
+  for (let s = sStart; s < nsuper; s++) {
+    if (s === from) {
+      const lp0 = lPtr[s], trailing: number[] = [];
+      for (let q = 0; q < aMap.length; q++) if (aMap[q] >= lp0) trailing.push(q);
+      F.mark = {
+        s0: s, trailingA: Int32Array.from(trailing), stack: stack.slice(0, top), onStack: onStack.slice(),
+        childPos: childPos.slice(), top, nStacked, negatives,
+      };
+    }
     const f = superStart[s];
     const k = superStart[s + 1] - f;
     const m = rowPtr[s + 1] - rowPtr[s];

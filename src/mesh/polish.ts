@@ -327,21 +327,87 @@ export function insertHangingNodes(w: WorkMesh, d: Domain, tol: number): number 
 /** Exact named points: snap the vertex within tol (pinned thereafter), else move the nearest free interior vertex within reach; returns the points missed. */
 export function pinPoints(w: WorkMesh, pts: Vec2[], tol: number, reach: (x: number, y: number) => number): Vec2[] {
   const vc = vertexCells(w), { x, y } = w, missed: Vec2[] = [];
-  const nv = x.length, bnd = boundaryVertices(w);
+  const bnd = boundaryVertices(w);
+  if (pts.length === 0) return missed;
+  const grid = new VertexGrid(w, vc);
+  const usable = (v: number, dd: number) => dd <= tol || (!w.pinned[v] && !bnd[v]);
   for (const p of pts) {
-    let best = -1, bd = Infinity;
-    for (let v = 0; v < nv; v++) {
-      if (!vc[v].length) continue;
-      const dd = Math.hypot(x[v] - p[0], y[v] - p[1]);
-      if (dd < bd && (dd <= tol || (!w.pinned[v] && !bnd[v]))) { bd = dd; best = v; }
-    }
+    const [best, bd] = grid.nearest(p[0], p[1], usable);
     if (best < 0 || bd > reach(p[0], p[1])) { missed.push(p); continue; }
     const ox = x[best], oy = y[best];
     x[best] = p[0]; y[best] = p[1];
     if (bd > tol && vc[best].some(ci => !(polyArea(w, w.cells[ci]) > 0) || !simpleAt(w, w.cells[ci], best))) { x[best] = ox; y[best] = oy; missed.push(p); continue; }
+    grid.moved(best, ox, oy);
     w.pinned[best] = 1;
   }
   return missed;
+}
+
+/**
+ * Live vertices in a uniform grid, for the nearest vertex that passes a test: rings of cells
+ * are searched outward until no unsearched vertex can be nearer, so the answer (ties to the
+ * lowest id) is the one a scan over all vertices gives, in time that does not grow with their number.
+ */
+class VertexGrid {
+  private readonly x0: number; private readonly y0: number; private readonly cs: number;
+  private readonly nx: number; private readonly ny: number;
+  private readonly cells: number[][];
+
+  constructor(private readonly w: WorkMesh, vc: number[][]) {
+    const { x, y } = w;
+    let xmin = Infinity, ymin = Infinity, xmax = -Infinity, ymax = -Infinity, n = 0;
+    for (let v = 0; v < x.length; v++) {
+      if (!vc[v].length) continue;
+      n++;
+      xmin = Math.min(xmin, x[v]); xmax = Math.max(xmax, x[v]); ymin = Math.min(ymin, y[v]); ymax = Math.max(ymax, y[v]);
+    }
+    const ext = Math.max(xmax - xmin, ymax - ymin, 1e-300);
+    this.cs = ext / Math.max(1, Math.ceil(Math.sqrt(n / 2)));
+    this.x0 = xmin; this.y0 = ymin;
+    this.nx = Math.max(1, Math.ceil((xmax - xmin) / this.cs) + 1);
+    this.ny = Math.max(1, Math.ceil((ymax - ymin) / this.cs) + 1);
+    this.cells = Array.from({ length: this.nx * this.ny }, () => []);
+    for (let v = 0; v < x.length; v++) if (vc[v].length) this.cells[this.at(x[v], y[v])].push(v);
+  }
+
+  private ix(x: number): number { return Math.min(this.nx - 1, Math.max(0, Math.floor((x - this.x0) / this.cs))); }
+  private iy(y: number): number { return Math.min(this.ny - 1, Math.max(0, Math.floor((y - this.y0) / this.cs))); }
+  private at(x: number, y: number): number { return this.iy(y) * this.nx + this.ix(x); }
+
+  /** A vertex moved from (ox, oy) to its current place. */
+  moved(v: number, ox: number, oy: number): void {
+    const from = this.at(ox, oy), to = this.at(this.w.x[v], this.w.y[v]);
+    if (from === to) return;
+    const list = this.cells[from];
+    list.splice(list.indexOf(v), 1);
+    this.cells[to].push(v);
+  }
+
+  nearest(px: number, py: number, ok: (v: number, dd: number) => boolean): [number, number] {
+    const { x, y } = this.w;
+    const ci = this.ix(px), cj = this.iy(py);
+    // distance from p to the edge of the searched square, below which nothing outside can lie
+    const inner = Math.min(px - (this.x0 + ci * this.cs), this.x0 + (ci + 1) * this.cs - px, py - (this.y0 + cj * this.cs), this.y0 + (cj + 1) * this.cs - py);
+    let best = -1, bd = Infinity;
+    const maxR = Math.max(ci, this.nx - 1 - ci, cj, this.ny - 1 - cj);
+    for (let r = 0; r <= maxR; r++) {
+      for (let j = cj - r; j <= cj + r; j++) {
+        if (j < 0 || j >= this.ny) continue;
+        const edge = j === cj - r || j === cj + r;
+        for (let i = ci - r; i <= ci + r; i += edge ? 1 : 2 * r) {
+          if (i >= 0 && i < this.nx) {
+            for (const v of this.cells[j * this.nx + i]) {
+              const dd = Math.hypot(x[v] - px, y[v] - py);
+              if ((dd < bd || (dd === bd && v < best)) && ok(v, dd)) { bd = dd; best = v; }
+            }
+          }
+          if (r === 0) break;
+        }
+      }
+      if (bd < Math.max(0, inner) + r * this.cs) break;
+    }
+    return [best, bd];
+  }
 }
 
 function hilbert(xi: number, yi: number): number {

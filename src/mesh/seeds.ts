@@ -5,6 +5,7 @@ import type { Domain } from '../geometry/domain.js';
 import { domainGrid, distanceToBoundary, domainExtent } from '../geometry/domain.js';
 import { InputError } from '../errors.js';
 import { CellClipper, LoopSink } from './clip.js';
+import { DiscGrid, PointGrid } from './pointgrid.js';
 import { prng } from './prng.js';
 import { clipToBox, VoronoiCells } from './voronoi.js';
 
@@ -41,18 +42,18 @@ export function placeSeeds(d: Domain, s: MeshSettings, h: (x: number, y: number)
   const tolOn = 1e-7 * ext;
   // interior named points become Voronoi vertices of three fixed seeds on a circle around them
   const inner = d.points.filter(p => grid.contains(p[0], p[1]) && distanceToBoundary(d, p[0], p[1]) > tolOn);
+  const ix = Float64Array.from(inner, (p) => p[0]), iy = Float64Array.from(inner, (p) => p[1]);
+  const others = new PointGrid(ix, iy);
   const rad = inner.map((p, i) => {
-    let r = Math.min(0.8 * h(p[0], p[1]), 0.6 * distanceToBoundary(d, p[0], p[1]));
-    inner.forEach((q, j) => { if (j !== i) r = Math.min(r, 0.45 * Math.hypot(p[0] - q[0], p[1] - q[1])); });
-    return r;
+    const r = Math.min(0.8 * h(p[0], p[1]), 0.6 * distanceToBoundary(d, p[0], p[1]));
+    // the nearest other named point (0.45·d grows with d, so its minimum is the scan's)
+    return Math.min(r, 0.45 * others.nearest(p[0], p[1], (j) => (j === i ? Infinity : Math.hypot(p[0] - inner[j][0], p[1] - inner[j][1]))));
   });
-  const excluded = (x: number, y: number): boolean => {
-    for (let i = 0; i < inner.length; i++) {
-      const r = 1.15 * rad[i];
-      if ((x - inner[i][0]) ** 2 + (y - inner[i][1]) ** 2 < r * r) return true;
-    }
-    return false;
-  };
+  const guard = new DiscGrid(ix, iy, Float64Array.from(rad, (r) => 1.15 * r));
+  const excluded = (x: number, y: number): boolean => guard.some(x, y, (i) => {
+    const r = 1.15 * rad[i];
+    return (x - inner[i][0]) ** 2 + (y - inner[i][1]) ** 2 < r * r;
+  });
   const xs: number[] = [];
   const pins: SeedSet['pins'] = [];
   inner.forEach((p, i) => {

@@ -1,6 +1,7 @@
 // Target cell size h(x, y): tipSize near tips, finer near named points, growing linearly to size.
 
 import type { MeshSettings, Vec2 } from '../case/model.js';
+import { PointGrid } from './pointgrid.js';
 
 /** Growth of h per unit distance; neighbouring cells then differ by about 1.3×. */
 export const GRADING = 0.3;
@@ -13,6 +14,8 @@ export function makeSizeField(s: MeshSettings, tips: Vec2[], extra: Vec2[] = [],
   const px = Float64Array.from(extra.map(p => p[0])), py = Float64Array.from(extra.map(p => p[1]));
   const sg = Float64Array.from(segments.flatMap(([a, b]) => [a[0], a[1], b[0], b[1]]));
   const nt = tx.length, np = px.length, ns = sg.length >> 2;
+  // many named points: the nearest one from a grid (the same value as the scan: hp + G·d grows with d)
+  const near = np > 16 ? new PointGrid(px, py) : null;
   return (x: number, y: number): number => {
     let h = H;
     for (let i = 0; i < nt; i++) {
@@ -20,9 +23,14 @@ export function makeSizeField(s: MeshSettings, tips: Vec2[], extra: Vec2[] = [],
       const v = d <= R ? h0 : h0 + GRADING * (d - R);
       if (v < h) h = v;
     }
-    for (let i = 0; i < np; i++) {
-      const v = hp + GRADING * Math.sqrt((x - px[i]) ** 2 + (y - py[i]) ** 2);
+    if (near) {
+      const v = hp + GRADING * near.nearest(x, y, (i) => Math.sqrt((x - px[i]) ** 2 + (y - py[i]) ** 2));
       if (v < h) h = v;
+    } else {
+      for (let i = 0; i < np; i++) {
+        const v = hp + GRADING * Math.sqrt((x - px[i]) ** 2 + (y - py[i]) ** 2);
+        if (v < h) h = v;
+      }
     }
     for (let i = 0; i < ns; i++) {
       const ax = sg[4 * i], ay = sg[4 * i + 1], dx = sg[4 * i + 2] - ax, dy = sg[4 * i + 3] - ay;

@@ -19,6 +19,8 @@ export interface FieldPicture {
   /** Two per vertex, mm. */
   displacement?: Float64Array;
   magnification?: number;
+  /** Model box [x0, y0, x1, y1] (mm) the picture shows; fixed for a series so every frame has one size. Default: the undeformed and deformed shapes. */
+  view?: [number, number, number, number];
   showMesh?: boolean;
   cracks?: { points: [number, number][]; kind: 'notch' | 'crack' }[];
   cohesive?: { x1: number; y1: number; x2: number; y2: number; damage: number }[];
@@ -58,7 +60,7 @@ export function autoMagnification(mesh: PolyMesh, displacement: Float64Array): n
   return Math.max(1, roundDown125((0.06 * Math.max(x1 - x0, y1 - y0)) / umax));
 }
 
-function bbox(xy: ArrayLike<number>): [number, number, number, number] {
+export function bbox(xy: ArrayLike<number>): [number, number, number, number] {
   let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
   for (let i = 0; i + 1 < xy.length; i += 2) {
     const x = xy[i], y = xy[i + 1];
@@ -217,7 +219,7 @@ export function fieldSvg(p: FieldPicture): string {
   const move = p.displacement ? pointMover(mesh, p.displacement, mag) : (x: number, y: number): [number, number] => [x, y];
 
   const bU = bbox(mesh.xy), bD = bbox(pos);
-  const bx0 = Math.min(bU[0], bD[0]), by0 = Math.min(bU[1], bD[1]), bx1 = Math.max(bU[2], bD[2]), by1 = Math.max(bU[3], bD[3]);
+  const [bx0, by0, bx1, by1] = p.view ?? [Math.min(bU[0], bD[0]), Math.min(bU[1], bD[1]), Math.max(bU[2], bD[2]), Math.max(bU[3], bD[3])];
   const bw = Math.max(bx1 - bx0, 1e-9), bh = Math.max(by1 - by0, 1e-9);
   const midX = (bU[0] + bU[2]) / 2, midY = (bU[1] + bU[3]) / 2;
 

@@ -11,4 +11,5 @@ export { plotPanelsSvg } from './plot.js';
 export { curveInsetSvg, type CurveInset } from './inset.js';
 export { writeReport, reportHtml, CAUTION } from './report.js';
 export { vtuText, pvdText, VtkSeries } from './vtk.js';
-export { RunFiles, curveSvg, summaryOf, workOfFractureEstimate, CURVE_HEADER, PROBE_HEADER } from './runfiles.js';
+export { RunFiles, curveSvg, summaryOf, CURVE_HEADER, PROBE_HEADER } from './runfiles.js';
+export { curvePeaks, runWarnings, workOfFractureEstimate, bulkOverstress } from './warnings.js';

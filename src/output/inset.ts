@@ -4,7 +4,7 @@ import { el, layer, n, n1, text } from './svg.js';
 import { formatTicks, niceAxis } from './ticks.js';
 
 export interface CurveInset {
-  /** Opening (mm) and load (N) of every step so far. */
+  /** Opening (mm) and load (N) of every step of the run (the axes span them all). */
   x: ArrayLike<number>;
   y: ArrayLike<number>;
   /** Index of the state the frame shows (default: the last point). */
@@ -55,15 +55,22 @@ export function curveInsetSvg(p: CurveInset, x0: number, y0: number, w: number, 
   g.push(text((left + right) / 2, y0 + h - 8 * u, p.xLabel, { 'font-size': fs, 'text-anchor': 'middle', fill: INK, class: 'x-label' }));
   g.push(text(0, 0, p.yLabel, { 'font-size': fs, 'text-anchor': 'middle', fill: INK, class: 'y-label', transform: `translate(${n(x0 + 8 * u + fs * 0.5)} ${n((top + bottom) / 2)}) rotate(-90)` }));
 
-  let d = '', pen = false;
-  for (let i = 0; i < m; i++) {
-    if (!Number.isFinite(p.x[i]) || !Number.isFinite(p.y[i])) { pen = false; continue; }
-    d += (pen ? 'L' : 'M') + n1(X(p.x[i])) + ' ' + n1(Y(p.y[i]));
-    pen = true;
-  }
+  // the whole run faint, the part up to this state strong: the axes and the curve stay put from frame to frame
+  const k = Math.min(m - 1, p.current ?? m - 1);
+  const line = (from: number, to: number): string => {
+    let d = '', pen = false;
+    for (let i = from; i < to; i++) {
+      if (!Number.isFinite(p.x[i]) || !Number.isFinite(p.y[i])) { pen = false; continue; }
+      d += (pen ? 'L' : 'M') + n1(X(p.x[i])) + ' ' + n1(Y(p.y[i]));
+      pen = true;
+    }
+    return d;
+  };
+  const rest = k < m - 1 ? line(Math.max(0, k), m) : '';
+  if (rest) g.push(el('path', { d: rest, fill: 'none', stroke: '#b9c3cf', 'stroke-width': 1.4 * u, 'stroke-linejoin': 'round', class: 'inset-rest' }));
+  const d = line(0, k + 1);
   if (d) g.push(el('path', { d, fill: 'none', stroke: LINE, 'stroke-width': 1.8 * u, 'stroke-linejoin': 'round', class: 'inset-curve' }));
 
-  const k = Math.min(m - 1, p.current ?? m - 1);
   if (k >= 0 && Number.isFinite(p.x[k]) && Number.isFinite(p.y[k])) {
     const cx = X(p.x[k]), cy = Y(p.y[k]);
     g.push(el('path', { d: `M${n1(cx)} ${n1(bottom)}V${n1(cy)}M${n1(left)} ${n1(cy)}H${n1(cx)}`, stroke: NOW, 'stroke-width': 0.9 * u, 'stroke-dasharray': `${n(3 * u)} ${n(2.5 * u)}`, fill: 'none' }));

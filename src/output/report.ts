@@ -1,7 +1,8 @@
-// report.html: one self-contained page per run (inline SVG and embedded PNG, no scripts, no
-// network) with the model, the curve, the results table, a strip of frames and the cautions.
+// report.html: one self-contained page per run (inline SVG and embedded PNG, no network) with the
+// results, the curve, the frames to step through (a small inline script), the model and the cautions.
 
 import { existsSync, readFileSync } from 'node:fs';
+import { dirname } from 'node:path';
 import sharp, { type Sharp } from 'sharp';
 import type { CaseModel, Vec2 } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
@@ -12,17 +13,21 @@ import { characteristicLength } from '../case/describe.js';
 import { writeFileAtomic } from './files.js';
 import { esc } from './svg.js';
 import { formatValue } from './ticks.js';
-import { pickFrames, svgWidth } from './png.js';
+import { pickFrames, pngDataUri, svgWidth } from './png.js';
 
-/** A frame written during the run. */
-export interface FrameFile { step: number; svg?: string; png?: string }
+import { STEPPER_WIDTH, type FrameFile, type RunCaseFile } from './frames.js';
+import { stepperHtml, type StepperFrame } from './stepper.js';
+import { labSections } from './labsections.js';
+export type { FrameFile };
 
-export interface WorkOfFracture { W_Nmm: number; ligamentArea_mm2: number; GF_Nmm: number; note: string }
+import { curvePeaks, wedgeRatio, type WorkOfFracture } from './warnings.js';
+export type { WorkOfFracture };
 
 export interface ReportInput {
   c: CaseModel;
   result: AnalysisResult;
-  initialMesh: PolyMesh;
+  /** The mesh the run started from, or its counts. */
+  initialMesh: PolyMesh | { polygons: number; vertices: number };
   frames: FrameFile[];
   /** The curve picture (SVG text), or null for a run of one step. */
   curveSvg: string | null;
@@ -32,6 +37,10 @@ export interface ReportInput {
   meshSvg?: string | null;
   timings: { mesh: number; solve: number; total: number };
   workOfFracture: WorkOfFracture | null;
+  /** The rupta that ran the case and the case file's hash (case.json of the run folder). */
+  run?: Pick<RunCaseFile, 'rupta' | 'caseHash'>;
+  /** One sentence per way the run is not physical (summary.json's warnings). */
+  warnings?: string[];
   generatedAt?: Date;
   /** Thumbnails in the strip (default 6). */
   thumbnails?: number;
@@ -40,11 +49,16 @@ export interface ReportInput {
 /** What reportHtml needs once the pictures are embedded. */
 export interface ReportData extends Omit<ReportInput, 'frames' | 'finalSvg' | 'thumbnails' | 'meshSvg'> {
   strip: { step: number; caption: string; src: string }[];
+  /** The section that steps through every frame (with two frames or more); it takes the place of the strip and the last frame. */
+  stepper?: string;
+  /** Sections for the comparisons and fits found in the run folder (HTML). */
+  lab?: string;
   /** data: URI of the final picture. */
   finalPicture?: string;
   /** The mesh picture: SVG text to inline, or a data: URI when the SVG is too large to inline. */
   meshPicture?: string;
 }
+
 
 /** Above this size an SVG picture goes into the page as PNG. */
 const INLINE_SVG_MAX = 400_000;
@@ -53,6 +67,21 @@ export const CAUTION = 'predictions are model results that support, never replac
 
 /** Write report.html, embedding thumbnails of the chosen frames. */
 export async function writeReport(path: string, input: ReportInput): Promise<void> {
+  const lab = await labSections(dirname(path), (png) => pngDataUri(sharp(png)));
+  if (input.frames.length >= 2) {
+    // every frame, at a width that keeps the page small; the slider shows the last one first
+    const shown: StepperFrame[] = [];
+    for (const f of input.frames) {
+      const src = f.thumb ?? (f.png && existsSync(f.png) ? pngFileUri(readFileSync(f.png)) : null) ?? await thumbnail(f, STEPPER_WIDTH);
+      if (src) shown.push({ step: f.step, src, caption: frameCaption(input.result.rows.find((r) => r.step === f.step)) });
+    }
+    if (shown.length >= 2) {
+      let meshPicture: string | undefined;
+      if (input.meshSvg) meshPicture = input.meshSvg.length <= INLINE_SVG_MAX ? input.meshSvg : await pngDataUri(svgRaster(Buffer.from(input.meshSvg), 1100));
+      writeFileAtomic(path, reportHtml({ ...input, strip: [], stepper: stepperHtml(shown, input.result.rows), meshPicture, lab }));
+      return;
+    }
+  }
   const strip: ReportData['strip'] = [];
   for (const f of chooseFrames(input.frames, input.result, input.thumbnails ?? 6)) {
     const src = await thumbnail(f, 480);
@@ -68,7 +97,7 @@ export async function writeReport(path: string, input: ReportInput): Promise<voi
     meshPicture = input.meshSvg.length <= INLINE_SVG_MAX ? input.meshSvg
       : await pngDataUri(svgRaster(Buffer.from(input.meshSvg), 1100));
   }
-  writeFileAtomic(path, reportHtml({ ...input, strip, finalPicture, meshPicture }));
+  writeFileAtomic(path, reportHtml({ ...input, strip, finalPicture, meshPicture, lab }));
 }
 
 /** Frames for the strip: evenly spaced from first to last, with the one nearest the peak. */
@@ -78,7 +107,8 @@ export function chooseFrames(frames: FrameFile[], result: AnalysisResult, count:
   if (frames.length > count && frames[0].step === 0) frames = frames.slice(1);
   const pick = new Set(pickFrames(frames.length, Math.max(1, count - 1)));
   let near = 0;
-  for (let i = 1; i < frames.length; i++) if (Math.abs(frames[i].step - result.peak.step) < Math.abs(frames[near].step - result.peak.step)) near = i;
+  const ps = result.peak.step;
+  for (let i = 1; i < frames.length; i++) if (Math.abs(frames[i].step - ps) < Math.abs(frames[near].step - ps)) near = i;
   pick.add(near);
   return [...pick].sort((a, b) => a - b).map((i) => frames[i]);
 }
@@ -96,16 +126,10 @@ async function thumbnail(f: FrameFile, width: number): Promise<string | null> {
   return null;
 }
 
-/** A PNG data URI whose text never contains "http", so the page can be checked for outside addresses by a plain search. */
-async function pngDataUri(img: Sharp): Promise<string> {
-  const flat = img.flatten({ background: '#ffffff' });
-  let b64 = '';
-  for (let level = 9; level >= 0; level--) {
-    // palette PNG: these pictures have few colours, so it is much smaller at no visible cost
-    b64 = (await flat.clone().png({ palette: true, quality: 95, compressionLevel: level, effort: 8 }).toBuffer()).toString('base64');
-    if (!b64.includes('http')) break;
-  }
-  return `data:image/png;base64,${b64}`;
+/** A PNG file's bytes as a data URI, or null when its text would contain "http" (then it is encoded again). */
+function pngFileUri(png: Buffer): string | null {
+  const uri = `data:image/png;base64,${png.toString('base64')}`;
+  return uri.includes('http') ? null : uri;
 }
 
 /** Short text under a thumbnail. */
@@ -203,24 +227,27 @@ function modelTables(d: ReportData): string {
   mat += row('Characteristic length l<sub>ch</sub> = E·G<sub>F</sub>/f<sub>t</sub>²', `${sig(lch)} mm`, 'lch');
 
   const im = d.initialMesh;
+  const counts = 'xy' in im ? { polygons: cellCount(im), vertices: vertexCount(im) } : im;
   let mesh = row('Settings', `size ${sig(c.mesh.size)} mm, ${sig(c.mesh.tipSize)} mm within ${sig(c.mesh.refineRadius)} mm of the tips, ${c.mesh.lloyd} Lloyd iterations, seed ${c.mesh.seed}${c.mesh.coarsen ? ', coarsened behind the tip' : ''}`);
-  mesh += row('Initial mesh', `${cellCount(im)} polygons, ${vertexCount(im)} vertices`);
+  mesh += row('Initial mesh', `${counts.polygons} polygons, ${counts.vertices} vertices`);
   mesh += row('Final mesh', `${result.mesh.polygons} polygons, ${result.mesh.vertices} vertices`);
   mesh += row('Degrees of freedom', `${result.dofs.initial} initial, ${result.dofs.final} final, ${result.dofs.max} at most`);
   return table('Specimen, supports and loading', geo, 'geometry') + table('Material', mat, 'material') + table('Mesh', mesh, 'mesh');
 }
 
 function resultsTable(d: ReportData): string {
-  const { c, result } = d, p = result.peak, last = result.rows[result.rows.length - 1];
+  const { c, result } = d, pk = curvePeaks(result.rows), p = result.rows.length > 0 ? pk.peak : result.peak, last = result.rows[result.rows.length - 1];
   let t = row('Status', `${esc(result.status)}: ${esc(result.reason)}`);
   t += row('Steps', String(Math.max(0, result.rows.length - 1)));
-  t += row('Peak load', `${load(p.load_N)} (step ${p.step})`, 'peak-load');
+  t += row('Peak load', `${load(p.load_N)} (step ${p.step}, the first maximum of the curve)`, 'peak-load');
+  if (c.wedge) t += row('Vertical machine force at peak', `${load(wedgeRatio(c.wedge.angle) * p.load_N)} (frictionless wedge of ${c.wedge.angle}°; the peak load above is the splitting force)`, 'wedge');
+  if (pk.later) t += row('Later maximum', `${load(pk.later.load_N)} (step ${pk.later.step}), after the load fell to ${load(result.rows[pk.minimum].load_N)}`, 'later-maximum');
   t += row('Load-point displacement at peak', `${sig(p.displacement_mm)} mm`);
   t += row('CMOD at peak', p.cmod_mm !== null ? `${sig(p.cmod_mm)} mm` : '— (no gauge)');
   const wf = d.workOfFracture;
   if (wf) {
-    t += row('Work of fracture', `${sig(wf.W_Nmm)} N·mm over a ligament of ${sig(wf.ligamentArea_mm2)} mm²`);
-    t += row('G<sub>F</sub> estimate (work / ligament area)', `${sig(wf.GF_Nmm, 3)} N/mm, ${sig((100 * wf.GF_Nmm) / c.material.GF, 3)} % of the input G<sub>F</sub>; ${esc(wf.note)}`, 'gf');
+    t += row('Work of fracture', `${sig(wf.W_Nmm)} N·mm over a ligament of ${sig(wf.ligamentArea_mm2)} mm² (work of the machine ${sig(wf.externalWork_Nmm)} N·mm less ${sig(wf.storedElastic_Nmm)} N·mm still stored)`);
+    t += row(`G<sub>F</sub> estimate (work / ligament area${wf.lowerBound ? ', a lower bound' : ''})`, `${sig(wf.GF_Nmm, 3)} N/mm, ${sig((100 * wf.GF_Nmm) / c.material.GF, 3)} % of the input G<sub>F</sub>; ${esc(wf.note)}`, 'gf');
   }
   if (last) {
     t += row('Final crack length', `${fix(last.crack_length_mm, 1)} mm`, 'crack-length');
@@ -251,11 +278,17 @@ caption{text-align:left;font-weight:bold;padding:4px 0}
 th,td{text-align:left;vertical-align:top;padding:5px 10px;border-bottom:1px solid var(--rule)}
 th{width:34%;font-weight:normal;color:var(--muted)}
 tbody tr:nth-child(odd){background:var(--band)}
+table.lab th{width:auto}table.lab th[scope=col]{color:var(--ink);font-weight:bold}
 figure{margin:0 0 14px}figcaption{color:var(--muted);font-size:13px;margin-top:4px}
 .strip{display:grid;grid-template-columns:repeat(auto-fill,minmax(320px,1fr));gap:14px}
 .strip img,.final img{width:100%;height:auto;border:1px solid var(--rule)}
 .cols{display:grid;grid-template-columns:1fr 1fr;gap:0 24px}
 @media (max-width:800px){.cols{grid-template-columns:1fr}}
+.stepper{display:grid;grid-template-columns:minmax(0,3fr) minmax(0,2fr);gap:0 24px;align-items:start}
+.stepper-frame img{width:100%;height:auto;border:1px solid var(--rule)}
+.stepper input[type=range]{width:100%;margin:8px 0 14px}
+.stepper label{display:block}#stepper-step{font-weight:bold}
+@media (max-width:900px){.stepper{grid-template-columns:1fr}}
 @media print{body{padding:0;max-width:none}h2{break-after:avoid}figure,table{break-inside:avoid}}
 `;
 
@@ -267,9 +300,15 @@ export function reportHtml(d: ReportData): string {
   parts.push('<!DOCTYPE html>\n<html lang="en">\n<head>\n<meta charset="utf-8">\n<meta name="viewport" content="width=device-width, initial-scale=1">\n');
   // an empty icon keeps the browser from asking for one
   parts.push(`<link rel="icon" href="data:,">\n<title>${esc(c.title)}: rupta report</title>\n<style>${CSS}</style>\n</head>\n<body>\n`);
-  parts.push(`<h1>${esc(c.title)}</h1>\n<p class="meta">Cohesive crack analysis by rupta, case “${esc(c.name)}”, written ${esc(when.toISOString().slice(0, 16).replace('T', ' '))} UTC.</p>\n`);
+  const by = d.run ? `rupta ${esc(d.run.rupta)}` : 'rupta';
+  parts.push(`<h1>${esc(c.title)}</h1>\n<p class="meta">Cohesive crack analysis by ${by}, case “${esc(c.name)}”, written ${esc(when.toISOString().slice(0, 16).replace('T', ' '))} UTC.</p>\n`);
   parts.push(`<p class="caution" id="caution"><strong>Caution.</strong> These ${esc(CAUTION)}.</p>\n`);
   if (result.status !== 'complete') parts.push(`<p class="caution status-bad" id="status-note"><strong>The run did not complete (${esc(result.status)}):</strong> ${esc(result.reason)}. The results below cover the steps that converged.</p>\n`);
+  if (d.warnings && d.warnings.length > 0) {
+    parts.push('<div class="caution status-bad" id="warnings"><strong>Warnings: parts of this result are not physical.</strong>\n<ul>\n');
+    for (const w of d.warnings) parts.push(`<li>${esc(w)}</li>\n`);
+    parts.push('</ul></div>\n');
+  }
 
   parts.push('<h2>Results</h2>\n');
   parts.push(resultsTable(d));
@@ -282,12 +321,14 @@ export function reportHtml(d: ReportData): string {
     const inset = d.strip.length ? '; the inset marks the step on the curve' : '';
     parts.push(`<figure class="final" id="final"><img src="${d.finalPicture}" alt="The last step"><figcaption>Last step: major principal stress over the tensile strength${what}, deformed shape magnified as stated${inset}.</figcaption></figure>\n`);
   }
+  if (d.stepper) parts.push('<h2>Frames</h2>\n', d.stepper);
   if (d.strip.length) {
     parts.push('<h2>Frames</h2>\n<div class="strip" id="frames">\n');
     for (const f of d.strip) parts.push(`<figure><img src="${f.src}" alt="Frame of step ${f.step}"><figcaption>${esc(f.caption)}</figcaption></figure>\n`);
     parts.push('</div>\n');
   }
 
+  if (d.lab) parts.push(d.lab);
   parts.push('<h2>Model</h2>\n');
   parts.push(modelTables(d));
   if (d.meshPicture) {
@@ -295,11 +336,16 @@ export function reportHtml(d: ReportData): string {
     const grows = c.crack ? `; the run refines it ahead of each growing tip${c.mesh.coarsen ? ' and coarsens it behind' : ''}` : '';
     parts.push(`<figure id="mesh-picture">${pic}<figcaption>Initial mesh with supports and loads${grows}.</figcaption></figure>\n`);
   }
-  parts.push('<h2>Run time</h2>\n');
+  parts.push('<h2>Run</h2>\n');
 
   let tm = row('Meshing', `${fix(d.timings.mesh, 2)} s`);
   tm += row('Solving', `${fix(d.timings.solve, 2)} s`);
   tm += row('Whole run', `${fix(d.timings.total, 2)} s`, 'run-time');
+  if (d.run) {
+    tm += row('Program', `rupta ${esc(d.run.rupta)}`, 'version');
+    const h = d.run.caseHash;
+    tm += row(h.of === 'case file' ? `SHA-256 of the case file${h.file ? ` ${esc(h.file)}` : ''}` : 'SHA-256 of the validated case', `<code>${esc(h.sha256)}</code>`, 'case-hash');
+  }
   parts.push(table('', tm, 'timings'));
 
   parts.push('<h2>Cautions</h2>\n<ul id="cautions">\n');

@@ -2,9 +2,10 @@
 
 export type Attrs = Record<string, string | number | undefined | null | false>;
 
-/** Escape text and attribute values for XML. */
+/** Escape text and attribute values for XML; characters XML 1.0 does not allow (controls, lone surrogates) become U+FFFD. */
 export function esc(s: string): string {
-  return s.replace(/[&<>"']/g, (c) => (c === '&' ? '&amp;' : c === '<' ? '&lt;' : c === '>' ? '&gt;' : c === '"' ? '&quot;' : '&#39;'));
+  return s.replace(/[&<>"']|[\u0000-\u0008\u000b\u000c\u000e-\u001f\ufffe\uffff]|[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/g,
+    (c) => (c === '&' ? '&amp;' : c === '<' ? '&lt;' : c === '>' ? '&gt;' : c === '"' ? '&quot;' : c === "'" ? '&#39;' : '\ufffd'));
 }
 
 /** A coordinate with at most 3 decimals and no trailing zeros, to keep files small. */

@@ -48,8 +48,8 @@ function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
   sys.expand(uf, lambda, w.u);
   sys.internal(w.u, coh, kappa, kappaTrial, w.f, tangent, floor, secant);
   let rmax = 0;
-  const fd = sys.freeDofs;
-  for (let i = 0; i < fd.length; i++) { const v = w.f[fd[i]]; w.r[i] = v; const av = Math.abs(v); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
+  sys.restrict(w.f, w.r);
+  for (let i = 0; i < w.r.length; i++) { const av = Math.abs(w.r[i]); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
   const F = sys.loadForce(w.f);
   const g = kind === 'displacement' ? lambda - target : kind === 'cmod' ? sys.gaugeReading(w.u) - target
     : kind === 'opening' ? sys.openingReading(w.u) - target : F - target;
@@ -58,7 +58,7 @@ function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
 
 export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
   kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
-  const m = sys.nFree, fd = sys.freeDofs;
+  const m = sys.nFree;
   const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
   if (kind === 'displacement') st.lambda = target;
   const sec = opt.secant ?? false;
@@ -77,23 +77,17 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     }
     // a = −K⁻¹ r,  b = K⁻¹ k_fλ with k_fλ = kT[f, load]·w
     for (let i = 0; i < m; i++) w.r[i] = -w.r[i];
-    factor.solve(w.r, w.a);
     w.z.fill(0);
     sys.expand(w.gf.fill(0), 1, w.z); // z = load pattern
     matVecT(sys, w.z, w.f);           // f = kT z
     let gl: number;
-    for (let i = 0; i < m; i++) w.kfl[i] = w.f[fd[i]];
-    factor.solve(w.kfl, w.b);
+    sys.restrict(w.f, w.kfl);
+    factor.solve2(w.r, w.kfl, w.a, w.b); // both in one sweep over the factor
     // constraint gradient (g_f over free dofs, g_λ)
     w.gf.fill(0);
     if (kind === 'displacement') gl = 1;
-    else if (kind === 'cmod' || kind === 'opening') {
-      gl = 0;
-      for (let i = 0; i < gauge.length; i++) {
-        const fi = sys.freeOf[gauge[i]];
-        if (fi >= 0) w.gf[fi] += gaugeW[i]; else gl += gaugeW[i] * w.z[gauge[i]];
-      }
-    } else {
+    else if (kind === 'cmod' || kind === 'opening') gl = sys.gaugeGradient(w.gf, w.z, gauge, gaugeW);
+    else {
       w.gf.set(w.kfl);
       gl = sys.loadForce(w.f);
     }
@@ -105,18 +99,21 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     // du = a − b·dλ; backtracking on the out-of-balance force, but only against a real
     // divergence: the first iteration of a step starts from balance and must move off it
     const r0 = Math.max(res.rmax, 100 * opt.tolF);
-    let eta = 1, best = Infinity, bestEta = 1;
+    let eta = 1, best = Infinity, bestEta = 1, lastEta = 0;
+    let lastTrial = res;
     const lam0 = st.lambda;
     for (let ls = 0; ls < 6; ls++) {
       for (let i = 0; i < m; i++) w.ufTry[i] = st.uf[i] + eta * (w.a[i] - w.b[i] * dl);
-      const trial = residual(sys, coh, kappa, kappaTrial, kind, target, w.ufTry, lam0 + eta * dl, w, false, opt.floor);
-      if (trial.rmax < best) { best = trial.rmax; bestEta = eta; }
-      if (trial.rmax <= 2 * r0) break;
+      // with the tangent: when this trial is taken, its evaluation is the next iteration's
+      lastTrial = residual(sys, coh, kappa, kappaTrial, kind, target, w.ufTry, lam0 + eta * dl, w, true, opt.floor, sec);
+      lastEta = eta;
+      if (lastTrial.rmax < best) { best = lastTrial.rmax; bestEta = eta; }
+      if (lastTrial.rmax <= 2 * r0) break;
       eta *= 0.5;
     }
     for (let i = 0; i < m; i++) st.uf[i] += bestEta * (w.a[i] - w.b[i] * dl);
     st.lambda = lam0 + bestEta * dl;
-    res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
+    res = bestEta === lastEta ? lastTrial : residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
   }
   if (res.rmax <= (opt.tolFEnd ?? opt.tolF) && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: opt.maxIter, reason: '' };
   return { converged: false, iterations: opt.maxIter, reason: `no convergence in ${opt.maxIter} iterations (out-of-balance ${res.rmax.toExponential(2)} N)` };

@@ -5,9 +5,10 @@ import type { PolyMesh } from '../mesh/polymesh.js';
 import { ElementWork, elementStiffness } from '../vem/element.js';
 import {
   patternFromBlocks, assemblyMap, blockMapOffsets, matrixOnPattern, matVec, submatrix, submatrixInto,
-  analyze, factorize, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
+  analyze, factorize, factorizeTrailing, fillReducingOrder, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
 } from '../linalg/index.js';
 import { cohesivePoint, type CohesiveParams } from '../cohesive/interface.js';
+import { reducedMatrix, refill, type Reduced, type Slaves } from './reduce.js';
 
 /** Crack-face node pair carrying the cohesive law (vertex ids are compact mesh indices here). */
 export interface PairGeom {
@@ -23,6 +24,8 @@ export interface DrivenDofs {
   load: Int32Array; loadW: Float64Array;
   /** Linear gauge reading g = Σ coef·u[dof] (CMOD). */
   gauge: Int32Array; gaugeW: Float64Array;
+  /** Platen and spreader points that follow masters (and λ); absent when there are none. */
+  slaves?: Slaves;
 }
 
 export class System {
@@ -33,7 +36,12 @@ export class System {
   readonly freeDofs: Int32Array;
   readonly kBulk: CsrMatrix;
   readonly kT: CsrMatrix;
-  readonly kff: SubMatrix;
+  /** The tangent on the unknowns: a plain submatrix, or Tᵀ kT T when dofs are slaved. */
+  readonly kff: CsrMatrix;
+  private readonly sub: SubMatrix | null = null;
+  private readonly reduced: Reduced | null = null;
+  /** Full dof → slave index (−1 when not slaved). */
+  private readonly slaveOf: Int32Array;
   private symbolic: Symbolic | null = null;
   factor: Factor | null = null;
   private readonly pairMap: Int32Array;
@@ -82,11 +90,23 @@ export class System {
     const freeOf = new Int32Array(this.nDof).fill(0);
     for (const d of driven.fixed) freeOf[d] = -1;
     for (const d of driven.load) freeOf[d] = -1;
+    const S = driven.slaves;
+    this.slaveOf = new Int32Array(this.nDof).fill(-1);
+    if (S) for (let k = 0; k < S.slave.length; k++) { freeOf[S.slave[k]] = -1; this.slaveOf[S.slave[k]] = k; }
     let nf = 0;
     const freeDofs: number[] = [];
     for (let d = 0; d < this.nDof; d++) if (freeOf[d] === 0) { freeOf[d] = nf++; freeDofs.push(d); } else freeOf[d] = -1;
     this.freeOf = freeOf; this.nFree = nf; this.freeDofs = Int32Array.from(freeDofs);
-    this.kff = submatrix(this.kT, freeOf, nf);
+    if (S && S.slave.length > 0) {
+      for (let j = 0; j < S.masterDof.length; j++) {
+        if (freeOf[S.masterDof[j]] < 0) throw new Error(`platen master dof ${S.masterDof[j]} is itself held or slaved`);
+      }
+      this.reduced = reducedMatrix(this.kT, freeOf, this.slaveOf, S, nf);
+      this.kff = this.reduced.matrix;
+    } else {
+      this.sub = submatrix(this.kT, freeOf, nf);
+      this.kff = this.sub;
+    }
     this.zLoad = new Float64Array(this.nDof);
     for (let i = 0; i < driven.load.length; i++) this.zLoad[driven.load[i]] = driven.loadW[i];
   }
@@ -98,6 +118,44 @@ export class System {
     for (let i = 0; i < fd.length; i++) u[fd[i]] = uf[i];
     const { load, loadW } = this.driven;
     for (let i = 0; i < load.length; i++) u[load[i]] = lambda * loadW[i];
+    const S = this.driven.slaves;
+    if (!S) return;
+    for (let k = 0; k < S.slave.length; k++) {
+      let v = lambda * S.slaveZ[k];
+      for (let j = S.slaveStart[k]; j < S.slaveStart[k + 1]; j++) v += S.masterW[j] * u[S.masterDof[j]];
+      u[S.slave[k]] = v;
+    }
+  }
+
+  /** Forces on the unknowns, Tᵀ f (full-length f). */
+  restrict(f: Float64Array, r: Float64Array): void {
+    const fd = this.freeDofs;
+    for (let i = 0; i < fd.length; i++) r[i] = f[fd[i]];
+    const S = this.driven.slaves;
+    if (!S) return;
+    for (let k = 0; k < S.slave.length; k++) {
+      const fk = f[S.slave[k]];
+      for (let j = S.slaveStart[k]; j < S.slaveStart[k + 1]; j++) r[this.freeOf[S.masterDof[j]]] += S.masterW[j] * fk;
+    }
+  }
+
+  /** Gradient of a gauge reading Σ w·u: adds ∂g/∂q to gf and returns ∂g/∂λ (z is the load pattern). */
+  gaugeGradient(gf: Float64Array, z: Float64Array, gauge: Int32Array, gaugeW: Float64Array): number {
+    const S = this.driven.slaves;
+    let gl = 0;
+    for (let i = 0; i < gauge.length; i++) {
+      const d = gauge[i], fi = this.freeOf[d];
+      if (fi >= 0) { gf[fi] += gaugeW[i]; continue; }
+      gl += gaugeW[i] * z[d];
+      const k = this.slaveOf[d];
+      if (k >= 0 && S) for (let j = S.slaveStart[k]; j < S.slaveStart[k + 1]; j++) gf[this.freeOf[S.masterDof[j]]] += gaugeW[i] * S.masterW[j];
+    }
+    return gl;
+  }
+
+  /** Refill the tangent on the unknowns from kT. */
+  reduceTangent(): CsrMatrix {
+    return this.reduced ? refill(this.kT, this.reduced) : submatrixInto(this.kT, this.sub!);
   }
 
   /**
@@ -141,15 +199,36 @@ export class System {
     }
   }
 
-  /** Ordering and symbolic factorization of the free–free block, once per topology. */
+  /**
+   * Ordering and symbolic factorization of the free–free block, once per topology. The free
+   * dofs of the face pairs are eliminated last: only they change between Newton iterations
+   * (the bulk is linear), so each refactorization redoes only the trailing supernodes.
+   */
   get sym(): Symbolic {
-    if (!this.symbolic) this.symbolic = analyze(this.kff);
+    if (this.symbolic) return this.symbolic;
+    const P = this.pairs, np = P.plus.length;
+    if (np === 0) { this.symbolic = analyze(this.kff); this.firstPairCol = this.nFree; return this.symbolic; }
+    const last = new Uint8Array(this.nFree);
+    const S = this.driven.slaves;
+    for (let p = 0; p < np; p++) for (const v of [P.plus[p], P.minus[p]]) for (let c = 0; c < 2; c++) {
+      const d = 2 * v + c, i = this.freeOf[d], k = this.slaveOf[d];
+      if (i >= 0) last[i] = 1;
+      // a slaved face dof changes the tangent on its masters
+      else if (k >= 0 && S) for (let j = S.slaveStart[k]; j < S.slaveStart[k + 1]; j++) last[this.freeOf[S.masterDof[j]]] = 1;
+    }
+    this.symbolic = analyze(this.kff, { ordering: fillReducingOrder(this.kff, 'auto', {}, last) });
+    let first = this.nFree;
+    for (let i = 0; i < this.nFree; i++) if (last[i] && this.symbolic.iperm[i] < first) first = this.symbolic.iperm[i];
+    this.firstPairCol = first;
     return this.symbolic;
   }
 
+  /** First column (elimination order) of a face-pair dof: the factor's columns before it never change within a topology. */
+  private firstPairCol = 0;
+
   /** Factorize the free–free block of the current tangent kT. */
   factorTangent(): Factor {
-    submatrixInto(this.kT, this.kff);
+    this.reduceTangent();
     // an unchanged tangent (elastic bulk, intact or unloading interfaces) keeps its factor
     const v = this.kff.values, last = this.factoredValues;
     if (this.factor && last) {
@@ -158,7 +237,9 @@ export class System {
       if (same) return this.factor;
     }
     try {
-      this.factor = factorize(this.kff, this.sym, this.factor ?? undefined);
+      const sym = this.sym;
+      this.factor = this.firstPairCol < this.nFree ? factorizeTrailing(this.kff, sym, this.firstPairCol, this.factor ?? undefined)
+        : factorize(this.kff, sym, this.factor ?? undefined);
     } catch (e) {
       this.factoredValues = null; // the reused storage is spoilt
       throw e;
@@ -175,6 +256,9 @@ export class System {
     const { load, loadW } = this.driven;
     let F = 0;
     for (let i = 0; i < load.length; i++) F += loadW[i] * f[load[i]];
+    // slaved points carry the share of the machine force their λ-coefficient gives them
+    const S = this.driven.slaves;
+    if (S) for (let k = 0; k < S.slave.length; k++) F += S.slaveZ[k] * f[S.slave[k]];
     return F;
   }
 

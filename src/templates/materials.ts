@@ -5,6 +5,8 @@ export interface MaterialPreset {
   /** One line for option help. */
   summary: string;
   E: number; nu: number; ft: number; GF: number;
+  /** Fracture toughness K_Ic (MPa√m), for crack.model lefm; its origin is in `source`. */
+  KIc?: number;
   /** Comment lines written above the material block. */
   source: string[];
 }
@@ -45,7 +47,7 @@ export const MATERIALS: MaterialPreset[] = [
   {
     name: 'ceramic-alumina',
     summary: 'dense alumina ceramic',
-    E: 370000, nu: 0.22, ft: 300, GF: 0.0432,
+    E: 370000, nu: 0.22, ft: 300, GF: 0.0432, KIc: 4,
     source: [
       'Dense alumina, from memory: E 300-400 GPa, nu about 0.22, flexural strength',
       '300-400 MPa (ft taken at the low end, as the tensile strength lies below the',

@@ -44,7 +44,12 @@ export function parseOption(tpl: string, o: TemplateOption, raw: string): number
     throw new InputError(`--${o.name} of template ${tpl} must be one of ${o.choices.join(', ')} (found ${JSON.stringify(raw)})`
       + (near ? `; did you mean ${near}?` : ''));
   }
-  if (!isNumeric(o)) return s;
+  if (!isNumeric(o)) {
+    // the text goes into the case, whose checks refuse control characters: say so here, at the option
+    const m = /[\u0000-\u001f\u007f-\u009f\u2028\u2029]/.exec(s);
+    if (m) throw new InputError(`--${o.name} of template ${tpl} must be one line of text without control characters such as line breaks or tabs (found U+${m[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')} at character ${m.index + 1})`);
+    return s;
+  }
   if (o.default === 'auto' && s.toLowerCase() === 'auto') return 'auto';
   const v = s === '' ? NaN : Number(s);
   const ok = Number.isFinite(v) && (o.min === undefined || v >= o.min) && (o.max === undefined || v <= o.max);

@@ -28,6 +28,7 @@ export const wedgeSplitting = template('wedge-splitting',
     length('load-line', 20, 'depth of the wedge line below the top face'),
     length('bearing-width', 10, 'bearing strip of each splitting load on the groove face', 0),
     length('support-width', 20, 'width of the line support under the specimen'),
+    { name: 'wedge-angle', unit: 'degrees', default: 15, min: 1, max: 60, help: 'included angle of the wedge (common practice: about 15°)' },
     ...tail('concrete-normal', 'Wedge-splitting cube, demo mix'),
   ],
   (tpl, v) => {
@@ -65,11 +66,14 @@ export const wedgeSplitting = template('wedge-splitting',
         { at: pt(c - sw / 2, 0), fix: 'xy', width: 0, note: 'left edge of the line support' },
         { at: pt(c + sw / 2, 0), fix: 'y', width: 0, note: 'right edge of the line support' },
       ],
-      loadsNote: ['The wedge pushes both groove faces outwards at the wedge line, driven together.'],
+      loadsNote: [`A ${fmt(num(v, 'wedge-angle'))}° wedge pushes both groove faces outwards at the wedge line with the same force:`,
+        'load_N is that splitting force, the displacement the opening at the load line; the',
+        'machine\'s vertical force, 2·tan(angle/2) times the splitting force, is in the summary and the curve.'],
       loads: [
         { at: left, direction: [-1, 0], width: bw, note: 'left groove face' },
         { at: right, direction: [1, 0], width: bw, note: 'right groove face' },
       ],
+      wedge: { angle: num(v, 'wedge-angle') },
       controlNote: ['Opening control at the load line: the gauge joins the two load points, so the', 'test stays stable past the peak.'],
       control: { by: 'cmod', gauge: { from: left, to: right, note: 'across the groove at the wedge line' }, target: mouthTarget(mat, H, a), targetNote: 'mm of opening at the load line at the end of the run', increments: 100 },
       crackNote: ['One crack grows down from the notch tip where the averaged principal stress reaches ft.'],
@@ -238,16 +242,14 @@ export const denTension = template('den-tension',
     };
   });
 
-/** Disc in diametral compression; the outline is built by discOutline. */
-export function discOutline(D: number, b: number, perArc: number): { outline: Vec2[]; top: number; bottom: number } {
-  const R = D / 2, th = Math.asin(b / D), out: Vec2[] = [];
-  for (const [a0, a1] of [[-Math.PI / 2 + th, Math.PI / 2 - th], [Math.PI / 2 + th, (3 * Math.PI) / 2 - th]] as const) {
-    for (let j = 0; j <= perArc; j++) {
-      const t = a0 + ((a1 - a0) * j) / perArc;
-      out.push(pt(R + R * Math.cos(t), R + R * Math.sin(t)));
-    }
+/** A round disc as a polygon of n points, one at the bottom and one at the top. */
+export function discPolygon(D: number, n: number): Vec2[] {
+  const R = D / 2, out: Vec2[] = [];
+  for (let j = 0; j < n; j++) {
+    const t = -Math.PI / 2 + (2 * Math.PI * j) / n;
+    out.push(pt(R + R * Math.cos(t), R + R * Math.sin(t)));
   }
-  return { outline: out, top: q(R + R * Math.cos(th)), bottom: q(R - R * Math.cos(th)) };
+  return out;
 }
 
 export const discSplitting = template('disc-splitting',
@@ -263,8 +265,8 @@ export const discSplitting = template('disc-splitting',
     need(tpl, 'strip-width', b, D / 50, D / 4, 'mm', `for a diameter of ${fmt(D)} mm`);
     const mat = materialOf(v);
     const mesh = meshFor(tpl, v, D / 20, D / 100, mat, D / 4, `for a diameter of ${fmt(D)} mm`);
-    const { outline, top, bottom } = discOutline(D, b, 64);
-    const R = q(D / 2);
+    // test rigs: the strips lie on the arc itself, as on a real disc
+    const outline = discPolygon(D, 128), R = q(D / 2), top = q(D), bottom = 0;
     return {
       about: ['Splitting test of a disc: two bearing strips press it along a diameter and a crack',
         'opens along that diameter.'],
@@ -272,13 +274,18 @@ export const discSplitting = template('disc-splitting',
       title: str(v, 'title'),
       model: 'plane-stress', modelNote: 'a slice of the disc',
       thickness: num(v, 'thickness'),
-      geometryNote: [`Disc of ${fmt(D)} mm as a polygon of ${outline.length} points; the strips sit on two flat chords of ${fmt(b)} mm,`,
-        `${fmt(Number((R - (top - R)).toPrecision(2)))} mm deep, at the top and the bottom.`],
+      geometryNote: [`Disc of ${fmt(D)} mm as a polygon of ${outline.length} points; the bearing strips lie on its arc.`],
       outline,
       material: mat,
-      supportsNote: ['The lower bearing strip is held along its whole width.'],
-      supports: [{ along: [pt(R - b / 2, bottom), pt(R + b / 2, bottom)], fix: 'xy', width: 0, note: 'lower bearing strip' }],
-      loadsNote: [`The machine presses the upper bearing strip, ${fmt(b)} mm wide, down.`],
+      supportsNote: [`Bearing strips ${fmt(b)} mm wide, measured along the arc, are rigid rockers: the lower one`,
+        'is held and may tilt about its centre; the disc is held sideways at the middle of each strip only,',
+        'so the two halves move apart as the split opens.'],
+      supports: [
+        { at: pt(R, bottom), fix: 'y', width: b, note: 'lower bearing strip' },
+        { at: pt(R, bottom), fix: 'x', width: 0, note: 'sideways, middle of the lower strip' },
+        { at: pt(R, top), fix: 'x', width: 0, note: 'sideways, middle of the upper strip' },
+      ],
+      loadsNote: [`The machine presses the upper bearing strip, ${fmt(b)} mm wide along the arc, down.`],
       loads: [{ at: pt(R, top), direction: [0, -1], width: b, note: 'upper bearing strip' }],
       controlNote: ['Control by the lateral opening of the disc across its horizontal diameter,', 'which keeps growing past the peak load while the load drops. Once split, each half',
         'is held between the strips and takes up load again (no second crack starts), so the',

@@ -6,9 +6,12 @@ import { fmt } from './options.js';
 
 interface Placed { at?: Vec2; along?: [Vec2, Vec2]; width: number; note: string }
 export interface SupportSpec extends Placed { fix: Fix }
-export interface LoadSpec extends Placed { direction: Vec2 }
+/** A load; `share` puts it on a spreader with the other loads (test rigs). */
+export interface LoadSpec extends Placed { direction: Vec2; share?: number }
 
 export interface CaseSpec {
+  /** Test rigs: a wedge drives the two loads apart. */
+  wedge?: { angle: number };
   /** Comment lines at the top of the file. */
   about: string[];
   template: string;
@@ -27,10 +30,12 @@ export interface CaseSpec {
   loadsNote: string[];
   loads: LoadSpec[];
   controlNote: string[];
-  control: { by: 'displacement' | 'cmod'; gauge?: { from: Vec2; to: Vec2; note: string }; target: number; targetNote: string; increments: number };
+  control: { by: 'displacement' | 'cmod'; gauge?: { from: Vec2; to: Vec2; note: string }; reading?: 'sliding'; target: number; targetNote: string; increments: number };
   crackNote: string[];
   crackStart: 'notch-tips' | 'anywhere' | Vec2[];
   crackStartNote: string;
+  /** lefm: traction-free cracks grown where K reaches KIc (the material needs a KIc). */
+  crackModel?: 'lefm';
   mesh: MeshChoice;
   meshNote: string[];
   probesNote: string[];
@@ -113,6 +118,7 @@ export function caseText(c: CaseSpec): string {
     line(`  GF: ${fmt(m.GF)}`, 'N/mm, fracture energy'),
     line(`  softening: ${c.material.softening}`, 'traction-separation law of the crack'),
     line('  shearWeight: 1', 'weight of sliding in the effective opening'),
+    ...(c.crackModel === 'lefm' && m.KIc !== undefined ? [line(`  KIc: ${fmt(m.KIc)}`, 'MPa m^0.5, fracture toughness (crack.model lefm)')] : []),
     '',
     ...comments(c.supportsNote),
     'supports:',
@@ -124,11 +130,14 @@ export function caseText(c: CaseSpec): string {
   L.push('', ...comments(c.loadsNote), 'loads:');
   for (const l of c.loads) {
     const w = l.along ? '' : `, width: ${fmt(l.width)}`;
-    L.push(line(`  - {${placed(l)}, direction: ${p(l.direction)}${w}}`, l.note));
+    const sh = l.share !== undefined ? `, share: ${fmt(l.share)}` : '';
+    L.push(line(`  - {${placed(l)}, direction: ${p(l.direction)}${w}${sh}}`, l.note));
   }
+  if (c.wedge) L.push(line(`wedge: {angle: ${fmt(c.wedge.angle)}}`, 'degrees, included angle; friction left out'));
   const k = c.control;
   L.push('', ...comments(c.controlNote), 'control:', `  by: ${k.by}`);
   if (k.gauge) L.push(line(`  gauge: {from: ${p(k.gauge.from)}, to: ${p(k.gauge.to)}}`, k.gauge.note));
+  if (k.reading) L.push(line(`  reading: ${k.reading}`, 'across the gauge: the crack mouth sliding'));
   L.push(
     line(`  target: ${fmt(k.target)}`, k.targetNote),
     line(`  increments: ${k.increments}`, 'steps from zero to the target'),
@@ -140,6 +149,7 @@ export function caseText(c: CaseSpec): string {
     line('  criterion: principal-stress', 'grow where the averaged stress reaches ft'),
     line(`  growthStep: ${fmt(c.mesh.growthStep)}`, 'mm per growth step'),
     line(`  averagingRadius: ${fmt(c.mesh.averagingRadius)}`, 'mm, stress averaged ahead of the tip'),
+    ...(c.crackModel === 'lefm' ? [line('  model: lefm', 'traction-free crack, grows where K reaches KIc')] : []),
     '',
     ...comments(c.meshNote),
     `mesh: {size: ${fmt(c.mesh.size)}, tipSize: ${fmt(c.mesh.tipSize)}, refineRadius: ${fmt(c.mesh.refineRadius)}, coarsen: true, seed: 1, lloyd: 8}`,
@@ -150,8 +160,8 @@ export function caseText(c: CaseSpec): string {
   for (const pr of c.probes) L.push(`  - {name: ${pr.name}, at: ${p(pr.at)}}`);
   L.push(
     '',
-    '# A picture of every step and an animation of the whole run.',
-    'output: {frames: [svg, png], every: 1, animation: gif, vtk: false}',
+    '# Up to 40 pictures evenly spaced over the run (add svg to frames for SVG copies) and an animation.',
+    'output: {frames: [png], every: 1, maxFrames: 40, animation: gif, vtk: false}',
     '',
   );
   return L.join('\n');
