@@ -5,6 +5,7 @@ import type { CaseModel } from '../case/model.js';
 import { InputError } from '../errors.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { selectDriven } from '../solver/driven.js';
+import type { SlaveDof } from '../solver/platens.js';
 import type { WorkMesh } from './workmesh.js';
 
 function find(parent: Int32Array, v: number): number {
@@ -51,12 +52,12 @@ export function heldPieces(c: CaseModel, initial: PolyMesh, wm: WorkMesh): Piece
   });
   const pieceOf = new Map<number, number>();
   const vertexPiece = new Int32Array(nv).fill(-1);
-  const pieces: (Piece & { rows: [number, number][] })[] = [];
+  const pieces: (Piece & { rows: [number, number][]; levers: SlaveDof[] })[] = [];
   wm.cells.forEach((cell, c0) => {
     if (!cell || cell.length === 0) return;
     const r = find(parent, c0);
     let k = pieceOf.get(r);
-    if (k === undefined) { k = pieces.length; pieceOf.set(r, k); pieces.push({ cells: 0, x0: Infinity, y0: Infinity, x1: -Infinity, y1: -Infinity, rank: 0, rows: [] }); }
+    if (k === undefined) { k = pieces.length; pieceOf.set(r, k); pieces.push({ cells: 0, x0: Infinity, y0: Infinity, x1: -Infinity, y1: -Infinity, rank: 0, rows: [], levers: [] }); }
     const p = pieces[k];
     p.cells++;
     for (const v of cell) {
@@ -67,15 +68,26 @@ export function heldPieces(c: CaseModel, initial: PolyMesh, wm: WorkMesh): Piece
   });
   let ext = 0;
   for (let v = 0; v < (initial.xy.length >> 1); v++) ext = Math.max(ext, Math.abs(initial.xy[2 * v]), Math.abs(initial.xy[2 * v + 1]));
-  const { fixed } = selectDriven(c, initial, 1e-6 * Math.max(ext, 1));
+  const { fixed, slaves } = selectDriven(c, initial, 1e-6 * Math.max(ext, 1));
   // a support on a vertex shared by two pieces (a hinge) is counted for the piece its last cell belongs to
   for (const d of fixed) {
     const k = vertexPiece[d.v];
     if (k >= 0) pieces[k].rows.push([d.v, d.comp]);
   }
+  // a rocker support holds its centre along its normal: u_i − Σ w·u_master = 0 with no machine term
+  for (const sd of slaves) {
+    const k = vertexPiece[sd.v];
+    if (k >= 0 && sd.z === 0 && sd.masters.every((q) => vertexPiece[q.v] === k)) pieces[k].levers.push(sd);
+  }
   return pieces.map((p) => {
     const cx = (p.x0 + p.x1) / 2, cy = (p.y0 + p.y1) / 2, L = Math.max(Math.hypot(p.x1 - p.x0, p.y1 - p.y0), 1e-300);
-    const rows = p.rows.map(([v, comp]) => (comp === 0 ? [1, 0, -(wm.y[v] - cy) / L] : [0, 1, (wm.x[v] - cx) / L]));
+    const row = (v: number, comp: number) => (comp === 0 ? [1, 0, -(wm.y[v] - cy) / L] : [0, 1, (wm.x[v] - cx) / L]);
+    const rows = p.rows.map(([v, comp]) => row(v, comp));
+    for (const sd of p.levers) {
+      const r = row(sd.v, sd.comp);
+      for (const q of sd.masters) { const rq = row(q.v, q.comp); for (let j = 0; j < 3; j++) r[j] -= q.w * rq[j]; }
+      rows.push(r);
+    }
     return { cells: p.cells, x0: p.x0, y0: p.y0, x1: p.x1, y1: p.y1, rank: rigidRank(rows) };
   });
 }
