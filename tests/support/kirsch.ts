@@ -1,4 +1,4 @@
-// Kirsch hole set-up shared by the order-2 test and the benchmark: a square patch of side 3a
+// Kirsch hole set-up shared by the order-1 and order-2 tests and the benchmark: a square patch of side 3a
 // with the exact displacement (Kirsch 1898) on its outer edge and a traction-free hole.
 import { elasticMatrix } from '../../src/vem/material.js';
 import { cellAreas, cellStresses, recoveredVertexStresses } from '../../src/vem/stress.js';
