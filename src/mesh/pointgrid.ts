@@ -1,6 +1,7 @@
 // Points and discs in uniform grids: the nearest named point, or the guard disc holding a
 // point, found by looking only nearby, so meshing stays linear in the number of named points.
 // Answers are the ones a scan over all points gives (the caller's own distance formula decides).
+import { BoxGrid } from '../case/boxgrid.js';
 
 function cellSize(xs: ArrayLike<number>, ys: ArrayLike<number>): [number, number, number, number, number] {
   let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
@@ -62,44 +63,18 @@ export class PointGrid {
   }
 }
 
-/** Discs (centre, radius) in a grid: which discs may hold a point is read from its one cell. */
+/** Discs (centre, radius) in a grid of their boxes: which discs may hold a point is read from nearby cells. */
 export class DiscGrid {
-  private readonly x0: number; private readonly y0: number; private readonly cs: number;
-  private readonly nx: number; private readonly ny: number;
-  private readonly start: Int32Array; private readonly items: Int32Array;
+  private readonly grid: BoxGrid;
 
-  constructor(xs: ArrayLike<number>, ys: ArrayLike<number>, readonly r: ArrayLike<number>) {
-    const [x0, y0, x1, y1, cs0] = cellSize(xs, ys);
-    let rmax = 0;
-    for (let i = 0; i < r.length; i++) rmax = Math.max(rmax, r[i]);
-    const cs = Math.max(cs0, (Math.max(x1 - x0, y1 - y0) + 2 * rmax) / 2048, 1e-300);
-    this.x0 = x0 - rmax; this.y0 = y0 - rmax; this.cs = cs;
-    this.nx = Math.max(1, Math.floor((x1 + rmax - this.x0) / cs) + 1);
-    this.ny = Math.max(1, Math.floor((y1 + rmax - this.y0) / cs) + 1);
-    const n = xs.length, counts = new Int32Array(this.nx * this.ny + 1);
-    const each = (f: (c: number, i: number) => void) => {
-      for (let i = 0; i < n; i++) {
-        const i0 = this.ix(xs[i] - r[i]), i1 = this.ix(xs[i] + r[i]), j0 = this.iy(ys[i] - r[i]), j1 = this.iy(ys[i] + r[i]);
-        for (let j = j0; j <= j1; j++) for (let k = i0; k <= i1; k++) f(j * this.nx + k, i);
-      }
-    };
-    each((c) => { counts[c + 1]++; });
-    for (let c = 0; c < this.nx * this.ny; c++) counts[c + 1] += counts[c];
-    this.start = counts;
-    this.items = new Int32Array(counts[this.nx * this.ny]);
-    const pos = counts.slice(0, this.nx * this.ny);
-    each((c, i) => { this.items[pos[c]++] = i; });
+  constructor(xs: ArrayLike<number>, ys: ArrayLike<number>, r: ArrayLike<number>) {
+    const boxes = new Float64Array(4 * xs.length);
+    for (let i = 0; i < xs.length; i++) boxes.set([xs[i] - r[i], ys[i] - r[i], xs[i] + r[i], ys[i] + r[i]], 4 * i);
+    this.grid = new BoxGrid(boxes);
   }
-
-  private ix(x: number): number { return Math.min(this.nx - 1, Math.max(0, Math.floor((x - this.x0) / this.cs))); }
-  private iy(y: number): number { return Math.min(this.ny - 1, Math.max(0, Math.floor((y - this.y0) / this.cs))); }
 
   /** Whether test(i) holds for some disc whose box holds (x, y). */
   some(x: number, y: number, test: (i: number) => boolean): boolean {
-    if (this.items.length === 0) return false;
-    if (x < this.x0 || y < this.y0 || x > this.x0 + this.nx * this.cs || y > this.y0 + this.ny * this.cs) return false;
-    const c = this.iy(y) * this.nx + this.ix(x);
-    for (let q = this.start[c]; q < this.start[c + 1]; q++) if (test(this.items[q])) return true;
-    return false;
+    return this.grid.some(x, y, x, y, (i) => test(i));
   }
 }
