@@ -3,11 +3,11 @@
 // every bit (typed arrays as raw bytes, −0 and non-finite values spelled out), so a resumed
 // run repeats the same floating-point sequence as one that was never stopped.
 import { createHash } from 'node:crypto';
-import { readFileSync, rmSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { CaseModel } from '../case/model.js';
 import { InputError } from '../errors.js';
-import { kindText, lstatOrNull, writeFileAtomic } from '../output/files.js';
+import { kindText, lstatOrNull, removeFile, writeFileAtomic } from '../output/files.js';
 import { readTextFile } from '../io/read.js';
 import type { AnalysisState } from './state.js';
 
@@ -121,5 +121,5 @@ export function readCheckpointWithCase(dir: string): { c: CaseModel; state: Anal
 }
 
 export function removeCheckpoint(dir: string): void {
-  rmSync(join(dir, CHECKPOINT_FILE), { force: true });
+  removeFile(join(dir, CHECKPOINT_FILE));
 }

@@ -1,6 +1,7 @@
 // Matrix Market coordinate files for symmetric real matrices.
 
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
+import { writeFileAtomic } from '../output/files.js';
 import { InputError } from '../errors.js';
 import { csrFromTriplets, type CsrMatrix } from './csr.js';
 
@@ -25,7 +26,8 @@ export function writeMatrixMarket(A: CsrMatrix, file: string, comment?: string):
     }
   }
   parts.push(chunk);
-  writeFileSync(file, parts.join(''));
+  // never through a link planted at the name, never half written
+  writeFileAtomic(file, parts.join(''));
 }
 
 /** Read a coordinate real matrix, 'symmetric' (either triangle) or 'general' (must be symmetric). */

@@ -2,7 +2,7 @@
 // link at the file they write, never replace anything but a regular file, and turn the
 // errors of a full disk or a folder they may not write into one sentence.
 
-import { closeSync, constants, fstatSync, lstatSync, mkdirSync, openSync, readFileSync, renameSync, rmSync, writeFileSync, writeSync, type Stats } from 'node:fs';
+import { closeSync, constants, fstatSync, lstatSync, mkdirSync, openSync, readFileSync, renameSync, rmSync, unlinkSync, writeFileSync, writeSync, type Stats } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { DiskFull, InputError } from '../errors.js';
 
@@ -45,6 +45,21 @@ export function refuseNonRegular(path: string): void {
   }
 }
 
+/**
+ * Called with every path about to be written or removed: the output folder layer checks
+ * that no folder on the way has been swapped for a link since the folder was taken.
+ */
+let pathCheck: ((path: string) => void) | null = null;
+export function setPathCheck(f: (path: string) => void): void { pathCheck = f; }
+
+/** Remove a file (never a folder, never a link's target): checked like a write; absent is fine. */
+export function removeFile(path: string): void {
+  pathCheck?.(path);
+  const st = lstatOrNull(path);
+  if (!st || st.isDirectory()) return;
+  try { unlinkSync(path); } catch (e) { if ((e as NodeJS.ErrnoException).code !== 'ENOENT') throw writeFailure(e, path); }
+}
+
 /** Create a folder and its parents; no error when it exists as a folder. */
 export function ensureDir(path: string): void {
   try { mkdirSync(path, { recursive: true }); } catch (e) {
@@ -59,6 +74,7 @@ export function ensureDir(path: string): void {
  * target, which must be absent or a regular file.
  */
 export function writeFileAtomic(path: string, data: string | Uint8Array): void {
+  pathCheck?.(path);
   const dir = dirname(path);
   ensureDir(dir);
   refuseNonRegular(path);
@@ -101,6 +117,7 @@ export function csvCell(v: number | string | null | undefined): string {
 
 /** Open a file for writing without following a link or blocking on a pipe; refused unless it is (or becomes) a regular file. */
 function openRegular(path: string, append: boolean): number {
+  pathCheck?.(path);
   refuseNonRegular(path);
   let fd: number;
   try {
@@ -118,6 +135,7 @@ export class RowWriter {
 
   /** keepExisting: continue a file that already starts with this header (resumed runs). */
   constructor(readonly path: string, readonly header: string, opts: { keepExisting?: boolean } = {}) {
+    pathCheck?.(path);
     ensureDir(dirname(path));
     this.columns = header.split(',').length;
     const resume = opts.keepExisting === true && lstatOrNull(path)?.isFile() === true && readFileSync(path, 'utf8').split('\n', 1)[0] === header;

@@ -4,14 +4,14 @@
 // every frame has the same size and scale. Drawing reads only the run folder's own files (case.json,
 // curve.csv, frames/step-NNNN.bin), so `rupta redraw` gives the same frames byte for byte.
 
-import { existsSync, readFileSync, readdirSync, rmSync } from 'node:fs';
+import { existsSync, readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import type { CaseModel } from '../case/model.js';
 import type { Snapshot, StepRow } from '../fracture/analysis.js';
 import { InputError } from '../errors.js';
-import { writeFileAtomic, ensureDir } from './files.js';
+import { writeFileAtomic, ensureDir, removeFile } from './files.js';
 import { autoMagnification, bbox, fieldSvg, type FieldPicture } from './field.js';
 import type { CurveInset } from './inset.js';
 import sharp from 'sharp';
@@ -59,7 +59,7 @@ export class FrameStore {
     const S = strideFor(s.step, this.every, this.cap);
     this.kept = this.kept.filter((k) => {
       const keep = k === s.step || k % S === 0;
-      if (!keep) rmSync(join(this.framesDir, `${stepName(k)}.bin`), { force: true });
+      if (!keep) removeFile(join(this.framesDir, `${stepName(k)}.bin`));
       return keep;
     });
   }
@@ -238,11 +238,11 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
   if (existsSync(framesDir)) {
     for (const f of readdirSync(framesDir)) {
       const m = PICTURE_FILE.exec(f);
-      if (m && (!chosen.has(Number(m[1])) || !c.output.frames.includes(m[2] as 'svg' | 'png'))) rmSync(join(framesDir, f), { force: true });
+      if (m && (!chosen.has(Number(m[1])) || !c.output.frames.includes(m[2] as 'svg' | 'png'))) removeFile(join(framesDir, f));
     }
   }
   if (!plan) return [];
-  if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) rmSync(join(framesDir, `${stepName(k)}.bin`), { force: true });
+  if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) removeFile(join(framesDir, `${stepName(k)}.bin`));
   const compiled = import.meta.url.endsWith('.js');
   const n = compiled ? Math.min(Math.max(0, Math.floor(opt.workers ?? 2)), availableParallelism(), 2, plan.steps.length) : 0;
   let thumbs: [number, string][];
