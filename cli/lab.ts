@@ -1,17 +1,25 @@
 // The lab commands: compare a run with measured curves, fit material parameters to one.
 import type { Command } from 'commander';
-import { existsSync, readFileSync, rmSync } from 'node:fs';
-import { basename, join } from 'node:path';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { loadCase, unitSlipWarnings } from '../src/case/index.js';
 import type { Softening } from '../src/case/model.js';
 import { InputError } from '../src/errors.js';
 import { readLabCurve, type LabColumns, type LabCurve } from '../src/lab/import.js';
 import { compareCurves, compareJson, compareSvg, compareTable, readRunCurve, type Curve, type XAxis } from '../src/lab/compare.js';
 import type { Corrections } from '../src/lab/correct.js';
-import { FIT_HISTORY_HEADER, FIT_PARAMS, fitCase, fitHistoryRow, fitJson, fitSvg, fitTable, fittedCaseText, type FitParam } from '../src/lab/fit.js';
-import { ensureDir, RowWriter, writeFileAtomic } from '../src/output/files.js';
+import { FIT_HISTORY_HEADER, FIT_PARAMS, fitCase, fitHistoryRow, fitJson, fitSvg, fitTable, fittedCaseText, type FitParam, type FitSetup } from '../src/lab/fit.js';
+import { FIT_CHECKPOINT_FILE, decodeFitCheckpoint, fitCheckpointHeader, fitCheckpointLine, setupDifference, type FitCheckpoint } from '../src/lab/fitcheckpoint.js';
+import { LineWriter, lstatOrNull, RowWriter } from '../src/output/files.js';
+import { OutputFolder, defaultOutDir, safeFolderName } from '../src/output/folder.js';
+import { shellQuote } from '../src/output/shell.js';
+import { readTextFile } from '../src/io/read.js';
 import { svgToPng } from '../src/output/png.js';
 import { refreshRunReport } from '../src/output/redraw.js';
+
+const COMPARE_FILES = ['compare.json', 'compare.svg', 'compare.png'];
+/** Biggest fit checkpoint read back (a few hundred simulations of thousands of steps). */
+const MAX_FIT_CHECKPOINT_BYTES = 256 * 1024 * 1024;
 
 function xAxisOf(v: string | undefined): XAxis | undefined {
   if (v === undefined) return undefined;
@@ -138,19 +146,31 @@ export function registerLabCommands(program: Command): void {
       const cols = labColumns(o);
       const curves: LabCurve[] = labs.map((p) => readLabCurve(p, cols));
       const { corrections, estimate } = correctionsOf(o);
+      if (o.out !== undefined && o.out.trim() === '') throw new InputError('--out needs the name of a folder (found an empty one)');
       const out = o.out ?? dir;
-      if (!o.force && existsSync(join(out, 'compare.json'))) throw new InputError(`${join(out, 'compare.json')} already holds a comparison: give --force to replace it, or --out for another folder`);
+      const earlierCompare = () => COMPARE_FILES.find((f) => lstatOrNull(join(out, f)) !== null);
+      if (!o.force && earlierCompare()) throw new InputError(`${join(out, earlierCompare()!)} already holds a comparison: give --force to replace it, or --out for another folder`);
       const r = compareCurves(run, curves, {
         xAxis: xAxisOf(o.x), ligamentArea_mm2: positive('--ligament-area', o.ligamentArea), corrections,
         estimateFrom: estimate ? labs.map((p) => cmodReading(p, o)) : undefined,
       });
+      // written like a run's files: inside the folder only, no links followed, under its lock
+      const folder = OutputFolder.open(out);
+      folder.lock();
+      let reported = false;
       const json = compareJson(r);
-      writeFileAtomic(join(out, 'compare.json'), JSON.stringify(json, null, 2) + '\n');
-      const svg = compareSvg(r);
-      writeFileAtomic(join(out, 'compare.svg'), svg);
-      await svgToPng(svg, join(out, 'compare.png'), 1200);
-      // a run folder's report gathers the comparison at once
-      const reported = await refreshRunReport(out);
+      try {
+        if (!o.force && earlierCompare()) throw new InputError(`${join(out, earlierCompare()!)} already holds a comparison: give --force to replace it, or --out for another folder`);
+        for (const f of COMPARE_FILES) folder.file(f);
+        folder.write('compare.json', JSON.stringify(json, null, 2) + '\n');
+        const svg = compareSvg(r);
+        folder.write('compare.svg', svg);
+        await svgToPng(svg, folder.file('compare.png'), 1200);
+        // a run folder's report gathers the comparison at once
+        reported = await refreshRunReport(out);
+      } finally {
+        folder.release();
+      }
       if (o.json) process.stdout.write(JSON.stringify(json, null, 2) + '\n');
       else {
         process.stdout.write(compareTable(r));
@@ -176,10 +196,11 @@ export function registerLabCommands(program: Command): void {
     .option('--workers <n>', 'worker threads, 0 for none (default 2)')
     .option('--out <dir>', 'output folder (default out/<case name>-fit)')
     .option('--force', 'replace the files of an earlier fit in that folder')
+    .option('--resume', 'go on with an interrupted fit in that folder: the simulations it finished are taken from its fit-checkpoint.jsonl, not run again')
     .option('--quiet', 'no progress on stderr')
     .option('--json', 'print the result as JSON'))
     .addHelpText('after', LAB_FORMAT_HELP)
-    .action(async (file: string, o: LabReadOptions & CorrectionOptions & { lab: string[]; series?: string; params?: string; softening?: string; meshSize?: string; increments?: string; maxEvals?: string; seeds?: string; simTimeout?: string; workers?: string; out?: string; force?: boolean; quiet?: boolean; json?: boolean }) => {
+    .action(async (file: string, o: LabReadOptions & CorrectionOptions & { lab: string[]; series?: string; params?: string; softening?: string; meshSize?: string; increments?: string; maxEvals?: string; seeds?: string; simTimeout?: string; workers?: string; out?: string; force?: boolean; quiet?: boolean; json?: boolean; resume?: boolean }) => {
       const c = loadCase(file);
       for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
       const labs = o.lab.map((p) => readLabCurve(p, labColumns(o)));
@@ -188,18 +209,40 @@ export function registerLabCommands(program: Command): void {
       if (estimate) throw new InputError('--compliance estimate works in rupta compare (a run and a file with both CMOD and crosshead columns); give fit the compliance it prints, in mm/kN');
       const workers = wholeOf('--workers', o.workers, 0);
       const inc = wholeOf('--increments', o.increments, 2), maxEvals = wholeOf('--max-evals', o.maxEvals, 1), seeds = wholeOf('--seeds', o.seeds, 0);
-      const dir = o.out ?? join('out', `${c.name}-fit`);
-      const caseOut = join(dir, `${c.name}-fitted.yaml`), bestOut = join(dir, `${c.name}-best-so-far.yaml`);
-      if (!o.force) {
-        const earlier = [caseOut, bestOut, join(dir, 'fit.json'), join(dir, 'fit-history.csv')].find((p) => existsSync(p));
-        if (earlier) throw new InputError(`${dir} already holds a fit (${basename(earlier)}): give --force to replace it, or --out for another folder`);
+      if (o.out !== undefined && o.out.trim() === '') throw new InputError('--out needs the name of a folder (found an empty one)');
+      if (o.resume && o.force) throw new InputError('--resume goes on with the fit in the output folder and --force starts it afresh: give one of them, not both');
+      const dir = o.out ?? defaultOutDir(c.name, '-fit');
+      const stem = safeFolderName(c.name);
+      const caseName = `${stem}-fitted.yaml`, bestName = `${stem}-best-so-far.yaml`;
+      // an earlier fit's results must not sit beside a new fit's history
+      const results = [caseName, bestName, 'fit.json', 'fit-report.txt', 'fit.svg', 'fit.png'];
+      const checkpointPath = join(dir, FIT_CHECKPOINT_FILE);
+      let earlierStart: FitCheckpoint | null = null;
+      if (o.resume) {
+        if (lstatOrNull(checkpointPath) === null) throw new InputError(`${dir} holds no interrupted fit to go on with (no ${FIT_CHECKPOINT_FILE}; a fit that ran to its end removes it): start the fit without --resume`);
+        earlierStart = decodeFitCheckpoint(readTextFile(checkpointPath, 'the fit checkpoint', MAX_FIT_CHECKPOINT_BYTES), checkpointPath);
+      } else if (!o.force) {
+        const earlier = [caseName, bestName, 'fit.json', 'fit-history.csv', FIT_CHECKPOINT_FILE].find((f) => lstatOrNull(join(dir, f)) !== null);
+        const resumable = lstatOrNull(checkpointPath) !== null;
+        if (earlier) throw new InputError(`${dir} already holds a fit (${earlier}): give --force to replace it${resumable ? ', --resume to go on with it' : ''}, or --out for another folder`);
       }
-      // opened at the first simulation, so a refused input leaves the folder as it was
-      let history = null as RowWriter | null;
-      const openHistory = (): RowWriter => {
-        ensureDir(dir);
-        for (const p of [caseOut, bestOut]) rmSync(p, { force: true }); // an old fitted case must not outlive a new fit
-        return new RowWriter(join(dir, 'fit-history.csv'), FIT_HISTORY_HEADER);
+      // the folder is taken once the inputs are checked, just before the first simulation, so a refused input leaves it as it was
+      let folder: OutputFolder | null = null;
+      let history = null as RowWriter | null, journal = null as LineWriter | null;
+      const onStart = (setup: FitSetup): void => {
+        folder = OutputFolder.open(dir);
+        folder.lock();
+        for (const f of [...results, 'fit-history.csv', FIT_CHECKPOINT_FILE]) folder.file(f);
+        if (earlierStart) {
+          const d = setupDifference(earlierStart.setup, setup);
+          if (d) throw new InputError(`--resume: the fit in ${dir} was started otherwise (${d}); give the same case, measured curves and options, or --force to start afresh`);
+        }
+        // the whole lines kept (one cut off by a kill is dropped), then each simulation as it ends
+        folder.write(FIT_CHECKPOINT_FILE, earlierStart ? earlierStart.text : fitCheckpointHeader(setup) + '\n');
+        journal = new LineWriter(folder.file(FIT_CHECKPOINT_FILE), { append: true });
+        for (const f of results) folder.remove(f);
+        // written again from the start: the simulations taken from the checkpoint give the same rows
+        history = new RowWriter(folder.file('fit-history.csv'), FIT_HISTORY_HEADER);
       };
       // the first signal ends the fit after the simulations in hand, keeping the best so far; a second one quits at once
       let stop = false;
@@ -214,8 +257,11 @@ export function registerLabCommands(program: Command): void {
           params: paramsOf(o.params), softening: softeningOf(o.softening), xAxis: xAxisOf(o.x), series: o.series as 'all' | 'mean' | undefined, corrections,
           meshSize: positive('--mesh-size', o.meshSize), increments: inc, maxEvals, workers, seeds, simTimeout_s: positive('--sim-timeout', o.simTimeout),
           stopRequested: () => stop,
+          onStart,
+          replay: earlierStart?.sims,
+          onSimulation: (sim) => journal!.line(fitCheckpointLine(sim)),
           onEval: (e) => {
-            (history ??= openHistory()).append(fitHistoryRow(e));
+            history!.append(fitHistoryRow(e));
             if (o.quiet) return;
             secs += e.seconds;
             const per = secs / e.index / Math.max(1, workers ?? 2);
@@ -228,34 +274,46 @@ export function registerLabCommands(program: Command): void {
             else if (now - lastLine > 5000) { process.stderr.write(line + '\n'); lastLine = now; }
           },
         });
+      } catch (e) {
+        (folder as OutputFolder | null)?.release();
+        throw e;
       } finally {
         history?.close();
+        (journal as LineWriter | null)?.close();
         process.off('SIGINT', onSignal);
         process.off('SIGTERM', onSignal);
         if (!o.quiet && tty) process.stderr.write('\n');
       }
+      const f = folder as OutputFolder | null;
+      if (!f) throw new Error('the fit ended without taking its output folder');
       const json = fitJson(r);
-      writeFileAtomic(join(dir, 'fit.json'), JSON.stringify(json, null, 2) + '\n');
       const table = fitTable(r);
-      writeFileAtomic(join(dir, 'fit-report.txt'), table);
-      if (r.curves.fitted.x.length > 0) {
-        const svg = fitSvg(r);
-        writeFileAtomic(join(dir, 'fit.svg'), svg);
-        await svgToPng(svg, join(dir, 'fit.png'), 1200);
-      }
       let wroteCase: string | null = null;
-      if (r.status === 'fitted') wroteCase = caseOut;
-      else if (r.status !== 'failed' && Number.isFinite(r.objective)) wroteCase = bestOut;
-      if (wroteCase) writeFileAtomic(wroteCase, fittedCaseText(readFileSync(file, 'utf8'), r));
-      // with --out at a run folder, its report gathers the fit
-      await refreshRunReport(dir);
+      try {
+        f.write('fit.json', JSON.stringify(json, null, 2) + '\n');
+        f.write('fit-report.txt', table);
+        if (r.curves.fitted.x.length > 0) {
+          const svg = fitSvg(r);
+          f.write('fit.svg', svg);
+          await svgToPng(svg, f.file('fit.png'), 1200);
+        }
+        if (r.status === 'fitted') wroteCase = caseName;
+        else if (r.status !== 'failed' && Number.isFinite(r.objective)) wroteCase = bestName;
+        if (wroteCase) f.write(wroteCase, fittedCaseText(readFileSync(file, 'utf8'), r));
+        // with --out at a run folder, its report gathers the fit
+        await refreshRunReport(dir);
+        // the final writes are done: only a fit that ran to its end loses its checkpoint
+        if (r.status !== 'interrupted') f.remove(FIT_CHECKPOINT_FILE);
+      } finally {
+        f.release();
+      }
       if (o.json) process.stdout.write(JSON.stringify(json, null, 2) + '\n');
       else {
         process.stdout.write(table);
-        process.stdout.write(`wrote ${wroteCase ? `${wroteCase} and ` : ''}the report (fit.json, fit-report.txt, fit-history.csv${r.curves.fitted.x.length ? ', fit.svg, fit.png' : ''}) in ${dir}\n`);
+        process.stdout.write(`wrote ${wroteCase ? `${join(dir, wroteCase)} and ` : ''}the report (fit.json, fit-report.txt, fit-history.csv${r.curves.fitted.x.length ? ', fit.svg, fit.png' : ''}) in ${dir}\n`);
       }
       if (r.status !== 'fitted') {
-        process.stderr.write(`rupta: the fit ${r.status === 'failed' ? 'failed' : r.status === 'limit' ? 'stopped at --max-evals' : 'was interrupted'}: ${r.reason}\n`);
+        process.stderr.write(`rupta: the fit ${r.status === 'failed' ? 'failed' : r.status === 'limit' ? 'stopped at --max-evals' : 'was interrupted'}: ${r.reason}${r.status === 'interrupted' ? `; go on with the same command and --resume (its simulations are kept in ${shellQuote(join(dir, FIT_CHECKPOINT_FILE))})` : ''}\n`);
         process.exitCode = 3;
       }
     });

@@ -3,11 +3,11 @@
 // checkpoint and a full disk. Each ends with one sentence and exit 2 (3 for a full disk),
 // nothing outside the folder is touched, and nothing blocks.
 import { execFileSync, spawn } from 'node:child_process';
-import { existsSync, lstatSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, lstatSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, renameSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CLI, rupta, ensureBuilt, coarseDemoYaml, type Ran } from './support/cli.js';
+import { CLI, ROOT, rupta, ensureBuilt, coarseDemoYaml, type Ran } from './support/cli.js';
 
 let dir = '';
 const run = (args: string[]): Promise<Ran> => rupta(args, dir, 120_000);
@@ -73,6 +73,72 @@ describe('links and special files inside the output folder', () => {
   }, 120_000);
 });
 
+describe('a folder swapped for a link while the run goes on', () => {
+  it('frames/ replaced by a link outside after the first stored step: exit 2, one sentence, nothing written through it', async () => {
+    writeFileSync(at('framed.yaml'), coarseDemoYaml((c) => { c.control.increments = 40; c.output = { frames: ['png'], every: 1, animation: 'none', pngWidth: 120 }; }));
+    mkdirSync(at('outside', 'swapto'));
+    const child = spawn(process.execPath, [CLI, 'run', 'framed.yaml', '--out', 'swap', '--quiet'], { cwd: dir, env: { ...process.env, RUPTA_DEBUG: '' } });
+    let stderr = '';
+    child.stderr.on('data', (d) => { stderr += d; });
+    let swapped = false;
+    const poll = setInterval(() => {
+      if (swapped || !existsSync(at('swap', 'frames')) || !readdirSync(at('swap', 'frames')).some((f) => f.endsWith('.bin'))) return;
+      swapped = true;
+      renameSync(at('swap', 'frames'), at('swap', 'frames.moved'));
+      symlinkSync(at('outside', 'swapto'), at('swap', 'frames'));
+    }, 2);
+    const code = await new Promise<number | null>((res) => child.on('close', (c) => { clearInterval(poll); res(c); }));
+    expect(swapped).toBe(true);
+    expect(code).toBe(2);
+    oneSentence({ code: code ?? -1, stdout: '', stderr });
+    // (a run that met the name in the instant between the two renames made a folder there: refused as well)
+    expect(stderr).toMatch(/swap\/frames (is a symbolic link; rupta does not follow or replace anything but folders on the way inside its output folder|was replaced by another folder while rupta wrote into it)/);
+    expect(readdirSync(at('outside', 'swapto'))).toEqual([]);
+    expect(existsSync(at('swap', '.rupta.lock'))).toBe(false);
+  }, 120_000);
+});
+
+describe('compare and fit write through the output folder too', () => {
+  const runFolder = (name: string) => {
+    mkdirSync(at(name));
+    const rows = [[0, 0], [0.04, 800], [0.08, 1000], [0.2, 600], [0.4, 200]].map(([d, P], i) => `${i},${d},${P},${d},,0,0,0,0,0,0,1`);
+    writeFileSync(at(name, 'curve.csv'), ['step,control,load_N,displacement_mm,cmod_mm,crack_length_mm,tip_x_mm,tip_y_mm,external_work_Nmm,elastic_energy_Nmm,dissipated_Nmm,iterations', ...rows].join('\n') + '\n');
+    writeFileSync(at(name, 'summary.json'), JSON.stringify({ title: 'hand-made', workOfFracture: { ligamentArea_mm2: 1400 } }));
+  };
+  const lab = () => writeFileSync(at('disp.csv'), 'Force [N];Crosshead [mm]\n0;0\n800;0,04\n1000;0,08\n600;0,2\n200;0,4\n');
+
+  it('compare: a linked compare.png is refused before anything is written; a folder in use is refused', async () => {
+    runFolder('cmplink');
+    lab();
+    symlinkSync(at('outside', 'precious.txt'), at('cmplink', 'compare.png'));
+    const r = await run(['compare', 'cmplink', 'disp.csv', '--force']);
+    expect(r.code).toBe(2);
+    oneSentence(r);
+    expect(r.stderr).toMatch(/cmplink\/compare\.png is a symbolic link; rupta does not follow or replace anything but regular files/);
+    expect(precious()).toBe('keep me\n');
+    expect(existsSync(at('cmplink', 'compare.json'))).toBe(false);
+    runFolder('cmpbusy');
+    writeFileSync(at('cmpbusy', '.rupta.lock'), `${process.pid}\n`);
+    const busy = await run(['compare', 'cmpbusy', 'disp.csv']);
+    expect(busy.code).toBe(2);
+    expect(busy.stderr).toMatch(new RegExp(`the output folder cmpbusy is in use by another rupta run \\(process ${process.pid}\\)`));
+    expect(existsSync(at('cmpbusy', 'compare.json'))).toBe(false);
+  }, 60_000);
+
+  it('fit: a fit-history.csv linked outside is refused (with --force) before any simulation, and its target keeps its bytes', async () => {
+    writeFileSync(at('fitcase.yaml'), readFileSync(join(ROOT, 'cases', 'fit-demo.yaml')));
+    writeFileSync(at('fitlab.csv'), readFileSync(join(ROOT, 'cases', 'fit-demo-lab.csv')));
+    mkdirSync(at('fitlink'));
+    symlinkSync(at('outside', 'precious.txt'), at('fitlink', 'fit-history.csv'));
+    const r = await run(['fit', 'fitcase.yaml', '--lab', 'fitlab.csv', '--workers', '0', '--quiet', '--max-evals', '2', '--out', 'fitlink', '--force']);
+    expect(r.code).toBe(2);
+    oneSentence(r);
+    expect(r.stderr).toMatch(/fitlink\/fit-history\.csv is a symbolic link; rupta does not follow or replace anything but regular files/);
+    expect(precious()).toBe('keep me\n');
+    expect(readdirSync(at('fitlink'))).toEqual(['fit-history.csv']);
+  }, 120_000);
+});
+
 describe('bad --out and --export-matrix', () => {
   const cases: [string, () => void, string[], RegExp][] = [
     ['--out is a file', () => writeFileSync(at('afile'), 'x'), ['--out', 'afile'], /the output folder afile must be a folder \(found a regular file\)/],
@@ -117,6 +183,10 @@ describe('one run per folder', () => {
     const r2 = await run(['run', 'beam.yaml', '--out', 'locked', '--force', '--quiet']);
     expect(r2.code).toBe(0);
     expect(existsSync(at('locked', '.rupta.lock'))).toBe(false);
+    // a live process whose id was reused: this test process, with a start time it never had
+    writeFileSync(at('locked', '.rupta.lock'), `${process.pid}\nstart 1\n`);
+    const r3 = await run(['run', 'beam.yaml', '--out', 'locked', '--force', '--quiet']);
+    expect(r3.code).toBe(existsSync('/proc/self/stat') ? 0 : 2);
   }, 120_000);
 
   it('rupta mesh does not overwrite mesh.svg without --force', async () => {

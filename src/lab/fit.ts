@@ -11,6 +11,7 @@ import { buildDomain } from '../geometry/domain.js';
 import { generateMesh } from '../mesh/generate.js';
 import { prng } from '../mesh/prng.js';
 import { InputError } from '../errors.js';
+import { sha256 } from '../version.js';
 import { plotSvg, PALETTE, type Series } from '../output/plot.js';
 import type { LabCurve } from './import.js';
 import { rilemGF, workOfFracture } from './work.js';
@@ -45,6 +46,29 @@ export interface FitOptions {
   /** Polled before every simulation: true ends the fit with the best so far (status interrupted). */
   stopRequested?: () => boolean;
   onEval?: (e: FitEvaluation) => void;
+  /**
+   * Called once the inputs are checked, before the first simulation, with what the fit's
+   * course depends on (a resumed fit must find the same).
+   */
+  onStart?: (setup: FitSetup) => void;
+  /** Called with every simulation run (not those taken from `replay`), numbered from 1 in the order they were started. */
+  onSimulation?: (s: StoredSimulation) => void;
+  /**
+   * Simulations of an earlier, interrupted start of the same fit, by number: one whose
+   * candidate matches is taken as it is instead of being run again, so the optimiser retraces
+   * its course exactly and goes on from where the earlier start stopped.
+   */
+  replay?: ReadonlyMap<number, StoredSimulation>;
+}
+
+/** One simulation of a fit as kept for a resume: its number, the SHA-256 of the candidate case, its curve. */
+export interface StoredSimulation { n: number; key: string; sim: SimCurve }
+
+/** What a fit's course depends on: the case, the measured curves (SHA-256 each) and the options that steer it. */
+export interface FitSetup {
+  caseHash: string;
+  labHash: string;
+  options: Record<string, unknown>;
 }
 
 export interface FitEvaluation {
@@ -332,6 +356,15 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   const wanted = Math.max(0, Math.floor(opt.workers ?? 2));
   const compiled = import.meta.url.endsWith('.js');
   const nWorkers = compiled ? Math.min(wanted, availableParallelism(), 2) : 0;
+  // the number of threads steers the course too: with two, the simplex tries a second candidate at once
+  opt.onStart?.({
+    caseHash: sha256(JSON.stringify(c)),
+    labHash: sha256(JSON.stringify(targets.map((t) => [Array.from(t.x), Array.from(t.y)]))),
+    options: {
+      params, softening, xAxis, series, corrections: opt.corrections ?? {}, meshSize: base.mesh.size, increments: base.control.increments,
+      maxEvals, seeds: Math.max(0, Math.floor(opt.seeds ?? 2)), simTimeout: opt.simTimeout_s ?? null, threads: nWorkers,
+    },
+  });
   const pool = nWorkers > 0 ? new SimPool(nWorkers, new URL('./fitworker.js', import.meta.url)) : null;
   const history: FitEvaluation[] = [];
   const cache = new Map<string, { sim: SimCurve; curve: Curve; f: number }>();
@@ -353,9 +386,16 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   const simulate = async (k: CaseModel, m: PolyMesh = mesh): Promise<SimCurve> => {
     if (opt.stopRequested?.()) throw new FitStop('interrupted');
     if (sims >= phaseLimit) throw new FitStop('limit');
-    sims++;
-    const limit = timeLimit();
-    const s = pool ? await pool.run(k, m, limit) : await simulateCurve(k, m, limit);
+    const n = ++sims;
+    const key = sha256(JSON.stringify(k));
+    const kept = opt.replay?.get(n);
+    let s: SimCurve;
+    if (kept && kept.key === key) s = kept.sim;
+    else {
+      const limit = timeLimit();
+      s = pool ? await pool.run(k, m, limit) : await simulateCurve(k, m, limit);
+      opt.onSimulation?.({ n, key, sim: s });
+    }
     if (s.status !== 'failed' && s.reason !== 'time limit') times.push(s.seconds);
     return s;
   };
@@ -377,14 +417,20 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   const evaluate = async (mats: Mat[], phase: FitEvaluation['phase']): Promise<{ sim: SimCurve; curve: Curve; f: number }[]> => {
     const keys = mats.map(keyOf);
     const todo = [...new Set(keys.filter((k, i) => !cache.has(k) && inside(mats[i]!)))];
-    await Promise.all(todo.map(async (key) => {
-      const m = mats[keys.indexOf(key)]!;
-      const sim = await simulate(matOf(m, base));
+    // all started at once (on the threads), taken up in the order they were started, so the
+    // history and the optimiser's course do not depend on which thread finished first
+    const started = todo.map((key) => { const p = simulate(matOf(mats[keys.indexOf(key)]!, base)); p.catch(() => {}); return p; });
+    let stop: unknown = null;
+    for (let i = 0; i < todo.length; i++) {
+      let sim: SimCurve;
+      try { sim = await started[i]!; } catch (e) { stop ??= e; continue; }
+      const m = mats[keys.indexOf(todo[i]!)]!;
       const curve = sim.load.length > 0 ? simOpening(sim, xAxis) : { x: new Float64Array(0), y: new Float64Array(0) };
       const f = sim.status === 'failed' || sim.reason === 'time limit' || curve.x.length < 2 ? Infinity : objective(curve);
-      cache.set(key, { sim, curve, f });
+      cache.set(todo[i]!, { sim, curve, f });
       record({ phase, ...m, objective: f, peak_N: sim.load.length ? sim.load[peakIndex(sim.load)]! : NaN, status: sim.reason === 'time limit' ? 'timed out' : sim.status, seconds: sim.seconds });
-    }));
+    }
+    if (stop) throw stop;
     return keys.map((k) => cache.get(k) ?? outside);
   };
 

@@ -163,3 +163,24 @@ export class RowWriter {
     this.fd = null;
   }
 }
+
+/** A text file of whole lines appended one at a time (unbuffered), started afresh or continued. */
+export class LineWriter {
+  private fd: number | null;
+
+  constructor(readonly path: string, opts: { append?: boolean } = {}) {
+    pathCheck?.(path);
+    ensureDir(dirname(path));
+    this.fd = openRegular(path, opts.append === true);
+  }
+
+  line(text: string): void {
+    if (this.fd === null) throw new Error(`LineWriter for ${this.path} is closed`);
+    try { writeSync(this.fd, text + '\n'); } catch (e) { throw writeFailure(e, this.path); }
+  }
+
+  close(): void {
+    if (this.fd !== null) closeSync(this.fd);
+    this.fd = null;
+  }
+}
