@@ -98,6 +98,24 @@ describe('a folder swapped for a link while the run goes on', () => {
   }, 120_000);
 });
 
+describe('rupta redraw holds the folder like a run', () => {
+  it('a finished run whose frames/ is now a link outside: redraw refuses (exit 2), deletes and writes nothing there', async () => {
+    writeFileSync(at('framed8.yaml'), coarseDemoYaml((c) => { c.control.increments = 8; c.output = { frames: ['png'], every: 4, animation: 'none', pngWidth: 120 }; }));
+    const r = await run(['run', 'framed8.yaml', '--out', 'redrawn', '--quiet']);
+    expect(r.code).toBe(0);
+    mkdirSync(at('outside', 'theirs'));
+    writeFileSync(at('outside', 'theirs', 'step-0004.png'), 'not a frame');
+    renameSync(at('redrawn', 'frames'), at('redrawn', 'frames.moved'));
+    symlinkSync(at('outside', 'theirs'), at('redrawn', 'frames'));
+    const again = await run(['redraw', 'redrawn']);
+    expect(again.code).toBe(2);
+    oneSentence(again);
+    expect(again.stderr).toMatch(/redrawn\/frames is a symbolic link; rupta does not follow/);
+    expect(readdirSync(at('outside', 'theirs'))).toEqual(['step-0004.png']);
+    expect(readFileSync(at('outside', 'theirs', 'step-0004.png'), 'utf8')).toBe('not a frame');
+  }, 120_000);
+});
+
 describe('compare and fit write through the output folder too', () => {
   const runFolder = (name: string) => {
     mkdirSync(at(name));

@@ -277,6 +277,11 @@ export class OutputFolder {
     }
   }
 
+  /** Whether this process holds the lock of the folder at dir (a compare or fit that draws a run's report again). */
+  static heldHere(dir: string): boolean {
+    return guards.has(resolve(dir));
+  }
+
   release(): void {
     if (!this.locked) return;
     const path = join(this.dir, LOCK_FILE);

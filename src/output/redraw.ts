@@ -9,6 +9,7 @@ import { InputError } from '../errors.js';
 import { drawFrames, readCurveRows, readRunInfo, type FrameFile } from './frames.js';
 import { curveSvg, writeAnimation } from './runfiles.js';
 import { writeReport, type WorkOfFracture } from './report.js';
+import { OutputFolder } from './folder.js';
 
 interface Summary {
   status: AnalysisResult['status']; reason: string; peak: AnalysisResult['peak']; crackPaths: AnalysisResult['crackPaths'];
@@ -34,6 +35,19 @@ function framesInFolder(dir: string): FrameFile[] {
 /** Frames (unless frames is false), animation and report of a run folder, again; the report takes up compare*.json and fit*.json found there. */
 export async function redrawRun(dir: string, opt: { frames?: boolean } = {}): Promise<{ frames: number }> {
   if (!existsSync(dir)) throw new InputError(`the run folder ${dir} does not exist`);
+  // written like a run: under the folder's lock (unless this process holds it already), no link followed
+  const folder = OutputFolder.open(dir, 'the run folder');
+  const mine = !OutputFolder.heldHere(dir);
+  if (mine) folder.lock();
+  try {
+    folder.list('frames');
+    return await redrawLocked(dir, opt);
+  } finally {
+    if (mine) folder.release();
+  }
+}
+
+async function redrawLocked(dir: string, opt: { frames?: boolean }): Promise<{ frames: number }> {
   const info = readRunInfo(dir), c = info.case;
   const rows = readCurveRows(dir);
   const sp = join(dir, 'summary.json');
