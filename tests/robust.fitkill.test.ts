@@ -35,6 +35,8 @@ const text = (out: string, f: string) => readFileSync(join(dir, out, f), 'utf8')
 const historyRows = (out: string): string[] => (existsSync(join(dir, out, 'fit-history.csv')) ? text(out, 'fit-history.csv').split('\n').slice(1).filter((l) => l !== '') : []);
 /** A history row without its seconds (the one column that is a measurement of the machine). */
 const noSeconds = (row: string) => row.split(',').filter((_, i) => i !== 8).join(',');
+/** fit-report.txt without its line of wall time. */
+const report = (out: string) => text(out, 'fit-report.txt').replace(/^\d+ of at most \d+ simulations in [\d.]+ s /m, '');
 /** fit.json without its wall time. */
 const result = (out: string) => { const j = JSON.parse(text(out, 'fit.json')); delete j.wallSeconds; return j; };
 
@@ -63,14 +65,14 @@ function killedFit(out: string, rows: number, how: How, delay: number, workers =
   });
 }
 
-interface Reference { rows: string[]; json: Record<string, unknown>; best: string }
+interface Reference { rows: string[]; json: Record<string, unknown>; best: string; svg: string; report: string }
 
 async function reference(out: string, workers: number): Promise<Reference> {
   const r = await rupta([...args(workers), '--out', out], dir, 300_000);
   expect(r.code).toBe(3); // the budget ends it: status limit, best so far written
   expect(r.stderr).toMatch(/^rupta: the fit stopped at --max-evals/);
   expect(existsSync(join(dir, out, 'fit-checkpoint.jsonl'))).toBe(false);
-  const ref = { rows: historyRows(out), json: result(out), best: text(out, 'beam-best-so-far.yaml') };
+  const ref = { rows: historyRows(out), json: result(out), best: text(out, 'beam-best-so-far.yaml'), svg: text(out, 'fit.svg'), report: report(out) };
   expect(ref.rows.map((l) => l.split(',')[1])).toEqual(['estimate', 'estimate', 'estimate', 'estimate', 'estimate', 'simplex', 'simplex', 'jacobian', 'jacobian', 'seed'].slice(0, ref.rows.length));
   expect(ref.rows).toHaveLength(10);
   return ref;
@@ -115,6 +117,8 @@ async function killAndResume(out: string, rows: number, how: How, delay: number,
   expect(after.map(noSeconds)).toEqual(ref.rows.map(noSeconds));
   expect(result(out)).toEqual(ref.json);
   expect(text(out, 'beam-best-so-far.yaml')).toBe(ref.best);
+  expect(text(out, 'fit.svg')).toBe(ref.svg);
+  expect(report(out)).toBe(ref.report);
   expect(readdirSync(join(dir, out)).filter((f) => f.endsWith('.tmp') || f === '.rupta.lock' || f === 'fit-checkpoint.jsonl')).toEqual([]);
 }
 
