@@ -1,7 +1,9 @@
 // The output folder of a run (or of a mesh, a fit): everything rupta writes stays inside it.
 // Names inside are plain relative names (no `..`, no absolute paths); sub-folders and files
-// that are symbolic links, pipes or devices are refused, never followed; a lock file holding
-// the owner's process id keeps two runs out of one folder, and a dead owner's lock is taken over.
+// that are symbolic links, pipes or devices are refused, never followed; a lock file naming the
+// owner (process id, start time, machine, boot) keeps two runs out of one folder, and the lock of
+// an owner that has gone is taken over; while a folder is held, a folder on the way swapped for a
+// link or another folder is refused at the next write.
 import { accessSync, constants, readFileSync, readdirSync, rmSync, statSync, unlinkSync, writeFileSync, type Stats } from 'node:fs';
 import { hostname } from 'node:os';
 import { dirname, isAbsolute, join, normalize, relative, resolve, sep } from 'node:path';
