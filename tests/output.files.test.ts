@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { csvCell, formatNumber, RowWriter, writeFileAtomic } from '../src/output/files.js';
-import { OutputFolder, defaultOutDir, safeFolderName } from '../src/output/folder.js';
+import { OutputFolder, defaultOutDir, lockText, safeFolderName } from '../src/output/folder.js';
 import { shellQuote } from '../src/output/shell.js';
 import { esc } from '../src/output/svg.js';
 import { svgToPng } from '../src/output/png.js';
@@ -118,7 +118,9 @@ describe('OutputFolder', () => {
     const d = join(dir, 'locked');
     const a = OutputFolder.open(d);
     a.lock();
-    expect(readFileSync(join(d, '.rupta.lock'), 'utf8')).toBe(`${process.pid}\n`);
+    // the owner: process id first, then its start time, machine and boot
+    expect(readFileSync(join(d, '.rupta.lock'), 'utf8')).toBe(lockText());
+    expect(readFileSync(join(d, '.rupta.lock'), 'utf8').split('\n')[0]).toBe(String(process.pid));
     expect(() => OutputFolder.open(d).lock()).toThrow(/is in use by another run of this program/);
     a.release();
     const b = OutputFolder.open(d);
