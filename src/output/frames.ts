@@ -16,6 +16,7 @@ import { autoMagnification, bbox, fieldSvg, type FieldPicture } from './field.js
 import type { CurveInset } from './inset.js';
 import sharp from 'sharp';
 import { pngDataUri, svgToPngBuffer } from './png.js';
+import { FrameRaster } from './frameraster.js';
 import { decodeStep, encodeStep, type StepData } from './stepdata.js';
 
 /** The validated case as the run used it, in the run folder. */
@@ -193,35 +194,43 @@ function readStep(dir: string, step: number): StepData {
   return decodeStep(readFileSync(join(dir, 'frames', `${stepName(step)}.bin`)));
 }
 
-/** The picture of one stored state. */
-export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan): string {
+/** The picture of one stored state (widthPx: its width). */
+export function framePicture(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan, widthPx: number): FieldPicture {
   const r = rows.find((q) => q.step === d.step);
   const caption = r
     ? [`Step ${r.step}: load ${fmtLoad(r.load_N)}, load-point displacement ${r.displacement_mm.toFixed(4)} mm` +
         (r.cmod_mm !== null ? `, CMOD ${r.cmod_mm.toFixed(4)} mm` : '') + `, crack length ${r.crack_length_mm.toFixed(1)} mm.`]
     : [`Step ${d.step}.`];
-  return fieldSvg({
+  return {
     mesh: d.mesh, values: d.s1, valueLabel: 'σ₁ / ft', range: [-1, 1], diverging: true,
     displacement: d.u, magnification: plan.magnification, view: plan.view, showMesh: true, cracks: d.cracks, cohesive: d.cohesive,
-    ...specimenSymbols(c), inset: frameInset(rows, d.step), title: c.title, caption, widthPx: 1000,
-  });
+    ...specimenSymbols(c), inset: frameInset(rows, d.step), title: c.title, caption, widthPx,
+  };
+}
+
+/** The SVG picture of one stored state. */
+export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan): string {
+  return fieldSvg(framePicture(c, d, rows, plan, 1000));
 }
 
 /** Draw some of the planned frames into frames/ (in this thread); returns the report's copy of each. */
 export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[]): Promise<[number, string][]> {
   const c = readRunCase(dir), rows = readCurveRows(dir);
   const thumbs: [number, string][] = [];
+  const raster = new FrameRaster();
   for (const k of steps) {
-    const svg = frameSvg(c, readStep(dir, k), rows, plan);
+    const d = readStep(dir, k);
     const base = join(dir, 'frames', stepName(k));
-    if (c.output.frames.includes('svg')) writeFileAtomic(`${base}.svg`, svg);
+    const svg = c.output.frames.includes('svg') ? frameSvg(c, d, rows, plan) : null;
+    if (svg !== null) writeFileAtomic(`${base}.svg`, svg);
     if (c.output.frames.includes('png')) {
-      const png = await svgToPngBuffer(svg, c.output.pngWidth, { palette: true });
+      // drawn straight into pixels at the PNG's width: no SVG text to build and parse for the mesh
+      const png = await raster.png(framePicture(c, d, rows, plan, c.output.pngWidth));
       writeFileAtomic(`${base}.png`, png);
       // the frame itself: a smaller copy would save little on a palette PNG and cost a resize and an encode
       const uri = `data:image/png;base64,${png.toString('base64')}`;
       thumbs.push([k, uri.includes('http') ? await pngDataUri(sharp(png)) : uri]);
-    } else thumbs.push([k, await pngDataUri(sharp(await svgToPngBuffer(svg, STEPPER_WIDTH)))]);
+    } else thumbs.push([k, await pngDataUri(sharp(await svgToPngBuffer(svg!, STEPPER_WIDTH)))]);
   }
   return thumbs;
 }
