@@ -12,7 +12,8 @@ import {
   meshLines, NO_VALUES, screenCracks, supportPlaces, supportShape, UNDEFORMED, valueScale, type FieldPicture,
 } from './field.js';
 import { insetGeometry, INSET_STYLE } from './inset.js';
-import { Canvas, overlayOf, rgb, type Overlay, type Rgb } from './raster.js';
+import { deflateSync } from 'node:zlib';
+import { Canvas, coloursOf, indexedPng, overlayOf, rgb, type Overlay, type Rgb } from './raster.js';
 import { layer, svgDocument, text } from './svg.js';
 
 const WHITE: Rgb = [255, 255, 255];
@@ -126,9 +127,25 @@ export class FrameRaster {
     return { data: cv.px, width: W, height: H };
   }
 
-  /** A field picture as PNG bytes (palette). */
-  async png(p: FieldPicture): Promise<Buffer> {
+  /**
+   * One palette for all frames of a run: the colours the quantiser keeps for this picture (the
+   * run's last frame, which has the most of them); at most 256 entries.
+   */
+  async palette(p: FieldPicture): Promise<Uint8Array> {
     const { data, width, height } = await this.pixels(p);
-    return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
+    const q = await sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
+    return coloursOf(await sharp(q).removeAlpha().raw().toBuffer());
+  }
+
+  private lut: { index: Uint8Array; known: Uint8Array } | null = null;
+  private lutFor: Uint8Array | null = null;
+
+  /** A field picture as PNG bytes: indexed against the run's palette when given, else through sharp's quantiser. */
+  async png(p: FieldPicture, palette?: Uint8Array): Promise<Buffer> {
+    const { data, width, height } = await this.pixels(p);
+    if (!palette) return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
+    // the nearest palette entry of each colour met, kept from frame to frame
+    if (this.lutFor !== palette) { this.lut = { index: new Uint8Array(1 << 24), known: new Uint8Array(1 << 21) }; this.lutFor = palette; }
+    return indexedPng(data, width, height, palette, this.lut!, (b) => deflateSync(b, { level: 6 }));
   }
 }

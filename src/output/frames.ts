@@ -145,7 +145,11 @@ export function frameInset(rows: StepRow[], step: number): CurveInset | undefine
 }
 
 /** What every frame of a run shares. */
-export interface FramePlan { steps: number[]; magnification: number; view: [number, number, number, number] }
+export interface FramePlan {
+  steps: number[]; magnification: number; view: [number, number, number, number];
+  /** One palette of the PNG frames (r, g, b, …), from the last frame. */
+  palette?: number[];
+}
 
 /** At most `cap` of the stored steps: every m-th from the first, with the smallest m that fits, and the last. */
 export function evenlySpaced(stored: number[], cap: number): number[] {
@@ -218,6 +222,7 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
   const c = readRunCase(dir), rows = readCurveRows(dir);
   const thumbs: [number, string][] = [];
   const raster = new FrameRaster();
+  const palette = plan.palette ? Uint8Array.from(plan.palette) : undefined;
   for (const k of steps) {
     const d = readStep(dir, k);
     const base = join(dir, 'frames', stepName(k));
@@ -225,7 +230,7 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
     if (svg !== null) writeFileAtomic(`${base}.svg`, svg);
     if (c.output.frames.includes('png')) {
       // drawn straight into pixels at the PNG's width: no SVG text to build and parse for the mesh
-      const png = await raster.png(framePicture(c, d, rows, plan, c.output.pngWidth));
+      const png = await raster.png(framePicture(c, d, rows, plan, c.output.pngWidth), palette);
       writeFileAtomic(`${base}.png`, png);
       // the frame itself: a smaller copy would save little on a palette PNG and cost a resize and an encode
       const uri = `data:image/png;base64,${png.toString('base64')}`;
@@ -251,6 +256,11 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
     }
   }
   if (!plan) return [];
+  if (c.output.frames.includes('png')) {
+    // one palette for every frame: quantised once, each frame then only looks its colours up
+    const last = plan.steps[plan.steps.length - 1]!;
+    plan.palette = Array.from(await new FrameRaster().palette(framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth)));
+  }
   if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) rmSync(join(framesDir, `${stepName(k)}.bin`), { force: true });
   const compiled = import.meta.url.endsWith('.js');
   const n = compiled ? Math.min(Math.max(0, Math.floor(opt.workers ?? 2)), availableParallelism(), 2, plan.steps.length) : 0;

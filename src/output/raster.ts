@@ -192,3 +192,66 @@ export function overlayOf(data: Uint8Array): Overlay {
   }
   return { at, rgba };
 }
+
+// CRC-32 of PNG chunks (ISO 3309, the PNG specification's)
+const CRC_TABLE = (() => {
+  const t = new Int32Array(256);
+  for (let n = 0; n < 256; n++) { let c = n; for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1; t[n] = c; }
+  return t;
+})();
+function crc32(b: Uint8Array): number {
+  let c = -1;
+  for (let i = 0; i < b.length; i++) c = CRC_TABLE[(c ^ b[i]) & 255] ^ (c >>> 8);
+  return (c ^ -1) >>> 0;
+}
+function chunk(type: string, data: Uint8Array): Buffer {
+  const out = Buffer.alloc(12 + data.length);
+  out.writeUInt32BE(data.length, 0);
+  out.write(type, 4, 'latin1');
+  out.set(data, 8);
+  out.writeUInt32BE(crc32(out.subarray(4, 8 + data.length)), 8 + data.length);
+  return out;
+}
+
+/**
+ * Pixels mapped to a fixed palette (each colour to its nearest entry, remembered in lut: 2^24
+ * bytes of indices, and 2^21 bytes of bits saying which are known) and written as an indexed PNG: rows unfiltered, as
+ * the PNG specification recommends for palette images, then deflated.
+ */
+export function indexedPng(px: Uint8Array, width: number, height: number, palette: Uint8Array, lut: { index: Uint8Array; known: Uint8Array }, deflate: (b: Uint8Array) => Uint8Array): Buffer {
+  const n = palette.length / 3;
+  if (n < 1 || n > 256 || n % 1 !== 0) throw new Error(`indexedPng: a palette of ${n} colours`);
+  const rows = new Uint8Array((width + 1) * height);
+  for (let r = 0, o = 0, k = 0; r < height; r++) {
+    rows[o++] = 0; // filter: none
+    for (let c = 0; c < width; c++, k += 3) {
+      const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
+      if ((lut.known[key >> 3] & (1 << (key & 7))) === 0) {
+        let best = 0, bd = Infinity;
+        for (let q = 0; q < n; q++) {
+          const dr = palette[3 * q] - px[k], dg = palette[3 * q + 1] - px[k + 1], db = palette[3 * q + 2] - px[k + 2];
+          // weights of the eye's sensitivity (common practice for colour distance in RGB)
+          const d = 2 * dr * dr + 4 * dg * dg + 3 * db * db;
+          if (d < bd) { bd = d; best = q; }
+        }
+        lut.index[key] = best;
+        lut.known[key >> 3] |= 1 << (key & 7);
+      }
+      rows[o++] = lut.index[key];
+    }
+  }
+  const head = Buffer.alloc(13);
+  head.writeUInt32BE(width, 0); head.writeUInt32BE(height, 4);
+  head[8] = 8; head[9] = 3; // 8 bits, indexed colour
+  return Buffer.concat([Buffer.from([137, 80, 78, 71, 13, 10, 26, 10]), chunk('IHDR', head), chunk('PLTE', palette), chunk('IDAT', deflate(rows)), chunk('IEND', new Uint8Array(0))]);
+}
+
+/** The distinct colours of RGB pixels, in the order they first appear. */
+export function coloursOf(px: Uint8Array): Uint8Array {
+  const seen = new Set<number>(), out: number[] = [];
+  for (let k = 0; k < px.length; k += 3) {
+    const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
+    if (!seen.has(key)) { seen.add(key); out.push(px[k], px[k + 1], px[k + 2]); }
+  }
+  return Uint8Array.from(out);
+}
