@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { deflateSync } from 'node:zlib';
 import sharp from 'sharp';
-import { Canvas, coloursOf, indexedPng, overlayOf, rgb } from '../src/output/raster.js';
+import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb } from '../src/output/raster.js';
 
 const at = (c: Canvas, x: number, y: number): number[] => Array.from(c.px.subarray(3 * (y * c.width + x), 3 * (y * c.width + x) + 3));
 
@@ -71,7 +71,7 @@ describe('raster canvas', () => {
     c.reset(7, 3, [255, 255, 255]);
     c.px.set([200, 30, 30], 3); c.px.set([10, 10, 200], 6); c.px.set([250, 250, 252], 9);
     const palette = Uint8Array.from([255, 255, 255, 200, 30, 30, 10, 10, 200]);
-    const png = indexedPng(c.px, 7, 3, palette, { index: new Uint8Array(1 << 24), known: new Uint8Array(1 << 21) }, (b) => deflateSync(b));
+    const png = indexedPng(c.px, 7, 3, palette, paletteLut(), (b) => deflateSync(b));
     const back = await sharp(png).removeAlpha().raw().toBuffer({ resolveWithObject: true });
     expect([back.info.width, back.info.height]).toEqual([7, 3]);
     expect(Array.from(back.data.subarray(3, 12))).toEqual([200, 30, 30, 10, 10, 200, 255, 255, 255]);

@@ -13,7 +13,7 @@ import {
 } from './field.js';
 import { insetGeometry, INSET_STYLE } from './inset.js';
 import { deflateSync } from 'node:zlib';
-import { Canvas, coloursOf, indexedPng, overlayOf, rgb, type Overlay, type Rgb } from './raster.js';
+import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb, type Overlay, type PaletteLut, type Rgb } from './raster.js';
 import { layer, svgDocument, text } from './svg.js';
 
 const WHITE: Rgb = [255, 255, 255];
@@ -129,15 +129,16 @@ export class FrameRaster {
 
   /**
    * One palette for all frames of a run: the colours the quantiser keeps for this picture (the
-   * run's last frame, which has the most of them); at most 256 entries.
+   * run's last frame, which has the most of them); at most 255 entries, so an animation keeps
+   * one index for transparency.
    */
   async palette(p: FieldPicture): Promise<Uint8Array> {
     const { data, width, height } = await this.pixels(p);
     const q = await sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
-    return coloursOf(await sharp(q).removeAlpha().raw().toBuffer());
+    return coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 255);
   }
 
-  private lut: { index: Uint8Array; known: Uint8Array } | null = null;
+  private lut: PaletteLut | null = null;
   private lutFor: Uint8Array | null = null;
 
   /** A field picture as PNG bytes: indexed against the run's palette when given, else through sharp's quantiser. */
@@ -145,7 +146,7 @@ export class FrameRaster {
     const { data, width, height } = await this.pixels(p);
     if (!palette) return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
     // the nearest palette entry of each colour met, kept from frame to frame
-    if (this.lutFor !== palette) { this.lut = { index: new Uint8Array(1 << 24), known: new Uint8Array(1 << 21) }; this.lutFor = palette; }
+    if (this.lutFor !== palette) { this.lut = paletteLut(); this.lutFor = palette; }
     return indexedPng(data, width, height, palette, this.lut!, (b) => deflateSync(b, { level: 6 }));
   }
 }

@@ -3,6 +3,8 @@
 import { readFileSync } from 'node:fs';
 import sharp, { type Sharp } from 'sharp';
 import { writeFileAtomic } from './files.js';
+import { coloursOf, paletteLut, toPalette } from './raster.js';
+import { gifOf } from './gif.js';
 
 /** The width in px that an SVG document declares (its width attribute, else its viewBox). */
 export function svgWidth(svg: string): number {
@@ -69,6 +71,16 @@ export async function framesToAnimation(
   const page = width * height * 3, stack = Buffer.alloc(page * pages.length);
   pages.forEach((b, k) => b.copy(stack, k * page, 0, page));
   const delays = pick.map((_, k) => (k === pick.length - 1 ? Math.max(delay, hold) : delay));
+  if (format === 'gif') {
+    // frames that share a palette of at most 255 colours (rupta's own) go into a GIF with that
+    // palette: no quantiser, and the pixels a frame leaves as they were stay transparent
+    const palette = coloursOf(await sharp(readFileSync(pngPaths[pick[pick.length - 1]])).flatten({ background: '#ffffff' }).removeAlpha().raw().toBuffer());
+    if (palette.length / 3 <= 255) {
+      const lut = paletteLut();
+      writeFileAtomic(path, gifOf(pages.map((b) => toPalette(b.subarray(0, page), palette, lut)), width, height, palette, delays));
+      return;
+    }
+  }
   const joined = sharp(stack, { raw: { width, height: height * pages.length, channels: 3, pageHeight: height } });
   const buf = format === 'webp'
     ? await joined.webp({ loop: 0, delay: delays, quality: 90, effort: 4 }).toBuffer()

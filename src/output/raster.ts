@@ -214,31 +214,55 @@ function chunk(type: string, data: Uint8Array): Buffer {
 }
 
 /**
- * Pixels mapped to a fixed palette (each colour to its nearest entry, remembered in lut: 2^24
- * bytes of indices, and 2^21 bytes of bits saying which are known) and written as an indexed PNG: rows unfiltered, as
- * the PNG specification recommends for palette images, then deflated.
+ * Palette entry of every colour met so far (2^24 indices, and 2^21 bytes of bits saying which are
+ * known); a colour not in the palette takes the entry nearest to its 5-bit-per-channel cell's
+ * centre (2^15 of them, -1 until searched), so a resized picture's many blends cost few searches.
  */
-export function indexedPng(px: Uint8Array, width: number, height: number, palette: Uint8Array, lut: { index: Uint8Array; known: Uint8Array }, deflate: (b: Uint8Array) => Uint8Array): Buffer {
+export interface PaletteLut { index: Uint8Array; known: Uint8Array; cell: Int16Array; exact: Map<number, number> | null }
+export const paletteLut = (): PaletteLut => ({ index: new Uint8Array(1 << 24), known: new Uint8Array(1 << 21), cell: new Int16Array(1 << 15).fill(-1), exact: null });
+
+/** RGB pixels as indices of their nearest palette entries (at most 256). */
+export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut): Uint8Array {
   const n = palette.length / 3;
-  if (n < 1 || n > 256 || n % 1 !== 0) throw new Error(`indexedPng: a palette of ${n} colours`);
-  const rows = new Uint8Array((width + 1) * height);
-  for (let r = 0, o = 0, k = 0; r < height; r++) {
-    rows[o++] = 0; // filter: none
-    for (let c = 0; c < width; c++, k += 3) {
-      const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
-      if ((lut.known[key >> 3] & (1 << (key & 7))) === 0) {
-        let best = 0, bd = Infinity;
-        for (let q = 0; q < n; q++) {
-          const dr = palette[3 * q] - px[k], dg = palette[3 * q + 1] - px[k + 1], db = palette[3 * q + 2] - px[k + 2];
-          // weights of the eye's sensitivity (common practice for colour distance in RGB)
-          const d = 2 * dr * dr + 4 * dg * dg + 3 * db * db;
-          if (d < bd) { bd = d; best = q; }
-        }
-        lut.index[key] = best;
-        lut.known[key >> 3] |= 1 << (key & 7);
-      }
-      rows[o++] = lut.index[key];
+  if (n < 1 || n > 256 || n % 1 !== 0) throw new Error(`toPalette: a palette of ${n} colours`);
+  if (!lut.exact) {
+    lut.exact = new Map();
+    for (let q = n - 1; q >= 0; q--) lut.exact.set((palette[3 * q] << 16) | (palette[3 * q + 1] << 8) | palette[3 * q + 2], q);
+  }
+  const nearest = (r: number, g: number, b: number): number => {
+    let best = 0, bd = Infinity;
+    for (let q = 0; q < n; q++) {
+      const dr = palette[3 * q] - r, dg = palette[3 * q + 1] - g, db = palette[3 * q + 2] - b;
+      // weights of the eye's sensitivity (common practice for colour distance in RGB)
+      const d = 2 * dr * dr + 4 * dg * dg + 3 * db * db;
+      if (d < bd) { bd = d; best = q; }
     }
+    return best;
+  };
+  const out = new Uint8Array(px.length / 3);
+  for (let i = 0, k = 0; i < out.length; i++, k += 3) {
+    const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
+    if ((lut.known[key >> 3] & (1 << (key & 7))) === 0) {
+      let j = lut.exact.get(key);
+      if (j === undefined) {
+        const c = ((px[k] >> 3) << 10) | ((px[k + 1] >> 3) << 5) | (px[k + 2] >> 3);
+        if (lut.cell[c] < 0) lut.cell[c] = nearest((px[k] & 0xf8) + 4, (px[k + 1] & 0xf8) + 4, (px[k + 2] & 0xf8) + 4);
+        j = lut.cell[c];
+      }
+      lut.index[key] = j;
+      lut.known[key >> 3] |= 1 << (key & 7);
+    }
+    out[i] = lut.index[key];
+  }
+  return out;
+}
+
+/** Pixels mapped to a fixed palette and written as an indexed PNG: rows unfiltered, as the PNG specification recommends for palette images, then deflated. */
+export function indexedPng(px: Uint8Array, width: number, height: number, palette: Uint8Array, lut: PaletteLut, deflate: (b: Uint8Array) => Uint8Array): Buffer {
+  const ix = toPalette(px, palette, lut), rows = new Uint8Array((width + 1) * height);
+  for (let r = 0; r < height; r++) {
+    rows[r * (width + 1)] = 0; // filter: none
+    rows.set(ix.subarray(r * width, (r + 1) * width), r * (width + 1) + 1);
   }
   const head = Buffer.alloc(13);
   head.writeUInt32BE(width, 0); head.writeUInt32BE(height, 4);
@@ -246,12 +270,19 @@ export function indexedPng(px: Uint8Array, width: number, height: number, palett
   return Buffer.concat([Buffer.from([137, 80, 78, 71, 13, 10, 26, 10]), chunk('IHDR', head), chunk('PLTE', palette), chunk('IDAT', deflate(rows)), chunk('IEND', new Uint8Array(0))]);
 }
 
-/** The distinct colours of RGB pixels, in the order they first appear. */
-export function coloursOf(px: Uint8Array): Uint8Array {
-  const seen = new Set<number>(), out: number[] = [];
+/** The distinct colours of RGB pixels in the order they first appear; beyond max of them, the rarest are left out. */
+export function coloursOf(px: Uint8Array, max = Infinity): Uint8Array {
+  const count = new Map<number, number>();
   for (let k = 0; k < px.length; k += 3) {
     const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
-    if (!seen.has(key)) { seen.add(key); out.push(px[k], px[k + 1], px[k + 2]); }
+    count.set(key, (count.get(key) ?? 0) + 1);
   }
-  return Uint8Array.from(out);
+  let keys = [...count.keys()];
+  if (keys.length > max) {
+    const keep = new Set([...keys].sort((a, b) => count.get(b)! - count.get(a)! || a - b).slice(0, max));
+    keys = keys.filter((k) => keep.has(k));
+  }
+  const out = new Uint8Array(3 * keys.length);
+  keys.forEach((k, i) => { out[3 * i] = k >> 16; out[3 * i + 1] = (k >> 8) & 255; out[3 * i + 2] = k & 255; });
+  return out;
 }
