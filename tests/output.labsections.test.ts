@@ -27,7 +27,7 @@ beforeAll(async () => {
   writeFileSync(join(dir, 'fit.json'), JSON.stringify({
     format: 1, status: 'fitted', reason: 'the optimiser closed', labNames: ['B-1', 'B-2'], xAxis: 'cmod', softening: 'bilinear', evaluations: 24, maxEvals: 40,
     objective: 0.012, startObjective: 0.09, table: [{ name: 'ft', unit: 'MPa', start: 3, fitted: 3.21, relStd: 0.02, wellDetermined: true }],
-    warnings: [], notes: ['the ranges include the scatter over mesh seeds'],
+    warnings: [], notes: ['the ranges include the scatter over mesh seeds'], compliance: [{ mm_per_N: 2e-5, estimated: true }, { mm_per_N: 2e-5, estimated: true }],
   }));
   writeFileSync(join(dir, 'compare-old.json'), '{ not json');
   // a second comparison of its own, and both with a picture whose SVG carries ids of its own
@@ -61,6 +61,7 @@ describe('report sections for comparisons and fits', () => {
     expect(p).toMatch(/<td>ft<\/td><td>MPa<\/td><td>3<\/td><td>3\.21<\/td><td>±3\.9 %<\/td>/);
     expect(p).toContain('24 of at most 40 simulations');
     expect(p).toContain('From <code>fit.json</code>');
+    expect(p).toContain('Machine compliance taken out of the crosshead: 0.0200 mm/kN (estimated), 0.0200 mm/kN (estimated).');
   });
   it('says in one line which file it could not read, and keeps the frames and the page self-contained', () => {
     const p = page();

@@ -46,6 +46,8 @@ export function fitSectionHtml(f: Json, ids = 'fit'): string {
   const rows = (f.table ?? []).map((t: Json) => [String(t.name), String(t.unit), sig(t.start), sig(t.fitted),
     typeof t.relStd === 'number' ? `±${(196 * t.relStd).toFixed(1)} %` : '—', typeof t.relStdModel === 'number' ? `±${(196 * t.relStdModel).toFixed(1)} %` : '—']);
   out += table(['parameter', 'unit', 'case', fitted ? 'fitted' : 'best so far', '±95 %', 'of it mesh seeds'], rows, `${ids}-table`);
+  const k = Array.isArray(f.compliance) ? (f.compliance as Json[]).filter((c) => typeof c.mm_per_N === 'number' && c.mm_per_N > 0) : [];
+  if (k.length) out += `<p>Machine compliance taken out of the crosshead: ${esc(k.map((c) => `${(1000 * c.mm_per_N).toPrecision(3)} mm/kN${c.estimated ? ' (estimated)' : ''}`).join(', '))}.</p>\n`;
   return out + notes(f.warnings, 'fit-warnings') + notes(f.notes, 'fit-notes');
 }
 
