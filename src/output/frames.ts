@@ -218,10 +218,9 @@ export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: Frame
 }
 
 /** Draw some of the planned frames into frames/ (in this thread); returns the report's copy of each. */
-export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[]): Promise<[number, string][]> {
+export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[], raster = new FrameRaster()): Promise<[number, string][]> {
   const c = readRunCase(dir), rows = readCurveRows(dir);
   const thumbs: [number, string][] = [];
-  const raster = new FrameRaster();
   const palette = plan.palette ? Uint8Array.from(plan.palette) : undefined;
   for (const k of steps) {
     const d = readStep(dir, k);
@@ -241,7 +240,8 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
 }
 
 /**
- * Frames of a finished (or stopped) run folder, drawn on up to two worker threads; pictures of other
+ * Frames of a finished (or stopped) run folder, drawn on this thread and a worker (workers: 2), on
+ * one worker (1) or here alone (0); pictures of other
  * steps are removed, and with prune (a complete run, which no resume needs) their stored states too.
  */
 export async function drawFrames(dir: string, opt: { workers?: number; prune?: boolean } = {}): Promise<FrameFile[]> {
@@ -256,20 +256,25 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
     }
   }
   if (!plan) return [];
+  const here = new FrameRaster();
   if (c.output.frames.includes('png')) {
     // one palette for every frame: quantised once, each frame then only looks its colours up
     const last = plan.steps[plan.steps.length - 1]!;
-    plan.palette = Array.from(await new FrameRaster().palette(framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth)));
+    plan.palette = Array.from(await here.palette(framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth)));
   }
   if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) rmSync(join(framesDir, `${stepName(k)}.bin`), { force: true });
   const compiled = import.meta.url.endsWith('.js');
   const n = compiled ? Math.min(Math.max(0, Math.floor(opt.workers ?? 2)), availableParallelism(), 2, plan.steps.length) : 0;
   let thumbs: [number, string][];
-  if (n === 0) thumbs = await drawFrameSteps(dir, plan, plan.steps);
+  if (n === 0) thumbs = await drawFrameSteps(dir, plan, plan.steps, here);
   else {
-    // interleaved shares: early frames (small cracks) and late ones cost about the same in each
+    // interleaved shares: early frames (small cracks) and late ones cost about the same in each;
+    // this thread, idle otherwise, draws the first share (one worker fewer to start)
     const shares = Array.from({ length: n }, (_, w) => plan.steps.filter((_, i) => i % n === w));
-    thumbs = (await Promise.all(shares.map((steps) => onWorker({ dir, plan, steps })))).flat();
+    const away = shares.slice(n > 1 ? 1 : 0).map((steps) => onWorker({ dir, plan, steps })); // started first
+    const mine = n > 1 ? drawFrameSteps(dir, plan, shares[0]!, here) : Promise.resolve([]);
+    const [a, b] = await Promise.all([mine, Promise.all(away)]);
+    thumbs = [...a, ...b.flat()];
   }
   const thumbOf = new Map(thumbs);
   return plan.steps.map((k) => {
