@@ -140,6 +140,7 @@ export class FrameRaster {
 
   private lut: PaletteLut | null = null;
   private lutFor: Uint8Array | null = null;
+  private rows = new Uint8Array(0);
 
   /** A field picture as PNG bytes: indexed against the run's palette when given, else through sharp's quantiser. */
   async png(p: FieldPicture, palette?: Uint8Array): Promise<Buffer> {
@@ -147,6 +148,7 @@ export class FrameRaster {
     if (!palette) return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
     // the nearest palette entry of each colour met, kept from frame to frame
     if (this.lutFor !== palette) { this.lut = paletteLut(); this.lutFor = palette; }
-    return indexedPng(data, width, height, palette, this.lut!, (b) => deflateSync(b, { level: 6 }));
+    if (this.rows.length !== (width + 1) * height) this.rows = new Uint8Array((width + 1) * height);
+    return indexedPng(data, width, height, palette, this.lut!, (b) => deflateSync(b, { level: 6 }), this.rows);
   }
 }

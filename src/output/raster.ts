@@ -221,8 +221,8 @@ function chunk(type: string, data: Uint8Array): Buffer {
 export interface PaletteLut { index: Uint8Array; known: Uint8Array; cell: Int16Array; exact: Map<number, number> | null }
 export const paletteLut = (): PaletteLut => ({ index: new Uint8Array(1 << 24), known: new Uint8Array(1 << 21), cell: new Int16Array(1 << 15).fill(-1), exact: null });
 
-/** RGB pixels as indices of their nearest palette entries (at most 256). */
-export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut): Uint8Array {
+/** RGB pixels as indices of their nearest palette entries (at most 256), into out when given. */
+export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, out: Uint8Array = new Uint8Array(px.length / 3)): Uint8Array {
   const n = palette.length / 3;
   if (n < 1 || n > 256 || n % 1 !== 0) throw new Error(`toPalette: a palette of ${n} colours`);
   if (!lut.exact) {
@@ -239,9 +239,11 @@ export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut):
     }
     return best;
   };
-  const out = new Uint8Array(px.length / 3);
-  for (let i = 0, k = 0; i < out.length; i++, k += 3) {
+  let last = -1, lastIx = 0;
+  for (let i = 0, k = 0, m = px.length / 3; i < m; i++, k += 3) {
     const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
+    // most pixels repeat their left neighbour (flat cells, white page)
+    if (key === last) { out[i] = lastIx; continue; }
     if ((lut.known[key >> 3] & (1 << (key & 7))) === 0) {
       let j = lut.exact.get(key);
       if (j === undefined) {
@@ -252,17 +254,18 @@ export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut):
       lut.index[key] = j;
       lut.known[key >> 3] |= 1 << (key & 7);
     }
-    out[i] = lut.index[key];
+    out[i] = lastIx = lut.index[key];
+    last = key;
   }
   return out;
 }
 
 /** Pixels mapped to a fixed palette and written as an indexed PNG: rows unfiltered, as the PNG specification recommends for palette images, then deflated. */
-export function indexedPng(px: Uint8Array, width: number, height: number, palette: Uint8Array, lut: PaletteLut, deflate: (b: Uint8Array) => Uint8Array): Buffer {
-  const ix = toPalette(px, palette, lut), rows = new Uint8Array((width + 1) * height);
+export function indexedPng(px: Uint8Array, width: number, height: number, palette: Uint8Array, lut: PaletteLut, deflate: (b: Uint8Array) => Uint8Array, scratch?: Uint8Array): Buffer {
+  const rows = scratch && scratch.length === (width + 1) * height ? scratch : new Uint8Array((width + 1) * height);
   for (let r = 0; r < height; r++) {
     rows[r * (width + 1)] = 0; // filter: none
-    rows.set(ix.subarray(r * width, (r + 1) * width), r * (width + 1) + 1);
+    toPalette(px.subarray(3 * r * width, 3 * (r + 1) * width), palette, lut, rows.subarray(r * (width + 1) + 1, (r + 1) * (width + 1)));
   }
   const head = Buffer.alloc(13);
   head.writeUInt32BE(width, 0); head.writeUInt32BE(height, 4);
