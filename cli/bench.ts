@@ -9,6 +9,7 @@
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file.
 // npm run bench -- --against DIR: the demo beam (and its 4× finer bulk) by this build and another, side by side.
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
+// npm run bench -- --frames [--against DIR]: the demo's analysis against its pictures, in CPU time (see bench-frames.ts).
 // npm run bench -- --order: error against unknowns and wall time for element orders 1 and 2 (also part of the default run).
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
@@ -26,6 +27,7 @@ import { runCase } from '../src/run.js';
 import { benchStudy } from './bench-study.js';
 import { benchOrder } from './bench-order.js';
 import { validationBench } from './bench-validation.js';
+import { benchFrames } from './bench-frames.js';
 
 const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
 const now = () => performance.now() / 1000;
@@ -237,7 +239,9 @@ const ri = args.indexOf('--repeat');
 const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
 const opt = (name: string, d: number) => { const i = args.indexOf(name); return i >= 0 ? Math.max(1, Number(args[i + 1]) || d) : d; };
 const ai = args.indexOf('--against');
-if (args.includes('--order')) {
+if (args.includes('--frames')) {
+  await benchFrames(repeat, ai >= 0 ? args[ai + 1] : undefined);
+} else if (args.includes('--order')) {
   benchOrder(repeat);
 } else if (ai >= 0) {
   const dir = args[ai + 1];

@@ -206,7 +206,6 @@ export function registerLabCommands(program: Command): void {
       const labs = o.lab.map((p) => readLabCurve(p, labColumns(o)));
       if (o.series !== undefined && o.series !== 'all' && o.series !== 'mean') throw new InputError(`--series must be all or mean (found "${o.series}")`);
       const { corrections, estimate } = correctionsOf(o);
-      if (estimate) throw new InputError('--compliance estimate works in rupta compare (a run and a file with both CMOD and crosshead columns); give fit the compliance it prints, in mm/kN');
       const workers = wholeOf('--workers', o.workers, 0);
       const inc = wholeOf('--increments', o.increments, 2), maxEvals = wholeOf('--max-evals', o.maxEvals, 1), seeds = wholeOf('--seeds', o.seeds, 0);
       if (o.out !== undefined && o.out.trim() === '') throw new InputError('--out needs the name of a folder (found an empty one)');
@@ -255,6 +254,7 @@ export function registerLabCommands(program: Command): void {
       try {
         r = await fitCase(c, labs, {
           params: paramsOf(o.params), softening: softeningOf(o.softening), xAxis: xAxisOf(o.x), series: o.series as 'all' | 'mean' | undefined, corrections,
+          complianceFrom: estimate ? o.lab.map((p) => cmodReading(p, o)) : undefined,
           meshSize: positive('--mesh-size', o.meshSize), increments: inc, maxEvals, workers, seeds, simTimeout_s: positive('--sim-timeout', o.simTimeout),
           stopRequested: () => stop,
           onStart,

@@ -8,7 +8,7 @@ import { loadCase } from '../src/case/index.js';
 import { buildDomain } from '../src/geometry/domain.js';
 import { generateMesh } from '../src/mesh/generate.js';
 import { simulateCurve, type SimCurve } from '../src/lab/fitworker.js';
-import { candidateCase } from '../src/lab/fit.js';
+import { candidateCase, fitCase, fitJson } from '../src/lab/fit.js';
 import { addPreload, estimateCompliance, removeCompliance, toeCorrection } from '../src/lab/correct.js';
 import { compareCurves, initialStiffness, interpAt, monotone, type Curve, type RunCurve } from '../src/lab/compare.js';
 import type { LabCurve } from '../src/lab/import.js';
@@ -59,6 +59,33 @@ describe('machine compliance from a synthetic test with a known added compliance
     const fixed = compareCurves(run, [lab], { estimateFrom: [{ x: truth.cmod!, y: truth.load }] });
     expect(fixed.notes.join(' ')).toMatch(/machine compliance estimated from the initial slopes/);
     expect(fixed.specimens[0]!.rmseRel!).toBeLessThan(0.1 * raw.specimens[0]!.rmseRel!);
+  });
+  it('fit --compliance estimate: the fit finds the known compliance itself (within 3 %, common practice: compliances in series add) and starts E from the corrected curve', async () => {
+    const c = loadCase(join(ROOT, 'cases', 'fit-demo.yaml'));
+    c.control.target = 0.15;
+    const ch = crosshead();
+    const lab: LabCurve = { name: 'ch.csv', x: ch.x, y: ch.y, xLabel: 'Crosshead', yLabel: 'Force', xUnit: 'mm', yUnit: 'N', xKind: 'displacement', notes: [] };
+    // two simulations: the case as given (the model's slopes, as compare takes them from a run) and the elastic run for E's start; the limit then ends the fit
+    const r = await fitCase(c, [lab], { complianceFrom: [{ x: truth.cmod!, y: truth.load }], meshSize: 12.5, increments: 40, maxEvals: 2, workers: 0, seeds: 0 });
+    expect(r.evaluations).toBe(2);
+    expect(r.history.map((h) => h.phase)).toEqual(['estimate', 'elastic']);
+    const k = r.compliance[0]!;
+    expect(k.estimated).toBe(true);
+    expect(Math.abs(k.mm_per_N / C - 1)).toBeLessThan(0.03);
+    expect(r.notes.join(' ')).toMatch(/ch\.csv: machine compliance estimated from the initial slopes/);
+    expect(r.notes.join(' ')).toMatch(/ch\.csv: machine compliance 0\.0\d+ mm\/kN taken out of the displacement/);
+    // E's start from the corrected crosshead slope: the truth's 26 000 MPa up to the slight bending before the peak
+    const E = r.table.find((t) => t.name === 'E')!;
+    expect(Math.abs(E.estimate / 26000 - 1)).toBeLessThan(0.04);
+    expect((fitJson(r).compliance as { mm_per_N: number }[])[0]!.mm_per_N).toBe(k.mm_per_N);
+    console.log(`fit estimate of the compliance: ${(1000 * k.mm_per_N).toFixed(5)} mm/kN against ${1000 * C} mm/kN (${(100 * (k.mm_per_N / C - 1)).toFixed(2)} %), E start ${E.estimate.toFixed(0)} MPa against 26000`);
+  }, 300_000);
+
+  it('fit --compliance estimate refuses a file without a CMOD column in one sentence', async () => {
+    const c = loadCase(join(ROOT, 'cases', 'fit-demo.yaml'));
+    const ch = crosshead();
+    const lab: LabCurve = { name: 'ch.csv', x: ch.x, y: ch.y, xLabel: 'Crosshead', yLabel: 'Force', xUnit: 'mm', yUnit: 'N', xKind: 'displacement', notes: [] };
+    await expect(fitCase(c, [lab], { complianceFrom: [null], maxEvals: 1, workers: 0 })).rejects.toThrow(/needs a CMOD column beside the displacement in ch\.csv/);
   });
 });
 

@@ -27,9 +27,14 @@ beforeAll(async () => {
   writeFileSync(join(dir, 'fit.json'), JSON.stringify({
     format: 1, status: 'fitted', reason: 'the optimiser closed', labNames: ['B-1', 'B-2'], xAxis: 'cmod', softening: 'bilinear', evaluations: 24, maxEvals: 40,
     objective: 0.012, startObjective: 0.09, table: [{ name: 'ft', unit: 'MPa', start: 3, fitted: 3.21, relStd: 0.02, wellDetermined: true }],
-    warnings: [], notes: ['the ranges include the scatter over mesh seeds'],
+    warnings: [], notes: ['the ranges include the scatter over mesh seeds'], compliance: [{ mm_per_N: 2e-5, estimated: true }, { mm_per_N: 2e-5, estimated: true }],
   }));
   writeFileSync(join(dir, 'compare-old.json'), '{ not json');
+  // a second comparison of its own, and both with a picture whose SVG carries ids of its own
+  writeFileSync(join(dir, 'compare-B.json'), readFileSync(join(dir, 'compare.json')));
+  const pic = '<svg xmlns="http://www.w3.org/2000/svg" width="20" height="10"><defs><clipPath id="plot-area"><rect width="20" height="10"/></clipPath></defs><g id="series" clip-path="url(#plot-area)"><path d="M0 0L20 10"/></g></svg>';
+  writeFileSync(join(dir, 'compare.svg'), pic);
+  writeFileSync(join(dir, 'compare-B.svg'), pic);
   await redrawRun(dir, { frames: false });
 }, 60000);
 
@@ -56,12 +61,28 @@ describe('report sections for comparisons and fits', () => {
     expect(p).toMatch(/<td>ft<\/td><td>MPa<\/td><td>3<\/td><td>3\.21<\/td><td>±3\.9 %<\/td>/);
     expect(p).toContain('24 of at most 40 simulations');
     expect(p).toContain('From <code>fit.json</code>');
+    expect(p).toContain('Machine compliance taken out of the crosshead: 0.0200 mm/kN (estimated), 0.0200 mm/kN (estimated).');
   });
   it('says in one line which file it could not read, and keeps the frames and the page self-contained', () => {
     const p = page();
     expect(p).toMatch(/compare-old\.json could not be read: /);
-    expect(p.match(/<h2>Comparison with measurements<\/h2>/g)).toHaveLength(2); // one heading per file
+    expect(p.match(/<h2>Comparison with measurements<\/h2>/g)).toHaveLength(3); // one heading per file
     expect(p).toContain('id="stepper"');
     expect(externalReferences(p)).toEqual([]);
   });
+});
+
+it('gives every element of the page its own id when two comparisons share it', () => {
+  const p = readFileSync(join(dir, 'report.html'), 'utf8');
+  // the start tags' id attributes, outside scripts and styles
+  const tags = p.replace(/<script\b[\s\S]*?<\/script>/gi, '').replace(/<style\b[\s\S]*?<\/style>/gi, '');
+  const ids = [...tags.matchAll(/<[A-Za-z][^<>]*?\sid="([^"]*)"/g)].map((m) => m[1]);
+  expect(ids).toContain('compare-table');
+  expect(ids).toContain('compare-B-table');
+  expect(ids).toContain('compare-B-picture-plot-area');
+  const seen = new Map<string, number>();
+  for (const id of ids) seen.set(id, (seen.get(id) ?? 0) + 1);
+  expect([...seen].filter(([, n]) => n > 1)).toEqual([]);
+  // references to the picture's ids follow them
+  expect(tags).toContain('url(#compare-B-picture-plot-area)');
 });

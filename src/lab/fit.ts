@@ -15,7 +15,7 @@ import { sha256 } from '../version.js';
 import { plotSvg, PALETTE, type Series } from '../output/plot.js';
 import type { LabCurve } from './import.js';
 import { rilemGF, workOfFracture } from './work.js';
-import { correctCurve, type Corrections } from './correct.js';
+import { correctCurve, estimateCompliance, type Corrections } from './correct.js';
 import { chooseAxis, curveDifference, initialStiffness, interpAt, meanCurve, specimenLabels, measuredFunction, monotone, peakIndex, thin, type Curve, type XAxis } from './compare.js';
 import { simulateCurve, type SimCurve, type SimJob, type SimReply } from './fitworker.js';
 
@@ -39,6 +39,12 @@ export interface FitOptions {
   series?: 'all' | 'mean';
   /** Preload, machine compliance and toe corrections of the measured curves. */
   corrections?: Corrections;
+  /**
+   * The CMOD reading of each measured curve's test (same order): the machine compliance in its
+   * crosshead reading is then estimated from the initial slopes against the case's elastic run
+   * (as compare --compliance estimate does) and taken out before the fit.
+   */
+  complianceFrom?: (Curve | null)[];
   /** Wall-clock limit of one simulation (s); default 8 × the median so far, at least 30 s (600 s for the first). */
   simTimeout_s?: number;
   /** Extra mesh seeds run at the optimum for the model's own scatter in the ±95 % ranges (default 2). */
@@ -124,6 +130,8 @@ export interface FitResult {
   wallSeconds: number;
   workers: number;
   mesh: { size: number; tipSize: number; polygons: number };
+  /** Machine compliance taken out of each measured curve (mm/N; given, estimated or none), in --lab order. */
+  compliance: { mm_per_N: number; estimated: boolean }[];
   curves: { measured: Curve; specimens: Curve[]; start: Curve | null; fitted: Curve };
 }
 
@@ -321,22 +329,33 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   const notes: string[] = [`load against ${xAxis === 'cmod' ? 'CMOD' : 'load-point displacement'}: ${axisReason}`], warnings: string[] = [];
   const labels = specimenLabels(labs);
 
-  // the measured curves, corrected, as functions of the opening
-  const curvesIn = labs.map((l, i) => {
-    const r = correctCurve({ x: l.x, y: l.y }, opt.corrections ?? {}, xAxis === 'displacement');
-    notes.push(...r.notes.map((t) => `${labels[i]}: ${t}`));
-    return r.curve;
-  });
-  const series = opt.series ?? 'all';
-  const mean = labs.length > 1 ? meanCurve(curvesIn) : null;
-  const targets: Curve[] = series === 'mean' && mean ? [mean] : curvesIn.map(measuredFunction);
-  for (const [i, m] of targets.entries()) {
-    if (m.x.length < 5) throw new InputError(`${series === 'mean' && mean ? 'the mean curve' : labs[i]!.name}: only ${m.x.length} points with increasing opening: a fit needs a curve of at least 5`);
+  // the measured curves, corrected, as functions of the opening (again once an estimated compliance is known)
+  const estimating = opt.complianceFrom !== undefined;
+  if (estimating) {
+    if (xAxis !== 'displacement') throw new InputError('--compliance estimate applies to a crosshead (load-point displacement) curve, but the fit is against CMOD, which needs no compliance: leave --compliance out');
+    if (!hasGauge) throw new InputError('--compliance estimate needs the predicted CMOD, and the case has no gauge: add control.gauge, or give the compliance in mm/kN');
+    labs.forEach((l, i) => { if (!opt.complianceFrom![i]) throw new InputError(`--compliance estimate needs a CMOD column beside the displacement in ${l.name}, and it has none: give the compliance in mm/kN instead`); });
   }
+  let compliance = labs.map(() => ({ mm_per_N: opt.corrections?.compliance_mm_per_N ?? 0, estimated: false }));
+  let curvesIn: Curve[] = [], mean: Curve | null = null, targets: Curve[] = [], measured: Curve = { x: new Float64Array(0), y: new Float64Array(0) }, Pm = 0;
+  const series = opt.series ?? 'all';
+  const correctAll = (say: boolean): void => {
+    curvesIn = labs.map((l, i) => {
+      const r = correctCurve({ x: l.x, y: l.y }, { ...opt.corrections, compliance_mm_per_N: compliance[i]!.mm_per_N }, xAxis === 'displacement');
+      if (say) notes.push(...r.notes.map((t) => `${labels[i]}: ${t}`));
+      return r.curve;
+    });
+    mean = labs.length > 1 ? meanCurve(curvesIn) : null;
+    targets = series === 'mean' && mean ? [mean] : curvesIn.map(measuredFunction);
+    for (const [i, m] of targets.entries()) {
+      if (m.x.length < 5) throw new InputError(`${series === 'mean' && mean ? 'the mean curve' : labs[i]!.name}: only ${m.x.length} points with increasing opening: a fit needs a curve of at least 5`);
+    }
+    // estimates come from the mean curve of a series (or the one curve)
+    measured = mean ? measuredFunction(mean) : targets[0]!;
+    Pm = measured.y[peakIndex(measured.y)]!;
+  };
+  correctAll(!estimating);
   if (labs.length > 1) notes.push(series === 'mean' ? `fitted to the mean curve of ${labs.length} specimens (${labels.join(', ')})` : `fitted to all ${labs.length} specimens together (${labels.join(', ')}): the objective is the RMS of their RMSEs`);
-  // estimates come from the mean curve of a series (or the one curve)
-  const measured = mean ? measuredFunction(mean) : targets[0]!;
-  const Pm = measured.y[peakIndex(measured.y)]!;
 
   // a load far from anything the case can carry is a unit slip, not a measurement
   const A = ligamentArea(c);
@@ -345,7 +364,7 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
     throw new InputError(`the measured peak load ${Pm.toPrecision(3)} N is ${Pm > Pref ? `${(Pm / Pref).toPrecision(2)} times` : `1/${(Pref / Pm).toPrecision(2)} of`} ft × ligament area of the case (${Pref.toPrecision(3)} N): expected a load in N within a factor 10 above or 1000 below it; check the load unit (--load-unit) or the case`);
   }
 
-  const base = candidateCase(c, measured, xAxis, opt);
+  let base = candidateCase(c, measured, xAxis, opt);
   const softening = base.material.softening;
   const mesh = generateMesh(buildDomain(base), base.mesh);
   const polygons = mesh.cellStart.length - 1;
@@ -443,19 +462,40 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   const toMat = (v: number[]): Mat => { const m: Mat = { ...est }; params.forEach((p, i) => { m[p] = Math.exp(v[i]!); }); return m; };
   try {
     try {
-      // E: the elastic case once; its stiffness is proportional to E
-      let km = NaN;
-      if (params.includes('E')) {
-        // the cracked case itself, one small step far below cracking: same mesh, same refinement at the tip
+      // E: the cracked case itself, one small step far below cracking: same mesh, same refinement
+      // at the tip; its stiffness is proportional to E
+      const elasticRun = async (): Promise<SimCurve> => {
         const el: CaseModel = structuredClone(base);
         const xp = measured.x[peakIndex(measured.y)]!;
         el.control.target = Math.sign(el.control.target || 1) * 0.02 * (xp > 0 ? xp : Math.abs(el.control.target));
         el.control.increments = 1;
         const s = await simulate(el);
-        const xs = xAxis === 'cmod' ? s.cmod : s.displacement;
-        const ks = xs && xs.length > 1 ? s.load[1]! / xs[1]! : NaN;
-        km = initialStiffness(measured);
         record({ phase: 'elastic', ...start, objective: NaN, peak_N: NaN, status: s.status, seconds: s.seconds });
+        return s;
+      };
+      const slope = (s: SimCurve, x: Float64Array | null): number => (x && x.length > 1 ? s.load[1]! / x[1]! : NaN);
+      if (estimating) {
+        // machine compliance as compare estimates it: the crosshead and CMOD slopes of each test
+        // against those of a run of the case as given, all over 5–40 % of each curve's own peak
+        const s = await simulate(matOf(start, base));
+        compliance = labs.map((l, i) => {
+          const e = estimateCompliance({ x: l.x, y: l.y }, opt.complianceFrom![i]!, { x: s.displacement, y: s.load }, { x: s.cmod ?? new Float64Array(0), y: s.load });
+          notes.push(...e.notes.map((t) => `${labels[i]}: ${t}`));
+          return { mm_per_N: e.C_mm_per_N, estimated: true };
+        });
+        correctAll(true);
+        base = candidateCase(c, measured, xAxis, opt);
+        // the run is the case's own candidate too, judged against the corrected curves
+        const curve = s.load.length > 0 ? simOpening(s, xAxis) : { x: new Float64Array(0), y: new Float64Array(0) };
+        const f = s.status === 'failed' || s.reason === 'time limit' || curve.x.length < 2 ? Infinity : objective(curve);
+        cache.set(keyOf(start), { sim: s, curve, f });
+        record({ phase: 'estimate', ...start, objective: f, peak_N: s.load.length ? s.load[peakIndex(s.load)]! : NaN, status: s.reason === 'time limit' ? 'timed out' : s.status, seconds: s.seconds });
+      }
+      let km = NaN;
+      if (params.includes('E')) {
+        const s = await elasticRun();
+        const ks = slope(s, xAxis === 'cmod' ? s.cmod : s.displacement);
+        km = initialStiffness(measured);
         if (Number.isFinite(ks) && ks > 0 && km > 0) {
           Object.assign(est, clamp({ ...est, E: start.E * (km / ks) }));
           notes.push(`E from the initial compliance (load between 5 and 40 % of the peak, rising branch): measured ${km.toPrecision(4)} N/mm, elastic run ${ks.toPrecision(4)} N/mm at E = ${start.E.toPrecision(4)} MPa`);
@@ -644,7 +684,8 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       if (Math.abs(correlation[i]![j]!) > 0.95) warnings.push(`${params[i]} and ${params[j]} are strongly correlated (${correlation[i]![j]!.toFixed(2)}): the curve fixes a combination of them better than each alone`);
     }
     if (Number.isFinite(fbest) && fbest > 0.05) warnings.push(`the fitted curve still differs from the measured one by ${(100 * fbest).toFixed(1)} % of the peak (RMSE): the softening law or the case may not describe the test`);
-    if (xAxis === 'displacement' && !opt.corrections?.compliance_mm_per_N && params.includes('E') && (fit.E < 0.5 * start.E || est.E < 0.5 * start.E)) {
+    if (estimating && !compliance.some((k) => k.estimated)) warnings.push('the machine compliance was not estimated: the limit or an interruption came before the run of the case as given, so the crosshead curves were fitted as read');
+    if (xAxis === 'displacement' && !opt.corrections?.compliance_mm_per_N && !estimating && params.includes('E') && (fit.E < 0.5 * start.E || est.E < 0.5 * start.E)) {
       warnings.push(`E came out at ${(100 * Math.min(fit.E, est.E) / start.E).toFixed(0)} % of the case's ${start.E} MPa from a displacement reading: a crosshead includes the machine's compliance, seating and preload, so give --compliance (or fit against CMOD), --toe and --preload`);
     }
 
@@ -655,7 +696,7 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       material: fit, objective: fbest, startObjective: startEval?.f ?? NaN,
       table, correlation, warnings, notes, history, evaluations: sims, maxEvals,
       wallSeconds: (performance.now() - t0) / 1000, workers: nWorkers,
-      mesh: { size: base.mesh.size, tipSize: base.mesh.tipSize, polygons },
+      mesh: { size: base.mesh.size, tipSize: base.mesh.tipSize, polygons }, compliance,
       curves: { measured: targets.length === 1 ? targets[0]! : measured, specimens: targets.length > 1 ? targets : [], start: startEval?.curve ?? null, fitted: bestCurve ?? { x: new Float64Array(0), y: new Float64Array(0) } },
     };
   } finally {

@@ -159,39 +159,122 @@ function pointMover(mesh: PolyMesh, disp: Float64Array, mag: number): (x: number
   };
 }
 
-/** A support symbol drawn pointing down from its apex, turned away from the body. */
-function supportSymbol(x: number, y: number, fix: 'x' | 'y' | 'xy', angle: number, u: number): string {
-  const w = 8 * u, h = 13 * u, parts: string[] = [];
-  parts.push(el('path', { d: `M0 0L${n(-w)} ${n(h)}L${n(w)} ${n(h)}Z`, fill: '#ffffff', stroke: INK, 'stroke-width': 1.4 * u, 'stroke-linejoin': 'round' }));
+/** A support symbol in its own frame (apex at the origin, pointing down from it): a triangle, two rollers when it is free along the ground, a hatched ground line. */
+export function supportShape(fix: 'x' | 'y' | 'xy', u: number): { tri: number[]; rollers: { cx: number; cy: number; r: number }[]; ground: number[]; hatch: number[][] } {
+  const w = 8 * u, h = 13 * u;
+  const rollers: { cx: number; cy: number; r: number }[] = [];
   let ground = h;
   if (fix !== 'xy') {
     // a roller: free along the ground line
     const r = 2.6 * u;
-    parts.push(el('circle', { cx: -w / 2, cy: h + r + 0.6 * u, r, fill: '#ffffff', stroke: INK, 'stroke-width': 1.2 * u }));
-    parts.push(el('circle', { cx: w / 2, cy: h + r + 0.6 * u, r, fill: '#ffffff', stroke: INK, 'stroke-width': 1.2 * u }));
+    rollers.push({ cx: -w / 2, cy: h + r + 0.6 * u, r }, { cx: w / 2, cy: h + r + 0.6 * u, r });
     ground = h + 2 * r + 1.2 * u;
   }
-  const gw = w + 4 * u;
-  let hatch = `M${n(-gw)} ${n(ground)}L${n(gw)} ${n(ground)}`;
+  const gw = w + 4 * u, hatch: number[][] = [];
   for (let k = 0; k < 5; k++) {
     const x0 = -gw + ((k + 0.5) * 2 * gw) / 5;
-    hatch += `M${n(x0)} ${n(ground)}l${n(-3.5 * u)} ${n(4.5 * u)}`;
+    hatch.push([x0, ground, x0 - 3.5 * u, ground + 4.5 * u]);
   }
+  return { tri: [0, 0, -w, h, w, h], rollers, ground: [-gw, ground, gw, ground], hatch };
+}
+
+/** A support symbol drawn pointing down from its apex, turned away from the body. */
+function supportSymbol(x: number, y: number, fix: 'x' | 'y' | 'xy', angle: number, u: number): string {
+  const g = supportShape(fix, u), t = g.tri, parts: string[] = [];
+  parts.push(el('path', { d: `M${n(t[0])} ${n(t[1])}L${n(t[2])} ${n(t[3])}L${n(t[4])} ${n(t[5])}Z`, fill: '#ffffff', stroke: INK, 'stroke-width': 1.4 * u, 'stroke-linejoin': 'round' }));
+  for (const r of g.rollers) parts.push(el('circle', { cx: r.cx, cy: r.cy, r: r.r, fill: '#ffffff', stroke: INK, 'stroke-width': 1.2 * u }));
+  let hatch = `M${n(g.ground[0])} ${n(g.ground[1])}L${n(g.ground[2])} ${n(g.ground[3])}`;
+  for (const h of g.hatch) hatch += `M${n(h[0])} ${n(h[1])}l${n(h[2] - h[0])} ${n(h[3] - h[1])}`;
   parts.push(el('path', { d: hatch, fill: 'none', stroke: INK, 'stroke-width': 1.2 * u, 'stroke-linecap': 'round' }));
   return el('g', { transform: `translate(${n(x)} ${n(y)}) rotate(${angle})`, class: `support fix-${fix}` }, parts);
 }
 
-/** An arrow from (x0, y0) to its tip (x1, y1). */
-function arrow(x0: number, y0: number, x1: number, y1: number, u: number, color: string): string {
+/** An arrow from (x0, y0) to its tip (x1, y1): a white halo under the shaft, the shaft, the head. */
+export function arrowShape(a: { x0: number; y0: number; x1: number; y1: number }, u: number): { halo: number[]; shaft: number[]; head: number[] } {
+  const { x0, y0, x1, y1 } = a;
   const L = Math.hypot(x1 - x0, y1 - y0) || 1, ex = (x1 - x0) / L, ey = (y1 - y0) / L;
   const hl = 11 * u, hw = 5 * u;
   const bx = x1 - ex * hl, by = y1 - ey * hl;
-  const head = `M${n(x1)} ${n(y1)}L${n(bx - ey * hw)} ${n(by + ex * hw)}L${n(bx + ey * hw)} ${n(by - ex * hw)}Z`;
+  return { halo: [x0, y0, bx, by], shaft: [x0, y0, bx + ex * u, by + ey * u], head: [x1, y1, bx - ey * hw, by + ex * hw, bx + ey * hw, by - ex * hw] };
+}
+
+function arrow(a: { x0: number; y0: number; x1: number; y1: number }, u: number, color: string): string {
+  const g = arrowShape(a, u), h = g.head;
+  const seg = (q: number[]): string => `M${n(q[0])} ${n(q[1])}L${n(q[2])} ${n(q[3])}`;
   return el('g', { class: 'load' }, [
-    el('path', { d: `M${n(x0)} ${n(y0)}L${n(bx)} ${n(by)}`, stroke: '#ffffff', 'stroke-width': 6 * u, 'stroke-linecap': 'round', opacity: 0.8 }),
-    el('path', { d: `M${n(x0)} ${n(y0)}L${n(bx + ex * u)} ${n(by + ey * u)}`, stroke: color, 'stroke-width': 2.8 * u, 'stroke-linecap': 'round' }),
-    el('path', { d: head, fill: color, stroke: color, 'stroke-width': 0.8 * u, 'stroke-linejoin': 'round' }),
+    el('path', { d: seg(g.halo), stroke: '#ffffff', 'stroke-width': 6 * u, 'stroke-linecap': 'round', opacity: 0.8 }),
+    el('path', { d: seg(g.shaft), stroke: color, 'stroke-width': 2.8 * u, 'stroke-linecap': 'round' }),
+    el('path', { d: `M${n(h[0])} ${n(h[1])}L${n(h[2])} ${n(h[3])}L${n(h[4])} ${n(h[5])}Z`, fill: color, stroke: color, 'stroke-width': 0.8 * u, 'stroke-linejoin': 'round' }),
   ]);
+}
+
+/** Screen places of the support symbols, each turned away from the body. */
+export function supportPlaces(p: FieldPicture, L: FieldLayout): { x: number; y: number; fix: 'x' | 'y' | 'xy'; angle: number }[] {
+  return (p.supports ?? []).map((q) => {
+    const [mx, my] = L.move(q.x, q.y);
+    return { x: L.X(mx), y: L.Y(my), fix: q.fix, angle: q.fix === 'x' ? (q.x <= L.midX ? 90 : -90) : q.y <= L.midY ? 0 : 180 };
+  });
+}
+
+/** Screen ends of the load arrows: pushing loads end at the point, pulling loads start there. */
+export function loadArrows(p: FieldPicture, L: FieldLayout): { x0: number; y0: number; x1: number; y1: number }[] {
+  const out: { x0: number; y0: number; x1: number; y1: number }[] = [];
+  const u = L.u;
+  for (const l of p.loads ?? []) {
+    const len0 = Math.hypot(l.dx, l.dy);
+    if (!(len0 > 0)) continue;
+    const [mx, my] = L.move(l.x, l.y);
+    const px = L.X(mx), py = L.Y(my), ex = l.dx / len0, ey = -l.dy / len0, len = 46 * u, gap = 2 * u;
+    const outward = ex * (px - L.X(L.midX)) + ey * (py - L.Y(L.midY)) > 0;
+    out.push(outward ? { x0: px + ex * gap, y0: py + ey * gap, x1: px + ex * (len + gap), y1: py + ey * (len + gap) }
+      : { x0: px - ex * (len + gap), y0: py - ey * (len + gap), x1: px - ex * gap, y1: py - ey * gap });
+  }
+  return out;
+}
+
+/** Cracks and notches as screen polylines. */
+export function screenCracks(p: FieldPicture, L: FieldLayout): { kind: 'notch' | 'crack'; pts: number[] }[] {
+  const out: { kind: 'notch' | 'crack'; pts: number[] }[] = [];
+  for (const c of p.cracks ?? []) {
+    if (c.points.length < 2) continue;
+    const pts: number[] = [];
+    for (const [x, y] of c.points) { const [mx, my] = L.move(x, y); pts.push(L.X(mx), L.Y(my)); }
+    out.push({ kind: c.kind, pts });
+  }
+  return out;
+}
+
+/** Widths (in u) and colour of a crack or notch line; both have a white halo under them. */
+export const crackStyle = (kind: 'notch' | 'crack'): { halo: number; width: number; color: string } =>
+  (kind === 'notch' ? { halo: 6, width: 3.2, color: '#5a5f66' } : { halo: 6.5, width: 3, color: '#0d0d0d' });
+
+/** Damage bucket (of 16) of a cohesive segment. */
+export const damageLevel = (d: number): number => Math.min(15, Math.max(0, Math.floor((Number.isFinite(d) ? d : 0) * 16)));
+
+export const INK_COLOR = INK;
+export const CAPTION_COLOR = MUTED;
+export const NO_VALUES = '#eef1f4';
+export const UNDEFORMED = '#8a9099';
+export const MESH_ON_VALUES = { opacity: 0.28, width: 0.5 };
+export const MESH_PLAIN = { color: '#5b6470', width: 0.6 };
+
+/** Screen polylines of the undeformed boundary, the interior edges (joined into long lines) and the deformed boundary; a closed loop repeats its first point. */
+export function meshLines(p: FieldPicture, L: FieldLayout): { undeformed: Float64Array[]; inner: Float64Array[]; outline: Float64Array[] } {
+  const mesh = p.mesh, nv = vertexCount(mesh);
+  const edges = meshEdges(mesh);
+  const loops = chainEdges(edges.a, edges.b, edges.boundary, nv);
+  const toScreen = (line: number[], px: (i: number) => number, py: (i: number) => number): Float64Array => {
+    const out = new Float64Array(2 * line.length);
+    for (let k = 0; k < line.length; k++) { out[2 * k] = px(line[k]); out[2 * k + 1] = py(line[k]); }
+    return out;
+  };
+  const sx = (i: number): number => L.sx[i], sy = (i: number): number => L.sy[i];
+  const showMesh = p.showMesh ?? !p.values;
+  return {
+    undeformed: p.displacement ? loops.map((l) => toScreen(l, (i) => L.X(mesh.xy[2 * i]), (i) => L.Y(mesh.xy[2 * i + 1]))) : [],
+    inner: showMesh ? chainEdges(edges.a, edges.b, edges.boundary.map((b) => 1 - b), nv).map((l) => toScreen(l, sx, sy)) : [],
+    outline: loops.map((l) => toScreen(l, sx, sy)),
+  };
 }
 
 /** Ticks for a colour bar: round values on each side of zero for a two-slope map. */
@@ -203,14 +286,27 @@ function barTicks(lo: number, hi: number, twoSlope: boolean): number[] {
   return niceTicks(lo, hi, 6);
 }
 
-/** The picture of a field on the mesh, as SVG text. */
-export function fieldSvg(p: FieldPicture): string {
+/** Where everything of a field picture goes: one computation for the SVG and the raster drawing. */
+export interface FieldLayout {
+  W: number; H: number; u: number; pad: number; mag: number;
+  /** Deformed vertex positions (model mm) and their screen positions. */
+  pos: Float64Array; sx: Float64Array; sy: Float64Array;
+  move: (x: number, y: number) => [number, number];
+  X: (x: number) => number; Y: (y: number) => number;
+  /** Model scale (px per mm), width of the shown box (mm), middle of the undeformed body. */
+  s: number; bw: number; midX: number; midY: number;
+  oy: number; bodyH: number; footY: number; capY: number;
+  hasBar: boolean; horizontalBar: boolean; vBarW: number;
+  captionLines: string[];
+  insetBox: [number, number, number, number];
+}
+
+/** The layout of a field picture (fieldSvg and the raster frames share it). */
+export function fieldLayout(p: FieldPicture): FieldLayout {
   const mesh = p.mesh, nv = vertexCount(mesh), nc = cellCount(mesh);
-  const { cellStart, cellVerts } = mesh;
   if (p.values && p.values.length !== nc) throw new Error(`fieldSvg: ${p.values.length} values for ${nc} cells`);
   if (p.displacement && p.displacement.length !== 2 * nv) throw new Error(`fieldSvg: displacement needs 2 × ${nv} entries, got ${p.displacement.length}`);
   const W = p.widthPx ?? 1000, u = W / 1000;
-  const fs = 16 * u; // label font size: readable when the picture spans an A4 text width
 
   // deformed positions
   const mag = p.displacement ? p.magnification ?? autoMagnification(mesh, p.displacement) : 1;
@@ -262,6 +358,47 @@ export function fieldSvg(p: FieldPicture): string {
 
   const sx = new Float64Array(nv), sy = new Float64Array(nv);
   for (let i = 0; i < nv; i++) { sx[i] = X(pos[2 * i]); sy[i] = Y(pos[2 * i + 1]); }
+  return {
+    W, H, u, pad, mag, pos, sx, sy, move, X, Y, s, bw, midX, midY, oy, bodyH, footY, capY, hasBar, horizontalBar, vBarW, captionLines,
+    insetBox: [W - pad - insetW, footY + 4 * u, insetW, insetH],
+  };
+}
+
+/** The value range and the map to [0, 1] of a field picture's colours. */
+export function valueScale(p: FieldPicture): { lo: number; hi: number; twoSlope: boolean; norm: (v: number) => number; level: (v: number) => number } {
+  let lo = 0, hi = 1, norm = (v: number): number => v;
+  const twoSlope = p.diverging === true;
+  if (p.values) {
+    if (p.range) {
+      lo = Math.min(p.range[0], p.range[1]); hi = Math.max(p.range[0], p.range[1]);
+    } else {
+      lo = Infinity; hi = -Infinity;
+      for (let c = 0; c < p.values.length; c++) { const v = p.values[c]; if (Number.isFinite(v)) { if (v < lo) lo = v; if (v > hi) hi = v; } }
+      if (!(hi >= lo)) { lo = 0; hi = 1; }
+    }
+    if (twoSlope && lo >= 0) lo = -hi; // zero stays white when all values share a sign
+    if (twoSlope && hi <= 0) hi = -lo;
+    if (lo === hi) { lo -= 0.5; hi += 0.5; }
+    norm = normaliser(lo, hi, twoSlope);
+  }
+  // colour level of a value: LEVELS bands, and LEVELS itself for a value that is not a number
+  const level = (v: number): number => (Number.isFinite(v) ? Math.min(LEVELS - 1, Math.max(0, Math.floor(norm(v) * LEVELS))) : LEVELS);
+  return { lo, hi, twoSlope, norm, level };
+}
+
+/** Colour of a level of valueScale. */
+export const levelColor = (twoSlope: boolean, k: number): string => colorAt(twoSlope ? diverging : sequential, k === LEVELS ? NaN : (k + 0.5) / LEVELS);
+export { LEVELS };
+
+/** The picture of a field on the mesh, as SVG text; layers: only these layers (by id), on a transparent page. */
+export function fieldSvg(p: FieldPicture, layers?: Set<string>): string {
+  const mesh = p.mesh, nv = vertexCount(mesh), nc = cellCount(mesh);
+  const { cellStart, cellVerts } = mesh;
+  const L = fieldLayout(p);
+  const { W, H, u, pad, mag, sx, sy, move, X, Y, s, bw, midX, midY, oy, bodyH, footY, capY, horizontalBar, hasBar, vBarW, captionLines } = L;
+  const fs = 16 * u; // label font size: readable when the picture spans an A4 text width
+  const want = (id: string): boolean => !layers || layers.has(id);
+  void mag;
   const cellPath = (c: number): string => {
     let d = '';
     for (let q = cellStart[c]; q < cellStart[c + 1]; q++) d += (q === cellStart[c] ? 'M' : 'L') + n1(sx[cellVerts[q]]) + ' ' + n1(sy[cellVerts[q]]);
@@ -269,88 +406,49 @@ export function fieldSvg(p: FieldPicture): string {
   };
 
   const body: string[] = [];
-  if (p.title) body.push(layer('title', [text(pad, pad + 22 * u, p.title, { 'font-size': 22 * u, 'font-weight': 'bold', fill: INK })]));
+  if (p.title && want('title')) body.push(layer('title', [text(pad, pad + 22 * u, p.title, { 'font-size': 22 * u, 'font-weight': 'bold', fill: INK })]));
 
   // cells: one path per colour level keeps 50k cells small and fast
   const cells: string[] = [];
-  let lo = 0, hi = 1, norm = (v: number): number => v;
-  const twoSlope = p.diverging === true;
+  const { lo, hi, twoSlope, norm, level } = valueScale(p);
   const map = twoSlope ? diverging : sequential;
-  if (p.values) {
-    if (p.range) {
-      lo = Math.min(p.range[0], p.range[1]); hi = Math.max(p.range[0], p.range[1]);
+  if (want('cells')) {
+    if (p.values) {
+      const buckets: string[][] = Array.from({ length: LEVELS + 1 }, () => []);
+      for (let c = 0; c < nc; c++) buckets[level(p.values[c])].push(cellPath(c));
+      for (let k = 0; k <= LEVELS; k++) {
+        if (!buckets[k].length) continue;
+        const col = levelColor(twoSlope, k);
+        // a hairline stroke in the fill colour closes anti-aliasing seams between neighbours
+        cells.push(el('path', { d: buckets[k].join(''), fill: col, stroke: col, 'stroke-width': 0.6 * u, 'stroke-linejoin': 'round', class: `level-${k}` }));
+      }
     } else {
-      lo = Infinity; hi = -Infinity;
-      for (let c = 0; c < nc; c++) { const v = p.values[c]; if (Number.isFinite(v)) { if (v < lo) lo = v; if (v > hi) hi = v; } }
-      if (!(hi >= lo)) { lo = 0; hi = 1; }
+      const all: string[] = [];
+      for (let c = 0; c < nc; c++) all.push(cellPath(c));
+      cells.push(el('path', { d: all.join(''), fill: NO_VALUES }));
     }
-    if (twoSlope && lo >= 0) lo = -hi; // zero stays white when all values share a sign
-    if (twoSlope && hi <= 0) hi = -lo;
-    if (lo === hi) { lo -= 0.5; hi += 0.5; }
-    norm = normaliser(lo, hi, twoSlope);
-    const buckets: string[][] = Array.from({ length: LEVELS + 1 }, () => []);
-    for (let c = 0; c < nc; c++) {
-      const v = p.values[c];
-      const k = Number.isFinite(v) ? Math.min(LEVELS - 1, Math.max(0, Math.floor(norm(v) * LEVELS))) : LEVELS;
-      buckets[k].push(cellPath(c));
-    }
-    for (let k = 0; k <= LEVELS; k++) {
-      if (!buckets[k].length) continue;
-      const col = k === LEVELS ? colorAt(map, NaN) : colorAt(map, (k + 0.5) / LEVELS);
-      // a hairline stroke in the fill colour closes anti-aliasing seams between neighbours
-      cells.push(el('path', { d: buckets[k].join(''), fill: col, stroke: col, 'stroke-width': 0.6 * u, 'stroke-linejoin': 'round', class: `level-${k}` }));
-    }
-  } else {
-    const all: string[] = [];
-    for (let c = 0; c < nc; c++) all.push(cellPath(c));
-    cells.push(el('path', { d: all.join(''), fill: '#eef1f4' }));
+    body.push(layer('cells', cells));
   }
-  body.push(layer('cells', cells));
 
-  const edges = meshEdges(mesh);
-  const loops = chainEdges(edges.a, edges.b, edges.boundary, nv);
-  const loopPath = (px: (i: number) => number, py: (i: number) => number): string => {
-    const d: string[] = [];
-    for (const line of loops) {
-      const closed = line.length > 2 && line[0] === line[line.length - 1];
-      let t = '';
-      for (let k = 0; k < (closed ? line.length - 1 : line.length); k++) t += (k ? 'L' : 'M') + n1(px(line[k])) + ' ' + n1(py(line[k]));
-      d.push(closed ? t + 'Z' : t);
-    }
-    return d.join('');
-  };
-  if (p.displacement) {
-    const d = loopPath((i) => X(mesh.xy[2 * i]), (i) => Y(mesh.xy[2 * i + 1]));
-    body.push(layer('undeformed', [el('path', { d, fill: 'none', stroke: '#8a9099', 'stroke-width': 1 * u, 'stroke-dasharray': `${n(5 * u)} ${n(3.5 * u)}` })]));
+  const lines = meshLines(p, L);
+  const pathOf = (ls: Float64Array[]): string => ls.map((l) => polyPath(l, false)).join('');
+  if (p.displacement && want('undeformed')) {
+    body.push(layer('undeformed', [el('path', { d: pathOf(lines.undeformed), fill: 'none', stroke: UNDEFORMED, 'stroke-width': 1 * u, 'stroke-dasharray': `${n(5 * u)} ${n(3.5 * u)}` })]));
   }
-  const showMesh = p.showMesh ?? !p.values;
-  let meshD = '';
-  if (showMesh) {
-    // interior edges joined into long polylines: about half the text of separate segments
-    const inner = edges.boundary.map((b) => 1 - b);
-    const d: string[] = [];
-    for (const line of chainEdges(edges.a, edges.b, inner, nv)) {
-      let t = '';
-      for (let k = 0; k < line.length; k++) t += (k ? 'L' : 'M') + n1(sx[line[k]]) + ' ' + n1(sy[line[k]]);
-      d.push(t);
-    }
-    meshD = d.join('');
-  }
-  const outD = loopPath((i) => sx[i], (i) => sy[i]);
-  const meshStroke = p.values ? { stroke: '#000000', 'stroke-opacity': 0.28, 'stroke-width': 0.5 * u } : { stroke: '#5b6470', 'stroke-width': 0.6 * u };
-  body.push(layer('mesh', meshD ? [el('path', { d: meshD, fill: 'none', 'stroke-linejoin': 'round', ...meshStroke })] : []));
-  body.push(layer('outline', [el('path', { d: outD, fill: 'none', stroke: INK, 'stroke-width': 1.3 * u, 'stroke-linejoin': 'round' })]));
+  const meshStroke = p.values ? { stroke: '#000000', 'stroke-opacity': MESH_ON_VALUES.opacity, 'stroke-width': MESH_ON_VALUES.width * u } : { stroke: MESH_PLAIN.color, 'stroke-width': MESH_PLAIN.width * u };
+  if (want('mesh')) body.push(layer('mesh', lines.inner.length ? [el('path', { d: pathOf(lines.inner), fill: 'none', 'stroke-linejoin': 'round', ...meshStroke })] : []));
+  if (want('outline')) body.push(layer('outline', [el('path', { d: pathOf(lines.outline), fill: 'none', stroke: INK, 'stroke-width': 1.3 * u, 'stroke-linejoin': 'round' })]));
 
   // cohesive segments, bucketed by damage
   const coh: string[] = [];
-  if (p.cohesive?.length) {
+  if (p.cohesive?.length && want('cohesive')) {
     const buckets: string[][] = Array.from({ length: 16 }, () => []);
     const halo: string[] = [];
     for (const c of p.cohesive) {
       const [ax, ay] = move(c.x1, c.y1), [bx, by] = move(c.x2, c.y2);
       const seg = `M${n1(X(ax))} ${n1(Y(ay))}L${n1(X(bx))} ${n1(Y(by))}`;
       halo.push(seg);
-      buckets[Math.min(15, Math.max(0, Math.floor((Number.isFinite(c.damage) ? c.damage : 0) * 16)))].push(seg);
+      buckets[damageLevel(c.damage)].push(seg);
     }
     coh.push(el('path', { d: halo.join(''), fill: 'none', stroke: '#ffffff', 'stroke-width': 6 * u, 'stroke-linecap': 'round', opacity: 0.85 }));
     buckets.forEach((b, k) => {
@@ -360,44 +458,23 @@ export function fieldSvg(p: FieldPicture): string {
 
   // cracks and notches: dark polylines with a white halo so they read on any colour
   const cracks: string[] = [];
-  for (const c of p.cracks ?? []) {
-    if (c.points.length < 2) continue;
-    const pts: number[] = [];
-    for (const [x, y] of c.points) { const [mx, my] = move(x, y); pts.push(X(mx), Y(my)); }
-    const d = polyPath(pts);
-    const notch = c.kind === 'notch';
+  for (const c of want('cracks') ? screenCracks(p, L) : []) {
+    const d = polyPath(c.pts);
+    const st = crackStyle(c.kind);
     cracks.push(el('g', { class: c.kind }, [
-      el('path', { d, fill: 'none', stroke: '#ffffff', 'stroke-width': (notch ? 6 : 6.5) * u, 'stroke-linecap': 'round', 'stroke-linejoin': 'round', opacity: 0.85 }),
-      el('path', { d, fill: 'none', stroke: notch ? '#5a5f66' : '#0d0d0d', 'stroke-width': (notch ? 3.2 : 3) * u, 'stroke-linecap': 'round', 'stroke-linejoin': 'round' }),
+      el('path', { d, fill: 'none', stroke: '#ffffff', 'stroke-width': st.halo * u, 'stroke-linecap': 'round', 'stroke-linejoin': 'round', opacity: 0.85 }),
+      el('path', { d, fill: 'none', stroke: st.color, 'stroke-width': st.width * u, 'stroke-linecap': 'round', 'stroke-linejoin': 'round' }),
     ]));
   }
-  body.push(layer('cracks', cracks));
-  body.push(layer('cohesive', coh));
+  if (want('cracks')) body.push(layer('cracks', cracks));
+  if (want('cohesive')) body.push(layer('cohesive', coh));
 
-  const sup: string[] = [];
-  for (const q of p.supports ?? []) {
-    const [mx, my] = move(q.x, q.y);
-    const angle = q.fix === 'x' ? (q.x <= midX ? 90 : -90) : q.y <= midY ? 0 : 180;
-    sup.push(supportSymbol(X(mx), Y(my), q.fix, angle, u));
-  }
-  body.push(layer('supports', sup));
-
-  const loads: string[] = [];
-  for (const l of p.loads ?? []) {
-    const L = Math.hypot(l.dx, l.dy);
-    if (!(L > 0)) continue;
-    const [mx, my] = move(l.x, l.y);
-    const px = X(mx), py = Y(my), ex = l.dx / L, ey = -l.dy / L, len = 46 * u, gap = 2 * u;
-    // pushing loads end at the point, pulling loads start there
-    const outward = ex * (px - X(midX)) + ey * (py - Y(midY)) > 0;
-    loads.push(outward ? arrow(px + ex * gap, py + ey * gap, px + ex * (len + gap), py + ey * (len + gap), u, INK)
-      : arrow(px - ex * (len + gap), py - ey * (len + gap), px - ex * gap, py - ey * gap, u, INK));
-  }
-  body.push(layer('loads', loads));
+  if (want('supports')) body.push(layer('supports', supportPlaces(p, L).map((q) => supportSymbol(q.x, q.y, q.fix, q.angle, u))));
+  if (want('loads')) body.push(layer('loads', loadArrows(p, L).map((a) => arrow(a, u, INK))));
 
   // colour bar
   const bar: string[] = [];
-  if (p.values) {
+  if (p.values && want('colorbar')) {
     const ticks = barTicks(lo, hi, twoSlope), labels = formatTicks(ticks);
     const label = p.valueLabel ?? 'value';
     const tickAt = (v: number): number => Math.min(1, Math.max(0, norm(v)));
@@ -423,10 +500,10 @@ export function fieldSvg(p: FieldPicture): string {
       });
     }
   }
-  body.push(layer('colorbar', bar));
+  if (want('colorbar')) body.push(layer('colorbar', bar));
 
   // damage key for the cohesive segments
-  if (p.cohesive?.length) {
+  if (p.cohesive?.length && want('damagebar')) {
     const len = 120 * u, x0 = horizontalBar && hasBar ? pad + Math.min(420 * u, W * 0.45) + 70 * u : pad + 8 * u, y0 = footY + 24 * u;
     const key: string[] = [text(x0, y0 - 8 * u, 'cohesive damage', { 'font-size': 14 * u, fill: INK })];
     for (let k = 0; k < 16; k++) key.push(el('rect', { x: x0 + (k * len) / 16, y: y0, width: len / 16 + 0.5 * u, height: 8 * u, fill: colorAt(damageMap, (k + 0.5) / 16) }));
@@ -436,22 +513,25 @@ export function fieldSvg(p: FieldPicture): string {
   }
 
   // the inset takes the right of the foot; the scale bar then moves to a second row on the left
-  if (p.inset) body.push(curveInsetSvg(p.inset, W - pad - insetW, footY + 4 * u, insetW, insetH, u));
+  const [ix, iy, iw, ih] = L.insetBox;
+  if (p.inset && want('inset')) body.push(curveInsetSvg(p.inset, ix, iy, iw, ih, u, layers && !layers.has('inset-dynamic') ? 'static' : 'all'));
 
   // scale bar in model millimetres
-  const Lmm = roundDown125(bw * 0.22);
-  const Lpx = Lmm * s, sbh = 7 * u;
-  const sbx = p.inset ? pad + 16 * u : W - pad - Lpx, sby = p.inset ? footY + 110 * u : footY + 24 * u;
-  body.push(layer('scalebar', [
-    el('rect', { x: sbx, y: sby, width: Lpx / 2, height: sbh, fill: INK }),
-    el('rect', { x: sbx + Lpx / 2, y: sby, width: Lpx / 2, height: sbh, fill: '#ffffff', stroke: INK, 'stroke-width': 0.9 * u }),
-    el('rect', { x: sbx, y: sby, width: Lpx, height: sbh, fill: 'none', stroke: INK, 'stroke-width': 0.9 * u }),
-    text(sbx + Lpx / 2, sby + sbh + 18 * u, `${formatValue(Lmm, 3).replace('−', '-')} mm`, { 'font-size': 14 * u, 'text-anchor': 'middle', fill: INK }),
-  ]));
+  if (want('scalebar')) {
+    const Lmm = roundDown125(bw * 0.22);
+    const Lpx = Lmm * s, sbh = 7 * u;
+    const sbx = p.inset ? pad + 16 * u : W - pad - Lpx, sby = p.inset ? footY + 110 * u : footY + 24 * u;
+    body.push(layer('scalebar', [
+      el('rect', { x: sbx, y: sby, width: Lpx / 2, height: sbh, fill: INK }),
+      el('rect', { x: sbx + Lpx / 2, y: sby, width: Lpx / 2, height: sbh, fill: '#ffffff', stroke: INK, 'stroke-width': 0.9 * u }),
+      el('rect', { x: sbx, y: sby, width: Lpx, height: sbh, fill: 'none', stroke: INK, 'stroke-width': 0.9 * u }),
+      text(sbx + Lpx / 2, sby + sbh + 18 * u, `${formatValue(Lmm, 3).replace('−', '-')} mm`, { 'font-size': 14 * u, 'text-anchor': 'middle', fill: INK }),
+    ]));
+  }
 
-  body.push(layer('caption', captionLines.map((line, i) => text(pad, capY + (i + 0.8) * 22 * u, line, { 'font-size': 15 * u, fill: MUTED }))));
+  if (want('caption')) body.push(layer('caption', captionLines.map((line, i) => text(pad, capY + (i + 0.8) * 22 * u, line, { 'font-size': 15 * u, fill: MUTED }))));
 
-  return svgDocument(W, H, body, { title: p.title });
+  return svgDocument(W, H, body, { title: p.title, background: layers ? 'none' : undefined });
 }
 
 /** The mesh alone (for a mesh preview): white-grey cells with their edges, plus the same annotations as fieldSvg. */

@@ -16,6 +16,7 @@ import { autoMagnification, bbox, fieldSvg, type FieldPicture } from './field.js
 import type { CurveInset } from './inset.js';
 import sharp from 'sharp';
 import { pngDataUri, svgToPngBuffer } from './png.js';
+import { FrameRaster } from './frameraster.js';
 import { decodeStep, encodeStep, type StepData } from './stepdata.js';
 
 /** The validated case as the run used it, in the run folder. */
@@ -144,7 +145,11 @@ export function frameInset(rows: StepRow[], step: number): CurveInset | undefine
 }
 
 /** What every frame of a run shares. */
-export interface FramePlan { steps: number[]; magnification: number; view: [number, number, number, number] }
+export interface FramePlan {
+  steps: number[]; magnification: number; view: [number, number, number, number];
+  /** One palette of the PNG frames (r, g, b, …), from the last frame. */
+  palette?: number[];
+}
 
 /** At most `cap` of the stored steps: every m-th from the first, with the smallest m that fits, and the last. */
 export function evenlySpaced(stored: number[], cap: number): number[] {
@@ -193,41 +198,50 @@ function readStep(dir: string, step: number): StepData {
   return decodeStep(readFileSync(join(dir, 'frames', `${stepName(step)}.bin`)));
 }
 
-/** The picture of one stored state. */
-export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan): string {
+/** The picture of one stored state (widthPx: its width). */
+export function framePicture(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan, widthPx: number): FieldPicture {
   const r = rows.find((q) => q.step === d.step);
   const caption = r
     ? [`Step ${r.step}: load ${fmtLoad(r.load_N)}, load-point displacement ${r.displacement_mm.toFixed(4)} mm` +
         (r.cmod_mm !== null ? `, CMOD ${r.cmod_mm.toFixed(4)} mm` : '') + `, crack length ${r.crack_length_mm.toFixed(1)} mm.`]
     : [`Step ${d.step}.`];
-  return fieldSvg({
+  return {
     mesh: d.mesh, values: d.s1, valueLabel: 'σ₁ / ft', range: [-1, 1], diverging: true,
     displacement: d.u, magnification: plan.magnification, view: plan.view, showMesh: true, cracks: d.cracks, cohesive: d.cohesive,
-    ...specimenSymbols(c), inset: frameInset(rows, d.step), title: c.title, caption, widthPx: 1000,
-  });
+    ...specimenSymbols(c), inset: frameInset(rows, d.step), title: c.title, caption, widthPx,
+  };
+}
+
+/** The SVG picture of one stored state. */
+export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan): string {
+  return fieldSvg(framePicture(c, d, rows, plan, 1000));
 }
 
 /** Draw some of the planned frames into frames/ (in this thread); returns the report's copy of each. */
-export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[]): Promise<[number, string][]> {
+export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[], raster = new FrameRaster()): Promise<[number, string][]> {
   const c = readRunCase(dir), rows = readCurveRows(dir);
   const thumbs: [number, string][] = [];
+  const palette = plan.palette ? Uint8Array.from(plan.palette) : undefined;
   for (const k of steps) {
-    const svg = frameSvg(c, readStep(dir, k), rows, plan);
+    const d = readStep(dir, k);
     const base = join(dir, 'frames', stepName(k));
-    if (c.output.frames.includes('svg')) writeFileAtomic(`${base}.svg`, svg);
+    const svg = c.output.frames.includes('svg') ? frameSvg(c, d, rows, plan) : null;
+    if (svg !== null) writeFileAtomic(`${base}.svg`, svg);
     if (c.output.frames.includes('png')) {
-      const png = await svgToPngBuffer(svg, c.output.pngWidth, { palette: true });
+      // drawn straight into pixels at the PNG's width: no SVG text to build and parse for the mesh
+      const png = await raster.png(framePicture(c, d, rows, plan, c.output.pngWidth), palette);
       writeFileAtomic(`${base}.png`, png);
       // the frame itself: a smaller copy would save little on a palette PNG and cost a resize and an encode
       const uri = `data:image/png;base64,${png.toString('base64')}`;
       thumbs.push([k, uri.includes('http') ? await pngDataUri(sharp(png)) : uri]);
-    } else thumbs.push([k, await pngDataUri(sharp(await svgToPngBuffer(svg, STEPPER_WIDTH)))]);
+    } else thumbs.push([k, await pngDataUri(sharp(await svgToPngBuffer(svg!, STEPPER_WIDTH)))]);
   }
   return thumbs;
 }
 
 /**
- * Frames of a finished (or stopped) run folder, drawn on up to two worker threads; pictures of other
+ * Frames of a finished (or stopped) run folder, drawn on this thread and a worker (workers: 2), on
+ * one worker (1) or here alone (0); pictures of other
  * steps are removed, and with prune (a complete run, which no resume needs) their stored states too.
  */
 export async function drawFrames(dir: string, opt: { workers?: number; prune?: boolean } = {}): Promise<FrameFile[]> {
@@ -242,15 +256,25 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
     }
   }
   if (!plan) return [];
+  const here = new FrameRaster();
+  if (c.output.frames.includes('png')) {
+    // one palette for every frame: quantised once, each frame then only looks its colours up
+    const last = plan.steps[plan.steps.length - 1]!;
+    plan.palette = Array.from(await here.palette(framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth)));
+  }
   if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) removeFile(join(framesDir, `${stepName(k)}.bin`));
   const compiled = import.meta.url.endsWith('.js');
   const n = compiled ? Math.min(Math.max(0, Math.floor(opt.workers ?? 2)), availableParallelism(), 2, plan.steps.length) : 0;
   let thumbs: [number, string][];
-  if (n === 0) thumbs = await drawFrameSteps(dir, plan, plan.steps);
+  if (n === 0) thumbs = await drawFrameSteps(dir, plan, plan.steps, here);
   else {
-    // interleaved shares: early frames (small cracks) and late ones cost about the same in each
+    // interleaved shares: early frames (small cracks) and late ones cost about the same in each;
+    // this thread, idle otherwise, draws the first share (one worker fewer to start)
     const shares = Array.from({ length: n }, (_, w) => plan.steps.filter((_, i) => i % n === w));
-    thumbs = (await Promise.all(shares.map((steps) => onWorker({ dir, plan, steps })))).flat();
+    const away = shares.slice(n > 1 ? 1 : 0).map((steps) => onWorker({ dir, plan, steps })); // started first
+    const mine = n > 1 ? drawFrameSteps(dir, plan, shares[0]!, here) : Promise.resolve([]);
+    const [a, b] = await Promise.all([mine, Promise.all(away)]);
+    thumbs = [...a, ...b.flat()];
   }
   const thumbOf = new Map(thumbs);
   return plan.steps.map((k) => {

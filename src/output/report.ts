@@ -11,7 +11,9 @@ import type { AnalysisResult, StepRow } from '../fracture/analysis.js';
 import { makeLaw } from '../cohesive/laws.js';
 import { characteristicLength } from '../case/describe.js';
 import { writeFileAtomic } from './files.js';
-import { esc } from './svg.js';
+import { esc, inlineSvg } from './svg.js';
+
+export { inlineSvg };
 import { formatValue } from './ticks.js';
 import { pickFrames, pngDataUri, svgWidth } from './png.js';
 
@@ -174,17 +176,6 @@ export function externalReferences(html: string): string[] {
     if (!(v.startsWith('#') || v.startsWith('data:'))) out.push(v);
   }
   return out;
-}
-
-/** An SVG document made fit to sit inside the page: no prolog or namespace, ids made unique, width from the page. */
-export function inlineSvg(svg: string, idPrefix: string, label: string): string {
-  let s = svg.replace(/<\?xml[^>]*\?>\s*/, '');
-  s = s.replace(/<svg\b([^>]*)>/, (_m, attrs: string) => {
-    const a = attrs.replace(/\sxmlns(:\w+)?="[^"]*"/g, '').replace(/\s(width|height)="[^"]*"/g, '');
-    return `<svg${a} role="img" aria-label="${esc(label)}" style="width:100%;height:auto">`;
-  });
-  s = s.replace(/\sid="([^"]+)"/g, ` id="${idPrefix}$1"`).replace(/url\(#([^)]+)\)/g, `url(#${idPrefix}$1)`);
-  return s;
 }
 
 function row(k: string, v: string, id?: string): string {

@@ -70,3 +70,14 @@ export function svgDocument(width: number, height: number, body: string[], opts:
     '</svg>\n',
   ].join('');
 }
+
+/** An SVG document made fit to sit inside the page: no prolog or namespace, ids made unique, width from the page. */
+export function inlineSvg(svg: string, idPrefix: string, label: string): string {
+  let s = svg.replace(/<\?xml[^>]*\?>\s*/, '');
+  s = s.replace(/<svg\b([^>]*)>/, (_m, attrs: string) => {
+    const a = attrs.replace(/\sxmlns(:\w+)?="[^"]*"/g, '').replace(/\s(width|height)="[^"]*"/g, '');
+    return `<svg${a} role="img" aria-label="${esc(label)}" style="width:100%;height:auto">`;
+  });
+  s = s.replace(/\sid="([^"]+)"/g, ` id="${idPrefix}$1"`).replace(/url\(#([^)]+)\)/g, `url(#${idPrefix}$1)`);
+  return s;
+}

@@ -1,0 +1,154 @@
+// PNG frames drawn straight into pixels: the cells, mesh, outlines, cracks, cohesive segments,
+// supports, loads and this state's part of the inset on our own canvas (raster.ts); the text and
+// the parts every frame of a run shares (title, colour bar, keys, scale bar, inset axes and the
+// whole curve) rendered from SVG once and laid over each frame; the caption, the only text that
+// changes, rendered as a strip of its own. sharp only renders that text and encodes the PNG.
+
+import sharp from 'sharp';
+import { cellCount } from '../mesh/polymesh.js';
+import { colorAt, damageMap } from './colormap.js';
+import {
+  arrowShape, CAPTION_COLOR, crackStyle, damageLevel, fieldLayout, fieldSvg, INK_COLOR, levelColor, LEVELS, loadArrows, MESH_ON_VALUES, MESH_PLAIN,
+  meshLines, NO_VALUES, screenCracks, supportPlaces, supportShape, UNDEFORMED, valueScale, type FieldPicture,
+} from './field.js';
+import { insetGeometry, INSET_STYLE } from './inset.js';
+import { deflateSync } from 'node:zlib';
+import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb, type Overlay, type PaletteLut, type Rgb } from './raster.js';
+import { layer, svgDocument, text } from './svg.js';
+
+const WHITE: Rgb = [255, 255, 255];
+const INK = rgb(INK_COLOR);
+/** The layers every frame of a run shares, drawn from SVG once. */
+const SHARED = new Set(['title', 'colorbar', 'damagebar', 'inset', 'scalebar']);
+/** Palette PNG: frames have few colours, and it is about a third of the size. */
+export const FRAME_PNG = { palette: true, colours: 128, effort: 1, dither: 0, compressionLevel: 6 } as const;
+
+/** Draws the frames of a run one after another, keeping its buffers and the shared overlay. */
+export class FrameRaster {
+  private canvas = new Canvas();
+  private shared = new Map<string, Overlay>();
+
+  /** The raw pixels of a field picture (the layout of fieldSvg at widthPx). */
+  async pixels(p: FieldPicture): Promise<{ data: Uint8Array; width: number; height: number }> {
+    const L = fieldLayout(p), u = L.u, cv = this.canvas;
+    const W = Math.ceil(L.W), H = Math.ceil(L.H);
+    cv.reset(W, H, WHITE);
+
+    // cells
+    const { cellStart, cellVerts } = p.mesh, nc = cellCount(p.mesh);
+    if (p.values) {
+      const sc = valueScale(p), cols = Array.from({ length: LEVELS + 1 }, (_, k) => rgb(levelColor(sc.twoSlope, k)));
+      for (let c = 0; c < nc; c++) cv.fillPolygon(L.sx, L.sy, cellVerts, cellStart[c], cellStart[c + 1], cols[sc.level(p.values[c])]);
+    } else {
+      const col = rgb(NO_VALUES);
+      for (let c = 0; c < nc; c++) cv.fillPolygon(L.sx, L.sy, cellVerts, cellStart[c], cellStart[c + 1], col);
+    }
+
+    const lines = meshLines(p, L);
+    for (const l of lines.undeformed) cv.dashed(l, 1 * u, 5 * u, 3.5 * u);
+    cv.paint(rgb(UNDEFORMED));
+    for (const l of lines.inner) cv.polyline(l, (p.values ? MESH_ON_VALUES.width : MESH_PLAIN.width) * u);
+    if (p.values) cv.paint([0, 0, 0], MESH_ON_VALUES.opacity); else cv.paint(rgb(MESH_PLAIN.color));
+    for (const l of lines.outline) cv.polyline(l, 1.3 * u);
+    cv.paint(INK);
+
+    for (const c of screenCracks(p, L)) {
+      const st = crackStyle(c.kind);
+      cv.polyline(c.pts, st.halo * u); cv.paint(WHITE, 0.85);
+      cv.polyline(c.pts, st.width * u); cv.paint(rgb(st.color));
+    }
+    if (p.cohesive?.length) {
+      const segs = p.cohesive.map((g) => { const [ax, ay] = L.move(g.x1, g.y1), [bx, by] = L.move(g.x2, g.y2); return [L.X(ax), L.Y(ay), L.X(bx), L.Y(by)]; });
+      for (const s of segs) cv.segment(s[0], s[1], s[2], s[3], 6 * u);
+      cv.paint(WHITE, 0.85);
+      for (let k = 0; k < 16; k++) {
+        let any = false;
+        p.cohesive.forEach((g, i) => { if (damageLevel(g.damage) === k) { const s = segs[i]; cv.segment(s[0], s[1], s[2], s[3], 3.4 * u); any = true; } });
+        if (any) cv.paint(rgb(colorAt(damageMap, (k + 0.5) / 16)));
+      }
+    }
+
+    for (const q of supportPlaces(p, L)) {
+      const g = supportShape(q.fix, u), a = (q.angle * Math.PI) / 180, ca = Math.cos(a), sa = Math.sin(a);
+      const at = (pts: number[]): number[] => pts.map((v, i) => (i % 2 === 0 ? q.x + ca * v - sa * pts[i + 1] : q.y + sa * pts[i - 1] + ca * v));
+      const tri = at(g.tri);
+      cv.fillPoints(tri, WHITE);
+      cv.polyline([...tri, tri[0], tri[1]], 1.4 * u); cv.paint(INK);
+      for (const r of g.rollers) {
+        const [cx, cy] = at([r.cx, r.cy]);
+        cv.disc(cx, cy, r.r); cv.paint(WHITE);
+        cv.ring(cx, cy, r.r, 1.2 * u); cv.paint(INK);
+      }
+      cv.polyline(at(g.ground), 1.2 * u);
+      for (const h of g.hatch) cv.polyline(at(h), 1.2 * u);
+      cv.paint(INK);
+    }
+    for (const arr of loadArrows(p, L)) {
+      const g = arrowShape(arr, u);
+      cv.polyline(g.halo, 6 * u); cv.paint(WHITE, 0.8);
+      cv.polyline(g.shaft, 2.8 * u); cv.paint(INK);
+      cv.fillPoints(g.head, INK);
+      cv.polyline([...g.head, g.head[0], g.head[1]], 0.8 * u); cv.paint(INK);
+    }
+
+    // what every frame shares, from SVG once
+    const sharedSvg = fieldSvg(p, SHARED);
+    let o = this.shared.get(sharedSvg);
+    if (!o) {
+      o = overlayOf(await sharp(Buffer.from(sharedSvg), { density: 72, limitInputPixels: false }).ensureAlpha().raw().toBuffer());
+      this.shared.clear();
+      this.shared.set(sharedSvg, o);
+    }
+    cv.overlay(o);
+
+    // this state in the inset: the curve so far, dashed guides and a dot
+    if (p.inset) {
+      const [ix, iy, iw, ih] = L.insetBox;
+      const G = insetGeometry(p.inset, ix, iy, iw, ih, u), S = INSET_STYLE;
+      for (const l of G.lines(0, G.k + 1)) cv.polyline(l, S.curveWidth * u);
+      cv.paint(rgb(S.line));
+      if (G.now) {
+        const { cx, cy } = G.now;
+        cv.dashed([cx, G.bottom, cx, cy], S.markWidth * u, S.dash[0] * u, S.dash[1] * u);
+        cv.dashed([G.left, cy, cx, cy], S.markWidth * u, S.dash[0] * u, S.dash[1] * u);
+        cv.paint(rgb(S.now));
+        cv.disc(cx, cy, S.dotR * u); cv.paint(rgb(S.now));
+        cv.ring(cx, cy, S.dotR * u, S.dotRing * u); cv.paint(WHITE);
+      }
+    }
+
+    // the caption: a strip of text below everything else
+    const top = Math.floor(L.capY);
+    if (L.captionLines.length && H > top) {
+      const body = [layer('caption', L.captionLines.map((line, i) => text(L.pad, L.capY - top + (i + 0.8) * 22 * u, line, { 'font-size': 15 * u, fill: CAPTION_COLOR })))];
+      const strip = await sharp(Buffer.from(svgDocument(W, H - top, body)), { density: 72 }).flatten({ background: '#ffffff' }).removeAlpha().raw().toBuffer();
+      cv.rows(strip, top);
+    }
+    return { data: cv.px, width: W, height: H };
+  }
+
+  /**
+   * One palette for all frames of a run: the colours the quantiser keeps for this picture (the
+   * run's last frame, which has the most of them); at most 255 entries, so an animation keeps
+   * one index for transparency.
+   */
+  async palette(p: FieldPicture): Promise<Uint8Array> {
+    const { data, width, height } = await this.pixels(p);
+    const q = await sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
+    return coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 255);
+  }
+
+  private lut: PaletteLut | null = null;
+  private lutFor: Uint8Array | null = null;
+  private rows = new Uint8Array(0);
+
+  /** A field picture as PNG bytes: indexed against the run's palette when given, else through sharp's quantiser. */
+  async png(p: FieldPicture, palette?: Uint8Array): Promise<Buffer> {
+    const { data, width, height } = await this.pixels(p);
+    if (!palette) return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
+    // the nearest palette entry of each colour met, kept from frame to frame
+    if (this.lutFor !== palette) { this.lut = paletteLut(); this.lutFor = palette; }
+    if (this.rows.length !== (width + 1) * height) this.rows = new Uint8Array((width + 1) * height);
+    return indexedPng(data, width, height, palette, this.lut!, (b) => deflateSync(b, { level: 6 }), this.rows);
+  }
+}

@@ -1,0 +1,92 @@
+// A looping GIF of frames that share one palette, written as the GIF89a specification describes:
+// one global colour table, LZW-coded image data in sub-blocks, a graphic control extension per
+// frame (delay, and one transparent index for the pixels that stay as the frame before left them,
+// inside the box of the ones that change), and the application extension that makes it loop.
+
+/** LZW codes of a frame's indices (the GIF variant: clear and end codes, widths up to 12 bits). */
+export function lzw(ix: Uint8Array, minSize: number): Uint8Array {
+  const clear = 1 << minSize, end = clear + 1;
+  const out: number[] = [];
+  let acc = 0, bits = 0, size = minSize + 1, next = end + 1;
+  const put = (code: number): void => {
+    acc |= code << bits; bits += size;
+    while (bits >= 8) { out.push(acc & 255); acc >>>= 8; bits -= 8; }
+  };
+  // the table: (prefix code, next index) → code, stamped so a clear needs no wipe
+  const code = new Int32Array(4096 * 256), stamp = new Int32Array(4096 * 256);
+  let gen = 1;
+  put(clear);
+  if (ix.length === 0) { put(end); if (bits > 0) out.push(acc & 255); return Uint8Array.from(out); }
+  let prefix = ix[0];
+  for (let i = 1; i < ix.length; i++) {
+    const k = ix[i], key = (prefix << 8) | k;
+    if (stamp[key] === gen) { prefix = code[key]; continue; }
+    put(prefix);
+    if (next < 4096) {
+      stamp[key] = gen; code[key] = next++;
+      // the reader's table is one entry behind; it widens its codes once it holds 2^size entries
+      if (next > 1 << size && size < 12) size++;
+    } else {
+      put(clear);
+      gen++; size = minSize + 1; next = end + 1;
+    }
+    prefix = k;
+  }
+  put(prefix);
+  put(end);
+  if (bits > 0) out.push(acc & 255);
+  return Uint8Array.from(out);
+}
+
+/** Frames of indices into one palette (r, g, b, …; at most 255 colours, one index is kept for transparency) as GIF bytes. */
+export function gifOf(frames: Uint8Array[], width: number, height: number, palette: Uint8Array, delaysMs: number[]): Buffer {
+  const n = palette.length / 3;
+  if (!(n >= 1 && n <= 255)) throw new Error(`gifOf: a palette of ${n} colours`);
+  let tableBits = 1;
+  while (1 << tableBits < n + 1) tableBits++;
+  const T = n; // the transparent index: the first one past the colours
+  const parts: Buffer[] = [];
+  const head = Buffer.alloc(13);
+  head.write('GIF89a', 0, 'latin1');
+  head.writeUInt16LE(width, 6); head.writeUInt16LE(height, 8);
+  head[10] = 0x80 | ((tableBits - 1) << 4) | (tableBits - 1);
+  parts.push(head);
+  const table = Buffer.alloc(3 * (1 << tableBits));
+  table.set(palette);
+  parts.push(table);
+  parts.push(Buffer.from([0x21, 0xff, 0x0b, ...Buffer.from('NETSCAPE2.0', 'latin1'), 0x03, 0x01, 0x00, 0x00, 0x00]));
+  const minSize = Math.max(2, tableBits);
+  let prev: Uint8Array | null = null;
+  frames.forEach((f, k) => {
+    // the box of the pixels that change; inside it, unchanged ones become transparent
+    let x0 = 0, y0 = 0, x1 = width - 1, y1 = height - 1;
+    if (prev) {
+      x0 = width; y0 = height; x1 = -1; y1 = -1;
+      for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) {
+        const i = y * width + x;
+        if (f[i] !== prev[i]) { if (x < x0) x0 = x; if (x > x1) x1 = x; if (y < y0) y0 = y; if (y > y1) y1 = y; }
+      }
+      if (x1 < 0) { x0 = 0; y0 = 0; x1 = 0; y1 = 0; }
+    }
+    const w = x1 - x0 + 1, h = y1 - y0 + 1, sub = new Uint8Array(w * h);
+    for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) {
+      const i = (y + y0) * width + x + x0;
+      sub[y * w + x] = prev && f[i] === prev[i] ? T : f[i];
+    }
+    const cs = Math.round((delaysMs[k] ?? 100) / 10);
+    // graphic control: leave the frame in place, transparency on after the first
+    parts.push(Buffer.from([0x21, 0xf9, 0x04, (1 << 2) | (prev ? 1 : 0), cs & 255, cs >> 8, T, 0x00]));
+    const d = Buffer.alloc(10);
+    d[0] = 0x2c; d.writeUInt16LE(x0, 1); d.writeUInt16LE(y0, 3); d.writeUInt16LE(w, 5); d.writeUInt16LE(h, 7); d[9] = 0;
+    parts.push(d, Buffer.from([minSize]));
+    const data = lzw(sub, minSize);
+    for (let o = 0; o < data.length; o += 255) {
+      const len = Math.min(255, data.length - o);
+      parts.push(Buffer.from([len]), Buffer.from(data.subarray(o, o + len)));
+    }
+    parts.push(Buffer.from([0]));
+    prev = f;
+  });
+  parts.push(Buffer.from([0x3b]));
+  return Buffer.concat(parts);
+}

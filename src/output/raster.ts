@@ -1,0 +1,291 @@
+// A small RGB canvas for frames: polygons filled by scanlines (pixel centres inside, so cells that
+// share edges tile without seams or overlap), strokes as the union of capsules around their
+// segments (round caps and joins, edge coverage from the distance to the segment), painted once per
+// stroke with its colour and opacity so overlapping pieces do not darken. Integer blending, so the
+// same drawing gives the same bytes.
+
+export type Rgb = readonly [number, number, number];
+
+/** #rrggbb → [r, g, b]. */
+export function rgb(hex: string): Rgb {
+  const v = parseInt(hex.slice(1, 7), 16);
+  return [(v >> 16) & 255, (v >> 8) & 255, v & 255];
+}
+
+export class Canvas {
+  width = 0;
+  height = 0;
+  /** Three bytes a pixel, rows top to bottom. */
+  px = new Uint8Array(0);
+  /** Coverage of the stroke being built, 0..1 a pixel; zero outside [bx0, bx1) × [by0, by1). */
+  private cov = new Float32Array(0);
+  private bx0 = 0; private by0 = 0; private bx1 = 0; private by1 = 0;
+  // scanline crossings, reused
+  private xs = new Float64Array(64);
+
+  /** A page of w × h px in one colour (buffers are kept when the size repeats). */
+  reset(w: number, h: number, bg: Rgb): void {
+    if (w !== this.width || h !== this.height) {
+      this.width = w; this.height = h;
+      this.px = new Uint8Array(3 * w * h);
+      this.cov = new Float32Array(w * h);
+    }
+    const p = this.px;
+    for (let i = 0; i < 3; i++) p[i] = bg[i];
+    for (let filled = 3; filled < p.length; filled *= 2) p.copyWithin(filled, 0, Math.min(filled, p.length - filled));
+    this.bx0 = w; this.by0 = h; this.bx1 = 0; this.by1 = 0;
+  }
+
+  /** Fill a polygon (flat x, y screen points; even–odd rule) without anti-aliasing. */
+  fillPolygon(x: ArrayLike<number>, y: ArrayLike<number>, idx: ArrayLike<number>, from: number, to: number, c: Rgb): void {
+    const n = to - from;
+    if (n < 3) return;
+    let ymin = Infinity, ymax = -Infinity;
+    for (let q = from; q < to; q++) { const v = y[idx[q]]; if (v < ymin) ymin = v; if (v > ymax) ymax = v; }
+    const r0 = Math.max(0, Math.ceil(ymin - 0.5)), r1 = Math.min(this.height - 1, Math.floor(ymax - 0.5));
+    if (this.xs.length < n) this.xs = new Float64Array(2 * n);
+    const xs = this.xs, W = this.width, p = this.px;
+    for (let r = r0; r <= r1; r++) {
+      const yc = r + 0.5;
+      let m = 0;
+      for (let q = from; q < to; q++) {
+        const a = idx[q], b = idx[q + 1 < to ? q + 1 : from];
+        const ya = y[a], yb = y[b];
+        // half-open in y: a vertex on the scanline counts once
+        if ((ya <= yc) !== (yb <= yc)) xs[m++] = x[a] + ((yc - ya) / (yb - ya)) * (x[b] - x[a]);
+      }
+      for (let i = 1; i < m; i++) { const v = xs[i]; let j = i - 1; while (j >= 0 && xs[j] > v) { xs[j + 1] = xs[j]; j--; } xs[j + 1] = v; }
+      for (let i = 0; i + 1 < m; i += 2) {
+        const c0 = Math.max(0, Math.ceil(xs[i] - 0.5)), c1 = Math.min(W - 1, Math.ceil(xs[i + 1] - 0.5) - 1);
+        for (let k = 3 * (r * W + c0), e = 3 * (r * W + c1); k <= e; k += 3) { p[k] = c[0]; p[k + 1] = c[1]; p[k + 2] = c[2]; }
+      }
+    }
+  }
+
+  /** Fill a polygon given as flat [x0, y0, x1, y1, …] points. */
+  fillPoints(pts: ArrayLike<number>, c: Rgb): void {
+    const n = pts.length >> 1, x = new Float64Array(n), y = new Float64Array(n), idx = new Int32Array(n);
+    for (let i = 0; i < n; i++) { x[i] = pts[2 * i]; y[i] = pts[2 * i + 1]; idx[i] = i; }
+    this.fillPolygon(x, y, idx, 0, n, c);
+  }
+
+  private grow(x0: number, y0: number, x1: number, y1: number): [number, number, number, number] {
+    const c0 = Math.max(0, Math.floor(x0)), r0 = Math.max(0, Math.floor(y0));
+    const c1 = Math.min(this.width, Math.ceil(x1) + 1), r1 = Math.min(this.height, Math.ceil(y1) + 1);
+    if (c0 < this.bx0) this.bx0 = c0; if (r0 < this.by0) this.by0 = r0;
+    if (c1 > this.bx1) this.bx1 = c1; if (r1 > this.by1) this.by1 = r1;
+    return [c0, r0, c1, r1];
+  }
+
+  /** Add a segment of width w (px) with round ends to the stroke being built. */
+  segment(xa: number, ya: number, xb: number, yb: number, w: number): void {
+    const h = w / 2 + 0.5, top = Math.min(1, w);
+    const [c0, r0, c1, r1] = this.grow(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
+    const dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width;
+    for (let r = r0; r < r1; r++) {
+      const py = r + 0.5 - ya;
+      for (let c = c0; c < c1; c++) {
+        const px = c + 0.5 - xa;
+        let t = L2 > 0 ? (px * dx + py * dy) / L2 : 0;
+        t = t < 0 ? 0 : t > 1 ? 1 : t;
+        const ex = px - t * dx, ey = py - t * dy;
+        const v = Math.min(top, h - Math.sqrt(ex * ex + ey * ey));
+        if (v > cov[r * W + c]) cov[r * W + c] = v;
+      }
+    }
+  }
+
+  /** Add a polyline (flat points; closed loops repeat their first point). */
+  polyline(pts: ArrayLike<number>, w: number): void {
+    for (let i = 0; i + 3 < pts.length; i += 2) this.segment(pts[i], pts[i + 1], pts[i + 2], pts[i + 3], w);
+    if (pts.length === 2) this.segment(pts[0], pts[1], pts[0], pts[1], w);
+  }
+
+  /** Add a dashed polyline: on px drawn, off px left out, the pattern running on along the line. */
+  dashed(pts: ArrayLike<number>, w: number, on: number, off: number): void {
+    if (!(on > 0) || !(off >= 0)) return;
+    let drawing = true, left = on; // the dash or gap under way, and what remains of it
+    for (let i = 0; i + 3 < pts.length; i += 2) {
+      const xa = pts[i], ya = pts[i + 1], dx = pts[i + 2] - xa, dy = pts[i + 3] - ya, L = Math.hypot(dx, dy);
+      if (!(L > 0)) continue;
+      let s = 0;
+      while (s < L) {
+        if (!(left > 0)) { drawing = !drawing || !(off > 0); left = drawing ? on : off; }
+        const e = Math.min(L, s + left);
+        if (drawing) this.segment(xa + (dx * s) / L, ya + (dy * s) / L, xa + (dx * e) / L, ya + (dy * e) / L, w);
+        // the dash or gap ends inside this segment: switch, however little was left (no stall on round-off)
+        if (e >= L) { left -= L - s; break; }
+        s = e; left = 0;
+      }
+    }
+  }
+
+  /** Add a disc of radius r. */
+  disc(cx: number, cy: number, r: number): void {
+    const [c0, r0, c1, r1] = this.grow(cx - r - 1, cy - r - 1, cx + r + 1, cy + r + 1);
+    const cov = this.cov, W = this.width;
+    for (let y = r0; y < r1; y++) for (let x = c0; x < c1; x++) {
+      const v = Math.min(1, r + 0.5 - Math.hypot(x + 0.5 - cx, y + 0.5 - cy));
+      if (v > cov[y * W + x]) cov[y * W + x] = v;
+    }
+  }
+
+  /** Add a circle's outline of width w at radius r. */
+  ring(cx: number, cy: number, r: number, w: number): void {
+    const h = w / 2 + 0.5, top = Math.min(1, w);
+    const [c0, r0, c1, r1] = this.grow(cx - r - h, cy - r - h, cx + r + h, cy + r + h);
+    const cov = this.cov, W = this.width;
+    for (let y = r0; y < r1; y++) for (let x = c0; x < c1; x++) {
+      const v = Math.min(top, h - Math.abs(Math.hypot(x + 0.5 - cx, y + 0.5 - cy) - r));
+      if (v > cov[y * W + x]) cov[y * W + x] = v;
+    }
+  }
+
+  /** Paint the stroke built so far in colour c at the given opacity, and start a new one. */
+  paint(c: Rgb, opacity = 1): void {
+    const cov = this.cov, p = this.px, W = this.width;
+    for (let r = this.by0; r < this.by1; r++) {
+      for (let i = r * W + this.bx0, e = r * W + this.bx1; i < e; i++) {
+        const v = cov[i];
+        if (v <= 0) continue;
+        cov[i] = 0;
+        const a = Math.round(255 * opacity * (v > 1 ? 1 : v)), b = 255 - a, k = 3 * i;
+        p[k] = (p[k] * b + c[0] * a + 127) / 255 | 0;
+        p[k + 1] = (p[k + 1] * b + c[1] * a + 127) / 255 | 0;
+        p[k + 2] = (p[k + 2] * b + c[2] * a + 127) / 255 | 0;
+      }
+    }
+    this.bx0 = this.width; this.by0 = this.height; this.bx1 = 0; this.by1 = 0;
+  }
+
+  /** Lay a sparse RGBA overlay (pixel indices and their four bytes, not premultiplied) over the page. */
+  overlay(o: Overlay): void {
+    const p = this.px, { at, rgba } = o;
+    for (let j = 0; j < at.length; j++) {
+      const k = 3 * at[j], a = rgba[4 * j + 3], b = 255 - a;
+      p[k] = (p[k] * b + rgba[4 * j] * a + 127) / 255 | 0;
+      p[k + 1] = (p[k + 1] * b + rgba[4 * j + 1] * a + 127) / 255 | 0;
+      p[k + 2] = (p[k + 2] * b + rgba[4 * j + 2] * a + 127) / 255 | 0;
+    }
+  }
+
+  /** Copy RGB rows (w = this width) in from row r on. */
+  rows(src: Uint8Array, r: number): void {
+    const n = Math.min(src.length, this.px.length - 3 * r * this.width);
+    if (n > 0) this.px.set(src.subarray(0, n), 3 * r * this.width);
+  }
+}
+
+/** The drawn pixels of an RGBA picture: their indices and colours. */
+export interface Overlay { at: Int32Array; rgba: Uint8Array }
+
+/** The pixels of an RGBA buffer that are not fully transparent. */
+export function overlayOf(data: Uint8Array): Overlay {
+  let n = 0;
+  for (let i = 3; i < data.length; i += 4) if (data[i] > 0) n++;
+  const at = new Int32Array(n), rgba = new Uint8Array(4 * n);
+  for (let i = 0, j = 0; 4 * i < data.length; i++) {
+    if (data[4 * i + 3] === 0) continue;
+    at[j] = i;
+    rgba.set(data.subarray(4 * i, 4 * i + 4), 4 * j);
+    j++;
+  }
+  return { at, rgba };
+}
+
+// CRC-32 of PNG chunks (ISO 3309, the PNG specification's)
+const CRC_TABLE = (() => {
+  const t = new Int32Array(256);
+  for (let n = 0; n < 256; n++) { let c = n; for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1; t[n] = c; }
+  return t;
+})();
+function crc32(b: Uint8Array): number {
+  let c = -1;
+  for (let i = 0; i < b.length; i++) c = CRC_TABLE[(c ^ b[i]) & 255] ^ (c >>> 8);
+  return (c ^ -1) >>> 0;
+}
+function chunk(type: string, data: Uint8Array): Buffer {
+  const out = Buffer.alloc(12 + data.length);
+  out.writeUInt32BE(data.length, 0);
+  out.write(type, 4, 'latin1');
+  out.set(data, 8);
+  out.writeUInt32BE(crc32(out.subarray(4, 8 + data.length)), 8 + data.length);
+  return out;
+}
+
+/**
+ * Palette entry of every colour met so far (2^24 indices, and 2^21 bytes of bits saying which are
+ * known); a colour not in the palette takes the entry nearest to its 5-bit-per-channel cell's
+ * centre (2^15 of them, -1 until searched), so a resized picture's many blends cost few searches.
+ */
+export interface PaletteLut { index: Uint8Array; known: Uint8Array; cell: Int16Array; exact: Map<number, number> | null }
+export const paletteLut = (): PaletteLut => ({ index: new Uint8Array(1 << 24), known: new Uint8Array(1 << 21), cell: new Int16Array(1 << 15).fill(-1), exact: null });
+
+/** RGB pixels as indices of their nearest palette entries (at most 256), into out when given. */
+export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, out: Uint8Array = new Uint8Array(px.length / 3)): Uint8Array {
+  const n = palette.length / 3;
+  if (n < 1 || n > 256 || n % 1 !== 0) throw new Error(`toPalette: a palette of ${n} colours`);
+  if (!lut.exact) {
+    lut.exact = new Map();
+    for (let q = n - 1; q >= 0; q--) lut.exact.set((palette[3 * q] << 16) | (palette[3 * q + 1] << 8) | palette[3 * q + 2], q);
+  }
+  const nearest = (r: number, g: number, b: number): number => {
+    let best = 0, bd = Infinity;
+    for (let q = 0; q < n; q++) {
+      const dr = palette[3 * q] - r, dg = palette[3 * q + 1] - g, db = palette[3 * q + 2] - b;
+      // weights of the eye's sensitivity (common practice for colour distance in RGB)
+      const d = 2 * dr * dr + 4 * dg * dg + 3 * db * db;
+      if (d < bd) { bd = d; best = q; }
+    }
+    return best;
+  };
+  let last = -1, lastIx = 0;
+  for (let i = 0, k = 0, m = px.length / 3; i < m; i++, k += 3) {
+    const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
+    // most pixels repeat their left neighbour (flat cells, white page)
+    if (key === last) { out[i] = lastIx; continue; }
+    if ((lut.known[key >> 3] & (1 << (key & 7))) === 0) {
+      let j = lut.exact.get(key);
+      if (j === undefined) {
+        const c = ((px[k] >> 3) << 10) | ((px[k + 1] >> 3) << 5) | (px[k + 2] >> 3);
+        if (lut.cell[c] < 0) lut.cell[c] = nearest((px[k] & 0xf8) + 4, (px[k + 1] & 0xf8) + 4, (px[k + 2] & 0xf8) + 4);
+        j = lut.cell[c];
+      }
+      lut.index[key] = j;
+      lut.known[key >> 3] |= 1 << (key & 7);
+    }
+    out[i] = lastIx = lut.index[key];
+    last = key;
+  }
+  return out;
+}
+
+/** Pixels mapped to a fixed palette and written as an indexed PNG: rows unfiltered, as the PNG specification recommends for palette images, then deflated. */
+export function indexedPng(px: Uint8Array, width: number, height: number, palette: Uint8Array, lut: PaletteLut, deflate: (b: Uint8Array) => Uint8Array, scratch?: Uint8Array): Buffer {
+  const rows = scratch && scratch.length === (width + 1) * height ? scratch : new Uint8Array((width + 1) * height);
+  for (let r = 0; r < height; r++) {
+    rows[r * (width + 1)] = 0; // filter: none
+    toPalette(px.subarray(3 * r * width, 3 * (r + 1) * width), palette, lut, rows.subarray(r * (width + 1) + 1, (r + 1) * (width + 1)));
+  }
+  const head = Buffer.alloc(13);
+  head.writeUInt32BE(width, 0); head.writeUInt32BE(height, 4);
+  head[8] = 8; head[9] = 3; // 8 bits, indexed colour
+  return Buffer.concat([Buffer.from([137, 80, 78, 71, 13, 10, 26, 10]), chunk('IHDR', head), chunk('PLTE', palette), chunk('IDAT', deflate(rows)), chunk('IEND', new Uint8Array(0))]);
+}
+
+/** The distinct colours of RGB pixels in the order they first appear; beyond max of them, the rarest are left out. */
+export function coloursOf(px: Uint8Array, max = Infinity): Uint8Array {
+  const count = new Map<number, number>();
+  for (let k = 0; k < px.length; k += 3) {
+    const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
+    count.set(key, (count.get(key) ?? 0) + 1);
+  }
+  let keys = [...count.keys()];
+  if (keys.length > max) {
+    const keep = new Set([...keys].sort((a, b) => count.get(b)! - count.get(a)! || a - b).slice(0, max));
+    keys = keys.filter((k) => keep.has(k));
+  }
+  const out = new Uint8Array(3 * keys.length);
+  keys.forEach((k, i) => { out[3 * i] = k >> 16; out[3 * i + 1] = (k >> 8) & 255; out[3 * i + 2] = k & 255; });
+  return out;
+}
