@@ -66,20 +66,26 @@ describe('fill-reducing orderings', () => {
     // George 1973 (SIAM J. Numer. Anal. 10): nested dissection of the k×k element grid fills
     // L with about (31/4) n log2 n entries, n = k² (constant from memory).
     const ratio: number[] = [];
-    for (const k of [32, 64]) {
+    for (const k of [32, 64, 128]) {
       const A = gridNinePoint(k);
       const nn = k * k;
       const fill = analyze(A, { ordering: 'dissection' }).nnzLExact;
       const george = (31 / 4) * nn * Math.log2(nn);
       expect(fill).toBeLessThan(george);
       ratio.push(fill / (nn * Math.log2(nn)));
-      // banded (natural) order fills about k³ entries, minimum degree a little more than dissection
+      // banded (natural) order fills about k³ entries
       if (k === 64) expect(fill).toBeLessThan(0.5 * analyze(A, { ordering: 'natural' }).nnzLExact);
-      expect(fill).toBeLessThan(analyze(A, { ordering: 'mindegree' }).nnzLExact);
+      // minimum degree fills O(n log n) too but with a larger constant, which shows once the grid is large
+      // (from memory; measured here: within 2 % of dissection at k = 32 and 64, 7 % more at k = 128)
+      const md = analyze(A, { ordering: 'mindegree' }).nnzLExact;
+      if (k === 128) expect(fill).toBeLessThan(md);
+      else expect(fill).toBeLessThan(1.05 * md);
     }
     // n log n growth: the constant does not drift as the grid is refined
-    expect(ratio[1] / ratio[0]).toBeGreaterThan(0.75);
-    expect(ratio[1] / ratio[0]).toBeLessThan(1.33);
+    for (const t of [1, 2]) {
+      expect(ratio[t] / ratio[t - 1]).toBeGreaterThan(0.75);
+      expect(ratio[t] / ratio[t - 1]).toBeLessThan(1.33);
+    }
   });
 
   it('minimum degree on a 5-point grid gives far less fill than the band (from memory: O(k² log k) against O(k³))', () => {
