@@ -373,17 +373,22 @@ export function dissectionStages(g: Graph, opts: DissectionOptions = {}): Int32A
 
     // level structures from both ends of a pseudo-diameter (the far end's is built already); the lighter separator wins
     const [r1, r2] = pseudoPeripheral(wk, start);
-    let sepW = levelSeparator(wk, pv, r2, true, side, balance, passes);
+    let sepW = levelSeparator(wk, pv, r2, true, side, balance, 0);
     let root = r2;
     let far = wk.far;
     if (r2 !== r1) {
       for (let t = 0; t < m; t++) keep[t] = side[pv[t]];
-      const w1 = levelSeparator(wk, pv, r1, false, side, balance, passes);
+      const w1 = levelSeparator(wk, pv, r1, false, side, balance, 0);
       if (w1 < sepW) {
         sepW = w1;
         root = r1;
         far = wk.far;
       } else for (let t = 0; t < m; t++) side[pv[t]] = keep[t];
+    }
+    if (sepW < Infinity && passes > 0) {
+      refineSeparator(wk, pv, side, balance, passes);
+      sepW = 0;
+      for (let t = 0; t < m; t++) if (side[pv[t]] === 2) sepW += g.weight[pv[t]];
     }
     for (let t = 0; t < m; t++) piece[pv[t]] = 0;
     if (sepW === Infinity) continue; // too shallow to split: a leaf
