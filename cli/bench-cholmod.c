@@ -1,6 +1,7 @@
 /* Reference timing for npm run bench -- --matrix FILE --cholmod: reads a symmetric Matrix Market
    file and times the supernodal Cholesky of SuiteSparse (CHOLMOD, its default ordering) through
-   its public API: analyse and factorize, one JSON line per repetition.
+   its public API: analyse and factorize, one JSON line per repetition, in CPU seconds of the process
+   (the machine is shared; wall time would count other loads).
    Built on demand by cli/bench-matrix.ts: cc -O2 bench-cholmod.c -lcholmod -lsuitesparseconfig */
 #include <stdio.h>
 #include <stdlib.h>
@@ -9,7 +10,7 @@
 
 static double seconds(void) {
   struct timespec t;
-  clock_gettime(CLOCK_MONOTONIC, &t);
+  clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &t);
   return t.tv_sec + 1e-9 * t.tv_nsec;
 }
 

@@ -26,7 +26,7 @@ export interface BenchResult {
   ordering: OrderingMethod;
   /** Entries of L without amalgamation zeros. */
   nnzL: number;
-  /** ordering + symbolic + numeric, seconds */
+  /** ordering + symbolic + numeric, CPU seconds (all times are the process's user + system time) */
   factor_s: number;
   ordering_s: number;
   symbolic_s: number;
@@ -36,21 +36,36 @@ export interface BenchResult {
   residual: number;
 }
 
+/** The sparse solver's entry points: this build's, or another build's loaded for a comparison. */
+export interface SolverLib {
+  fillReducingOrder: typeof fillReducingOrder;
+  analyze: typeof analyze;
+  factorize: typeof factorize;
+}
+
+const thisBuild: SolverLib = { fillReducingOrder, analyze, factorize };
+
+/** CPU seconds of this process so far (user + system): less disturbed than wall time by other loads on a shared machine. */
+export const cpuSeconds = (): number => {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e6;
+};
+
 /** Factor and solve the matrix (a file or one already read) with b = 1; residual is the relative infinity norm. */
-export function benchMatrix(file: string | CsrMatrix, ordering: OrderingMethod = 'auto'): BenchResult {
+export function benchMatrix(file: string | CsrMatrix, ordering: OrderingMethod = 'auto', lib: SolverLib = thisBuild): BenchResult {
   const A = typeof file === 'string' ? readMatrixMarket(file) : file;
   const n = A.n;
-  const t0 = performance.now();
-  const perm = fillReducingOrder(A, ordering);
-  const t1 = performance.now();
-  const sym = analyze(A, { ordering: perm });
-  const t2 = performance.now();
-  const F = factorize(A, sym);
-  const t3 = performance.now();
+  const t0 = cpuSeconds();
+  const perm = lib.fillReducingOrder(A, ordering);
+  const t1 = cpuSeconds();
+  const sym = lib.analyze(A, { ordering: perm });
+  const t2 = cpuSeconds();
+  const F = lib.factorize(A, sym);
+  const t3 = cpuSeconds();
   const b = new Float64Array(n).fill(1);
   const x = new Float64Array(n);
   F.solve(b, x);
-  const t4 = performance.now();
+  const t4 = cpuSeconds();
   const r = matVec(A, x, new Float64Array(n));
   let res = 0;
   for (let i = 0; i < n; i++) res = Math.max(res, Math.abs(r[i] - b[i]));
@@ -58,11 +73,11 @@ export function benchMatrix(file: string | CsrMatrix, ordering: OrderingMethod =
     n,
     ordering,
     nnzL: sym.nnzLExact,
-    factor_s: (t3 - t0) / 1000,
-    ordering_s: (t1 - t0) / 1000,
-    symbolic_s: (t2 - t1) / 1000,
-    numeric_s: (t3 - t2) / 1000,
-    solve_s: (t4 - t3) / 1000,
+    factor_s: t3 - t0,
+    ordering_s: t1 - t0,
+    symbolic_s: t2 - t1,
+    numeric_s: t3 - t2,
+    solve_s: t4 - t3,
     residual: n > 0 ? res : 0,
   };
 }
@@ -75,11 +90,11 @@ export interface ReferenceTiming {
 }
 
 /**
- * Times of the SuiteSparse supernodal Cholesky (CHOLMOD, its default ordering) on the same file, one
- * per repetition, from the small driver cli/bench-cholmod.c built on demand; a sentence saying why when
- * the Debian packages (libsuitesparse-dev, libopenblas-dev) or a C compiler are missing.
+ * The small driver cli/bench-cholmod.c for the SuiteSparse supernodal Cholesky (CHOLMOD), built on
+ * demand: the path of the program, or a sentence saying why not when the Debian packages
+ * (libsuitesparse-dev, libopenblas-dev) or a C compiler are missing.
  */
-export function cholmodTimes(file: string, repeat: number): ReferenceTiming[] | string {
+export function cholmodDriver(): { exe: string } | string {
   if (!existsSync('/usr/include/suitesparse/cholmod.h')) return 'CHOLMOD headers not found (apt-get install libsuitesparse-dev libopenblas-dev)';
   const src = fileURLToPath(new URL('../../cli/bench-cholmod.c', import.meta.url));
   const exe = join(mkdtempSync(join(tmpdir(), 'rupta-bench-')), 'bench-cholmod');
@@ -88,6 +103,11 @@ export function cholmodTimes(file: string, repeat: number): ReferenceTiming[] | 
   } catch (e) {
     return `the CHOLMOD driver did not build: ${String((e as { stderr?: Buffer }).stderr ?? e).split('\n')[0]}`;
   }
+  return { exe };
+}
+
+/** CPU times of CHOLMOD (its default ordering) on the file, one per repetition. */
+export function cholmodTimes(exe: string, file: string, repeat: number): ReferenceTiming[] {
   // one thread for BLAS, as our factorization runs on one
   const out = execFileSync(exe, [file, String(repeat)], { encoding: 'utf8', env: { ...process.env, OPENBLAS_NUM_THREADS: '1' } });
   return out.trim().split('\n').map((l) => JSON.parse(l) as ReferenceTiming);

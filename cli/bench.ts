@@ -1,12 +1,14 @@
 // npm run bench: timings of mesh generation, assembly, ordering + factorization and solve on
-// plates of about 10k, 50k and 200k dofs (both fill-reducing orderings side by side), of a
+// plates of about 10k, 50k, 100k and 200k dofs (both fill-reducing orderings side by side, and the
+// SuiteSparse supernodal Cholesky on the same matrix where installed, in CPU time), of a
 // crack-growth run of the demo beam, of an elastic run with stress intensity factors (about 5k
 // dofs) and of the ceramic bend bar in the brittle mode, run with all its files to separation
 // (--no-sif skips these two, --no-plates the plates), and of the checks and meshing of large
 // hole, outline and probe counts.
 // npm run bench -- --validation: only the checks and meshing of large hole, outline and probe counts.
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
-// and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file.
+// and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file,
+// round by round; with --against DIR also another build's solver on the same file.
 // npm run bench -- --against DIR: the demo beam (and its 4× finer bulk) by this build and another, side by side.
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // npm run bench -- --frames [--against DIR]: the demo's analysis against its pictures, in CPU time (see bench-frames.ts).
@@ -21,8 +23,8 @@ import type { CaseModel } from '../src/case/model.js';
 import { buildDomain } from '../src/geometry/domain.js';
 import { generateMesh } from '../src/mesh/generate.js';
 import { Analysis } from '../src/fracture/analysis.js';
-import { DISSECTION_FROM_ROWS, analyze, factorize, type OrderingMethod } from '../src/linalg/index.js';
-import { benchMatrix, cholmodTimes, type BenchResult } from './bench-matrix.js';
+import { DISSECTION_FROM_ROWS, analyze, factorize, readMatrixMarket, writeMatrixMarket, type CsrMatrix, type OrderingMethod } from '../src/linalg/index.js';
+import { benchMatrix, cholmodDriver, cholmodTimes, cpuSeconds, type BenchResult, type ReferenceTiming, type SolverLib } from './bench-matrix.js';
 import { runCase } from '../src/run.js';
 import { benchStudy } from './bench-study.js';
 import { benchOrder } from './bench-order.js';
@@ -66,12 +68,35 @@ function orderingLines(runs: Map<OrderingMethod, BenchResult[]>, n: number): str
   });
 }
 
-function elastic(targetDofs: number, repeat: number): void {
+/**
+ * Our factorization (the default ordering at this size) against CHOLMOD's, round by round: each
+ * round's ratio is taken within the round (both met the same load), and the medians of the
+ * times and of the ratios are printed. Analyse = ordering + symbolic analysis; factorize = numeric.
+ */
+function versusLines(ours: BenchResult[], ref: ReferenceTiming[], name = 'ours'): string[] {
+  const total = (r: BenchResult) => r.ordering_s + r.symbolic_s + r.numeric_s;
+  const refTotal = (r: ReferenceTiming) => r.analyse_s + r.factorize_s;
+  const rounds = Math.min(ours.length, ref.length);
+  const rTotal: number[] = [], rNumeric: number[] = [], rOrder: number[] = [];
+  for (let i = 0; i < rounds; i++) {
+    rTotal.push(total(ours[i]) / refTotal(ref[i]));
+    rNumeric.push(ours[i].numeric_s / ref[i].factorize_s);
+    rOrder.push((ours[i].ordering_s + ours[i].symbolic_s) / ref[i].analyse_s);
+  }
+  return [
+    `  SuiteSparse CHOLMOD (supernodal, its default ordering, one BLAS thread): nnz(L) ${(ref[0].nnzL / 1e6).toFixed(3)} M  analyse ${median(ref.map((r) => r.analyse_s)).toFixed(3)} s  factorize ${median(ref.map((r) => r.factorize_s)).toFixed(3)} s  total ${median(ref.map(refTotal)).toFixed(3)} s`,
+    `  ${name} / CHOLMOD (medians of the per-round ratios, CPU time): analyse+factorize ×${median(rTotal).toFixed(2)}, factorize alone ×${median(rNumeric).toFixed(2)}, analyse alone ×${median(rOrder).toFixed(2)}, nnz(L) ×${(ours[0].nnzL / ref[0].nnzL).toFixed(3)}`,
+  ];
+}
+
+function elastic(targetDofs: number, repeat: number, driver: { exe: string } | string): void {
   // Voronoi meshes have about two vertices per cell: dofs ≈ 4 × cells, cells ≈ area / (2.6 h²)
   const h = Math.sqrt((1e6 * 4) / (2.6 * targetDofs));
   const c = plateCase(h);
   const t = { mesh: [] as number[], assembly: [] as number[], factor: [] as number[] };
   const runs = new Map<OrderingMethod, BenchResult[]>(ORDERINGS.map((o) => [o, []]));
+  const ref: ReferenceTiming[] = [];
+  const dir = mkdtempSync(join(tmpdir(), 'rupta-bench-'));
   let dofs = 0, polys = 0;
   for (let r = 0; r < repeat; r++) {
     let t0 = now();
@@ -81,35 +106,59 @@ function elastic(targetDofs: number, repeat: number): void {
     t0 = now();
     const K = a.stiffnessMatrix(); // a fresh topology: pattern, element stiffnesses, supports eliminated
     t.assembly.push(now() - t0);
-    t0 = now();
+    t0 = cpuSeconds();
     factorize(K, analyze(K)); // what a run does: the default ordering
-    t.factor.push(now() - t0);
+    t.factor.push(cpuSeconds() - t0);
     for (const o of ORDERINGS) runs.get(o)!.push(benchMatrix(K, o));
+    if (typeof driver !== 'string') {
+      const file = join(dir, 'plate.mtx');
+      if (r === 0) writeMatrixMarket(K, file, 'bench plate');
+      ref.push(...cholmodTimes(driver.exe, file, 1));
+    }
     dofs = K.n; polys = mesh.cellStart.length - 1;
   }
-  console.log(`${String(dofs).padStart(7)} free dofs ${String(polys).padStart(7)} polygons  mesh ${median(t.mesh).toFixed(2)} s  assembly ${median(t.assembly).toFixed(2)} s  analyse+factor (default ordering) ${median(t.factor).toFixed(2)} s`);
+  rmSync(dir, { recursive: true, force: true });
+  console.log(`${String(dofs).padStart(7)} free dofs ${String(polys).padStart(7)} polygons  mesh ${median(t.mesh).toFixed(2)} s  assembly ${median(t.assembly).toFixed(2)} s  analyse+factor (default ordering) ${median(t.factor).toFixed(2)} s CPU`);
   for (const l of orderingLines(runs, dofs)) console.log(l);
+  if (ref.length > 0) for (const l of versusLines(runs.get(autoPick(dofs))!, ref)) console.log(l);
 }
 
-/** Both orderings on a Matrix Market file and, where installed, the SuiteSparse supernodal Cholesky. */
-function matrixFile(file: string, repeat: number): void {
+/** The sparse solver of another build (a folder holding its compiled .build/). */
+async function otherSolver(dir: string): Promise<SolverLib> {
+  return (await import(pathToFileURL(join(resolve(dir), '.build/src/linalg/index.js')).href)) as SolverLib;
+}
+
+/**
+ * Both orderings on a Matrix Market file and, where installed, the SuiteSparse supernodal Cholesky,
+ * run round by round; with another build, its default ordering on the same file in the same rounds.
+ */
+async function matrixFile(file: string, repeat: number, againstDir?: string): Promise<void> {
+  const driver = cholmodDriver();
+  const other = againstDir ? await otherSolver(againstDir) : null;
+  const A: CsrMatrix = readMatrixMarket(file);
+  const pick = autoPick(A.n);
   const runs = new Map<OrderingMethod, BenchResult[]>(ORDERINGS.map((o) => [o, []]));
-  for (let r = 0; r < repeat; r++) for (const o of ORDERINGS) runs.get(o)!.push(benchMatrix(file, o));
-  const n = runs.get(ORDERINGS[0])![0].n;
-  console.log(`${file}: ${n} rows (medians of ${repeat}; * = the default ordering at this size)`);
-  for (const l of orderingLines(runs, n)) console.log(l);
-  const ref = cholmodTimes(file, repeat);
-  if (typeof ref === 'string') {
-    console.log(`  reference skipped: ${ref}`);
+  const theirs: BenchResult[] = [];
+  const ref: ReferenceTiming[] = [];
+  for (let r = 0; r < repeat; r++) {
+    if (other) theirs.push(benchMatrix(A, pick, other));
+    for (const o of ORDERINGS) runs.get(o)!.push(benchMatrix(A, o));
+    if (typeof driver !== 'string') ref.push(...cholmodTimes(driver.exe, file, 1));
+  }
+  console.log(`${file}: ${A.n} rows (CPU seconds, medians of ${repeat} rounds; * = the default ordering at this size)`);
+  for (const l of orderingLines(runs, A.n)) console.log(l);
+  const ours = runs.get(pick)!;
+  if (other) {
+    const ratio = (f: (x: BenchResult) => number) => median(ours.map((x, i) => f(x) / f(theirs[i]))).toFixed(2);
+    console.log(`  other build (${againstDir}), ${pick}: nnz(L) ${(theirs[0].nnzL / 1e6).toFixed(3)} M  ordering ${median(theirs.map((x) => x.ordering_s)).toFixed(3)} s  symbolic ${median(theirs.map((x) => x.symbolic_s)).toFixed(3)} s  numeric ${median(theirs.map((x) => x.numeric_s)).toFixed(3)} s  total ${median(theirs.map((x) => x.factor_s)).toFixed(3)} s`);
+    console.log(`  this / other (medians of per-round ratios): ordering ×${ratio((x) => x.ordering_s)}, symbolic ×${ratio((x) => x.symbolic_s)}, numeric ×${ratio((x) => x.numeric_s)}, total ×${ratio((x) => x.factor_s)}, nnz(L) ×${(ours[0].nnzL / theirs[0].nnzL).toFixed(3)}`);
+    if (ref.length > 0) for (const l of versusLines(theirs, ref, 'other')) console.log(l);
+  }
+  if (typeof driver === 'string') {
+    console.log(`  reference skipped: ${driver}`);
     return;
   }
-  const ours = runs.get(autoPick(n))!;
-  const oursAnalyse = median(ours.map((r) => r.ordering_s + r.symbolic_s));
-  const oursNumeric = median(ours.map((r) => r.numeric_s));
-  const refAnalyse = median(ref.map((r) => r.analyse_s));
-  const refNumeric = median(ref.map((r) => r.factorize_s));
-  console.log(`  SuiteSparse CHOLMOD (supernodal, its default ordering, one BLAS thread): nnz(L) ${(ref[0].nnzL / 1e6).toFixed(3)} M  analyse ${refAnalyse.toFixed(3)} s  factorize ${refNumeric.toFixed(3)} s`);
-  console.log(`  ours / CHOLMOD: analyse+factorize ×${((oursAnalyse + oursNumeric) / (refAnalyse + refNumeric)).toFixed(2)}, factorize alone ×${(oursNumeric / refNumeric).toFixed(2)}, nnz(L) ×${(ours[0].nnzL / ref[0].nnzL).toFixed(3)}`);
+  for (const l of versusLines(ours, ref)) console.log(l);
 }
 
 async function growth(repeat: number): Promise<void> {
@@ -243,21 +292,27 @@ if (args.includes('--frames')) {
   await benchFrames(repeat, ai >= 0 ? args[ai + 1] : undefined);
 } else if (args.includes('--order')) {
   benchOrder(repeat);
+} else if (mi >= 0) {
+  const file = args[mi + 1];
+  if (!file) { process.stderr.write('rupta bench: --matrix needs a Matrix Market file\n'); process.exit(2); }
+  const dir = ai >= 0 ? args[ai + 1] : undefined;
+  if (ai >= 0 && !dir) { process.stderr.write('rupta bench: --against needs a folder holding another build of rupta (.build/)\n'); process.exit(2); }
+  await matrixFile(file, repeat, dir);
 } else if (ai >= 0) {
   const dir = args[ai + 1];
   if (!dir) { process.stderr.write('rupta bench: --against needs a folder holding another build of rupta (.build/)\n'); process.exit(2); }
   await against(dir, repeat);
 } else if (args.includes('--study')) {
   await benchStudy(opt('--variants', 16), opt('--jobs', 2), args.includes('--slurm'));
-} else if (mi >= 0) {
-  const file = args[mi + 1];
-  if (!file) { process.stderr.write('rupta bench: --matrix needs a Matrix Market file\n'); process.exit(2); }
-  matrixFile(file, repeat);
 } else if (args.includes('--validation')) {
   validationBench();
 } else {
   console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
-  if (!args.includes('--no-plates')) for (const d of [10_000, 50_000, 200_000]) elastic(d, repeat);
+  if (!args.includes('--no-plates')) {
+    const driver = cholmodDriver();
+    if (typeof driver === 'string') console.log(`SuiteSparse reference skipped: ${driver}`);
+    for (const d of [10_000, 50_000, 100_000, 200_000]) elastic(d, repeat, driver);
+  }
   if (!args.includes('--no-sif')) { await sifElastic(repeat); await brittle(Math.min(repeat, 2)); }
   if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
   validationBench();

@@ -1,7 +1,7 @@
 // Fill-reducing orderings: valid permutations, fill on regular grids, correct solves, determinism.
 import { describe, expect, it } from 'vitest';
 import { Matrix, solve as denseSolve } from 'ml-matrix';
-import { analyze, csrFromTriplets, factorize, fillReducingOrder, toDense, type CsrMatrix, type OrderingMethod } from '../src/linalg/index.js';
+import { analyze, csrFromTriplets, factorize, fillReducingOrder, matVec, toDense, type CsrMatrix, type CsrPattern, type OrderingMethod } from '../src/linalg/index.js';
 import { gridStiffnessQ4 } from '../cli/bench-matrix.js';
 import { gridLaplacian, randomDominant, rng } from '../src/linalg/samples.js';
 
@@ -66,20 +66,26 @@ describe('fill-reducing orderings', () => {
     // George 1973 (SIAM J. Numer. Anal. 10): nested dissection of the k×k element grid fills
     // L with about (31/4) n log2 n entries, n = k² (constant from memory).
     const ratio: number[] = [];
-    for (const k of [32, 64]) {
+    for (const k of [32, 64, 128]) {
       const A = gridNinePoint(k);
       const nn = k * k;
       const fill = analyze(A, { ordering: 'dissection' }).nnzLExact;
       const george = (31 / 4) * nn * Math.log2(nn);
       expect(fill).toBeLessThan(george);
       ratio.push(fill / (nn * Math.log2(nn)));
-      // banded (natural) order fills about k³ entries, minimum degree a little more than dissection
+      // banded (natural) order fills about k³ entries
       if (k === 64) expect(fill).toBeLessThan(0.5 * analyze(A, { ordering: 'natural' }).nnzLExact);
-      expect(fill).toBeLessThan(analyze(A, { ordering: 'mindegree' }).nnzLExact);
+      // minimum degree fills O(n log n) too but with a larger constant, which shows once the grid is large
+      // (from memory; measured here: within 2 % of dissection at k = 32 and 64, 7 % more at k = 128)
+      const md = analyze(A, { ordering: 'mindegree' }).nnzLExact;
+      if (k === 128) expect(fill).toBeLessThan(md);
+      else expect(fill).toBeLessThan(1.05 * md);
     }
     // n log n growth: the constant does not drift as the grid is refined
-    expect(ratio[1] / ratio[0]).toBeGreaterThan(0.75);
-    expect(ratio[1] / ratio[0]).toBeLessThan(1.33);
+    for (const t of [1, 2]) {
+      expect(ratio[t] / ratio[t - 1]).toBeGreaterThan(0.75);
+      expect(ratio[t] / ratio[t - 1]).toBeLessThan(1.33);
+    }
   });
 
   it('minimum degree on a 5-point grid gives far less fill than the band (from memory: O(k² log k) against O(k³))', () => {
@@ -112,5 +118,61 @@ describe('fill-reducing orderings', () => {
     for (const m of ['mindegree', 'dissection'] as const) {
       expect(Array.from(fillReducingOrder(A, m))).toEqual(Array.from(fillReducingOrder(A, m)));
     }
+  });
+});
+
+/** Entries of L (diagonal included) by eliminating the pattern in the given order on a dense boolean matrix. */
+function denseFill(p: CsrPattern, perm: Int32Array): number {
+  const n = p.n;
+  const iperm = new Int32Array(n);
+  for (let k = 0; k < n; k++) iperm[perm[k]] = k;
+  const L = new Uint8Array(n * n);
+  for (let i = 0; i < n; i++) for (let q = p.rowPtr[i]; q < p.rowPtr[i + 1]; q++) {
+    const a = iperm[i], b = iperm[p.colIdx[q]];
+    L[Math.max(a, b) * n + Math.min(a, b)] = 1;
+  }
+  let count = 0;
+  for (let k = 0; k < n; k++) {
+    const below: number[] = [];
+    for (let i = k + 1; i < n; i++) if (L[i * n + k]) below.push(i);
+    count += 1 + below.length;
+    for (const i of below) for (const j of below) if (j < i) L[i * n + j] = 1;
+  }
+  return count;
+}
+
+describe('fill-reducing orderings on larger patterns', () => {
+  it('the fill the symbolic analysis counts is the fill of eliminating in its order (random patterns, a grid, both orderings)', () => {
+    const cases: CsrMatrix[] = [randomDominant(150, 4, 11, 'positive'), randomDominant(200, 8, 12, 'positive'), gridStiffnessQ4(8, 6)];
+    for (const A of cases) {
+      for (const o of ['natural', 'mindegree', 'dissection'] as const) {
+        const sym = analyze(A, { ordering: o });
+        expect(sym.nnzLExact).toBe(denseFill(A, sym.perm));
+      }
+    }
+  });
+
+  it('a 90×60 clamped bilinear grid: both orderings solve to a 1e-10 residual, fill within a bound, same order twice', () => {
+    const A = gridStiffnessQ4(90, 60);
+    const b = new Float64Array(A.n).fill(1);
+    const fills: Record<string, number> = {};
+    for (const o of ['mindegree', 'dissection'] as const) {
+      const perm = fillReducingOrder(A, o);
+      expect(isPermutation(perm, A.n)).toBe(true);
+      expect(Array.from(fillReducingOrder(A, o))).toEqual(Array.from(perm));
+      const sym = analyze(A, { ordering: perm });
+      fills[o] = sym.nnzLExact;
+      const x = factorize(A, sym).solve(b);
+      const r = matVec(A, x, new Float64Array(A.n));
+      let res = 0;
+      for (let i = 0; i < A.n; i++) res = Math.max(res, Math.abs(r[i] - b[i]));
+      // relative to ‖b‖∞ = 1 (common practice for a well-conditioned stiffness in double precision)
+      expect(res).toBeLessThan(1e-10);
+    }
+    // the banded (natural) order fills O(k³) on a k×k grid, a fill-reducing one O(k² log k) (from memory);
+    // measured at this size: minimum degree 0.31 and dissection 0.30 of the banded fill
+    const banded = analyze(A, { ordering: 'natural' }).nnzLExact;
+    expect(fills.mindegree).toBeLessThan(0.35 * banded);
+    expect(fills.dissection).toBeLessThan(0.35 * banded);
   });
 });

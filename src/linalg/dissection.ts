@@ -28,10 +28,18 @@ interface Work {
   pull: Float64Array;
   fresh: Uint8Array;
   pieceId: number;
+  /** Of the last level structure built: vertices reached and its height. */
+  reached: number;
+  height: number;
+  /** A vertex of the last level of the structure the last levelSeparator used. */
+  far: number;
+  /** Separator improvement lists, reused: the separator's vertices and the log of moves. */
+  sep: number[];
+  log: number[];
 }
 
-/** Breadth-first level structure of the piece from root: queue holds the reached vertices level by level; returns [reached, height]. */
-function levelStructure(wk: Work, root: number): [number, number] {
+/** Breadth-first level structure of the piece from root: queue holds the reached vertices level by level (wk.reached, wk.height). */
+function levelStructure(wk: Work, root: number): void {
   const { g, piece, level, queue, pieceId } = wk;
   level[root] = 0;
   queue[0] = root;
@@ -50,16 +58,20 @@ function levelStructure(wk: Work, root: number): [number, number] {
     }
   }
   for (let t = 0; t < tail; t++) piece[queue[t]] = pieceId;
-  return [tail, level[queue[tail - 1]]];
+  wk.reached = tail;
+  wk.height = level[queue[tail - 1]];
 }
 
 /**
  * Two ends of a pseudo-diameter found by the pseudo-peripheral search (George & Liu 1979): the root and
- * its farthest try. Starts from the level structure of start, which queue and level hold.
+ * its farthest try, whose level structure queue and level hold on return. Starts from the level
+ * structure of start, which queue and level hold.
  */
-function pseudoPeripheral(wk: Work, start: number, reached: number, height: number): [number, number] {
+function pseudoPeripheral(wk: Work, start: number): [number, number] {
   const { g, level, queue } = wk;
   let root = start;
+  let reached = wk.reached;
+  let height = wk.height;
   for (;;) {
     // the last level's vertex of least degree starts the next try
     let best = -1;
@@ -72,11 +84,11 @@ function pseudoPeripheral(wk: Work, start: number, reached: number, height: numb
         bestDeg = d;
       }
     }
-    const [r2, h2] = levelStructure(wk, best);
-    if (h2 <= height) return [root, best];
+    levelStructure(wk, best);
+    if (wk.height <= height) return [root, best];
     root = best;
-    reached = r2;
-    height = h2;
+    reached = wk.reached;
+    height = wk.height;
   }
 }
 
@@ -91,8 +103,10 @@ function refineSeparator(wk: Work, verts: Int32Array, side: Uint8Array, balance:
   const { g, piece, pieceId: id } = wk;
   const wt = g.weight;
   const sideW = [0, 0, 0];
-  const sep: number[] = [];
-  for (const v of verts) {
+  const sep = wk.sep;
+  sep.length = 0;
+  for (let t = 0; t < verts.length; t++) {
+    const v = verts[t];
     sideW[side[v]] += wt[v];
     if (side[v] === 2) sep.push(v);
   }
@@ -119,10 +133,12 @@ function refineSeparator(wk: Work, verts: Int32Array, side: Uint8Array, balance:
   const touch = (u: number): void => {
     for (let q = g.ptr[u]; q < g.ptr[u + 1]; q++) fresh[g.adj[q]] = 0;
   };
-  for (const v of verts) fresh[v] = 0;
   const moved = wk.level; // reused as a per-pass lock stamp
-  for (const v of verts) moved[v] = -1;
-  const log: number[] = []; // per move: v, t, count of pulled vertices, then the pulled vertices
+  for (let t = 0; t < verts.length; t++) {
+    fresh[verts[t]] = 0;
+    moved[verts[t]] = -1;
+  }
+  const log = wk.log; // per move: v, t, count of pulled vertices, then the pulled vertices
   for (let pass = 0; pass < passes; pass++) {
     const startW = sideW[2];
     let bestW = balanced(sideW[0], sideW[1]) ? sideW[2] : Infinity;
@@ -213,11 +229,13 @@ function refineSeparator(wk: Work, verts: Int32Array, side: Uint8Array, balance:
  * refined: side[v] = 0 or 1 for the two sides, 2 for the separator. Returns the separator's weight
  * (Infinity when the structure has fewer than three levels).
  */
-function levelSeparator(wk: Work, verts: Int32Array, root: number, side: Uint8Array, balance: number, passes: number): number {
+function levelSeparator(wk: Work, verts: Int32Array, root: number, built: boolean, side: Uint8Array, balance: number, passes: number): number {
   const { g, piece, level, queue } = wk;
   const id = wk.pieceId;
   const m = verts.length;
-  const [, height] = levelStructure(wk, root);
+  if (!built) levelStructure(wk, root);
+  const height = wk.height;
+  wk.far = queue[m - 1];
   if (height < 2) return Infinity;
   // per level: total weight and weight of the vertices adjacent to the next level
   const levelW = new Float64Array(height + 1);
@@ -310,42 +328,81 @@ export function dissectionStages(g: Graph, opts: DissectionOptions = {}): Int32A
     pull: new Float64Array(2 * n),
     fresh: new Uint8Array(n),
     pieceId: 0,
+    reached: 0,
+    height: 0,
+    far: -1,
+    sep: [],
+    log: [],
   };
   const { piece, queue } = wk;
   const side = new Uint8Array(n);
+  const keep = new Uint8Array(n);
   const depth = new Int32Array(n).fill(-1);
   let maxDepth = -1;
-  const stack: { verts: Int32Array; d: number }[] = [{ verts: Int32Array.from({ length: n }, (_, i) => i), d: 0 }];
+  // pieces are ranges of verts, split in place; stack entries: first, end, depth, a start vertex (or −1)
+  const verts = new Int32Array(n);
+  for (let v = 0; v < n; v++) verts[v] = v;
+  const tmp = new Int32Array(n);
+  const stack: number[] = [0, n, 0, -1];
   while (stack.length > 0) {
-    const { verts, d } = stack.pop()!;
-    const m = verts.length;
+    const hint = stack.pop()!;
+    const d = stack.pop()!;
+    const b = stack.pop()!;
+    const a = stack.pop()!;
+    const m = b - a;
     if (m <= leafSize) continue;
     const id = ++wk.pieceId;
-    for (let t = 0; t < m; t++) piece[verts[t]] = id;
+    const pv = verts.subarray(a, b);
+    for (let t = 0; t < m; t++) piece[pv[t]] = id;
+    // a vertex at an end of the parent's level structure is near the periphery of this piece too
+    const start = hint >= 0 && piece[hint] === id ? hint : pv[0];
 
     // a piece in several components splits without a separator
-    const [reached, height] = levelStructure(wk, verts[0]);
+    levelStructure(wk, start);
+    const reached = wk.reached;
     if (reached < m) {
-      const comp = queue.slice(0, reached);
-      for (let t = 0; t < reached; t++) piece[comp[t]] = 0;
-      stack.push({ verts: comp, d }, { verts: verts.filter((v) => piece[v] === id), d });
+      for (let t = 0; t < reached; t++) piece[queue[t]] = -1;
+      let k = reached;
+      for (let t = 0; t < m; t++) if (piece[pv[t]] === id) tmp[k++] = pv[t];
+      for (let t = 0; t < m; t++) piece[pv[t]] = 0;
+      pv.set(queue.subarray(0, reached));
+      pv.set(tmp.subarray(reached, m), reached);
+      stack.push(a, a + reached, d, start, a + reached, b, d, -1);
       continue;
     }
 
-    // level structures from both ends of a pseudo-diameter; the lighter separator wins
-    const [r1, r2] = pseudoPeripheral(wk, verts[0], reached, height);
-    let sepW = levelSeparator(wk, verts, r1, side, balance, passes);
+    // level structures from both ends of a pseudo-diameter (the far end's is built already); the lighter separator wins
+    const [r1, r2] = pseudoPeripheral(wk, start);
+    let sepW = levelSeparator(wk, pv, r2, true, side, balance, 0);
+    let root = r2;
+    let far = wk.far;
     if (r2 !== r1) {
-      const keep = Uint8Array.from(verts, (v) => side[v]);
-      const w2 = levelSeparator(wk, verts, r2, side, balance, passes);
-      if (w2 < sepW) sepW = w2;
-      else for (let t = 0; t < m; t++) side[verts[t]] = keep[t];
+      for (let t = 0; t < m; t++) keep[t] = side[pv[t]];
+      const w1 = levelSeparator(wk, pv, r1, false, side, balance, 0);
+      if (w1 < sepW) {
+        sepW = w1;
+        root = r1;
+        far = wk.far;
+      } else for (let t = 0; t < m; t++) side[pv[t]] = keep[t];
     }
-    for (let t = 0; t < m; t++) piece[verts[t]] = 0;
+    if (sepW < Infinity && passes > 0) {
+      refineSeparator(wk, pv, side, balance, passes);
+      sepW = 0;
+      for (let t = 0; t < m; t++) if (side[pv[t]] === 2) sepW += g.weight[pv[t]];
+    }
+    for (let t = 0; t < m; t++) piece[pv[t]] = 0;
     if (sepW === Infinity) continue; // too shallow to split: a leaf
-    for (let t = 0; t < m; t++) if (side[verts[t]] === 2) depth[verts[t]] = d;
+    // sides first, separator last; each side's search starts from its end of the level structure
+    let n0 = 0;
+    for (let t = 0; t < m; t++) if (side[pv[t]] === 0) tmp[n0++] = pv[t];
+    let n1 = n0;
+    for (let t = 0; t < m; t++) if (side[pv[t]] === 1) tmp[n1++] = pv[t];
+    let ns = n1;
+    for (let t = 0; t < m; t++) if (side[pv[t]] === 2) tmp[ns++] = pv[t];
+    pv.set(tmp.subarray(0, m));
+    for (let t = n1; t < m; t++) depth[pv[t]] = d;
     if (d > maxDepth) maxDepth = d;
-    stack.push({ verts: verts.filter((v) => side[v] === 0), d: d + 1 }, { verts: verts.filter((v) => side[v] === 1), d: d + 1 });
+    stack.push(a, a + n0, d + 1, side[root] === 0 ? root : -1, a + n0, a + n1, d + 1, side[far] === 1 ? far : -1);
   }
   const stage = new Int32Array(n);
   for (let v = 0; v < n; v++) stage[v] = depth[v] < 0 ? 0 : maxDepth + 1 - depth[v];

@@ -33,28 +33,25 @@ function sameRow(p: CsrPattern, a: number, b: number): boolean {
 export function compressPattern(p: CsrPattern): CompressedPattern {
   const n = p.n;
   const { rowPtr, colIdx } = p;
-  // rows sorted by a structure hash, then by index, so equal rows sit in short runs
-  const hash = new Float64Array(n);
+  // rows in a hash table keyed by their structure: a row joins the first earlier row of its chain
+  // with the same columns (chains hold representatives only, so each row is compared with few)
+  const hash = new Int32Array(n);
+  const head = new Int32Array(n).fill(-1);
+  const chain = new Int32Array(n);
+  const rep = new Int32Array(n);
   for (let i = 0; i < n; i++) {
     let h = rowPtr[i + 1] - rowPtr[i];
-    for (let q = rowPtr[i]; q < rowPtr[i + 1]; q++) h = (h * 31 + colIdx[q]) % 2147483647;
+    for (let q = rowPtr[i]; q < rowPtr[i + 1]; q++) h = (Math.imul(h, 31) + colIdx[q]) | 0;
     hash[i] = h;
-  }
-  const byHash = Int32Array.from({ length: n }, (_, i) => i).sort((a, b) => hash[a] - hash[b] || a - b);
-  const rep = new Int32Array(n).fill(-1);
-  for (let s = 0; s < n; ) {
-    let e = s + 1;
-    while (e < n && hash[byHash[e]] === hash[byHash[s]]) e++;
-    for (let a = s; a < e; a++) {
-      const i = byHash[a];
-      if (rep[i] !== -1) continue;
+    const slot = (h >>> 0) % n;
+    let r = head[slot];
+    while (r !== -1 && !(hash[r] === h && sameRow(p, r, i))) r = chain[r];
+    if (r !== -1) rep[i] = r;
+    else {
       rep[i] = i;
-      for (let b = a + 1; b < e; b++) {
-        const j = byHash[b];
-        if (rep[j] === -1 && sameRow(p, i, j)) rep[j] = i;
-      }
+      chain[i] = head[slot];
+      head[slot] = i;
     }
-    s = e;
   }
   // groups numbered by their lowest row
   const group = new Int32Array(n);

@@ -109,6 +109,92 @@ function acceptMerge(cols: number, zeros: number, entries: number): boolean {
   return cols <= 4 || (cols <= 16 && z < 0.8) || (cols <= 48 && z < 0.1) || z < 0.05;
 }
 
+/** Parent supernode of each supernode (−1 for roots): the one holding the parent of its last column. */
+function superParents(parent: Int32Array, superStart: Int32Array): Int32Array {
+  const ns = superStart.length - 1;
+  const n = parent.length;
+  const colSuper = new Int32Array(n);
+  for (let s = 0; s < ns; s++) for (let j = superStart[s]; j < superStart[s + 1]; j++) colSuper[j] = s;
+  const sp = new Int32Array(ns);
+  for (let s = 0; s < ns; s++) {
+    const pl = parent[superStart[s + 1] - 1];
+    sp[s] = pl === -1 ? -1 : colSuper[pl];
+  }
+  return sp;
+}
+
+/**
+ * Row structure of every supernode: its own columns, the rows of A below them and the rows of its
+ * children's structures below them (children come first in postorder). With sorted, each list
+ * is put in ascending order by two passes of a counting sort over all lists at once.
+ */
+function superRows(p: CsrPattern, perm: Int32Array, iperm: Int32Array, superStart: Int32Array, superParent: Int32Array, sorted: boolean) {
+  const n = p.n;
+  const { rowPtr: aPtr, colIdx: aCol } = p;
+  const nsuper = superStart.length - 1;
+  const chHead = new Int32Array(nsuper).fill(-1);
+  const chNext = new Int32Array(nsuper).fill(-1);
+  for (let s = nsuper - 1; s >= 0; s--) {
+    const ps = superParent[s];
+    if (ps === -1) continue;
+    chNext[s] = chHead[ps];
+    chHead[ps] = s;
+  }
+  const rowPtr = new Int32Array(nsuper + 1);
+  let rowBuf = new Int32Array(Math.max(16, aCol.length));
+  const mark = new Int32Array(n).fill(-1);
+  let used = 0;
+  for (let s = 0; s < nsuper; s++) {
+    const f = superStart[s];
+    const l = superStart[s + 1];
+    const need = used + (l - f) + (n - l);
+    if (need > rowBuf.length) {
+      const grown = new Int32Array(Math.max(need, rowBuf.length * 2));
+      grown.set(rowBuf.subarray(0, used));
+      rowBuf = grown;
+    }
+    rowPtr[s] = used;
+    for (let j = f; j < l; j++) {
+      rowBuf[used++] = j;
+      mark[j] = s;
+    }
+    for (let j = f; j < l; j++) {
+      const old = perm[j];
+      for (let q = aPtr[old]; q < aPtr[old + 1]; q++) {
+        const i = iperm[aCol[q]];
+        if (i >= l && mark[i] !== s) {
+          mark[i] = s;
+          rowBuf[used++] = i;
+        }
+      }
+    }
+    for (let c = chHead[s]; c !== -1; c = chNext[c]) {
+      const cEnd = rowPtr[c + 1];
+      for (let q = rowPtr[c] + (superStart[c + 1] - superStart[c]); q < cEnd; q++) {
+        const i = rowBuf[q];
+        if (mark[i] !== s) {
+          mark[i] = s;
+          rowBuf[used++] = i;
+        }
+      }
+    }
+    rowPtr[s + 1] = used;
+  }
+  const rowIdx = rowBuf.slice(0, used);
+  if (sorted && used > 0) {
+    // supernodes by row, then rows by supernode: each list comes out ascending
+    const byRow = new Int32Array(n + 1);
+    for (let q = 0; q < used; q++) byRow[rowIdx[q] + 1]++;
+    for (let i = 0; i < n; i++) byRow[i + 1] += byRow[i];
+    const sup = new Int32Array(used);
+    for (let s = 0; s < nsuper; s++) for (let q = rowPtr[s]; q < rowPtr[s + 1]; q++) sup[byRow[rowIdx[q]]++] = s;
+    const fill = rowPtr.slice(0, nsuper);
+    let q = 0;
+    for (let i = 0; i < n; i++) for (; q < byRow[i]; q++) rowIdx[fill[sup[q]]++] = i;
+  }
+  return { rowPtr, rowIdx, chHead, chNext };
+}
+
 /** Symbolic analysis of a symmetric pattern; reusable for every matrix on the same pattern. */
 export function analyze(p: CsrPattern, opts: AnalyzeOptions = {}): Symbolic {
   const n = p.n;
@@ -130,63 +216,75 @@ export function analyze(p: CsrPattern, opts: AnalyzeOptions = {}): Symbolic {
     iperm[o] = k;
   }
 
-  // postorder the elimination tree so that supernodes are contiguous
-  const post = postorder(etree(p, perm0, iperm));
+  // postorder the elimination tree so that supernodes are contiguous; the tree is relabelled, not rebuilt
+  const parent0 = etree(p, perm0, iperm);
+  const post = postorder(parent0);
   const perm = new Int32Array(n);
-  for (let k = 0; k < n; k++) perm[k] = perm0[post[k]];
+  const ipost = new Int32Array(n);
+  for (let k = 0; k < n; k++) {
+    perm[k] = perm0[post[k]];
+    ipost[post[k]] = k;
+  }
   iperm = new Int32Array(n);
   for (let k = 0; k < n; k++) iperm[perm[k]] = k;
-  const parent = etree(p, perm, iperm);
+  const parent = new Int32Array(n);
+  for (let k = 0; k < n; k++) {
+    const q = parent0[post[k]];
+    parent[k] = q === -1 ? -1 : ipost[q];
+  }
 
-  // column counts of L by marking row subtrees
-  const cc = new Int32Array(n).fill(1);
-  const mark = new Int32Array(n).fill(-1);
-  for (let i = 0; i < n; i++) {
-    mark[i] = i;
-    const old = perm[i];
+  // fundamental supernodes without column counts (Liu, Ng & Peyton 1993, "On finding supernodes for
+  // sparse matrix computations", SIAM J. Matrix Anal. Appl. 14:242–252): column j joins column j − 1
+  // when j − 1 is its only child and j is a leaf of no row subtree. In postorder the subtree of j is
+  // first[j]..j, so j is a leaf of row i's subtree when no earlier column of that range has an entry in row i.
+  const nchild = new Int32Array(n);
+  const first = new Int32Array(n);
+  for (let j = 0; j < n; j++) first[j] = j;
+  for (let j = 0; j < n; j++) {
+    const pj = parent[j];
+    if (pj === -1) continue;
+    nchild[pj]++;
+    if (first[j] < first[pj]) first[pj] = first[j];
+  }
+  const prevCol = new Int32Array(n).fill(-1);
+  const rowLeaf = new Uint8Array(n);
+  for (let j = 0; j < n; j++) {
+    const old = perm[j];
     for (let q = aPtr[old]; q < aPtr[old + 1]; q++) {
-      let j = iperm[aCol[q]];
-      while (j < i && mark[j] !== i) {
-        cc[j]++;
-        mark[j] = i;
-        j = parent[j];
-      }
+      const i = iperm[aCol[q]];
+      if (i <= j) continue;
+      if (prevCol[i] < first[j]) rowLeaf[j] = 1;
+      prevCol[i] = j;
     }
   }
-  let nnzLExact = 0;
-  for (let j = 0; j < n; j++) nnzLExact += cc[j];
-
-  // fundamental supernodes
-  const nchild = new Int32Array(n);
-  for (let j = 0; j < n; j++) if (parent[j] !== -1) nchild[parent[j]]++;
   const fStart: number[] = n > 0 ? [0] : [];
   for (let j = 1; j < n; j++) {
-    const join = parent[j - 1] === j && cc[j - 1] === cc[j] + 1 && nchild[j] === 1;
+    const join = parent[j - 1] === j && nchild[j] === 1 && rowLeaf[j] === 0;
     if (!join) fStart.push(j);
   }
   fStart.push(n);
   const nf = fStart.length - 1;
-  const colSuperF = new Int32Array(n);
-  for (let s = 0; s < nf; s++) for (let j = fStart[s]; j < fStart[s + 1]; j++) colSuperF[j] = s;
-  const fParent = new Int32Array(nf);
-  for (let s = 0; s < nf; s++) {
-    const pl = parent[fStart[s + 1] - 1];
-    fParent[s] = pl === -1 ? -1 : colSuperF[pl];
-  }
+  const fSuper = Int32Array.from(fStart);
+  const fParent = superParents(parent, fSuper);
+  // rows of each fundamental supernode: its first column's count, the other columns' counts follow
+  const fRows = superRows(p, perm, iperm, fSuper, fParent, false);
+  let nnzLExact = 0;
+  for (let t = 0; t < nf; t++) nnzLExact += trapezoid(fStart[t + 1] - fStart[t], fRows.rowPtr[t + 1] - fRows.rowPtr[t]);
+  const rowsOf = (t: number): number => fRows.rowPtr[t + 1] - fRows.rowPtr[t];
 
   // relaxed amalgamation (Ashcraft & Grimes 1989): absorb a chain of supernodes into the next one when it is their parent
   const amalgamate = opts.amalgamate ?? true;
   const sStart: number[] = [];
   {
     let gFirst = 0;
-    let gCols = fStart[1] - fStart[0];
-    let gRows = cc[fStart[0]];
+    let gCols = nf > 0 ? fStart[1] - fStart[0] : 0;
+    let gRows = nf > 0 ? rowsOf(0) : 0;
     let gZeros = 0;
     let gLast = 0;
     for (let t = 1; t <= nf; t++) {
       if (t < nf && amalgamate && fParent[gLast] === t) {
         const tCols = fStart[t + 1] - fStart[t];
-        const tRows = cc[fStart[t]];
+        const tRows = rowsOf(t);
         const cols = gCols + tCols;
         const rows = gCols + tRows;
         const entries = trapezoid(cols, rows);
@@ -204,7 +302,7 @@ export function analyze(p: CsrPattern, opts: AnalyzeOptions = {}): Symbolic {
         gFirst = t;
         gLast = t;
         gCols = fStart[t + 1] - fStart[t];
-        gRows = cc[fStart[t]];
+        gRows = rowsOf(t);
         gZeros = 0;
       }
     }
@@ -212,69 +310,8 @@ export function analyze(p: CsrPattern, opts: AnalyzeOptions = {}): Symbolic {
   }
   const nsuper = sStart.length - 1;
   const superStart = Int32Array.from(sStart);
-  const colSuper = new Int32Array(n);
-  for (let s = 0; s < nsuper; s++) for (let j = superStart[s]; j < superStart[s + 1]; j++) colSuper[j] = s;
-  const superParent = new Int32Array(nsuper);
-  for (let s = 0; s < nsuper; s++) {
-    const pl = parent[superStart[s + 1] - 1];
-    superParent[s] = pl === -1 ? -1 : colSuper[pl];
-  }
-
-  // children lists of the supernodal tree
-  const chHead = new Int32Array(nsuper).fill(-1);
-  const chNext = new Int32Array(nsuper).fill(-1);
-  for (let s = nsuper - 1; s >= 0; s--) {
-    const ps = superParent[s];
-    if (ps === -1) continue;
-    chNext[s] = chHead[ps];
-    chHead[ps] = s;
-  }
-
-  // row structures: own columns, rows of A below them, rows of the children's structures
-  const rowPtr = new Int32Array(nsuper + 1);
-  let rowBuf = new Int32Array(Math.max(16, nnzLExact >> 2));
-  mark.fill(-1);
-  let used = 0;
-  for (let s = 0; s < nsuper; s++) {
-    const f = superStart[s];
-    const l = superStart[s + 1];
-    const s0 = used;
-    const need = used + (l - f) + (n - l);
-    if (need > rowBuf.length) {
-      const grown = new Int32Array(Math.max(need, rowBuf.length * 2));
-      grown.set(rowBuf.subarray(0, used));
-      rowBuf = grown;
-    }
-    for (let j = f; j < l; j++) {
-      rowBuf[used++] = j;
-      mark[j] = s;
-    }
-    const below = used;
-    for (let j = f; j < l; j++) {
-      const old = perm[j];
-      for (let q = aPtr[old]; q < aPtr[old + 1]; q++) {
-        const i = iperm[aCol[q]];
-        if (i >= l && mark[i] !== s) {
-          mark[i] = s;
-          rowBuf[used++] = i;
-        }
-      }
-    }
-    for (let c = chHead[s]; c !== -1; c = chNext[c]) {
-      const cEnd = rowPtr[c + 1];
-      for (let q = rowPtr[c] + (superStart[c + 1] - superStart[c]); q < cEnd; q++) {
-        const i = rowBuf[q];
-        if (mark[i] !== s) {
-          mark[i] = s;
-          rowBuf[used++] = i;
-        }
-      }
-    }
-    rowBuf.subarray(below, used).sort();
-    rowPtr[s] = s0;
-    rowPtr[s + 1] = used;
-  }
-  const rowIdx = rowBuf.slice(0, used);
+  const superParent = superParents(parent, superStart);
+  const { rowPtr, rowIdx, chHead, chNext } = superRows(p, perm, iperm, superStart, superParent, true);
 
   // storage layout and sizes
   const lOff = new Float64Array(nsuper + 1);
