@@ -96,8 +96,7 @@ export class Equations {
 
   /** The constrained bulk stiffness (free dofs only). */
   stiffnessMatrix(): CsrMatrix {
-    this.sys.kT.values.set(this.sys.kBulk.values);
-    return this.sys.reduceTangent();
+    return this.sys.stiffnessOfBulk();
   }
 
   /** Which value of the last equilibrium evaluation is NaN or infinite, and where (null if none). */
