@@ -35,6 +35,8 @@ export interface AnalysisOptions {
   maxGrowthPerStep?: number;
   /** Hand the state to run()'s onCheckpoint after every this many converged steps (0: only when interrupted). */
   checkpointEvery?: number;
+  /** Newton on the bulk condensed onto the crack faces (default true); false iterates on all free unknowns (tests compare the two). */
+  condense?: boolean;
 }
 
 export interface AnalysisResult {
@@ -124,7 +126,7 @@ export class Analysis {
 
   private newtonOptions(kind: ControlKind, target: number): NewtonOptions {
     const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);
-    return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty };
+    return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty, condense: this.opt.condense };
   }
 
   /** Solve at one control level from the current state; on failure the state is as before. */

@@ -25,6 +25,8 @@ export interface NewtonOptions {
   /** Out-of-balance force accepted once maxIter is used up (faces switching in and out of
    * contact can keep a residual at round-off level of the contact penalty). */
   tolFEnd?: number;
+  /** Iterate on the bulk condensed onto the faces' jumps where it applies (default true; false: all free unknowns). */
+  condense?: boolean;
 }
 
 /** Scratch vectors for one topology (allocated once, reused every iteration). */
@@ -62,7 +64,7 @@ function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
 export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
   kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
   let before = 0;
-  if (coh && sys.pairs.plus.length > 0) {
+  if (coh && sys.pairs.plus.length > 0 && opt.condense !== false) {
     if (w.cond === undefined) w.cond = Condensation.build(sys);
     if (w.cond) {
       const r = condensedStep(sys, w.cond, coh, kappa, kappaTrial, kind, target, st, opt, w);
