@@ -10,6 +10,7 @@ import { penaltyFor, type CohesiveParams } from '../cohesive/interface.js';
 import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, type Driven } from '../solver/driven.js';
+import { ElementCache } from '../solver/system.js';
 import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
@@ -63,6 +64,8 @@ export class Analysis {
   private readonly coh: CohesiveParams;
   private readonly driven: Driven;
   private eq!: Equations;
+  /** Element stiffnesses of the cells a growth left unchanged, reused by the next topology. */
+  private readonly elements = new ElementCache();
   /** The mesh or the cracks changed since the equations were built. */
   private dirty = true;
   /** Largest |load| of the converged steps so far (N), for the secant's last-resort tolerance. */
@@ -109,7 +112,7 @@ export class Analysis {
   private rebuild(): void {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
-    this.eq = new Equations(this.wm, s.cracks, this.driven, this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs);
+    this.eq = new Equations(this.wm, s.cracks, this.driven, this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);

@@ -28,6 +28,17 @@ export interface DrivenDofs {
   slaves?: Slaves;
 }
 
+/**
+ * Element stiffnesses kept between topologies, by a key of the caller's (the work mesh's cell
+ * id): a cell whose vertices (stable ids) and coordinates are unchanged reuses its matrix.
+ */
+export class ElementCache {
+  entries = new Map<number, { verts: Int32Array; xy: Float64Array; Ke: Float64Array }>();
+}
+
+/** Where a System finds and keeps element matrices: the cache, each cell's key and each vertex's stable id. */
+export interface ElementReuse { cache: ElementCache; cellKey: Int32Array; vertexId: Int32Array }
+
 export class System {
   readonly nDof: number;
   readonly nFree: number;
@@ -52,7 +63,7 @@ export class System {
   readonly m4 = new Float64Array(4);
   readonly zLoad: Float64Array;
 
-  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs) {
+  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs, reuse?: ElementReuse) {
     const nv = mesh.xy.length >> 1, nc = mesh.cellStart.length - 1, np = pairs.plus.length;
     this.nDof = 2 * nv;
     this.nCellBlocks = nc;
@@ -78,12 +89,30 @@ export class System {
     this.kBulk = matrixOnPattern(pattern);
     const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn);
     const vals = this.kBulk.values;
+    const kept = reuse ? new Map<number, { verts: Int32Array; xy: Float64Array; Ke: Float64Array }>() : null;
     for (let c = 0; c < nc; c++) {
       const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
-      elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
       const o = off[c];
-      for (let k = 0; k < m * m; k++) vals[map[o + k]] += Ke[k];
+      let K: Float64Array = Ke;
+      if (reuse) {
+        const key = reuse.cellKey[c], hit = reuse.cache.entries.get(key);
+        if (hit && sameCell(hit, mesh, reuse.vertexId, s, e)) {
+          for (let k = 0; k < m * m; k++) vals[map[o + k]] += hit.Ke[k];
+          kept!.set(key, hit);
+          continue;
+        }
+        elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+        K = Ke.slice(0, m * m);
+        const verts = new Int32Array(e - s), xy = new Float64Array(2 * (e - s));
+        for (let k = s; k < e; k++) {
+          const v = mesh.cellVerts[k];
+          verts[k - s] = reuse.vertexId[v]; xy[2 * (k - s)] = mesh.xy[2 * v]; xy[2 * (k - s) + 1] = mesh.xy[2 * v + 1];
+        }
+        kept!.set(key, { verts, xy, Ke: K });
+      } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+      for (let k = 0; k < m * m; k++) vals[map[o + k]] += K[k];
     }
+    if (reuse) reuse.cache.entries = kept!;
     this.pairMap = map;
     this.pairOff = off.subarray(nc);
     this.kT = matrixOnPattern(pattern);
@@ -321,4 +350,14 @@ export class System {
   }
 
   get cellBlocks(): number { return this.nCellBlocks; }
+}
+
+/** The cached cell has the same vertices, in the same order, at the same places. */
+function sameCell(hit: { verts: Int32Array; xy: Float64Array }, mesh: PolyMesh, vertexId: Int32Array, s: number, e: number): boolean {
+  if (hit.verts.length !== e - s) return false;
+  for (let k = s; k < e; k++) {
+    const v = mesh.cellVerts[k], i = k - s;
+    if (hit.verts[i] !== vertexId[v] || hit.xy[2 * i] !== mesh.xy[2 * v] || hit.xy[2 * i + 1] !== mesh.xy[2 * v + 1]) return false;
+  }
+  return true;
 }
