@@ -10,6 +10,7 @@ import { penaltyFor, type CohesiveParams } from '../cohesive/interface.js';
 import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, type Driven } from '../solver/driven.js';
+import { ElementCache } from '../solver/system.js';
 import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
@@ -35,6 +36,8 @@ export interface AnalysisOptions {
   maxGrowthPerStep?: number;
   /** Hand the state to run()'s onCheckpoint after every this many converged steps (0: only when interrupted). */
   checkpointEvery?: number;
+  /** Newton on the bulk condensed onto the crack faces (default true); false iterates on all free unknowns (tests compare the two). */
+  condense?: boolean;
 }
 
 export interface AnalysisResult {
@@ -61,6 +64,8 @@ export class Analysis {
   private readonly coh: CohesiveParams;
   private readonly driven: Driven;
   private eq!: Equations;
+  /** Element stiffnesses of the cells a growth left unchanged, reused by the next topology. */
+  private readonly elements = new ElementCache();
   /** The mesh or the cracks changed since the equations were built. */
   private dirty = true;
   /** Largest |load| of the converged steps so far (N), for the secant's last-resort tolerance. */
@@ -107,7 +112,7 @@ export class Analysis {
   private rebuild(): void {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
-    this.eq = new Equations(this.wm, s.cracks, this.driven, this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs);
+    this.eq = new Equations(this.wm, s.cracks, this.driven, this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
@@ -124,7 +129,7 @@ export class Analysis {
 
   private newtonOptions(kind: ControlKind, target: number): NewtonOptions {
     const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);
-    return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty };
+    return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty, condense: this.opt.condense };
   }
 
   /** Solve at one control level from the current state; on failure the state is as before. */

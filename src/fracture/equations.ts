@@ -3,7 +3,7 @@
 // stable vertex ids (uw) and the compact (u) and free (uf) vectors of the System.
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { interfaceEnergy, type CohesiveParams } from '../cohesive/interface.js';
-import { System, type PairGeom } from '../solver/system.js';
+import { System, type PairGeom, type ElementCache } from '../solver/system.js';
 import { NewtonWork } from '../solver/newton.js';
 import { compactDriven, type Driven } from '../solver/driven.js';
 import { RunStopped } from '../errors.js';
@@ -26,7 +26,7 @@ export class Equations {
 
   /** The equations of the work mesh as it is; throws RunStopped above maxDofs. */
   constructor(wm: WorkMesh, cracks: readonly Crack[], driven: Driven, D: Float64Array, thickness: number,
-    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number) {
+    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache) {
     const cp = wm.toPolyMesh();
     this.compact = cp;
     const co = cp.compactOf;
@@ -36,7 +36,7 @@ export class Equations {
     const { geom, plus } = pairGeometry(wm, cracks, co, thickness);
     this.pairPlus = plus;
     this.pairOf = new Map(plus.map((v, i) => [v, i]));
-    this.sys = new System(cp.mesh, D, thickness, geom, dd);
+    this.sys = new System(cp.mesh, D, thickness, geom, dd, elements ? { cache: elements, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined);
     this.work = new NewtonWork(this.sys);
     this.uf = new Float64Array(this.sys.nFree);
     this.gather(uw);
@@ -96,8 +96,7 @@ export class Equations {
 
   /** The constrained bulk stiffness (free dofs only). */
   stiffnessMatrix(): CsrMatrix {
-    this.sys.kT.values.set(this.sys.kBulk.values);
-    return this.sys.reduceTangent();
+    return this.sys.stiffnessOfBulk();
   }
 
   /** Which value of the last equilibrium evaluation is NaN or infinite, and where (null if none). */

@@ -18,5 +18,5 @@ export {
 } from './csr.js';
 export { type OrderingMethod, fillReducingOrder, DISSECTION_FROM_ROWS } from './ordering.js';
 export { type Symbolic, type AnalyzeOptions, analyze } from './symbolic.js';
-export { type Factor, factorize, factorizeTrailing } from './ldlt.js';
+export { type Factor, factorize, factorizeTrailing, trailingSchur } from './ldlt.js';
 export { readMatrixMarket, writeMatrixMarket } from './mtx.js';

@@ -495,3 +495,35 @@ function rankUpdate(
     }
   }
 }
+
+/**
+ * The trailing block of L D Lᵀ, columns and rows ≥ firstCol (the elimination order), as a dense
+ * row-major matrix of order n − firstCol: the Schur complement of the leading block of the
+ * factored matrix onto the trailing unknowns.
+ */
+export function trailingSchur(F: Factor, firstCol: number, out: Float64Array): void {
+  if (!(F instanceof SupernodalFactor)) throw new TypeError('trailingSchur needs a factor made by factorize');
+  const { superStart, rowPtr, rowIdx, lPtr, nsuper } = F.sym;
+  const nt = F.n - firstCol, lx = F.lx, d = F.d;
+  out.fill(0, 0, nt * nt);
+  const rows = new Int32Array(nt), vals = new Float64Array(nt);
+  for (let s = 0; s < nsuper; s++) {
+    const f = superStart[s], k = superStart[s + 1] - f;
+    if (f + k <= firstCol) continue;
+    const r0 = rowPtr[s], m = rowPtr[s + 1] - r0, lp = lPtr[s];
+    for (let j = Math.max(0, firstCol - f); j < k; j++) {
+      // column f+j of L: its unit diagonal, the rest of the supernode's columns, then its rows below
+      const cb = lp + j * m;
+      let cnt = 0;
+      for (let i = j; i < k; i++) { rows[cnt] = f + i - firstCol; vals[cnt++] = i === j ? 1 : lx[cb + i]; }
+      for (let i = k; i < m; i++) { rows[cnt] = rowIdx[r0 + i] - firstCol; vals[cnt++] = lx[cb + i]; }
+      const dj = d[f + j];
+      for (let a = 0; a < cnt; a++) {
+        const w = dj * vals[a], o = rows[a] * nt;
+        for (let b = 0; b <= a; b++) out[o + rows[b]] += w * vals[b];
+      }
+    }
+  }
+  // rows within a column ascend, so the lower triangle is filled: mirror it
+  for (let i = 0; i < nt; i++) for (let j = 0; j < i; j++) out[j * nt + i] = out[i * nt + j];
+}

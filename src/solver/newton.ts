@@ -6,6 +6,7 @@
 import type { CohesiveParams } from '../cohesive/interface.js';
 import { SingularMatrixError } from '../errors.js';
 import type { System } from './system.js';
+import { Condensation } from './condensed.js';
 
 export type ControlKind = 'displacement' | 'cmod' | 'force' | 'opening';
 
@@ -24,6 +25,8 @@ export interface NewtonOptions {
   /** Out-of-balance force accepted once maxIter is used up (faces switching in and out of
    * contact can keep a residual at round-off level of the contact penalty). */
   tolFEnd?: number;
+  /** Iterate on the bulk condensed onto the faces' jumps where it applies (default true; false: all free unknowns). */
+  condense?: boolean;
 }
 
 /** Scratch vectors for one topology (allocated once, reused every iteration). */
@@ -31,6 +34,8 @@ export class NewtonWork {
   readonly u: Float64Array; readonly f: Float64Array; readonly z: Float64Array;
   readonly r: Float64Array; readonly a: Float64Array; readonly b: Float64Array; readonly kfl: Float64Array;
   readonly ufTry: Float64Array; readonly gf: Float64Array;
+  /** The bulk condensed onto the crack faces (built on the first cohesive solve; null where it does not apply). */
+  cond: Condensation | null | undefined = undefined;
   constructor(sys: System) {
     const n = sys.nDof, m = sys.nFree;
     this.u = new Float64Array(n); this.f = new Float64Array(n); this.z = new Float64Array(n);
@@ -58,6 +63,23 @@ function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
 
 export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
   kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
+  let before = 0;
+  if (coh && sys.pairs.plus.length > 0 && opt.condense !== false) {
+    if (w.cond === undefined) w.cond = Condensation.build(sys);
+    if (w.cond) {
+      const r = condensedStep(sys, w.cond, coh, kappa, kappaTrial, kind, target, st, opt, w);
+      if (r.converged || r.reason) return r;
+      // the full residual disagrees with the condensed one: finish with the full iterations
+      before = r.iterations;
+    }
+  }
+  const r = fullStep(sys, coh, kappa, kappaTrial, kind, target, st, opt, w);
+  return { ...r, iterations: r.iterations + before };
+}
+
+/** Newton on all free unknowns: each iteration a (trailing) refactorization and a bordered solve. */
+function fullStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
+  kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
   const m = sys.nFree;
   const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
   if (kind === 'displacement') st.lambda = target;
@@ -68,11 +90,7 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     if (!Number.isFinite(res.rmax) || !Number.isFinite(res.g)) return { converged: false, iterations: it, reason: 'non-finite residual' };
     let factor;
     try { factor = sys.factorTangent(); } catch (e) {
-      if (e instanceof SingularMatrixError) {
-        const d = sys.freeDofs[e.equation] ?? -1, v = d >> 1;
-        const where = d >= 0 ? ` near [${sys.mesh.xy[2 * v].toFixed(2)}, ${sys.mesh.xy[2 * v + 1].toFixed(2)}] mm` : '';
-        return { converged: false, iterations: it, reason: `the tangent stiffness is singular${where} (a part of the specimen is no longer held)` };
-      }
+      if (e instanceof SingularMatrixError) return { converged: false, iterations: it, reason: singular(sys, e) };
       throw e;
     }
     // a = −K⁻¹ r,  b = K⁻¹ k_fλ with k_fλ = kT[f, load]·w
@@ -116,6 +134,96 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     res = bestEta === lastEta ? lastTrial : residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
   }
   if (res.rmax <= (opt.tolFEnd ?? opt.tolF) && Math.abs(res.g) <= opt.tolG) return { converged: true, iterations: opt.maxIter, reason: '' };
+  return { converged: false, iterations: opt.maxIter, reason: `no convergence in ${opt.maxIter} iterations (out-of-balance ${res.rmax.toExponential(2)} N)` };
+}
+
+
+function singular(sys: System, e: SingularMatrixError): string {
+  const d = sys.freeDofs[e.equation] ?? -1, v = d >> 1;
+  const where = d >= 0 ? ` near [${sys.mesh.xy[2 * v].toFixed(2)}, ${sys.mesh.xy[2 * v + 1].toFixed(2)}] mm` : '';
+  return `the tangent stiffness is singular${where} (a part of the specimen is no longer held)`;
+}
+
+/**
+ * The same Newton iterations, line search and control on the condensed unknowns (condensed.ts);
+ * the bulk follows in one sparse solve once they have converged. Returns converged, or a
+ * reason, or neither (iterations used) when the full residual of the converged state is
+ * still too large and the full iterations should finish the step.
+ */
+function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa: Float64Array, kappaTrial: Float64Array,
+  kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
+  const nc = cd.nc, sec = opt.secant ?? false, { r, a, b, qTry, s } = cd;
+  const qc = cd.gatherC(st.uf);
+  let lambda = kind === 'displacement' ? target : st.lambda;
+  let gc: Float64Array | null = null, gl0 = 0;
+  if (kind === 'cmod' || kind === 'opening') {
+    const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
+    w.z.fill(0);
+    sys.expand(w.gf.fill(0), 1, w.z);
+    const glf = sys.gaugeGradient(w.gf.fill(0), w.z, gauge, gaugeW);
+    const G = cd.gauge(kind, w.gf, glf);
+    gc = G.gc; gl0 = G.gl;
+  }
+  const constraint = (q: Float64Array, lam: number, F: number): number => {
+    if (kind === 'displacement') return lam - target;
+    if (kind === 'force') return F - target;
+    let g = gl0 * lam;
+    for (let i = 0; i < nc; i++) g += gc![i] * q[i];
+    return g - target;
+  };
+  // the converged state as the full unknowns, evaluated on them (work.u, work.f, histories)
+  const finish = (iterations: number, tol: number): StepResult => {
+    cd.recover(qc, lambda, st.uf);
+    st.lambda = lambda;
+    const full = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, false, opt.floor, sec);
+    if (full.rmax <= tol && Math.abs(full.g) <= opt.tolG) return { converged: true, iterations, reason: '' };
+    if (!Number.isFinite(full.rmax) || !Number.isFinite(full.g)) return { converged: false, iterations, reason: 'non-finite residual' };
+    return { converged: false, iterations, reason: '' };
+  };
+  let res = cd.evaluate(qc, lambda, coh, kappa, kappaTrial, true, opt.floor, sec);
+  let g = constraint(qc, lambda, res.F);
+  for (let it = 1; it <= opt.maxIter; it++) {
+    if (res.rmax <= opt.tolF && Math.abs(g) <= opt.tolG) return finish(it - 1, opt.tolF);
+    if (!Number.isFinite(res.rmax) || !Number.isFinite(g)) {
+      const f = finish(it, opt.tolF);
+      return f.converged ? f : { converged: false, iterations: it, reason: 'non-finite residual' };
+    }
+    try { cd.factorT(); } catch (e) {
+      if (e instanceof SingularMatrixError) return { converged: false, iterations: it, reason: singular(sys, e) };
+      throw e;
+    }
+    // a = −T⁻¹ r,  b = T⁻¹ s (the residual's change with λ)
+    for (let i = 0; i < nc; i++) { a[i] = -r[i]; b[i] = s[i]; }
+    cd.solveT(a); cd.solveT(b);
+    let gl: number, ga = 0, gb = 0;
+    if (kind === 'displacement') gl = 1;
+    else if (kind === 'force') { gl = cd.kll; for (let i = 0; i < nc; i++) { ga += s[i] * a[i]; gb += s[i] * b[i]; } }
+    else { gl = gl0; for (let i = 0; i < nc; i++) { ga += gc![i] * a[i]; gb += gc![i] * b[i]; } }
+    const den = gl - gb;
+    if (!(Math.abs(den) > 0)) return { converged: false, iterations: it, reason: 'the control does not determine the load (check the gauge and the load points)' };
+    const dl = -(g + ga) / den;
+    // backtracking against a real divergence only, as in the full iterations
+    const r0 = Math.max(res.rmax, 100 * opt.tolF);
+    let eta = 1, best = Infinity, bestEta = 1, lastEta = 0;
+    let lastTrial = res, lastG = g;
+    const lam0 = lambda;
+    for (let ls = 0; ls < 6; ls++) {
+      for (let i = 0; i < nc; i++) qTry[i] = qc[i] + eta * (a[i] - b[i] * dl);
+      lastTrial = cd.evaluate(qTry, lam0 + eta * dl, coh, kappa, kappaTrial, true, opt.floor, sec);
+      lastG = constraint(qTry, lam0 + eta * dl, lastTrial.F);
+      lastEta = eta;
+      if (lastTrial.rmax < best) { best = lastTrial.rmax; bestEta = eta; }
+      if (lastTrial.rmax <= 2 * r0) break;
+      eta *= 0.5;
+    }
+    for (let i = 0; i < nc; i++) qc[i] += bestEta * (a[i] - b[i] * dl);
+    lambda = lam0 + bestEta * dl;
+    if (bestEta === lastEta) { res = lastTrial; g = lastG; } else {
+      res = cd.evaluate(qc, lambda, coh, kappa, kappaTrial, true, opt.floor, sec);
+      g = constraint(qc, lambda, res.F);
+    }
+  }
+  if (res.rmax <= (opt.tolFEnd ?? opt.tolF) && Math.abs(g) <= opt.tolG) return finish(opt.maxIter, opt.tolFEnd ?? opt.tolF);
   return { converged: false, iterations: opt.maxIter, reason: `no convergence in ${opt.maxIter} iterations (out-of-balance ${res.rmax.toExponential(2)} N)` };
 }
 

@@ -28,6 +28,17 @@ export interface DrivenDofs {
   slaves?: Slaves;
 }
 
+/**
+ * Element stiffnesses kept between topologies, by a key of the caller's (the work mesh's cell
+ * id): a cell whose vertices (stable ids) and coordinates are unchanged reuses its matrix.
+ */
+export class ElementCache {
+  entries = new Map<number, { verts: Int32Array; xy: Float64Array; Ke: Float64Array }>();
+}
+
+/** Where a System finds and keeps element matrices: the cache, each cell's key and each vertex's stable id. */
+export interface ElementReuse { cache: ElementCache; cellKey: Int32Array; vertexId: Int32Array }
+
 export class System {
   readonly nDof: number;
   readonly nFree: number;
@@ -48,10 +59,11 @@ export class System {
   private readonly pairOff: Int32Array;
   private readonly nCellBlocks: number;
   private readonly tr = new Float64Array(6);
-  private readonly m4 = new Float64Array(4);
+  /** The 2×2 tangent of the last pairResponse. */
+  readonly m4 = new Float64Array(4);
   readonly zLoad: Float64Array;
 
-  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs) {
+  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs, reuse?: ElementReuse) {
     const nv = mesh.xy.length >> 1, nc = mesh.cellStart.length - 1, np = pairs.plus.length;
     this.nDof = 2 * nv;
     this.nCellBlocks = nc;
@@ -77,12 +89,30 @@ export class System {
     this.kBulk = matrixOnPattern(pattern);
     const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn);
     const vals = this.kBulk.values;
+    const kept = reuse ? new Map<number, { verts: Int32Array; xy: Float64Array; Ke: Float64Array }>() : null;
     for (let c = 0; c < nc; c++) {
       const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
-      elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
       const o = off[c];
-      for (let k = 0; k < m * m; k++) vals[map[o + k]] += Ke[k];
+      let K: Float64Array = Ke;
+      if (reuse) {
+        const key = reuse.cellKey[c], hit = reuse.cache.entries.get(key);
+        if (hit && sameCell(hit, mesh, reuse.vertexId, s, e)) {
+          for (let k = 0; k < m * m; k++) vals[map[o + k]] += hit.Ke[k];
+          kept!.set(key, hit);
+          continue;
+        }
+        elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+        K = Ke.slice(0, m * m);
+        const verts = new Int32Array(e - s), xy = new Float64Array(2 * (e - s));
+        for (let k = s; k < e; k++) {
+          const v = mesh.cellVerts[k];
+          verts[k - s] = reuse.vertexId[v]; xy[2 * (k - s)] = mesh.xy[2 * v]; xy[2 * (k - s) + 1] = mesh.xy[2 * v + 1];
+        }
+        kept!.set(key, { verts, xy, Ke: K });
+      } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+      for (let k = 0; k < m * m; k++) vals[map[o + k]] += K[k];
     }
+    if (reuse) reuse.cache.entries = kept!;
     this.pairMap = map;
     this.pairOff = off.subarray(nc);
     this.kT = matrixOnPattern(pattern);
@@ -153,6 +183,12 @@ export class System {
     return gl;
   }
 
+  /** The bulk stiffness on the unknowns (kT and kff are overwritten; the next evaluation refills them). */
+  stiffnessOfBulk(): CsrMatrix {
+    this.kT.values.set(this.kBulk.values);
+    return this.reduceTangent();
+  }
+
   /** Refill the tangent on the unknowns from kT. */
   reduceTangent(): CsrMatrix {
     return this.reduced ? refill(this.kT, this.reduced) : submatrixInto(this.kT, this.sub!);
@@ -167,36 +203,52 @@ export class System {
     matVec(this.kBulk, u, f);
     if (wantTangent) this.kT.values.set(this.kBulk.values);
     if (!coh) return;
-    const P = this.pairs, np = P.plus.length, tr = this.tr, vals = this.kT.values, map = this.pairMap;
+    const P = this.pairs, np = P.plus.length, vals = this.kT.values, map = this.pairMap, M = this.m4;
     for (let p = 0; p < np; p++) {
-      const a = P.plus[p], b = P.minus[p], nx = P.nx[p], ny = P.ny[p], A = P.area[p];
-      const dx = u[2 * a] - u[2 * b], dy = u[2 * a + 1] - u[2 * b + 1];
-      // local frame: n and t = (ny, −nx)
-      const w = dx * nx + dy * ny, s = dx * ny - dy * nx;
-      kappaTrial[p] = cohesivePoint(coh, w, s, kappa[p], tr);
-      const fx = A * (tr[0] * nx + tr[1] * ny), fy = A * (tr[0] * ny - tr[1] * nx);
+      const a = P.plus[p], b = P.minus[p];
+      const fx = this.pairResponse(p, u[2 * a] - u[2 * b], u[2 * a + 1] - u[2 * b + 1], coh, kappa, kappaTrial, wantTangent, floor, secant);
+      const fy = this.pairFy;
       f[2 * a] += fx; f[2 * a + 1] += fy; f[2 * b] -= fx; f[2 * b + 1] -= fy;
       if (!wantTangent) continue;
-      if (secant) {
-        // secant stiffness of the current state: positive, so Newton cannot cycle on it
-        const bs = coh.beta * s, den = w * (w > 0 ? w : 0) + bs * s;
-        const Dsec = den > 1e-30 ? (tr[0] * (w > 0 ? w : 0) + tr[1] * s) / den : tr[5] / coh.beta;
-        tr[2] = w < 0 ? tr[2] : Dsec; tr[3] = 0; tr[4] = 0; tr[5] = Dsec * coh.beta;
-      }
-      // M = A·R C Rᵀ with R = [n t]; a small floor keeps fully open faces from a singular matrix
-      const c00 = tr[2], c01 = tr[3], c10 = tr[4], c11 = tr[5];
-      const m00 = A * (nx * nx * c00 + nx * ny * (c01 + c10) + ny * ny * c11) + floor * A;
-      const m01 = A * (nx * ny * c00 - nx * nx * c01 + ny * ny * c10 - nx * ny * c11);
-      const m10 = A * (nx * ny * c00 + ny * ny * c01 - nx * nx * c10 - nx * ny * c11);
-      const m11 = A * (ny * ny * c00 - nx * ny * (c01 + c10) + nx * nx * c11) + floor * A;
       const o = this.pairOff[p];
-      const M = this.m4;
-      M[0] = m00; M[1] = m01; M[2] = m10; M[3] = m11;
       for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) {
         const sgn = (i < 2) === (j < 2) ? 1 : -1;
         vals[map[o + 4 * i + j]] += sgn * M[2 * (i & 1) + (j & 1)];
       }
     }
+  }
+
+  /** y component of the force of the last pairResponse. */
+  pairFy = 0;
+
+  /**
+   * The cohesive force of pair p on its plus face for the jump (dx, dy) = u⁺ − u⁻: returns its
+   * x component (y in pairFy), puts the trial history in kappaTrial[p] and, with a tangent, the
+   * 2×2 stiffness of the force against the jump in m4 (row-major).
+   */
+  pairResponse(p: number, dx: number, dy: number, coh: CohesiveParams, kappa: Float64Array, kappaTrial: Float64Array,
+    wantTangent: boolean, floor: number, secant: boolean): number {
+    const P = this.pairs, tr = this.tr;
+    const nx = P.nx[p], ny = P.ny[p], A = P.area[p];
+    // local frame: n and t = (ny, −nx)
+    const w = dx * nx + dy * ny, s = dx * ny - dy * nx;
+    kappaTrial[p] = cohesivePoint(coh, w, s, kappa[p], tr);
+    const fx = A * (tr[0] * nx + tr[1] * ny);
+    this.pairFy = A * (tr[0] * ny - tr[1] * nx);
+    if (!wantTangent) return fx;
+    if (secant) {
+      // secant stiffness of the current state: positive, so Newton cannot cycle on it
+      const bs = coh.beta * s, den = w * (w > 0 ? w : 0) + bs * s;
+      const Dsec = den > 1e-30 ? (tr[0] * (w > 0 ? w : 0) + tr[1] * s) / den : tr[5] / coh.beta;
+      tr[2] = w < 0 ? tr[2] : Dsec; tr[3] = 0; tr[4] = 0; tr[5] = Dsec * coh.beta;
+    }
+    // M = A·R C Rᵀ with R = [n t]; a small floor keeps fully open faces from a singular matrix
+    const c00 = tr[2], c01 = tr[3], c10 = tr[4], c11 = tr[5], M = this.m4;
+    M[0] = A * (nx * nx * c00 + nx * ny * (c01 + c10) + ny * ny * c11) + floor * A;
+    M[1] = A * (nx * ny * c00 - nx * nx * c01 + ny * ny * c10 - nx * ny * c11);
+    M[2] = A * (nx * ny * c00 + ny * ny * c01 - nx * nx * c10 - nx * ny * c11);
+    M[3] = A * (ny * ny * c00 - nx * ny * (c01 + c10) + nx * nx * c11) + floor * A;
+    return fx;
   }
 
   /**
@@ -298,4 +350,14 @@ export class System {
   }
 
   get cellBlocks(): number { return this.nCellBlocks; }
+}
+
+/** The cached cell has the same vertices, in the same order, at the same places. */
+function sameCell(hit: { verts: Int32Array; xy: Float64Array }, mesh: PolyMesh, vertexId: Int32Array, s: number, e: number): boolean {
+  if (hit.verts.length !== e - s) return false;
+  for (let k = s; k < e; k++) {
+    const v = mesh.cellVerts[k], i = k - s;
+    if (hit.verts[i] !== vertexId[v] || hit.xy[2 * i] !== mesh.xy[2 * v] || hit.xy[2 * i + 1] !== mesh.xy[2 * v + 1]) return false;
+  }
+  return true;
 }

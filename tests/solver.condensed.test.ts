@@ -1,0 +1,54 @@
+// The bulk condensed onto the crack faces: the Schur complement read from the trailing block
+// of the LDLᵀ against a dense one (block elimination, common practice; ml-matrix for the dense
+// solves), and a cracking beam whose condensed Newton iterations give the curve of the
+// iterations on all free unknowns (the condensation is exact algebra: round-off and the
+// Newton tolerance only).
+import { describe, expect, it } from 'vitest';
+import { Matrix, solve as denseSolve } from 'ml-matrix';
+import { analyze, factorize, fillReducingOrder, toDense, trailingSchur } from '../src/linalg/index.js';
+import { randomDominant } from '../src/linalg/samples.js';
+import { Analysis } from '../src/fracture/analysis.js';
+import { meshCase } from '../src/run.js';
+import { coarseBeam } from './support/beam.js';
+
+describe('condensation onto the crack faces', () => {
+  it('the trailing block of L D Lᵀ is the Schur complement A_cc − A_cb A_bb⁻¹ A_bc (dense block elimination)', () => {
+    const n = 120, A = randomDominant(n, 6, 7, 'positive');
+    const last = new Uint8Array(n);
+    for (let i = 0; i < n; i += 9) last[i] = 1;
+    const sym = analyze(A, { ordering: fillReducingOrder(A, 'mindegree', {}, last) });
+    let first = n;
+    for (let i = 0; i < n; i++) if (last[i]) first = Math.min(first, sym.iperm[i]);
+    const nt = n - first, S = new Float64Array(nt * nt);
+    trailingSchur(factorize(A, sym), first, S);
+    // the dense reference on the same split: b = the leading columns, c = the trailing ones
+    const d = toDense(A), c = Array.from(sym.perm.slice(first)), b = Array.from(sym.perm.slice(0, first));
+    const sub = (r: number[], k: number[]) => new Matrix(r.map((i) => k.map((j) => d[i * n + j])));
+    const ref = sub(c, c).sub(sub(c, b).mmul(denseSolve(sub(b, b), sub(b, c))));
+    let err = 0, scale = 0;
+    for (let i = 0; i < nt; i++) for (let j = 0; j < nt; j++) {
+      err = Math.max(err, Math.abs(S[i * nt + j] - ref.get(i, j)));
+      scale = Math.max(scale, Math.abs(ref.get(i, j)));
+    }
+    expect(nt).toBeGreaterThanOrEqual(14);
+    expect(err / scale).toBeLessThan(1e-12);
+  });
+
+  it('a cracking beam gives the same curve, crack and iterations condensed as on all unknowns', async () => {
+    const c = coarseBeam({ target: 0.15, increments: 20 });
+    const runs = [];
+    for (const condense of [true, false]) runs.push(await new Analysis(c, meshCase(c).mesh, { condense }).run(() => {}));
+    const [a, b] = runs;
+    expect(a.status).toBe('complete');
+    expect(a.rows.length).toBe(b.rows.length);
+    // the path through the same cells, its points to round-off
+    expect(a.crackPaths.map((k) => k.length)).toEqual(b.crackPaths.map((k) => k.length));
+    a.crackPaths.forEach((k, i) => k.forEach((p, j) => expect(Math.hypot(p[0] - b.crackPaths[i][j][0], p[1] - b.crackPaths[i][j][1])).toBeLessThan(1e-6)));
+    expect(a.rows.at(-1)!.crack_length_mm).toBeGreaterThan(10);
+    for (let i = 0; i < a.rows.length; i++) {
+      expect(a.rows[i].iterations).toBe(b.rows[i].iterations);
+      expect(a.rows[i].load_N).toBeCloseTo(b.rows[i].load_N, 4);
+      expect(Math.abs(a.rows[i].displacement_mm - b.rows[i].displacement_mm)).toBeLessThan(1e-9 + 1e-7 * Math.abs(b.rows[i].displacement_mm));
+    }
+  });
+});
