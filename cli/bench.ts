@@ -6,6 +6,7 @@
 // (--no-sif skips these two, --no-plates the plates), and of the checks and meshing of large
 // hole, outline and probe counts.
 // npm run bench -- --validation: only the checks and meshing of large hole, outline and probe counts.
+// npm run bench -- --sif: only the elastic run with stress intensity factors, phase by phase (CPU and wall time).
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file,
 // round by round; with --against DIR also another build's solver on the same file.
@@ -206,19 +207,30 @@ control: {by: force, target: 200}
 mesh: {size: 20, tipSize: 0.5, refineRadius: 8, seed: 1}
 output: {frames: []}
 `, 'bench-slit.yaml');
-  const total: number[] = [], sif: number[] = [];
+  // wall and CPU time (user + system) of each phase: the CPU time is what this run costs,
+  // whatever else the shared machine is doing
+  const cpu = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
+  const phases = ['mesh', 'set-up', 'run', 'K'] as const;
+  const wall: Record<string, number[]> = {}, used: Record<string, number[]> = {};
+  for (const p of [...phases, 'total']) { wall[p] = []; used[p] = []; }
   let dofs = 0, line = '';
   for (let r = 0; r < repeat; r++) {
-    const t0 = now();
-    const a = new Analysis(c, generateMesh(buildDomain(c), c.mesh));
+    const w = [now()], u = [cpu()];
+    const mesh = generateMesh(buildDomain(c), c.mesh);
+    w.push(now()); u.push(cpu());
+    const a = new Analysis(c, mesh);
+    w.push(now()); u.push(cpu());
     await a.run(() => {});
-    const t1 = now();
+    w.push(now()); u.push(cpu());
     const tips = a.tipFactors();
-    sif.push(now() - t1); total.push(now() - t0);
+    w.push(now()); u.push(cpu());
+    phases.forEach((p, i) => { wall[p].push(w[i + 1] - w[i]); used[p].push(u[i + 1] - u[i]); });
+    wall.total.push(w[4] - w[0]); used.total.push(u[4] - u[0]);
     dofs = a.dofs.final;
     line = tips.map((t) => `K_I ${t.KI!.toFixed(2)}, K_II ${t.KII!.toFixed(2)} MPa√mm, spread ${(100 * t.spread!).toFixed(2)} %`).join('; ');
   }
-  console.log(`elastic run with stress intensity factors: ${dofs} dofs, total ${median(total).toFixed(2)} s, of which K at the two tips ${(1000 * median(sif)).toFixed(0)} ms (${line})`);
+  const f = (p: string) => `${p} ${median(used[p]).toFixed(2)} s cpu / ${median(wall[p]).toFixed(2)} s wall`;
+  console.log(`elastic run with stress intensity factors: ${dofs} dofs, ${f('total')} (${phases.map(f).join(', ')}); ${line}`);
 }
 
 /** The ceramic bend-bar example (crack.model lefm) with all its files, to separation. */
@@ -329,6 +341,8 @@ if (args.includes('--frames')) {
   await benchStudy(opt('--variants', 16), opt('--jobs', 2), args.includes('--slurm'));
 } else if (args.includes('--validation')) {
   validationBench();
+} else if (args.includes('--sif')) {
+  await sifElastic(repeat);
 } else {
   console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
   if (!args.includes('--no-plates')) {

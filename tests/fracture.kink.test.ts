@@ -61,8 +61,10 @@ describe('kink out of a slanted slit during cohesive growth (Erdogan & Sih 1963)
       const b = beta * Math.PI / 180;
       const mts = mtsKink(Math.sin(b) ** 2, Math.sin(b) * Math.cos(b)) * 180 / Math.PI;
       // At β = 30° (K_II/K_I = 1.7) the MTS kink leaves the new tip with some K_II (the kink of
-      // local symmetry, K_II = 0, is a few degrees larger), so the crack goes on turning over
-      // its first segments: measured 3.1–6.4° beyond the MTS angle at 4 mm, both tips alike.
+      // local symmetry, K_II = 0, is a few degrees larger), and the slit's T-stress σ cos 2β is
+      // positive, so the kinked crack goes on turning (Cotterell & Rice 1980): measured 3.1–6.4°
+      // beyond the MTS angle at 4 mm, both tips alike; traction-free growth with K at every step
+      // turns as far. The issue asks for 5°; 30° is held to 7.5° (DEVELOPERS.md, known gaps).
       const tol = beta === 30 ? 7.5 : 5;
       const devs: string[] = [];
       for (const [size, tip] of [[16, 1], [10, 0.75]]) {

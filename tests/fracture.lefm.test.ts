@@ -8,6 +8,7 @@ import { LefmAnalysis } from '../src/fracture/lefm.js';
 import { meshCase } from '../src/run.js';
 import { describeCase } from '../src/case/describe.js';
 import { mtsKink } from '../src/fracture/sif.js';
+import { rootSlitLength } from '../src/fracture/lefm.js';
 
 describe('crack.model lefm: ceramic bend bar (template example)', () => {
   it('runs to separation; K_Ic from the peak by the SEVNB expression within 3 % of the input; energy released = G·area', async () => {
@@ -81,10 +82,52 @@ output: {frames: []}
     expect(Math.abs(got - th) * 180 / Math.PI).toBeLessThan(2);
   });
 
-  it('refuses a brittle case without KIc or without a sharp slit, in one sentence (InputError)', () => {
+  it('refuses a brittle case without KIc or without any notch, in one sentence (InputError)', () => {
     const base = readFileSync(new URL('../cases/ceramic-bend-bar-example.yaml', import.meta.url), 'utf8');
     expect(() => parseCase(base.replace(/^  KIc: .*$/m, ''), 'x.yaml')).toThrow(/^material\.KIc must be a positive number .*MPa√m.*lefm/);
-    expect(() => parseCase(base.replace('width: 0}', 'width: 0.1}'), 'x.yaml')).toThrow(/crack\.model lefm needs a sharp slit/);
+    expect(() => parseCase(base.replace(/^  notches:[\s\S]*?\n(?=\S)/m, '  notches: []\n'), 'x.yaml')).toThrow(/crack\.model lefm needs a notch in geometry\.notches/);
   });
 });
 
+describe('crack.model lefm from a notch of finite width', () => {
+  it('starts a short slit at the notch root: the first critical load is that of an edge crack of notch plus slit depth, within 3 % (ASTM E399; Srawley 1976)', async () => {
+    // a bend beam S/W = 4 with a 1 mm wide notch 20 mm deep; the slit at its root takes the notch
+    // and slit together as one edge crack once it is longer than the root radius (common practice)
+    const W = 50, S = 200, B = 10, a0 = 20, wN = 1, h = 0.5, KIc = 1;
+    for (const seed of [1, 2]) {
+      const c = parseCase(`
+format: 1
+title: blunt-notched beam
+units: mm-N-MPa
+thickness: ${B}
+geometry:
+  outline: [[0,0],[220,0],[220,${W}],[0,${W}]]
+  notches: [{from: [110, 0], to: [110, ${a0}], width: ${wN}}]
+material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: ${KIc}}
+supports: [{at: [10,0], fix: xy}, {at: [210,0], fix: y}]
+loads: [{at: [110,${W}], direction: [0, -1]}]
+control: {by: displacement, target: 1, increments: 10}
+crack: {model: lefm, growthStep: 1}
+mesh: {size: 8, tipSize: ${h}, refineRadius: 8, seed: ${seed}}
+output: {frames: []}
+`, 'blunt-lefm.yaml');
+      const an = new LefmAnalysis(c, meshCase(c).mesh);
+      an.stopRequested = () => an.growthLog.length > 0;
+      const res = await an.run(() => {});
+      const first = res.rows[1];
+      expect(first).toBeDefined();
+      // the depth as cut: the slit ends on a vertex, within a cell of its length
+      const slit = an.cracks.find((k) => !k.grown)!, depth = an.wm.y[slit.path.at(-1)!];
+      expect(Math.abs(depth - a0 - rootSlitLength(wN, h))).toBeLessThan(h);
+      const al = depth / W;
+      const f = 3 * Math.sqrt(al) * (1.99 - al * (1 - al) * (2.15 - 3.93 * al + 2.7 * al * al)) / (2 * (1 + 2 * al) * (1 - al) ** 1.5);
+      const P = KIc * Math.sqrt(1000) * B * W ** 1.5 / (S * f);
+      console.log(`blunt notch, seed ${seed}: first critical load ${first.load_N.toFixed(1)} N against ${P.toFixed(1)} N for an edge crack of ${depth.toFixed(2)} mm (${(100 * (first.load_N / P - 1)).toFixed(2)} %)`);
+      expect(Math.abs(first.load_N / P - 1)).toBeLessThan(0.03);
+      // the crack grows from the slit straight along the plane of symmetry
+      const g = an.growthLog[0];
+      expect(Math.abs(g.x - 110)).toBeLessThan(h);
+      expect(Math.abs(Math.atan2(g.dx, g.dy)) * 180 / Math.PI).toBeLessThan(3);
+    }
+  });
+});

@@ -48,8 +48,8 @@ function checkNumbers(c: CaseModel): void {
   }
   if (m.KIc !== undefined) num(m.KIc, ['material', 'KIc']);
   if (c.crack?.model === 'lefm' && m.KIc === undefined) fail(['material', 'KIc'], 'found none; crack.model lefm grows a crack where K reaches KIc');
-  if (c.crack?.model === 'lefm' && !c.geometry.notches.some((n) => n.width === 0)) {
-    throw new InputError('crack.model lefm needs a sharp slit in geometry.notches (a notch of width 0 mm), where K is defined at its tip (found none)');
+  if (c.crack?.model === 'lefm' && c.geometry.notches.length === 0) {
+    throw new InputError('crack.model lefm needs a notch in geometry.notches (a sharp slit of width 0 mm, or a notch of width > 0 mm from whose root a short slit is started), where K is defined at a crack tip (found none)');
   }
   const g = c.mesh;
   num(g.size, ['mesh', 'size']); num(g.tipSize, ['mesh', 'tipSize']); num(g.refineRadius, ['mesh', 'refineRadius']);

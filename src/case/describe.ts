@@ -50,6 +50,9 @@ export function describeCase(c: CaseModel): string {
     lines.push(c.crack.model === 'lefm'
       ? `  crack      model lefm (linear elastic fracture mechanics): traction-free cracks from ${start}, a tip grows `
         + `where its MTS equivalent K reaches KIc ${fmtNum(c.material.KIc ?? NaN)} MPa√m, in the MTS direction, step ${fmtNum(c.crack.growthStep)} mm`
+        + (c.geometry.notches.some((n) => n.width > 0)
+          ? '; a slit as long as the notch is wide (at least six tip cells) is started at the root of each notch of finite width'
+          : '')
       : `  crack      model cohesive (${c.material.softening} traction–separation law): from ${start}, ${c.crack.criterion}, step ${fmtNum(c.crack.growthStep)} mm, `
         + `averaging radius ${fmtNum(c.crack.averagingRadius)} mm, next segment laid at ${fmtNum(c.crack.insertAt)} ft`);
   } else {

@@ -49,8 +49,8 @@ export class LefmAnalysis {
 
   constructor(readonly c: CaseModel, initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
     if (c.material.KIc === undefined) throw new InputError('material.KIc must be a positive number in MPa√m for crack.model lefm (found none)');
-    if (!c.geometry.notches.some((n) => n.width === 0)) {
-      throw new InputError('geometry.notches must hold a sharp slit (width 0) for crack.model lefm, where K is defined at its tip (found none)');
+    if (c.geometry.notches.length === 0) {
+      throw new InputError('geometry.notches must hold a notch for crack.model lefm, where K is defined at a crack tip (found none)');
     }
     this.wm = WorkMesh.fromPolyMesh(initial);
     for (let v = 0; v < this.wm.vertexCount; v++) this.wm.pinned[v] = 1;
@@ -66,6 +66,22 @@ export class LefmAnalysis {
       const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
       const cut = cutRay(this.wm, a, (n.to[0] - n.from[0]) / L, (n.to[1] - n.from[1]) / L, L, SLIT_CUT);
       const tw = twinAlong(this.wm, cut.path, null, on[a] === 1, cut.end === 'boundary');
+      this.cracks.push({ kind: 'notch', path: cut.path, twins: tw.map((t) => t[1]), grown: false });
+    }
+    // A notch of finite width has no crack tip: a short slit is started at the centre of its
+    // root, along the notch, as the flaw the brittle crack grows from. Beyond about the root
+    // radius (half the width) the notch and the slit act as one edge crack of their summed
+    // depth (common practice); the slit reaches one width and at least six tip cells, so
+    // that the interaction integral has its two rings of cells around the tip (half the
+    // straight crack behind it, at least two cells).
+    for (const n of c.geometry.notches) {
+      if (n.width === 0) continue;
+      const L = Math.hypot(n.to[0] - n.from[0], n.to[1] - n.from[1]);
+      const dx = (n.to[0] - n.from[0]) / L, dy = (n.to[1] - n.from[1]) / L;
+      const a = nearestOn(initial.xy, on, n.to[0], n.to[1]);
+      const cut = cutRay(this.wm, a, dx, dy, rootSlitLength(n.width, c.mesh.tipSize), SLIT_CUT);
+      if (cut.path.length < 2) continue;
+      const tw = twinAlong(this.wm, cut.path, null, true, cut.end === 'boundary');
       this.cracks.push({ kind: 'notch', path: cut.path, twins: tw.map((t) => t[1]), grown: false });
     }
     for (const k of this.cracks) {
@@ -268,5 +284,19 @@ export class LefmAnalysis {
 function nearest(xy: Float64Array, x: number, y: number): number {
   let best = 0, bd = Infinity;
   for (let v = 0; v < xy.length >> 1; v++) { const d = Math.hypot(xy[2 * v] - x, xy[2 * v + 1] - y); if (d < bd) { bd = d; best = v; } }
+  return best;
+}
+
+/** Length (mm) of the slit started at the root of a notch of width w (mm) on tip cells of size h. */
+export function rootSlitLength(w: number, h: number): number { return Math.max(w, 6 * h); }
+
+/** The boundary vertex nearest to (x, y). */
+function nearestOn(xy: Float64Array, on: Uint8Array | ArrayLike<number>, x: number, y: number): number {
+  let best = -1, bd = Infinity;
+  for (let v = 0; v < xy.length >> 1; v++) {
+    if (on[v] !== 1) continue;
+    const d = Math.hypot(xy[2 * v] - x, xy[2 * v + 1] - y);
+    if (d < bd) { bd = d; best = v; }
+  }
   return best;
 }

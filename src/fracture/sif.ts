@@ -6,7 +6,13 @@
 // the ring, given by its vertex values; per cell the computed stress and displacement gradient
 // are the order-1 VEM constants and ∇q is the cell average ∮ q n / |E|, so only the auxiliary
 // fields vary inside a cell: they are integrated on a fan of triangles from the cell centroid.
-// Crack faces inside the domain are taken traction-free and straight along x1 (their term vanishes).
+// Without face data the crack faces inside the domain are taken traction-free and straight
+// along x1, so their term vanishes. With it (FaceData), the line integral over the faces in the
+// domain is added: by the divergence theorem over the domain less the faces,
+//   I = ∫_A P_1j q,j dA − ∫_faces P_1j m_j q ds,  P_1j m_j = t_i u^a_i,1 + σ^a_ij m_j u_i,1 − σ_ij ε^a_ij m_1,
+// m the outward normal of the material on the face and t = σ m its traction (cohesive or
+// pressure; zero on free faces). On straight faces behind the tip σ^a m = 0 and m_1 = 0, so
+// only the traction term is left; past a kink the other two count as well (Moran & Shih 1987).
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { PlaneModel } from '../vem/material.js';
 import { strainVectors } from '../vem/element.js';
@@ -17,6 +23,16 @@ export interface TipFrame { x: number; y: number; dx: number; dy: number }
 export interface TipFactors { KI: number; KII: number; J: number }
 
 export interface Elastic { E: number; nu: number; model: PlaneModel; D: Float64Array }
+
+/**
+ * The crack faces of the mesh for the face term: onFace[v] = 1 for a vertex of a crack face
+ * (an edge of a cell with no neighbour across, both ends on faces, is a face edge). traction:
+ * 2 per vertex, the traction on the material there in the face's own frame, normal
+ * t·m (tension positive: a cohesive pull; a pressure p is −p) and tangential t·(−m_y, m_x),
+ * m the outward normal of the material; both faces of a pair and the tip vertex share these
+ * values. Linear along each edge; null for traction-free faces.
+ */
+export interface FaceData { onFace: Uint8Array; traction: Float64Array | null }
 
 /** E′ of J = (K_I² + K_II²)/E′: E in plane stress, E/(1 − ν²) in plane strain. */
 export function effectiveModulus(E: number, nu: number, model: PlaneModel): number {
@@ -66,6 +82,74 @@ export class SifWork {
   readonly acc = new Float64Array(10);
   constructor(maxVerts = 16) { this.q = new Float64Array(2 * maxVerts); this.qv = new Float64Array(maxVerts); }
   fit(n: number): void { if (this.qv.length < n) { this.q = new Float64Array(2 * n); this.qv = new Float64Array(n); } }
+  private edgesOf: PolyMesh | null = null;
+  private edges = new Set<number>();
+  /** The directed edge i → j of a cell has no cell on its other side (no cell holds j → i). */
+  isOpenEdge(m: PolyMesh, i: number, j: number): boolean {
+    const nv = m.xy.length >> 1;
+    if (this.edgesOf !== m) {
+      this.edges.clear();
+      const { cellStart, cellVerts } = m;
+      for (let c = 0; c + 1 < cellStart.length; c++) {
+        const s = cellStart[c], e = cellStart[c + 1];
+        for (let k = s; k < e; k++) this.edges.add(cellVerts[k] * nv + cellVerts[k + 1 < e ? k + 1 : s]);
+      }
+      this.edgesOf = m;
+    }
+    return !this.edges.has(j * nv + i);
+  }
+}
+
+/** 4-point Gauss rule on [0, 1]: points and weights. */
+const G4X = [0.0694318442029737, 0.3300094782075719, 0.6699905217924281, 0.9305681557970263];
+const G4W = [0.1739274225687269, 0.3260725774312731, 0.3260725774312731, 0.1739274225687269];
+
+/**
+ * ∫ P_1j m_j q ds over the face edge i → j of a cell (outward normal m), for unit auxiliary
+ * K_I and K_II, into acc[0], acc[1]. u11, u21 (u_1,1, u_2,1) and ε11, ε22, ε12: the cell's
+ * constants in the tip frame; thc: θ of the cell centroid (the branch for θ = ±π).
+ * An edge that ends at the tip is integrated in ξ with s = ξ²·L, which takes out the 1/√r.
+ */
+function faceTerm(
+  traction: Float64Array | null, xy: Float64Array, i: number, j: number, qi: number, qj: number,
+  tip: TipFrame, thc: number, mu: number, kappa: number,
+  u11: number, u21: number, ep11: number, ep22: number, ep12: number, w: Float64Array, acc: Float64Array,
+): void {
+  acc[0] = 0; acc[1] = 0;
+  const e1x = tip.dx, e1y = tip.dy;
+  let ax = xy[2 * i], ay = xy[2 * i + 1], bx = xy[2 * j], by = xy[2 * j + 1];
+  const L = Math.hypot(bx - ax, by - ay);
+  if (L === 0) return;
+  const mx = (by - ay) / L, my = -(bx - ax) / L;
+  const m1 = e1x * mx + e1y * my, m2 = -e1y * mx + e1x * my;
+  // traction in the tip frame from its face-frame components (normal along m, tangent (−m_y, m_x))
+  let tna = 0, tsa = 0, tnb = 0, tsb = 0;
+  if (traction) { tna = traction[2 * i]; tsa = traction[2 * i + 1]; tnb = traction[2 * j]; tsb = traction[2 * j + 1]; }
+  let qa = qi, qb = qj;
+  // parametrise from the end at the tip, if one is
+  const atTip = (x: number, y: number) => Math.hypot(x - tip.x, y - tip.y) < 1e-9 * L;
+  let singular = false;
+  if (atTip(bx, by)) { [ax, ay, bx, by] = [bx, by, ax, ay]; [tna, tnb] = [tnb, tna]; [tsa, tsb] = [tsb, tsa]; [qa, qb] = [qb, qa]; singular = true; }
+  else if (atTip(ax, ay)) singular = true;
+  for (let g = 0; g < 4; g++) {
+    const xi = G4X[g];
+    const f = singular ? xi * xi : xi, ds = singular ? 2 * xi * L * G4W[g] : L * G4W[g];
+    const px = ax + f * (bx - ax) - tip.x, py = ay + f * (by - ay) - tip.y;
+    const lx = e1x * px + e1y * py, ly = -e1y * px + e1x * py;
+    let th = Math.atan2(ly, lx);
+    th = thc + Math.atan2(Math.sin(th - thc), Math.cos(th - thc));
+    williams(Math.hypot(lx, ly), th, mu, kappa, w);
+    const q = qa + f * (qb - qa);
+    const tn = tna + f * (tnb - tna), ts = tsa + f * (tsb - tsa);
+    // t = tn m + ts (−m2, m1) in the tip frame
+    const t1 = tn * m1 - ts * m2, t2 = tn * m2 + ts * m1;
+    for (let mode = 0; mode < 2; mode++) {
+      const o = 5 * mode, a11 = w[o], a22 = w[o + 1], a12 = w[o + 2], du1 = w[o + 3], du2 = w[o + 4];
+      const pm = t1 * du1 + t2 * du2 + (a11 * m1 + a12 * m2) * u11 + (a12 * m1 + a22 * m2) * u21
+        - (a11 * ep11 + a22 * ep22 + 2 * a12 * ep12) * m1;
+      acc[mode] += ds * q * pm;
+    }
+  }
 }
 
 /** Weight q(r): 1 within r1, 0 beyond r2, linear between. */
@@ -79,7 +163,7 @@ export function ringWeight(r: number, r1: number, r2: number): number {
  * direction at the tip, pointing into the material ahead.
  */
 export function interactionIntegral(
-  m: PolyMesh, u: Float64Array, el: Elastic, tip: TipFrame, r1: number, r2: number, work = new SifWork(),
+  m: PolyMesh, u: Float64Array, el: Elastic, tip: TipFrame, r1: number, r2: number, work = new SifWork(), faces: FaceData | null = null,
 ): TipFactors {
   const { xy, cellStart, cellVerts } = m, D = el.D;
   const mu = el.E / (2 * (1 + el.nu)), kappa = kolosov(el.nu, el.model), Ep = effectiveModulus(el.E, el.nu, el.model);
@@ -104,7 +188,8 @@ export function interactionIntegral(
       qv[a] = ringWeight(Math.hypot(xy[2 * v] - tip.x, xy[2 * v + 1] - tip.y), r1, r2);
       qmin = Math.min(qmin, qv[a]); qmax = Math.max(qmax, qv[a]);
     }
-    if (qmax - qmin <= 0) continue; // ∇q = 0: no contribution
+    // ∇q = 0: no domain contribution; a cell on a face with q > 0 still has its face term
+    if (qmax - qmin <= 0 && !(faces && qmax > 0)) continue;
     const area = strainVectors(xy, cellVerts, s, e, qa);
     // cell averages of ∇q and of the displacement gradient H_ij = ∂u_i/∂x_j (global frame)
     let gqx = 0, gqy = 0, h11 = 0, h12 = 0, h21 = 0, h22 = 0;
@@ -152,7 +237,6 @@ export function interactionIntegral(
         for (let k = 0; k < 10; k++) acc[k] += (triA / 3) * w[k];
       }
     }
-    void area;
     // integrand per mode: (σ_i1 q1 + σ_i2 q2) u^a_i,1 + (σ^a_i1 q1 + σ^a_i2 q2) u_i,1 − σ_ij ε^a_ij q1,
     // with σ_ij ε^a_ij = σ^a_ij ε_ij (Hooke's law is symmetric)
     const f1 = s11 * q1 + s12 * q2, f2 = s12 * q1 + s22 * q2;
@@ -163,6 +247,16 @@ export function interactionIntegral(
         + (a11 * q1 + a12 * q2) * u11 + (a12 * q1 + a22 * q2) * u21
         - (a11 * ep11 + a22 * ep22 + 2 * a12 * ep12) * q1;
       if (mode === 0) II += val; else III += val;
+    }
+    if (faces) {
+      // the face edges of this cell (no neighbour across; both ends on crack faces)
+      for (let a = 0; a < n; a++) {
+        const i = cellVerts[s + a], j = cellVerts[s + (a + 1) % n];
+        if (!faces.onFace[i] || !faces.onFace[j] || qv[a] + qv[(a + 1) % n] === 0 || !work.isOpenEdge(m, i, j)) continue;
+        faceTerm(faces.traction, xy, i, j, qv[a], qv[(a + 1) % n], tip, thc, mu, kappa, u11, u21, ep11, ep22, ep12, w, acc);
+        // acc[0..1] now hold the face integral of P_1j m_j q for modes I and II
+        II -= acc[0]; III -= acc[1];
+      }
     }
     // J of the computed field alone: (σ_ij u_i,1 − W δ1j) q,j, W = ½ σ_ij ε_ij (constant in the cell)
     const W = 0.5 * (s11 * ep11 + s22 * ep22 + 2 * s12 * ep12);
@@ -179,9 +273,9 @@ export interface TipResult extends TipFactors { rings: [TipFactors, TipFactors];
  * Two nested rings within radius R of the tip: (¼R, ½R) and (½R, R). The reported K is that of
  * the outer ring (more cells, the tip cells left out); the inner one measures path independence.
  */
-export function tipFactors(m: PolyMesh, u: Float64Array, el: Elastic, tip: TipFrame, R: number, work = new SifWork()): TipResult {
-  const a = interactionIntegral(m, u, el, tip, 0.25 * R, 0.5 * R, work);
-  const b = interactionIntegral(m, u, el, tip, 0.5 * R, R, work);
+export function tipFactors(m: PolyMesh, u: Float64Array, el: Elastic, tip: TipFrame, R: number, work = new SifWork(), faces: FaceData | null = null): TipResult {
+  const a = interactionIntegral(m, u, el, tip, 0.25 * R, 0.5 * R, work, faces);
+  const b = interactionIntegral(m, u, el, tip, 0.5 * R, R, work, faces);
   const mag = Math.hypot(b.KI, b.KII);
   const spread = mag > 0 ? Math.max(Math.abs(a.KI - b.KI), Math.abs(a.KII - b.KII)) / mag : 0;
   return { KI: b.KI, KII: b.KII, J: b.J, rings: [a, b], spread };

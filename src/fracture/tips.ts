@@ -5,7 +5,14 @@
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CaseModel } from '../case/model.js';
 import type { WorkMesh } from './workmesh.js';
-import { PER_SQRT_M, SifWork, mtsKink, tipFactors, type Elastic } from './sif.js';
+import { PER_SQRT_M, SifWork, mtsKink, tipFactors, type Elastic, type FaceData } from './sif.js';
+
+/**
+ * Tractions on the crack faces for the face term of the interaction integral: for a face vertex
+ * (work-mesh id) its normal and tangential traction (MPa) in the face's own frame (see FaceData),
+ * or null where the face is free.
+ */
+export type FaceTraction = (v: number) => readonly [number, number] | null;
 
 /** A crack (slit or grown): its path of vertex ids and the twin of each (−1: not twinned). */
 export interface CrackLine { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
@@ -117,11 +124,12 @@ function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, c: CaseModel, cra
  */
 export function measureTips(
   wm: WorkMesh, cracks: CrackLine[], cp: { mesh: PolyMesh; vertexOf: Int32Array; compactOf: Int32Array },
-  u: Float64Array, el: Elastic, c: CaseModel, withK: (crack: number) => boolean = () => true,
+  u: Float64Array, el: Elastic, c: CaseModel, withK: (crack: number) => boolean = () => true, traction?: FaceTraction,
 ): TipMeasure[] {
   const ends = crackEnds(cracks);
   if (ends.length === 0) return [];
   const work = new SifWork();
+  const faces = traction ? faceData(cracks, cp.compactOf, cp.mesh.xy.length >> 1, traction) : null;
   const cap = Math.max(c.mesh.refineRadius, 8 * c.mesh.tipSize);
   return ends.map((e) => {
     const x = wm.x[e.v], y = wm.y[e.v];
@@ -134,11 +142,26 @@ export function measureTips(
     const R = room(wm, cp.mesh, cp.vertexOf, c, cracks, e.crack, e.v, e.back, dx, dy, cap);
     const base = { crack: e.crack, end: e.end, v: e.v, x, y, dx, dy, R };
     if (!(R >= 2 * c.mesh.tipSize)) return { ...base, KI: null, KII: null, spread: null, kink: null };
-    const f = tipFactors(cp.mesh, u, el, { x, y, dx, dy }, R, work);
+    const f = tipFactors(cp.mesh, u, el, { x, y, dx, dy }, R, work, faces);
     // an unloaded tip has no direction to take
     const kink = f.KI === 0 && f.KII === 0 ? null : Math.atan2(dy, dx) + mtsKink(f.KI, f.KII);
     return { ...base, KI: f.KI, KII: f.KII, spread: f.spread, kink };
   });
+}
+
+/** The faces of all cracks on the compact mesh, with their tractions. */
+function faceData(cracks: CrackLine[], compactOf: Int32Array, nv: number, traction: FaceTraction): FaceData {
+  const onFace = new Uint8Array(nv), t = new Float64Array(2 * nv);
+  let loaded = false;
+  const mark = (v: number) => {
+    const k = compactOf[v];
+    if (k < 0 || onFace[k]) return;
+    onFace[k] = 1;
+    const f = traction(v);
+    if (f) { t[2 * k] = f[0]; t[2 * k + 1] = f[1]; loaded ||= f[0] !== 0 || f[1] !== 0; }
+  };
+  for (const k of cracks) { for (const v of k.path) mark(v); for (const v of k.twins) if (v >= 0) mark(v); }
+  return { onFace, traction: loaded ? t : null };
 }
 
 /** One row of tips.csv. */
