@@ -9,7 +9,7 @@ import { makeLaw } from '../cohesive/laws.js';
 import { penaltyFor, type CohesiveParams } from '../cohesive/interface.js';
 import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
-import { selectDriven, type Driven } from '../solver/driven.js';
+import { selectDriven, withTwins, rigVertices, type Driven } from '../solver/driven.js';
 import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
@@ -60,6 +60,8 @@ export class Analysis {
   private readonly D: Float64Array;
   private readonly coh: CohesiveParams;
   private readonly driven: Driven;
+  /** Vertices the supports and loads hold (where a crack reaching a loaded face ends). */
+  private readonly rig: number[];
   private eq!: Equations;
   /** The mesh or the cracks changed since the equations were built. */
   private dirty = true;
@@ -83,6 +85,7 @@ export class Analysis {
     this.coh = { law: makeLaw(c.material.softening, c.material.ft, c.material.GF), penalty: penaltyFor(c.material.E, c.mesh.tipSize), beta: c.material.shearWeight };
     const ext = extent(initial);
     this.driven = selectDriven(c, initial, 1e-6 * ext);
+    this.rig = rigVertices(this.driven);
     this.fScale = c.material.ft * c.thickness * ext;
     this.s = emptyState(this.wm.vertexCount);
     for (const p of c.probes) this.probeVerts.push(nearestVertex(initial, p.at[0], p.at[1]));
@@ -107,7 +110,7 @@ export class Analysis {
   private rebuild(): void {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
-    this.eq = new Equations(this.wm, s.cracks, this.driven, this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs);
+    this.eq = new Equations(this.wm, s.cracks, withTwins(this.driven, s.cracks), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
@@ -120,7 +123,7 @@ export class Analysis {
     return this.eq;
   }
 
-  private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt }; }
+  private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt, rig: this.rig }; }
 
   private newtonOptions(kind: ControlKind, target: number): NewtonOptions {
     const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);

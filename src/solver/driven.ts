@@ -246,3 +246,34 @@ export function compactDriven(d: Driven, co: Int32Array): DrivenDofs {
     },
   };
 }
+
+/** Every vertex a support, load or platen holds (stable ids, each once). */
+export function rigVertices(d: Driven): number[] {
+  const out = new Set<number>();
+  for (const x of [...d.fixed, ...d.load, ...d.slaves]) out.add(x.v);
+  for (const s of d.slaves) for (const q of s.masters) out.add(q.v);
+  return [...out].sort((a, b) => a - b);
+}
+
+/**
+ * The rig with its holds carried over to the twins of its vertices where a crack has cut
+ * through them: both halves then bear on the support or load. A twin of a platen's master
+ * follows the master (same point of a rigid platen).
+ */
+export function withTwins(d: Driven, cracks: readonly { path: number[]; twins: number[] }[]): Driven {
+  const twinOf = new Map<number, number>();
+  for (const k of cracks) k.path.forEach((v, i) => { if (k.twins[i] >= 0) twinOf.set(v, k.twins[i]); });
+  if (twinOf.size === 0) return d;
+  const fixed = [...d.fixed], load = [...d.load], slaves = [...d.slaves];
+  for (const x of d.fixed) { const t = twinOf.get(x.v); if (t !== undefined) fixed.push({ ...x, v: t }); }
+  for (const x of d.load) { const t = twinOf.get(x.v); if (t !== undefined) load.push({ ...x, v: t }); }
+  for (const x of d.slaves) { const t = twinOf.get(x.v); if (t !== undefined) slaves.push({ ...x, v: t }); }
+  const held = new Set([...d.fixed, ...d.load, ...d.slaves].map((x) => 2 * x.v + x.comp)), seen = new Set<number>();
+  for (const s of d.slaves) for (const q of s.masters) {
+    const t = twinOf.get(q.v), key = 2 * q.v + q.comp;
+    if (t === undefined || held.has(key) || seen.has(key)) continue;
+    seen.add(key);
+    slaves.push({ v: t, comp: q.comp, z: 0, masters: [{ v: q.v, comp: q.comp, w: 1 }] });
+  }
+  return { ...d, fixed, load, slaves };
+}
