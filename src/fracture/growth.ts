@@ -214,7 +214,7 @@ export function grow(g: GrowthRoom): number {
     const room = contactRoom(c, tx, ty);
     let len = crack.growthStep;
     if (room < crack.growthStep + c.mesh.tipSize) {
-      const aim = rigAim(wm, g.rig ?? [], tx, ty, gx, gy, crack.growthStep + 2 * c.mesh.tipSize + maxWidth(c), c.mesh.tipSize);
+      const aim = rigAim(c, wm, g.rig ?? [], tx, ty, gx, gy, crack.growthStep + 2 * c.mesh.tipSize + maxWidth(c), c.mesh.tipSize);
       if (aim >= 0) {
         len = Math.hypot(wm.x[aim] - tx, wm.y[aim] - ty);
         gx = (wm.x[aim] - tx) / len; gy = (wm.y[aim] - ty) / len;
@@ -304,11 +304,26 @@ function contactRoom(c: CaseModel, x: number, y: number): number {
 const maxWidth = (c: CaseModel): number => Math.max(0, ...[...c.supports, ...c.loads].map((q) => q.width));
 
 /**
- * The rig vertex a crack from (x, y) along (dx, dy) ends on: ahead of the tip, within reach,
- * nearest to the ray's line and within `side` of it (−1 when none is).
+ * The rig vertex a crack from (x, y) along (dx, dy) ends on (−1 when none): the centre of a
+ * load or support within reach and within 45° of the direction (the line of the load; near a
+ * loaded face the direction read from the stress is dominated by the contact field), else the
+ * rig vertex ahead, within reach, nearest to the ray's line and within `side` of it.
  */
-function rigAim(wm: WorkMesh, rig: readonly number[], x: number, y: number, dx: number, dy: number, reach: number, side: number): number {
-  let best = -1, bestOff = side;
+function rigAim(c: CaseModel, wm: WorkMesh, rig: readonly number[], x: number, y: number, dx: number, dy: number, reach: number, side: number): number {
+  let best = -1, bestCos = Math.SQRT1_2;
+  for (const q of [...c.supports, ...c.loads]) {
+    if (!q.at) continue;
+    let v = -1, dv = Infinity;
+    for (const r of rig) {
+      const d = Math.hypot(wm.x[r] - q.at[0], wm.y[r] - q.at[1]);
+      if (wm.cellsOf(r).length > 0 && d < dv) { dv = d; v = r; }
+    }
+    if (v < 0 || dv > side) continue;
+    const rx = wm.x[v] - x, ry = wm.y[v] - y, L = Math.hypot(rx, ry), cos = (rx * dx + ry * dy) / L;
+    if (L > 0 && L <= reach && cos > bestCos) { best = v; bestCos = cos; }
+  }
+  if (best >= 0) return best;
+  let bestOff = side;
   for (const v of rig) {
     if (wm.cellsOf(v).length === 0) continue;
     const rx = wm.x[v] - x, ry = wm.y[v] - y, along = rx * dx + ry * dy, off = Math.abs(rx * dy - ry * dx);

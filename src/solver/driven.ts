@@ -169,6 +169,14 @@ function stripNormal(m: PolyMesh, pts: number[]): 0 | 1 {
   return x1 - x0 >= y1 - y0 ? 1 : 0;
 }
 
+/** The bearing point (index) farthest from a rocker's centre, which carries its rotation; −1 without a lever. */
+function leverEnd(st: BearingStrip, on: number[], tol: number): number {
+  if (!st.rocker || on.length < 2) return -1;
+  let e = on[0];
+  for (const i of on) if (Math.abs(st.s[i]) > Math.abs(st.s[e])) e = i;
+  return Math.abs(st.s[e]) > tol ? e : -1;
+}
+
 /**
  * The holds of a bearing strip on its points in contact (`bearing`): a rocker's farthest point
  * carries the platen's rotation and the others follow it by the lever rule, u = z·λ·(1 − c) + c·u_e
@@ -178,13 +186,7 @@ function stripNormal(m: PolyMesh, pts: number[]): 0 | 1 {
 export function stripHolds(st: BearingStrip, k: number, bearing: (i: number) => boolean, tol: number):
   { fixed: StripDof[]; load: StripDof[]; slaves: (SlaveDof & { strip: number })[] } {
   const fixed: StripDof[] = [], load: StripDof[] = [], slaves: (SlaveDof & { strip: number })[] = [];
-  const on = st.pts.map((_, i) => i).filter(bearing), comp = st.comp;
-  let e = -1;
-  if (st.rocker && on.length > 1) {
-    e = on[0];
-    for (const i of on) if (Math.abs(st.s[i]) > Math.abs(st.s[e])) e = i;
-    if (!(Math.abs(st.s[e]) > tol)) e = -1;
-  }
+  const on = st.pts.map((_, i) => i).filter(bearing), comp = st.comp, e = leverEnd(st, on, tol);
   for (const i of on) {
     const v = st.pts[i];
     if (e >= 0 && i !== e) {
@@ -380,13 +382,7 @@ export function bearings(d: Driven, released: readonly number[], co: Int32Array,
   const off = new Set(released), out: Bearing[] = [];
   d.strips.forEach((st, k) => {
     const at = (i: number) => 2 * co[st.pts[i]] + st.comp;
-    const on = st.pts.map((_, i) => i).filter((i) => co[st.pts[i]] >= 0 && !off.has(st.pts[i]));
-    let e = -1;
-    if (st.rocker && on.length > 1) {
-      e = on[0];
-      for (const i of on) if (Math.abs(st.s[i]) > Math.abs(st.s[e])) e = i;
-      if (!(Math.abs(st.s[e]) > tol)) e = -1;
-    }
+    const on = st.pts.map((_, i) => i).filter((i) => co[st.pts[i]] >= 0 && !off.has(st.pts[i])), e = leverEnd(st, on, tol);
     const a = st.z * lambda, turn = e >= 0 ? (u[at(e)] - a) / st.s[e] : 0;
     st.pts.forEach((v, i) => {
       if (co[v] < 0) return;
