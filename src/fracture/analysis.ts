@@ -115,7 +115,7 @@ export class Analysis {
   }
 
   /** The rig as it stands: holds shared with the twins of cut rig points, lifted-off strip points let go. */
-  private rig_(): Driven {
+  private rigNow(): Driven {
     return releaseFrom(withTwins(this.driven, this.s.cracks), this.s.released ?? [], this.tol);
   }
 
@@ -124,7 +124,7 @@ export class Analysis {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
     this.eqReleased = (s.released ?? []).join(',');
-    this.eq = new Equations(this.wm, s.cracks, this.rig_(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs);
+    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
@@ -153,17 +153,17 @@ export class Analysis {
    */
   private solveAt(kind: ControlKind, target: number, from?: StepState): { ok: boolean; reason: string } {
     const s = this.s;
-    let before = s.released ?? [];
+    let before = s.released ?? [], r = { ok: false, reason: '' };
     for (let round = 0; ; round++) {
-      const r = this.solveOnce(kind, target, round === 0 ? from : undefined);
+      r = this.solveOnce(kind, target, round === 0 ? from : undefined);
       if (!r.ok && round > 0) {
         // the new contact set does not converge: the last one that did stands
         s.released = before;
-        this.solveOnce(kind, target);
+        r = this.solveOnce(kind, target);
         break;
       }
       if (!r.ok || this.driven.strips.length === 0 || round >= CONTACT_ROUNDS) break;
-      const eq = this.eq, rig = this.rig_();
+      const eq = this.eq, rig = this.rigNow();
       const b = bearings(rig, s.released ?? [], eq.compact.compactOf, eq.work.u, eq.work.f, s.lambda, this.tol);
       let umax = Math.abs(s.lambda);
       for (const x of b) umax = Math.max(umax, Math.abs(x.gap));
@@ -172,14 +172,12 @@ export class Analysis {
       before = s.released ?? [];
       s.released = next;
     }
-    if (!this.lastOk.ok) return this.lastOk;
+    if (!r.ok) return r;
     const F = this.eq.sys.loadForce(this.eq.work.f);
     s.W += 0.5 * (F + s.lastF) * (s.lambda - s.lastLambda);
     s.lastF = F; s.lastLambda = s.lambda;
-    return this.lastOk;
+    return r;
   }
-
-  private lastOk = { ok: true, reason: '' };
 
   /** One solve at a control level with the contact set as it stands; on failure the solution is as before. */
   private solveOnce(kind: ControlKind, target: number, from?: StepState): { ok: boolean; reason: string } {
@@ -204,13 +202,11 @@ export class Analysis {
     this.iterations += r.iterations;
     if (!r.converged) {
       const where = r.reason === 'non-finite residual' ? eq.nonFinitePlace() ?? `the control equation (${this.c.control.by}) became NaN or infinite` : r.reason;
-      this.lastOk = { ok: false, reason: where };
-      return this.lastOk;
+      return { ok: false, reason: where };
     }
     eq.uf.set(st.uf); s.lambda = st.lambda;
     eq.scatter(s.uw);
-    this.lastOk = { ok: true, reason: '' };
-    return this.lastOk;
+    return { ok: true, reason: '' };
   }
 
   /** Largest softening of any cohesive point in the trial state, as a fraction of ft. */
@@ -307,7 +303,7 @@ export class Analysis {
    * reactions on the specimen (N), and the machine force along the load direction (N).
    */
   rigForces(): { bearings: Bearing[]; supports: [number, number]; machine: number } {
-    const eq = this.equations(), rig = this.rig_(), co = eq.compact.compactOf, f = eq.work.f, released = this.s.released ?? [];
+    const eq = this.equations(), rig = this.rigNow(), co = eq.compact.compactOf, f = eq.work.f, released = this.s.released ?? [];
     const keys = new Set<number>();
     for (const d of rig.fixed) if (co[d.v] >= 0) keys.add(2 * co[d.v] + d.comp);
     for (const st of rig.strips) if (st.support) for (const v of st.pts) if (co[v] >= 0) keys.add(2 * co[v] + st.comp);
