@@ -9,7 +9,7 @@ import { makeLaw } from '../cohesive/laws.js';
 import { penaltyFor, type CohesiveParams } from '../cohesive/interface.js';
 import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
-import { selectDriven, type Driven } from '../solver/driven.js';
+import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
 import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
@@ -56,6 +56,9 @@ export interface AnalysisResult {
 
 type Solution = Saved<typeof SOLUTION[number]>;
 
+/** Contact updates tried at one control level before its last solve is taken as it stands. */
+const CONTACT_ROUNDS = 8;
+
 export class Analysis {
   readonly wm: WorkMesh;
   /** Everything the loop keeps between steps (see state.ts). */
@@ -63,6 +66,12 @@ export class Analysis {
   private readonly D: Float64Array;
   private readonly coh: CohesiveParams;
   private readonly driven: Driven;
+  /** Vertices the supports and loads hold (where a crack reaching a loaded face ends). */
+  private readonly rig: number[];
+  /** Geometric tolerance (mm) the rig was picked with. */
+  private readonly tol: number;
+  /** The lifted-off strip points the equations were built with. */
+  private eqReleased = '';
   private eq!: Equations;
   /** Element stiffnesses of the cells a growth left unchanged, reused by the next topology. */
   private readonly elements = new ElementCache();
@@ -87,7 +96,9 @@ export class Analysis {
     this.ftAt = strengthOf(c);
     this.coh = { law: makeLaw(c.material.softening, c.material.ft, c.material.GF), penalty: penaltyFor(c.material.E, c.mesh.tipSize), beta: c.material.shearWeight };
     const ext = extent(initial);
-    this.driven = selectDriven(c, initial, 1e-6 * ext);
+    this.tol = 1e-6 * ext;
+    this.driven = selectDriven(c, initial, this.tol);
+    this.rig = rigVertices(this.driven);
     this.fScale = c.material.ft * c.thickness * ext;
     this.s = emptyState(this.wm.vertexCount);
     for (const p of c.probes) this.probeVerts.push(nearestVertex(initial, p.at[0], p.at[1]));
@@ -108,11 +119,17 @@ export class Analysis {
     this.dirty = true;
   }
 
+  /** The rig as it stands: holds shared with the twins of cut rig points, lifted-off strip points let go. */
+  private rigNow(): Driven {
+    return releaseFrom(withTwins(this.driven, this.s.cracks), this.s.released ?? [], this.tol);
+  }
+
   /** Rebuild the equations after a mesh change; displacements and histories carry over. */
   private rebuild(): void {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
-    this.eq = new Equations(this.wm, s.cracks, this.driven, this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements);
+    this.eqReleased = (s.released ?? []).join(',');
+    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
@@ -121,19 +138,54 @@ export class Analysis {
   }
 
   private equations(): Equations {
-    if (this.dirty) this.rebuild();
+    if (this.dirty || this.eqReleased !== (this.s.released ?? []).join(',')) this.rebuild();
     return this.eq;
   }
 
-  private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt }; }
+  private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt, rig: this.rig }; }
 
   private newtonOptions(kind: ControlKind, target: number): NewtonOptions {
     const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);
     return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty, condense: this.opt.condense };
   }
 
-  /** Solve at one control level from the current state; on failure the state is as before. */
+  /**
+   * Solve at one control level from the current state, with the bearing strips pushing but
+   * never pulling: after each converged solve the points a platen pulls lift off and lifted
+   * points that have gone into it come back, and the level is solved again from there until
+   * the contact set stands (at most CONTACT_ROUNDS times; the order is fixed, so it is
+   * deterministic). On failure the solution is as before.
+   */
   private solveAt(kind: ControlKind, target: number, from?: StepState): { ok: boolean; reason: string } {
+    const s = this.s;
+    let before = s.released ?? [], r = { ok: false, reason: '' };
+    for (let round = 0; ; round++) {
+      r = this.solveOnce(kind, target, round === 0 ? from : undefined);
+      if (!r.ok && round > 0) {
+        // the new contact set does not converge: the last one that did stands
+        s.released = before;
+        r = this.solveOnce(kind, target);
+        break;
+      }
+      if (!r.ok || this.driven.strips.length === 0 || round >= CONTACT_ROUNDS) break;
+      const eq = this.eq, rig = this.rigNow();
+      const b = bearings(rig, s.released ?? [], eq.compact.compactOf, eq.work.u, eq.work.f, s.lambda, this.tol);
+      let umax = Math.abs(s.lambda);
+      for (const x of b) umax = Math.max(umax, Math.abs(x.gap));
+      const next = contactUpdate(b, s.released ?? [], 1e-6 * this.fScale, 1e-6 * umax + 1e-9 * this.tol);
+      if (!next) break;
+      before = s.released ?? [];
+      s.released = next;
+    }
+    if (!r.ok) return r;
+    const F = this.eq.sys.loadForce(this.eq.work.f);
+    s.W += 0.5 * (F + s.lastF) * (s.lambda - s.lastLambda);
+    s.lastF = F; s.lastLambda = s.lambda;
+    return r;
+  }
+
+  /** One solve at a control level with the contact set as it stands; on failure the solution is as before. */
+  private solveOnce(kind: ControlKind, target: number, from?: StepState): { ok: boolean; reason: string } {
     const eq = this.equations(), s = this.s;
     const t0 = performance.now();
     const opt = this.newtonOptions(kind, target);
@@ -159,9 +211,6 @@ export class Analysis {
     }
     eq.uf.set(st.uf); s.lambda = st.lambda;
     eq.scatter(s.uw);
-    const F = eq.sys.loadForce(eq.work.f);
-    s.W += 0.5 * (F + s.lastF) * (s.lambda - s.lastLambda);
-    s.lastF = F; s.lastLambda = s.lambda;
     return { ok: true, reason: '' };
   }
 
@@ -251,6 +300,21 @@ export class Analysis {
 
   crackPolylines(): { points: [number, number][]; kind: 'notch' | 'crack' }[] {
     return crackPolylines(this.s.cracks, this.wm);
+  }
+
+  /**
+   * The rig's forces in the last solved state: every bearing-strip point (force the platen puts
+   * on it along its push, gap, in contact or lifted off), the resultant [x, y] of all support
+   * reactions on the specimen (N), and the machine force along the load direction (N).
+   */
+  rigForces(): { bearings: Bearing[]; supports: [number, number]; machine: number } {
+    const eq = this.equations(), rig = this.rigNow(), co = eq.compact.compactOf, f = eq.work.f, released = this.s.released ?? [];
+    const keys = new Set<number>();
+    for (const d of rig.fixed) if (co[d.v] >= 0) keys.add(2 * co[d.v] + d.comp);
+    for (const st of rig.strips) if (st.support) for (const v of st.pts) if (co[v] >= 0) keys.add(2 * co[v] + st.comp);
+    const R: [number, number] = [0, 0];
+    for (const k of keys) R[k & 1] += f[k];
+    return { bearings: bearings(rig, released, co, eq.work.u, f, this.s.lambda, this.tol), supports: R, machine: eq.sys.loadForce(f) };
   }
 
   /** Crack face area (mm²) whose traction has reached ft, and the part of it fully separated (no traction left). */

@@ -23,6 +23,8 @@ export interface GrowthRoom {
   c: CaseModel; wm: WorkMesh; s: CrackState; coh: CohesiveParams; eq: Equations; D: Float64Array;
   /** ft at a point where the case has a random strength field (material.strengthField), else null. */
   ftAt: ((x: number, y: number) => number) | null;
+  /** Boundary vertices where supports and loads touch the specimen (stable ids): a crack that reaches a loaded face ends on one of them. */
+  rig?: readonly number[];
 }
 
 /** Cell stresses, areas and centroids of the last evaluated state, for the tip checks. */
@@ -205,10 +207,22 @@ export function grow(g: GrowthRoom): number {
     // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
     if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
     s.growthLog.push({ tip: s.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
-    // a crack stops a tip cell short of where the machine or a support touches the
-    // specimen: cut through a loaded point, the halves would hang on one vertex
-    const len = Math.min(crack.growthStep, contactRoom(c, tx, ty) - c.mesh.tipSize);
-    if (len < 0.5 * c.mesh.tipSize) { t.active = false; continue; }
+    // Near where the machine or a support touches the specimen the crack runs through to that
+    // face in one cut, ending on a point of the rig (twinned with it, so both halves bear on
+    // it); the compressed zone in front of it is ligament like the rest, its faces in contact.
+    // Passing beside the rig, it stops a tip cell short of it.
+    const room = contactRoom(c, tx, ty);
+    let len = crack.growthStep;
+    if (room < crack.growthStep + c.mesh.tipSize) {
+      const aim = rigAim(c, wm, g.rig ?? [], tx, ty, gx, gy, crack.growthStep + 2 * c.mesh.tipSize + maxWidth(c), c.mesh.tipSize);
+      if (aim >= 0) {
+        len = Math.hypot(wm.x[aim] - tx, wm.y[aim] - ty);
+        gx = (wm.x[aim] - tx) / len; gy = (wm.y[aim] - ty) / len;
+      } else {
+        len = Math.min(crack.growthStep, room - c.mesh.tipSize);
+        if (len < 0.5 * c.mesh.tipSize) { t.active = false; continue; }
+      }
+    }
     const cut = cutRay(wm, t.v, gx, gy, len, GROWTH_CUT);
     if (cut.path.length < 2) { t.active = false; continue; }
     if (t.crack < 0) { s.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = s.cracks.length - 1; }
@@ -284,6 +298,39 @@ function contactRoom(c: CaseModel, x: number, y: number): number {
     room = Math.min(room, Math.hypot(x - p0[0] - s * ex, y - p0[1] - s * ey) - q.width / 2);
   }
   return room;
+}
+
+/** Widest support or load strip (mm). */
+const maxWidth = (c: CaseModel): number => Math.max(0, ...[...c.supports, ...c.loads].map((q) => q.width));
+
+/**
+ * The rig vertex a crack from (x, y) along (dx, dy) ends on (−1 when none): the centre of a
+ * load or support within reach and within 45° of the direction (the line of the load; near a
+ * loaded face the direction read from the stress is dominated by the contact field), else the
+ * rig vertex ahead, within reach, nearest to the ray's line and within `side` of it.
+ */
+function rigAim(c: CaseModel, wm: WorkMesh, rig: readonly number[], x: number, y: number, dx: number, dy: number, reach: number, side: number): number {
+  let best = -1, bestCos = Math.SQRT1_2;
+  for (const q of [...c.supports, ...c.loads]) {
+    if (!q.at) continue;
+    let v = -1, dv = Infinity;
+    for (const r of rig) {
+      const d = Math.hypot(wm.x[r] - q.at[0], wm.y[r] - q.at[1]);
+      if (wm.cellsOf(r).length > 0 && d < dv) { dv = d; v = r; }
+    }
+    if (v < 0 || dv > side) continue;
+    const rx = wm.x[v] - x, ry = wm.y[v] - y, L = Math.hypot(rx, ry), cos = (rx * dx + ry * dy) / L;
+    if (L > 0 && L <= reach && cos > bestCos) { best = v; bestCos = cos; }
+  }
+  if (best >= 0) return best;
+  let bestOff = side;
+  for (const v of rig) {
+    if (wm.cellsOf(v).length === 0) continue;
+    const rx = wm.x[v] - x, ry = wm.y[v] - y, along = rx * dx + ry * dy, off = Math.abs(rx * dy - ry * dx);
+    if (along <= 0 || along > reach || off > along) continue;
+    if (off < bestOff || (off === bestOff && best >= 0 && along < Math.hypot(wm.x[best] - x, wm.y[best] - y))) { best = v; bestOff = off; }
+  }
+  return best;
 }
 
 /** Vertex v lies on the outline (an edge of it has one cell only). */

@@ -45,10 +45,12 @@ export interface CrackState {
   trend?: { du: Float64Array; dLambda: number; dLevel: number } | null;
   /** Wall time spent in the equilibrium solves (ms). */
   solveTime: number;
+  /** Points of the bearing strips lifted off their platens (stable ids, sorted). */
+  released?: number[];
 }
 
 /** The parts a step attempt changes (undone when the attempt is cut). */
-export const SOLUTION = ['uw', 'lambda', 'W', 'lastF', 'lastLambda'] as const;
+export const SOLUTION = ['uw', 'lambda', 'W', 'lastF', 'lastLambda', 'released'] as const;
 /** The parts a growth event changes besides the mesh (undone with it when the re-solve fails). */
 export const GEOMETRY = ['cracks', 'tips', 'growthLog'] as const;
 
@@ -60,7 +62,7 @@ export function emptyState(vertices: number): CrackState {
   return {
     cracks: [], tips: [], kappa: new Map(),
     uw: new Float64Array(2 * vertices), lambda: 0, W: 0, lastF: 0, lastLambda: 0,
-    rows: [], lastProbes: [], dofs: { initial: 0, final: 0, max: 0 }, growthLog: [], trend: null, solveTime: 0,
+    rows: [], lastProbes: [], dofs: { initial: 0, final: 0, max: 0 }, growthLog: [], trend: null, solveTime: 0, released: [],
   };
 }
 

@@ -5,15 +5,29 @@ import type { PolyMesh } from '../mesh/polymesh.js';
 import { InputError } from '../errors.js';
 import type { DrivenDofs } from './system.js';
 
-import { rockerPlaten, spreaderSlaves, type SlaveDof, type VertexDof } from './platens.js';
+import { spreaderSlaves, type SlaveDof, type VertexDof } from './platens.js';
 
 export type { SlaveDof, VertexDof };
 
+/** A held or driven vertex dof, with the bearing strip that made it (if any). */
+export type StripDof = VertexDof & { strip?: number };
+
+/**
+ * A bearing strip (a support or a load of width > 0 along one axis): a platen that can push on
+ * the specimen but not pull. Its points (stable ids) bear along `comp`; `push` is the sign along
+ * it of the force the platen puts on the specimen; `s` the offset of each point across the axis
+ * from the strip's centre; the centre travels z·λ; a rocker may turn about it, a clamped strip
+ * not; `holdOther` holds each bearing point across the axis too (a support fixed in x and y).
+ */
+export interface BearingStrip { pts: number[]; s: number[]; comp: 0 | 1; push: number; z: number; rocker: boolean; holdOther: boolean; support: boolean }
+
 export interface Driven {
-  fixed: VertexDof[];
-  load: VertexDof[];
+  fixed: StripDof[];
+  load: StripDof[];
   /** Points of rocker platens (and spreaders): they follow the platen's translation and rotation. */
-  slaves: SlaveDof[];
+  slaves: (SlaveDof & { strip?: number })[];
+  /** Bearing strips; the holds above made for strip k carry strip: k. */
+  strips: BearingStrip[];
   gauge: VertexDof[];
   /** The control gauge's opening (the CMOD column), whatever the control reads. */
   opening: VertexDof[];
@@ -155,28 +169,78 @@ function stripNormal(m: PolyMesh, pts: number[]): 0 | 1 {
   return x1 - x0 >= y1 - y0 ? 1 : 0;
 }
 
+/** The bearing point (index) farthest from a rocker's centre, which carries its rotation; −1 without a lever. */
+function leverEnd(st: BearingStrip, on: number[], tol: number): number {
+  if (!st.rocker || on.length < 2) return -1;
+  let e = on[0];
+  for (const i of on) if (Math.abs(st.s[i]) > Math.abs(st.s[e])) e = i;
+  return Math.abs(st.s[e]) > tol ? e : -1;
+}
+
+/**
+ * The holds of a bearing strip on its points in contact (`bearing`): a rocker's farthest point
+ * carries the platen's rotation and the others follow it by the lever rule, u = z·λ·(1 − c) + c·u_e
+ * with c = s/s_e; without a lever (clamped, one point, or all points on the centre line) every
+ * point travels z·λ.
+ */
+export function stripHolds(st: BearingStrip, k: number, bearing: (i: number) => boolean, tol: number):
+  { fixed: StripDof[]; load: StripDof[]; slaves: (SlaveDof & { strip: number })[] } {
+  const fixed: StripDof[] = [], load: StripDof[] = [], slaves: (SlaveDof & { strip: number })[] = [];
+  const on = st.pts.map((_, i) => i).filter(bearing), comp = st.comp, e = leverEnd(st, on, tol);
+  for (const i of on) {
+    const v = st.pts[i];
+    if (e >= 0 && i !== e) {
+      const ci = st.s[i] / st.s[e];
+      slaves.push({ v, comp, z: st.z * (1 - ci), masters: [{ v: st.pts[e], comp, w: ci }], strip: k });
+    } else if (e < 0) {
+      if (st.z === 0) fixed.push({ v, comp, w: 0, strip: k }); else load.push({ v, comp, w: st.z, strip: k });
+    }
+    if (st.holdOther) fixed.push({ v, comp: (1 - comp) as 0 | 1, w: 0, strip: k });
+  }
+  return { fixed, load, slaves };
+}
+
+/** Sign along axis comp of the direction from boundary vertex v into the specimen (toward the centroids of its cells). */
+function inward(m: PolyMesh, v: number, comp: 0 | 1): number {
+  const { cellStart, cellVerts, xy } = m;
+  let sum = 0;
+  for (let c = 0; c + 1 < cellStart.length; c++) {
+    let has = false, g = 0;
+    for (let k = cellStart[c]; k < cellStart[c + 1]; k++) { if (cellVerts[k] === v) has = true; g += xy[2 * cellVerts[k] + comp]; }
+    if (has) sum += g / (cellStart[c + 1] - cellStart[c]) - xy[2 * v + comp];
+  }
+  return sum >= 0 ? 1 : -1;
+}
+
 export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
   const on = boundaryVertices(m);
-  const fixed: VertexDof[] = [], load: VertexDof[] = [], slaves: SlaveDof[] = [];
+  const fixed: StripDof[] = [], load: StripDof[] = [], slaves: (SlaveDof & { strip?: number })[] = [], strips: BearingStrip[] = [];
+  /** A strip of points bearing along comp: its holds go in as made by stripHolds with every point in contact. */
+  const addStrip = (st: BearingStrip) => {
+    const k = strips.length, h = stripHolds(st, k, () => true, tol);
+    strips.push(st);
+    fixed.push(...h.fixed); load.push(...h.load); slaves.push(...h.slaves);
+  };
+  const offsets = (pts: number[], centre: Vec2, comp: 0 | 1) => pts.map((v) => m.xy[2 * v + 1 - comp] - centre[1 - comp]);
   const seen = new Map<number, string>();
   const claim = (v: number, comp: number, who: string, what: string) => {
     const other = seen.get(2 * v + comp);
     if (other) throw new InputError(`${who} acts on a point that ${other} already holds in the same direction; move the ${what} or the support`);
     seen.set(2 * v + comp, who);
   };
-  const addPlaten = (p: { master: number; slaves: SlaveDof[] }, comp: 0 | 1, who: string, what: string) => {
-    claim(p.master, comp, who, what);
-    for (const sd of p.slaves) { claim(sd.v, comp, who, what); slaves.push(sd); }
-  };
   c.supports.forEach((s, i) => {
     const who = `supports[${i}]`, pts = pick(m, on, who, s.at, s.along, s.width, tol);
     // a strip of width > 0 is a rocker unless clamped: held at its centre along its normal, free to rotate
     const normal: 0 | 1 = s.fix === 'x' ? 0 : s.fix === 'y' ? 1 : stripNormal(m, pts);
-    const rock = s.at && s.width > 0 && s.platen !== 'clamped' && pts.length > 1 ? rockerPlaten(m, pts, s.at, normal, 0, tol) : null;
-    if (rock) addPlaten(rock, normal, who, 'support');
+    if (s.at && s.width > 0 && pts.length > 1) {
+      // a bearing strip: it pushes into the specimen along its normal, never pulls
+      for (const v of pts) for (const comp of [0, 1] as const) if (comp === normal || s.fix === 'xy') claim(v, comp, who, 'support');
+      addStrip({ pts, s: offsets(pts, s.at, normal), comp: normal, push: inward(m, pts[0], normal), z: 0, rocker: s.platen !== 'clamped', holdOther: s.fix === 'xy', support: true });
+      return;
+    }
     for (const v of pts) {
       for (const comp of [0, 1] as const) {
-        if ((comp === 0 ? s.fix === 'y' : s.fix === 'x') || (rock && comp === normal)) continue;
+        if (comp === 0 ? s.fix === 'y' : s.fix === 'x') continue;
         fixed.push({ v, comp, w: 0 }); claim(v, comp, who, 'support');
       }
     }
@@ -198,9 +262,13 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
     const pts = pick(m, on, who, l.at, l.along, l.width, tol);
     // an axis-aligned platen prescribes its own axis only; an oblique one moves the points rigidly
     const comps: [0 | 1, number][] = Math.abs(dy) < 1e-12 ? [[0, dx]] : Math.abs(dx) < 1e-12 ? [[1, dy]] : [[0, dx], [1, dy]];
-    const rock = l.at && l.width > 0 && l.platen !== 'clamped' && comps.length === 1 && pts.length > 1
-      ? rockerPlaten(m, pts, l.at, comps[0][0], comps[0][1], tol) : null;
-    if (rock) { addPlaten(rock, comps[0][0], who, 'load'); return; }
+    if (l.at && l.width > 0 && comps.length === 1 && pts.length > 1) {
+      // a bearing strip driven by the machine: it pushes along the load direction, never pulls
+      const [comp, z] = comps[0];
+      for (const v of pts) claim(v, comp, who, 'load');
+      addStrip({ pts, s: offsets(pts, l.at, comp), comp, push: Math.sign(z), z, rocker: l.platen !== 'clamped', holdOther: false, support: false });
+      return;
+    }
     for (const v of pts) {
       for (const [comp, w] of comps) { claim(v, comp, who, 'load'); load.push({ v, comp, w }); }
     }
@@ -222,7 +290,7 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
     gaugeVerts = [a.v, b.v];
   }
   if (load.length === 0 && !slaves.some((d) => d.z !== 0)) throw new InputError('loads must name at least one point or strip on the specimen boundary (found none)');
-  return { fixed, load, slaves, gauge, opening, gaugeVerts };
+  return { fixed, load, slaves, strips, gauge, opening, gaugeVerts };
 }
 
 /** The dofs of the current compact mesh (co: stable vertex id → compact index, −1 when gone). */
@@ -245,4 +313,108 @@ export function compactDriven(d: Driven, co: Int32Array): DrivenDofs {
       slaveStart: Int32Array.from(start), masterDof: Int32Array.from(md), masterW: Float64Array.from(mw),
     },
   };
+}
+
+/** Every vertex a support, load or platen holds (stable ids, each once). */
+export function rigVertices(d: Driven): number[] {
+  const out = new Set<number>();
+  for (const x of [...d.fixed, ...d.load, ...d.slaves]) out.add(x.v);
+  for (const s of d.slaves) for (const q of s.masters) out.add(q.v);
+  return [...out].sort((a, b) => a - b);
+}
+
+/**
+ * The rig with its holds carried over to the twins of its vertices where a crack has cut
+ * through them: both halves then bear on the support or load. A twin of a platen's master
+ * follows the master (same point of a rigid platen).
+ */
+export function withTwins(d: Driven, cracks: readonly { path: number[]; twins: number[] }[]): Driven {
+  const twinOf = new Map<number, number>();
+  for (const k of cracks) k.path.forEach((v, i) => { if (k.twins[i] >= 0) twinOf.set(v, k.twins[i]); });
+  if (twinOf.size === 0) return d;
+  const fixed = [...d.fixed], load = [...d.load], slaves = [...d.slaves];
+  // a twin bears on the strip like its original, at the same offset
+  const strips = d.strips.map((st) => {
+    const pts = [...st.pts], s = [...st.s];
+    st.pts.forEach((v, i) => { const t = twinOf.get(v); if (t !== undefined) { pts.push(t); s.push(st.s[i]); } });
+    return { ...st, pts, s };
+  });
+  for (const x of d.fixed) { const t = twinOf.get(x.v); if (t !== undefined) fixed.push({ ...x, v: t }); }
+  for (const x of d.load) { const t = twinOf.get(x.v); if (t !== undefined) load.push({ ...x, v: t }); }
+  for (const x of d.slaves) { const t = twinOf.get(x.v); if (t !== undefined) slaves.push({ ...x, v: t }); }
+  const held = new Set([...d.fixed, ...d.load, ...d.slaves].map((x) => 2 * x.v + x.comp)), seen = new Set<number>();
+  for (const s of d.slaves) for (const q of s.masters) {
+    const t = twinOf.get(q.v), key = 2 * q.v + q.comp;
+    if (t === undefined || held.has(key) || seen.has(key)) continue;
+    seen.add(key);
+    slaves.push({ v: t, comp: q.comp, z: 0, masters: [{ v: q.v, comp: q.comp, w: 1 }], ...(s.strip !== undefined ? { strip: s.strip } : {}) });
+  }
+  return { ...d, fixed, load, slaves, strips };
+}
+
+/**
+ * The rig with the points in `released` (stable ids) lifted off their bearing strips: each
+ * strip that has lost a point is held again on the points still in contact.
+ */
+export function releaseFrom(d: Driven, released: readonly number[], tol: number): Driven {
+  if (released.length === 0) return d;
+  const off = new Set(released), redo = new Set<number>();
+  d.strips.forEach((st, k) => { if (st.pts.some((v) => off.has(v))) redo.add(k); });
+  if (redo.size === 0) return d;
+  const keep = (x: { strip?: number }) => x.strip === undefined || !redo.has(x.strip);
+  const fixed = d.fixed.filter(keep), load = d.load.filter(keep), slaves = d.slaves.filter(keep);
+  for (const k of redo) {
+    const st = d.strips[k], h = stripHolds(st, k, (i) => !off.has(st.pts[i]), tol);
+    fixed.push(...h.fixed); load.push(...h.load); slaves.push(...h.slaves);
+  }
+  return { ...d, fixed, load, slaves };
+}
+
+/** Where one point of a bearing strip stands: the force the platen puts on it along the push (≥ 0 bears), and its gap to the platen (< 0 inside it). */
+export interface Bearing { strip: number; v: number; force: number; gap: number; inContact: boolean }
+
+/**
+ * Force and gap at every point of the bearing strips (u, f on the compact mesh, co: stable id →
+ * compact index). The platen's position at each point comes from its points in contact: a
+ * rocker turns about its centre with its farthest bearing point, otherwise it travels z·λ.
+ */
+export function bearings(d: Driven, released: readonly number[], co: Int32Array, u: Float64Array, f: Float64Array, lambda: number, tol: number): Bearing[] {
+  const off = new Set(released), out: Bearing[] = [];
+  d.strips.forEach((st, k) => {
+    const at = (i: number) => 2 * co[st.pts[i]] + st.comp;
+    const on = st.pts.map((_, i) => i).filter((i) => co[st.pts[i]] >= 0 && !off.has(st.pts[i])), e = leverEnd(st, on, tol);
+    const a = st.z * lambda, turn = e >= 0 ? (u[at(e)] - a) / st.s[e] : 0;
+    st.pts.forEach((v, i) => {
+      if (co[v] < 0) return;
+      const platen = a + turn * st.s[i];
+      out.push({ strip: k, v, force: st.push * f[at(i)], gap: st.push * (u[at(i)] - platen), inContact: !off.has(v) });
+    });
+  });
+  return out;
+}
+
+/**
+ * One update of the contact set (an active-set method for unilateral contact: Wriggers,
+ * Computational Contact Mechanics, 2nd ed. 2006, ch. 6): a point in contact that the platen
+ * pulls (force < −tolF) lifts off, a point off the platen that has gone into it (gap < −tolU)
+ * comes back; a strip keeps at least its most loaded point. Returns the new set (sorted) or
+ * null when nothing changes.
+ */
+export function contactUpdate(b: readonly Bearing[], released: readonly number[], tolF: number, tolU: number): number[] | null {
+  const off = new Set(released);
+  let changed = false;
+  const byStrip = new Map<number, Bearing[]>();
+  for (const x of b) { if (!byStrip.has(x.strip)) byStrip.set(x.strip, []); byStrip.get(x.strip)!.push(x); }
+  for (const pts of byStrip.values()) {
+    const on = pts.filter((x) => x.inContact), pulled = on.filter((x) => x.force < -tolF);
+    if (pulled.length === on.length && on.length > 0) {
+      // the whole strip pulls: it keeps the point it pulls least
+      let best = on[0];
+      for (const x of on) if (x.force > best.force) best = x;
+      pulled.splice(pulled.indexOf(best), 1);
+    }
+    for (const x of pulled) { off.add(x.v); changed = true; }
+    for (const x of pts) if (!x.inContact && x.gap < -tolU) { off.delete(x.v); changed = true; }
+  }
+  return changed ? [...off].sort((p, q) => p - q) : null;
 }

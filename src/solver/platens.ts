@@ -28,15 +28,6 @@ export function platenLevers(m: PolyMesh, pts: number[], centre: Vec2, comp: 0 |
   return { c: s.map((x) => x / s[e]), e };
 }
 
-/** A rocker platen whose centre translation is z·λ: every point but the master is a slave. */
-export function rockerPlaten(m: PolyMesh, pts: number[], centre: Vec2, comp: 0 | 1, z: number, tol: number): { master: number; slaves: SlaveDof[] } | null {
-  const { c, e } = platenLevers(m, pts, centre, comp, true, tol);
-  if (e < 0) return null;
-  const slaves: SlaveDof[] = [];
-  pts.forEach((v, i) => { if (i !== e) slaves.push({ v, comp, z: z * (1 - c[i]), masters: [{ v: pts[e], comp, w: c[i] }] }); });
-  return { master: pts[e], slaves };
-}
-
 /** Centre of a load: its point, or the middle of its edge. */
 const centreOf = (l: Load): Vec2 => l.at ?? [(l.along![0][0] + l.along![1][0]) / 2, (l.along![0][1] + l.along![1][1]) / 2];
 
