@@ -133,13 +133,16 @@ export function tipOvershoot(g: GrowthRoom): number {
 
 /**
  * Where new cracks may start. With `crack.start: anywhere`: anywhere in the material while no
- * crack is growing (the first crack, and the next once every tip has stopped, e.g. at a hole).
+ * crack is growing (the first crack, and the next once every tip has joined a hole, another
+ * crack or the outline; not beside a crack stopped short of a strip).
  * Whatever the start: on the rim of a hole that a crack has reached, where the stress there
  * reaches the strength (the far side of the hole, so a crack passes through it as in the lab).
  */
 function startsPossible(g: GrowthRoom): boolean {
   const tips = g.s.tips;
-  if (g.c.crack!.start === 'anywhere' && !tips.some((t) => t.active)) return true;
+  // a crack held a tip cell short of a strip leaves its halves clamped by the strips, which
+  // load them on: a new crack beside it would be the strips' doing, not the specimen's
+  if (g.c.crack!.start === 'anywhere' && !tips.some((t) => t.active || t.end === 'contact')) return true;
   return tips.some((t) => t.end === 'hole');
 }
 
@@ -151,7 +154,7 @@ function startsPossible(g: GrowthRoom): boolean {
  */
 function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: number; readiness: number } {
   const { c, wm, s } = g, crack = c.crack!, { m, stress, cent } = f;
-  const free = crack.start === 'anywhere' && !s.tips.some((t) => t.active);
+  const free = crack.start === 'anywhere' && !s.tips.some((t) => t.active || t.end === 'contact');
   const reached = new Set<number>();
   for (const t of s.tips) if (t.end === 'hole' && t.hole !== undefined) reached.add(t.hole);
   const rims = [...reached].map((h) => g.holes[h]);
@@ -165,7 +168,9 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
   const clear = keep + 2 * c.mesh.tipSize;
   for (const k of s.cracks) for (const v of k.path) away.push({ x: wm.x[v], y: wm.y[v], r: clear });
   for (const t of s.tips) if (t.active) away.push({ x: wm.x[t.v], y: wm.y[t.v], r: clear });
-  const ft = c.material.ft * (crack.insertAt ?? 1), tol = 1e-3 * c.mesh.tipSize;
+  // the first crack of `anywhere` starts at ft: laid at insertAt·ft in the split disc's nearly
+  // uniform field, its interface ran along the diameter and the split took 11× the Newton iterations
+  const ft = c.material.ft * (s.tips.length === 0 ? 1 : crack.insertAt ?? 1), tol = 1e-3 * c.mesh.tipSize;
   const cs = m.cellStart, cv = m.cellVerts, xy = m.xy;
   let best = -1, bestS = -Infinity;
   for (let k = 0; k < cs.length - 1; k++) {
@@ -282,7 +287,7 @@ export function grow(g: GrowthRoom): number {
     // a crack stops a tip cell short of where the machine or a support touches the
     // specimen: cut through a loaded point, the halves would hang on one vertex
     const len = Math.min(crack.growthStep, contactRoom(c, tx, ty) - c.mesh.tipSize);
-    if (len < 0.5 * c.mesh.tipSize) { t.active = false; continue; }
+    if (len < 0.5 * c.mesh.tipSize) { t.active = false; t.end = 'contact'; continue; }
     const cut = cutRay(wm, t.v, gx, gy, len, GROWTH_CUT);
     if (cut.path.length < 2) { t.active = false; continue; }
     if (t.crack < 0) { s.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = s.cracks.length - 1; }
