@@ -58,8 +58,8 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
 describe('two cracks that meet', () => {
   it('double-edge-notched tension: the cracks from both notches join and the panel comes apart', async () => {
     const text = readFileSync(new URL('../cases/den-tension-example.yaml', import.meta.url), 'utf8')
-      .replace(/^mesh:.*$/m, 'mesh: {size: 20, tipSize: 5, refineRadius: 25, seed: 1, lloyd: 6}')
-      .replace(/growthStep: \d+/, 'growthStep: 10').replace(/averagingRadius: \d+/, 'averagingRadius: 15')
+      .replace(/^mesh:.*$/m, 'mesh: {size: 20, tipSize: 7, refineRadius: 25, seed: 1, lloyd: 6}')
+      .replace(/growthStep: \d+/, 'growthStep: 14').replace(/averagingRadius: \d+/, 'averagingRadius: 21')
       .replace(/increments: 100/, 'increments: 40').replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
     const c = parseCase(text, 'den.yaml');
     const { a, res } = await run(c);
@@ -71,7 +71,7 @@ describe('two cracks that meet', () => {
     const pk = curvePeaks(res.rows);
     expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
     expect(pk.later).toBeNull();
-    // measured 0.12 %: checked at the 1 % the beam tests ask of a ligament meshed fine from the start
+    // measured 0.05 %: checked at the 1 % the beam tests ask of a ligament meshed fine from the start
     expect(worstGap(res)).toBeLessThan(0.01);
   }, 120_000);
 });
