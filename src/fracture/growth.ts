@@ -15,6 +15,7 @@ import {
   readiness, endPairLoad, frontDistance, type FaceLoad,
 } from './criterion.js';
 import { centroidsOf, type Equations } from './equations.js';
+import { segDist2 } from '../geometry/rings.js';
 import type { CrackState, Tip } from './state.js';
 import { measureTips, type TipMeasure } from './tips.js';
 
@@ -25,6 +26,8 @@ export interface GrowthRoom {
   ftAt: ((x: number, y: number) => number) | null;
   /** Boundary vertices where supports and loads touch the specimen (stable ids): a crack that reaches a loaded face ends on one of them. */
   rig?: readonly number[];
+  /** Rings of the domain's holes (flat xy), for cracks that reach a hole and start again on its far side. */
+  holes: readonly Float64Array[];
 }
 
 /** Cell stresses, areas and centroids of the last evaluated state, for the tip checks. */
@@ -114,9 +117,12 @@ export function tipReadiness(g: GrowthRoom, t: Tip, s1: number): number {
 /** Largest readiness among the active tips with faces (0 without): more than a little over 1 and the step was too long. */
 export function tipOvershoot(g: GrowthRoom): number {
   const crack = g.c.crack;
-  if (!crack || !g.s.tips.some((t) => t.active)) return 0;
-  const { m, stress, areas, cent } = fields(g);
-  let worst = 0;
+  if (!crack) return 0;
+  const starts = startsPossible(g);
+  if (!starts && !g.s.tips.some((t) => t.active)) return 0;
+  const f = fields(g), { m, stress, areas, cent } = f;
+  // a crack that starts is laid intact like the next segment of a tip: not far above insertAt·ft
+  let worst = starts ? Math.min(10, startCandidate(g, f).readiness) : 0;
   for (const t of g.s.tips) {
     // a tip without faces lays its first segment at any load
     if (!t.active || t.crack < 0) continue;
@@ -128,32 +134,83 @@ export function tipOvershoot(g: GrowthRoom): number {
 }
 
 /**
- * `crack.start: anywhere`: once the major principal stress of some cell, away from the
- * supports and load points, reaches ft, a crack starts at the vertex nearest to it,
- * perpendicular to that stress; inside the material it gets two tips running apart.
- * Returns 1 when a crack started (the mesh is refined around it).
+ * Where new cracks may start. With `crack.start: anywhere`: anywhere in the material while no
+ * crack is growing (the first crack, and the next once every tip has joined a hole, another
+ * crack or the outline; not beside a crack stopped short of a strip).
+ * Whatever the start: on the rim of a hole that a crack has reached, where the stress there
+ * reaches the strength (the far side of the hole, so a crack passes through it as in the lab).
  */
-export function initiate(g: GrowthRoom): number {
-  const { c, wm } = g, crack = c.crack!, tips = g.s.tips;
-  if (crack.start !== 'anywhere' || tips.length > 0) return 0;
-  const { m, stress, cent } = fields(g);
+function startsPossible(g: GrowthRoom): boolean {
+  const tips = g.s.tips;
+  // a crack held a tip cell short of a strip leaves its halves clamped by the strips, which
+  // load them on: a new crack beside it would be the strips' doing, not the specimen's
+  if (g.c.crack!.start === 'anywhere' && !tips.some((t) => t.active || t.end === 'contact')) return true;
+  return tips.some((t) => t.end === 'hole');
+}
+
+/**
+ * The cell where a crack would start next and how close it is (≥ 1: start): the largest major
+ * principal stress over insertAt·ft among the cells allowed (away from supports, loads, cracks
+ * and tips; on the rim of a reached hole unless `anywhere` applies). Like a tip's next segment
+ * the start is laid intact before the stress reaches ft, so its faces take up load gradually.
+ */
+function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: number; readiness: number } {
+  const { c, wm, s } = g, crack = c.crack!, { m, stress, cent } = f;
+  const free = crack.start === 'anywhere' && !s.tips.some((t) => t.active || t.end === 'contact');
+  const reached = new Set<number>();
+  for (const t of s.tips) if (t.end === 'hole' && t.hole !== undefined) reached.add(t.hole);
+  const rims = [...reached].map((h) => g.holes[h]);
   const keep = Math.max(2 * c.mesh.tipSize, crack.averagingRadius);
   const away: { x: number; y: number; r: number }[] = [];
   for (const q of [...c.supports, ...c.loads]) {
     const pts = q.at ? [q.at] : q.along ? [q.along[0], q.along[1], [(q.along[0][0] + q.along[1][0]) / 2, (q.along[0][1] + q.along[1][1]) / 2]] : [];
     for (const p of pts) away.push({ x: p[0], y: p[1], r: q.width / 2 + keep + (q.along ? Math.hypot(q.along[1][0] - q.along[0][0], q.along[1][1] - q.along[0][1]) / 2 : 0) });
   }
+  // the cracks and tips there are: the stress next to them is theirs to relieve
+  const clear = keep + 2 * c.mesh.tipSize;
+  for (const k of s.cracks) for (const v of k.path) away.push({ x: wm.x[v], y: wm.y[v], r: clear });
+  for (const t of s.tips) if (t.active) away.push({ x: wm.x[t.v], y: wm.y[t.v], r: clear });
+  // the first crack of `anywhere` starts at ft: laid at insertAt·ft in the split disc's nearly
+  // uniform field, its interface ran along the diameter and the split took 11× the Newton iterations
+  const ft = c.material.ft * (s.tips.length === 0 ? 1 : crack.insertAt ?? 1), tol = 1e-3 * c.mesh.tipSize;
+  const cs = m.cellStart, cv = m.cellVerts, xy = m.xy;
   let best = -1, bestS = -Infinity;
-  for (let k = 0; k < m.cellStart.length - 1; k++) {
-    const x = cent[2 * k], y = cent[2 * k + 1];
-    if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
+  for (let k = 0; k < cs.length - 1; k++) {
     const sxx = stress[3 * k], syy = stress[3 * k + 1], sxy = stress[3 * k + 2];
     const s1 = (sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy);
-    if (s1 > bestS) { bestS = s1; best = k; }
+    if (s1 <= bestS || s1 < 0.5 * ft) continue;
+    const x = cent[2 * k], y = cent[2 * k + 1];
+    if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
+    if (!free) {
+      let onRim = false;
+      for (let j = cs[k]; j < cs[k + 1] && !onRim; j++) onRim = ringAt(rims, xy[2 * cv[j]], xy[2 * cv[j] + 1], tol) >= 0;
+      if (!onRim) continue;
+    }
+    bestS = s1; best = k;
   }
-  if (best < 0 || bestS < c.material.ft) return 0;
+  return { cell: best, readiness: best < 0 ? 0 : bestS / ft };
+}
+
+/**
+ * Start a crack where startCandidate says (see startsPossible): at the boundary vertex of that
+ * cell nearest its centre when it touches the outline or a hole (running into the material),
+ * else at the vertex nearest to it with two tips running apart; perpendicular to the major
+ * principal stress. Returns 1 when a crack started (the mesh is refined around it).
+ */
+export function initiate(g: GrowthRoom): number {
+  const { c, wm } = g, crack = c.crack!, tips = g.s.tips;
+  if (!startsPossible(g)) return 0;
+  const f = fields(g), { m, stress, cent } = f;
+  const { cell: best, readiness: r } = startCandidate(g, f);
+  if (best < 0 || r < 1) return 0;
   const x = cent[2 * best], y = cent[2 * best + 1];
-  const v = nearestLive(wm, x, y);
+  let v = -1, bd = Infinity;
+  const vo = g.eq.compact.vertexOf;
+  for (let j = m.cellStart[best]; j < m.cellStart[best + 1]; j++) {
+    const w = vo[m.cellVerts[j]], d = Math.hypot(wm.x[w] - x, wm.y[w] - y);
+    if (d < bd && onOutline(wm, w)) { bd = d; v = w; }
+  }
+  if (v < 0) v = nearestLive(wm, x, y);
   const ts = tipStress(m, stress, cent, cellAreas(m), wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
   const [dx, dy] = growthDirection(ts, 1, 0);
   if (onOutline(wm, v)) {
@@ -167,6 +224,28 @@ export function initiate(g: GrowthRoom): number {
   }
   refineAround(wm, wm.x[v], wm.y[v], c.mesh.refineRadius, c.mesh.tipSize);
   return 1;
+}
+
+/** Centre (mean of the ring's points) and largest distance from it to a point of the ring. */
+function ringCircle(r: Float64Array): [number, number, number] {
+  const n = r.length >> 1;
+  let cx = 0, cy = 0, R = 0;
+  for (let i = 0; i < n; i++) { cx += r[2 * i] / n; cy += r[2 * i + 1] / n; }
+  for (let i = 0; i < n; i++) R = Math.max(R, Math.hypot(r[2 * i] - cx, r[2 * i + 1] - cy));
+  return [cx, cy, R];
+}
+
+/** Index of the ring (flat xy, closed) passing within tol of (x, y), or −1. */
+function ringAt(rings: readonly Float64Array[], x: number, y: number, tol: number): number {
+  const t2 = tol * tol;
+  for (let h = 0; h < rings.length; h++) {
+    const r = rings[h], n = r.length >> 1;
+    for (let i = 0; i < n; i++) {
+      const j = (i + 1) % n;
+      if (segDist2(x, y, r[2 * i], r[2 * i + 1], r[2 * j], r[2 * j + 1]) <= t2) return h;
+    }
+  }
+  return -1;
 }
 
 /** Check every active tip (or start a crack); grow those that meet the criterion. Returns how many grew (the mesh changed if > 0). */
@@ -220,15 +299,16 @@ export function grow(g: GrowthRoom): number {
         gx = (wm.x[aim] - tx) / len; gy = (wm.y[aim] - ty) / len;
       } else {
         len = Math.min(crack.growthStep, room - c.mesh.tipSize);
-        if (len < 0.5 * c.mesh.tipSize) { t.active = false; continue; }
+        if (len < 0.5 * c.mesh.tipSize) { t.active = false; t.end = 'contact'; continue; }
       }
     }
     const cut = cutRay(wm, t.v, gx, gy, len, GROWTH_CUT);
     if (cut.path.length < 2) { t.active = false; continue; }
     if (t.crack < 0) { s.cracks.push({ kind: 'cohesive', path: [t.v], twins: [-1] }); t.crack = s.cracks.length - 1; }
     const k = s.cracks[t.crack];
-    const through = cut.end === 'boundary';
-    if (cut.end === 'crack') t.active = false;
+    // a crack that reaches the outline, a hole or another crack's face opens into it: its
+    // end is twinned like the mouth of a notch and the tip is gone
+    const through = cut.end !== 'length';
     // an interior start stays one vertex until its partner tip has cut the other way
     const partner = t.partner !== undefined ? s.tips[t.partner] : null;
     const interiorStart = t.back === null && partner !== null && partner.crack < 0;
@@ -248,8 +328,17 @@ export function grow(g: GrowthRoom): number {
     const L = Math.hypot(wm.x[end] - tx, wm.y[end] - ty);
     t.dx = (wm.x[end] - tx) / L; t.dy = (wm.y[end] - ty) / L;
     t.v = end;
-    if (through) t.active = false;
-    else refineAround(wm, wm.x[end], wm.y[end], c.mesh.refineRadius, c.mesh.tipSize);
+    if (through) {
+      t.active = false;
+      const h = cut.end === 'boundary' ? ringAt(g.holes, wm.x[end], wm.y[end], 1e-3 * c.mesh.tipSize) : -1;
+      t.end = cut.end === 'crack' ? 'crack' : h >= 0 ? 'hole' : 'outline';
+      if (h >= 0) {
+        t.hole = h;
+        // the rim of the hole at the tip size, so that its stress is resolved where a crack may start again
+        const [hx, hy, hr] = ringCircle(g.holes[h]);
+        refineAround(wm, hx, hy, hr + crack.averagingRadius, c.mesh.tipSize);
+      }
+    } else refineAround(wm, wm.x[end], wm.y[end], c.mesh.refineRadius, c.mesh.tipSize);
     grown++;
   }
   if (grown > 0) {
@@ -283,9 +372,9 @@ export function tipDirections(g: GrowthRoom): TipMeasure[] {
   return out;
 }
 
-/** True once a crack has run from boundary to boundary (its last tip left the material). */
+/** True once a crack has run from boundary to boundary (its last tip left the material; a hole it joined does not count). */
 export function separated(s: CrackState): boolean {
-  return s.tips.some((t) => !t.active && t.crack >= 0 && s.cracks[t.crack].twins.at(-1)! >= 0);
+  return s.tips.some((t) => !t.active && t.end !== 'hole' && t.crack >= 0 && s.cracks[t.crack].twins.at(-1)! >= 0);
 }
 
 /** Distance from (x, y) to the nearest load or support (a point, a bearing strip or a segment). */

@@ -13,7 +13,11 @@ export interface ProbeRow { step: number; probe: string; x_mm: number; y_mm: num
 
 export interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
 /** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
-export interface Tip { crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number }
+export interface Tip {
+  crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number;
+  /** Where a stopped tip ended: on the outline, on a hole (`hole`: its index among the domain's holes), on another crack's face, or a tip cell short of a load or support. */
+  end?: 'outline' | 'hole' | 'crack' | 'contact'; hole?: number;
+}
 
 /** One growth event: tip index, position, chosen direction, whether it was the kink out of the start, and the averaged stress there. */
 export interface GrowthEvent { tip: number; x: number; y: number; dx: number; dy: number; first: boolean; sxx: number; syy: number; sxy: number }
