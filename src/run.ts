@@ -10,6 +10,7 @@ import { checkHeldPieces } from './fracture/pieces.js';
 import { OutputFolder, checkedFilePath, defaultOutDir } from './output/folder.js';
 import { shellQuote } from './output/shell.js';
 import { LefmAnalysis } from './fracture/lefm.js';
+import { Elastic2Analysis } from './fracture/elastic2.js';
 import { RunFiles } from './output/runfiles.js';
 import { writeMatrixMarket } from './linalg/mtx.js';
 import { readCheckpoint, removeCheckpoint, writeCheckpoint } from './fracture/checkpoint.js';
@@ -53,6 +54,8 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   const matrixFile = opt.exportMatrix !== undefined ? checkedFilePath(opt.exportMatrix, 'the --export-matrix file') : undefined;
   const lefm = c.crack?.model === 'lefm';
   if (opt.resume && lefm) throw new InputError('--resume goes on from a checkpoint, and crack.model lefm runs write none (they take seconds): run the case again with --force');
+  const order2 = c.mesh.order === 2 && !c.crack;
+  if (opt.resume && order2) throw new InputError('--resume goes on from a checkpoint, and elastic runs with mesh.order 2 write none (one solve): run the case again with --force');
   // nothing to go on with in a folder that is not there (and no empty folder made to say so)
   if (opt.resume && lstatOrNull(dir) === null) readCheckpoint(dir, c);
   const created = lstatOrNull(dir) === null;
@@ -64,9 +67,11 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
     const { mesh, seconds } = meshCase(c);
-    const a = lefm ? new LefmAnalysis(c, mesh, { maxDofs: opt.maxDofs }) : new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
+    const a = lefm ? new LefmAnalysis(c, mesh, { maxDofs: opt.maxDofs })
+      : order2 ? new Elastic2Analysis(c, mesh, { maxDofs: opt.maxDofs })
+        : new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
     // a specimen cut into pieces that are not each held would run to a meaningless curve
-    if (a instanceof Analysis) checkHeldPieces(c, mesh, a.wm);
+    if (!(a instanceof LefmAnalysis)) checkHeldPieces(c, mesh, a.wm);
     const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows, caseFile: opt.caseFile });
     if (resumed && a instanceof Analysis) a.restore(resumed);
     if (opt.stopRequested) a.stopRequested = opt.stopRequested;

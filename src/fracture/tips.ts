@@ -5,7 +5,7 @@
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CaseModel } from '../case/model.js';
 import type { WorkMesh } from './workmesh.js';
-import { PER_SQRT_M, SifWork, mtsKink, tipFactors, type Elastic } from './sif.js';
+import { PER_SQRT_M, SifWork, mtsKink, tipFactors, type Elastic, type TipFrame, type TipResult } from './sif.js';
 
 /** A crack (slit or grown): its path of vertex ids and the twin of each (−1: not twinned). */
 export interface CrackLine { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
@@ -114,10 +114,12 @@ function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, c: CaseModel, cra
  * K_I, K_II and the MTS direction at every tip. m, vertexOf, compactOf: the compact mesh of the
  * current state; u its displacements (2 per compact vertex). A domain smaller than two tip
  * cells gives no K; so does a crack for which withK is false (its end is listed all the same).
+ * factors: K at one tip within radius R (default: the order-1 interaction integral on cp.mesh and u).
  */
 export function measureTips(
   wm: WorkMesh, cracks: CrackLine[], cp: { mesh: PolyMesh; vertexOf: Int32Array; compactOf: Int32Array },
   u: Float64Array, el: Elastic, c: CaseModel, withK: (crack: number) => boolean = () => true,
+  factors: (tip: TipFrame, R: number, work: SifWork) => TipResult = (tip, R, work) => tipFactors(cp.mesh, u, el, tip, R, work),
 ): TipMeasure[] {
   const ends = crackEnds(cracks);
   if (ends.length === 0) return [];
@@ -134,7 +136,7 @@ export function measureTips(
     const R = room(wm, cp.mesh, cp.vertexOf, c, cracks, e.crack, e.v, e.back, dx, dy, cap);
     const base = { crack: e.crack, end: e.end, v: e.v, x, y, dx, dy, R };
     if (!(R >= 2 * c.mesh.tipSize)) return { ...base, KI: null, KII: null, spread: null, kink: null };
-    const f = tipFactors(cp.mesh, u, el, { x, y, dx, dy }, R, work);
+    const f = factors({ x, y, dx, dy }, R, work);
     // an unloaded tip has no direction to take
     const kink = f.KI === 0 && f.KII === 0 ? null : Math.atan2(dy, dx) + mtsKink(f.KI, f.KII);
     return { ...base, KI: f.KI, KII: f.KII, spread: f.spread, kink };

@@ -28,6 +28,12 @@ export interface DrivenDofs {
   slaves?: Slaves;
 }
 
+/**
+ * Stiffness block of cell c, (2n)² values for its n vertices in cell order, into Ke; absent: the
+ * first-order element. Order 2 passes its condensed cells on the node mesh (vem/dofs2.ts).
+ */
+export type CellStiffness = (c: number, Ke: Float64Array) => void;
+
 export class System {
   readonly nDof: number;
   readonly nFree: number;
@@ -51,7 +57,7 @@ export class System {
   private readonly m4 = new Float64Array(4);
   readonly zLoad: Float64Array;
 
-  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs) {
+  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs, cells?: CellStiffness) {
     const nv = mesh.xy.length >> 1, nc = mesh.cellStart.length - 1, np = pairs.plus.length;
     this.nDof = 2 * nv;
     this.nCellBlocks = nc;
@@ -79,7 +85,7 @@ export class System {
     const vals = this.kBulk.values;
     for (let c = 0; c < nc; c++) {
       const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
-      elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+      if (cells) cells(c, Ke); else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
       const o = off[c];
       for (let k = 0; k < m * m; k++) vals[map[o + k]] += Ke[k];
     }
