@@ -4,7 +4,7 @@ import type { CaseModel } from './case/model.js';
 import type { PolyMesh } from './mesh/polymesh.js';
 import { buildDomain } from './geometry/domain.js';
 import { generateMesh } from './mesh/generate.js';
-import { Analysis, type AnalysisResult, type Snapshot, type StepEvent } from './fracture/analysis.js';
+import { Analysis, type AnalysisOptions, type AnalysisResult, type Snapshot, type StepEvent } from './fracture/analysis.js';
 import type { LoopState } from './fracture/checkpoint.js';
 import { checkHeldPieces } from './fracture/pieces.js';
 import { OutputFolder, checkedFilePath, defaultOutDir } from './output/folder.js';
@@ -43,6 +43,13 @@ export function meshCase(c: CaseModel): { mesh: PolyMesh; seconds: number } {
   return { mesh, seconds: (performance.now() - t0) / 1000 };
 }
 
+/** The analysis that runs a case: the brittle mode, an order-2 elastic solve, or the staggered loop. */
+export function analysisFor(c: CaseModel, mesh: PolyMesh, opt: AnalysisOptions = {}): Analysis | LefmAnalysis | Elastic2Analysis {
+  if (c.crack?.model === 'lefm') return new LefmAnalysis(c, mesh, { maxDofs: opt.maxDofs });
+  if (c.mesh.order === 2 && !c.crack) return new Elastic2Analysis(c, mesh, { maxDofs: opt.maxDofs });
+  return new Analysis(c, mesh, opt);
+}
+
 /** Where a fresh run starts: the loop state before step 1 (a checkpoint of it lets a cut-off run be finished from the start). */
 const START: LoopState = { inc: 1, frac: 1, done: 0, step: 0, peak: { load_N: 0, displacement_mm: 0, cmod_mm: null, step: 0 } };
 
@@ -67,9 +74,7 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
     const { mesh, seconds } = meshCase(c);
-    const a = lefm ? new LefmAnalysis(c, mesh, { maxDofs: opt.maxDofs })
-      : order2 ? new Elastic2Analysis(c, mesh, { maxDofs: opt.maxDofs })
-        : new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
+    const a = analysisFor(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
     // a specimen cut into pieces that are not each held would run to a meaningless curve
     if (!(a instanceof LefmAnalysis)) checkHeldPieces(c, mesh, a.wm);
     const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows, caseFile: opt.caseFile });

@@ -6,6 +6,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { parseCase } from '../src/case/index.js';
 import { runCase } from '../src/run.js';
+import { renderTemplate } from '../src/templates/index.js';
 
 const root = mkdtempSync(join(tmpdir(), 'rupta-order2-'));
 afterAll(() => rmSync(root, { recursive: true, force: true }));
@@ -112,6 +113,16 @@ output: {frames: []}
     const al = a / b, K = (P / b) * Math.sqrt(Math.PI * a) * (1.12 - 0.231 * al + 10.55 * al ** 2 - 21.72 * al ** 3 + 30.39 * al ** 4) / Math.sqrt(1000);
     expect(rel(KI, K)).toBeLessThan(0.015);
     expect(Math.abs(KII)).toBeLessThan(0.01 * K);
+  });
+
+  it('rupta new --order 2 writes an elastic case of order 2 that runs (no crack block)', async () => {
+    const c = parseCase(renderTemplate('beam-3pb', { 'mesh-size': '20', 'tip-size': '10', order: '2' }), 'b.yaml');
+    expect(c.mesh.order).toBe(2);
+    expect(c.crack).toBeUndefined();
+    const r = await runCase(c, { out: join(root, 'beam') });
+    expect(r.result.status).toBe('complete');
+    // under CMOD control the gauge reads its target exactly
+    expect(r.result.rows.at(-1)!.cmod_mm).toBeCloseTo(c.control.target, 10);
   });
 
   it('refuses --resume with one sentence (one solve, no checkpoint)', async () => {

@@ -2,7 +2,7 @@
 // the material, and control targets that reach well into the softening branch.
 import type { Vec2 } from '../case/model.js';
 import { charLength, materialNamed, type MaterialPreset } from './materials.js';
-import { fmt, need } from './options.js';
+import { fmt, need, orderOf } from './options.js';
 import type { Values } from './types.js';
 
 /** Coordinates rounded to 1e-6 mm, so the written text and the checks see the same numbers. */
@@ -57,7 +57,11 @@ export function travelTarget(m: MaterialChoice, elastic: number): number {
   return sig2(6 * criticalOpening(m) + 10 * elastic);
 }
 
-export interface MeshChoice { size: number; tipSize: number; refineRadius: number; growthStep: number; averagingRadius: number }
+export interface MeshChoice {
+  size: number; tipSize: number; refineRadius: number; growthStep: number; averagingRadius: number;
+  /** Element order (--order); 2 writes an elastic case. */
+  order?: 1 | 2;
+}
 
 /**
  * Cell sizes: `auto` takes autoSize far away and, near tips, autoTip or l_ch / 8 when the
@@ -69,7 +73,7 @@ export function meshFor(tpl: string, v: Values, autoSize: number, autoTip: numbe
   const tipAuto = niceDown(Math.min(autoTip, charLength(m.preset) / 8, size));
   const tipSize = v['tip-size'] === 'auto' ? tipAuto : num(v, 'tip-size');
   need(tpl, 'tip-size', tipSize, 0, size, 'mm', `for a mesh-size of ${fmt(size)} mm`);
-  return { size, tipSize, refineRadius: q(10 * tipSize), growthStep: q(2 * tipSize), averagingRadius: q(3 * tipSize) };
+  return { size, tipSize, refineRadius: q(10 * tipSize), growthStep: q(2 * tipSize), averagingRadius: q(3 * tipSize), order: orderOf(v) };
 }
 
 /** The option line written into the header of a case, for re-running the template. */
