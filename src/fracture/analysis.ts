@@ -10,7 +10,8 @@ import { penaltyFor, type CohesiveParams } from '../cohesive/interface.js';
 import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, type Driven } from '../solver/driven.js';
-import { RunStopped } from '../errors.js';
+import { InputError, RunStopped } from '../errors.js';
+import type { NodeMesh } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { strengthOf } from '../study/field.js';
@@ -107,12 +108,23 @@ export class Analysis {
   private rebuild(): void {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
-    this.eq = new Equations(this.wm, s.cracks, this.driven, this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs);
+    this.eq = new Equations(this.wm, s.cracks, this.driven, this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.order2());
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
     s.dofs.final = nd;
     this.dirty = false;
+  }
+
+  /**
+   * Order 2 (library runs on a prescribed crack path): supports and loads are selected on the
+   * node mesh, so they hold and drive the edge midpoints too. Growth does not carry edge and
+   * cell unknowns yet, so no tip may be active.
+   */
+  private order2(): { drivenOn: (nm: NodeMesh) => Driven } | undefined {
+    if (this.c.mesh.order !== 2) return undefined;
+    if (this.s.tips.some((t) => t.active)) throw new InputError('mesh.order must be 1 where cracks grow: second-order elements run on prescribed crack paths only (found 2)');
+    return { drivenOn: (nm) => selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid) };
   }
 
   private equations(): Equations {
@@ -332,8 +344,8 @@ export class Analysis {
     if (!(ratio > 0)) return undefined;
     const uw = new Float64Array(s.uw.length);
     for (let i = 0; i < uw.length; i++) uw[i] = s.uw[i] + ratio * tr.du[i];
-    const eq = this.eq, fd = eq.sys.freeDofs, vo = eq.compact.vertexOf, uf = new Float64Array(fd.length);
-    for (let i = 0; i < fd.length; i++) uf[i] = uw[2 * vo[fd[i] >> 1] + (fd[i] & 1)];
+    const uf = new Float64Array(this.eq.sys.freeDofs.length);
+    this.eq.gatherInto(uw, uf);
     return { uf, lambda: s.lambda + ratio * tr.dLambda };
   }
 
