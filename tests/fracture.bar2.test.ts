@@ -26,7 +26,7 @@ crack: {start: [[0, 0]], growthStep: 1, averagingRadius: 2}
 mesh: {size: 10, tipSize: 10, refineRadius: 10, coarsen: false}
 output: {frames: []}
 `, 'bar.yaml');
-  c.mesh.order = 2; // a prescribed path: case files refuse order 2 with a crack block, the library runs it
+  c.mesh.order = 2;
   const a = new Analysis(c, gridMesh(0, 0, L, H, nx, ny));
   a.tips.splice(0);
   a.addCohesiveCut([L / 2, 0], [L / 2, H]);

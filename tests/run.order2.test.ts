@@ -115,18 +115,21 @@ output: {frames: []}
     expect(Math.abs(KII)).toBeLessThan(0.01 * K);
   });
 
-  it('rupta new --order 2 writes an elastic case of order 2 that runs (no crack block)', async () => {
-    const c = parseCase(renderTemplate('beam-3pb', { 'mesh-size': '20', 'tip-size': '10', order: '2' }), 'b.yaml');
+  it('rupta new --order 2: a cohesive template keeps its crack block, a brittle one becomes an elastic case that runs', async () => {
+    const beam = parseCase(renderTemplate('beam-3pb', { order: '2' }), 'b.yaml');
+    expect(beam.mesh.order).toBe(2);
+    expect(beam.crack?.model).toBe('cohesive');
+    const c = parseCase(renderTemplate('ceramic-bend-bar', { order: '2' }), 'c.yaml');
     expect(c.mesh.order).toBe(2);
     expect(c.crack).toBeUndefined();
-    const r = await runCase(c, { out: join(root, 'beam') });
+    const r = await runCase(c, { out: join(root, 'bar') });
     expect(r.result.status).toBe('complete');
     // under CMOD control the gauge reads its target exactly
     expect(r.result.rows.at(-1)!.cmod_mm).toBeCloseTo(c.control.target, 10);
   });
 
-  it('refuses --resume with one sentence (one solve, no checkpoint)', async () => {
+  it('refuses --resume with one sentence', async () => {
     await expect(runCase(parseCase(cantilever(2, 5), 'c.yaml'), { out: join(root, 'resume'), resume: true }))
-      .rejects.toThrow('--resume goes on from a checkpoint, and elastic runs with mesh.order 2 write none (one solve): run the case again with --force');
+      .rejects.toThrow('--resume cannot go on with a run of mesh.order 2 (it would not repeat the uninterrupted run exactly): run the case again with --force');
   });
 });

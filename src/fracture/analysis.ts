@@ -10,7 +10,7 @@ import { penaltyFor, type CohesiveParams } from '../cohesive/interface.js';
 import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, type Driven } from '../solver/driven.js';
-import { InputError, RunStopped } from '../errors.js';
+import { RunStopped } from '../errors.js';
 import type { NodeMesh } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
@@ -117,13 +117,12 @@ export class Analysis {
   }
 
   /**
-   * Order 2 (library runs on a prescribed crack path): supports and loads are selected on the
-   * node mesh, so they hold and drive the edge midpoints too. Growth does not carry edge and
-   * cell unknowns yet, so no tip may be active.
+   * Order 2: the equations of each topology are built on its node mesh (vertices and edge
+   * midpoints, vem/dofs2.ts), rebuilt from the work mesh after every cut, refinement and
+   * coarsening; supports and loads are selected on it, so they hold and drive the midpoints too.
    */
   private order2(): { drivenOn: (nm: NodeMesh) => Driven } | undefined {
     if (this.c.mesh.order !== 2) return undefined;
-    if (this.s.tips.some((t) => t.active)) throw new InputError('mesh.order must be 1 where cracks grow: second-order elements run on prescribed crack paths only (found 2)');
     return { drivenOn: (nm) => selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid) };
   }
 

@@ -59,7 +59,7 @@ export function travelTarget(m: MaterialChoice, elastic: number): number {
 
 export interface MeshChoice {
   size: number; tipSize: number; refineRadius: number; growthStep: number; averagingRadius: number;
-  /** Element order (--order); 2 writes an elastic case. */
+  /** Element order (--order). */
   order?: 1 | 2;
 }
 
