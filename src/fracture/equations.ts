@@ -10,7 +10,8 @@ import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import type { WorkMesh } from './workmesh.js';
 import type { Crack } from './state.js';
-import { nodeMesh, Order2Cells, type NodeMesh } from '../vem/dofs2.js';
+import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh } from '../vem/dofs2.js';
+import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
 import { pairGeometry2 } from './interface2.js';
 
 export class Equations {
@@ -28,6 +29,22 @@ export class Equations {
 
   /** Order 2: the node mesh the System is built on (vertices keep their compact ids, midpoints follow). */
   readonly node: NodeMesh | null = null;
+  private readonly cells2: Order2Cells | null = null;
+
+  /**
+   * Stresses of the last evaluated state: per cell (order 1 its constant, order 2 the
+   * projection's at the centroid) and, when asked, per node (order 1 the area-weighted vertex
+   * average, order 2 the projections of the cells around the node evaluated there).
+   */
+  stresses(D: Float64Array, atNodes = false): { cell: Float64Array; node: Float64Array | null } {
+    const m = this.sys.mesh, u = this.work.u;
+    if (!this.cells2 || !this.node) {
+      const cell = cellStresses(m, u, D);
+      return { cell, node: atNodes ? vertexStresses(m, cell, cellAreas(m)) : null };
+    }
+    const field = this.cells2.field(u);
+    return { cell: centroidStresses2(field, D), node: atNodes ? nodeStresses2(this.node, field, D) : null };
+  }
 
   /**
    * The equations of the work mesh as it is; throws RunStopped above maxDofs. With `order2`
@@ -48,7 +65,7 @@ export class Equations {
     if (nm && order2) {
       const cells = new Order2Cells(nm, D, thickness), nn = nm.mesh.xy.length >> 1, id = new Int32Array(nn);
       for (let i = 0; i < nn; i++) id[i] = i;
-      this.node = nm;
+      this.node = nm; this.cells2 = cells;
       this.sys = new System(nm.mesh, D, thickness, geom, compactDriven(order2.drivenOn(nm), id), (k, Ke) => cells.stiffness(k, Ke));
     } else {
       this.sys = new System(cp.mesh, D, thickness, geom, compactDriven(driven, co));
