@@ -78,5 +78,6 @@ export function meshFor(tpl: string, v: Values, autoSize: number, autoTip: numbe
 
 /** The option line written into the header of a case, for re-running the template. */
 export function optionLine(v: Values): string {
-  return Object.entries(v).map(([k, x]) => `--${k} ${typeof x === 'string' && /\s/.test(x) ? JSON.stringify(x) : x}`).join(' ');
+  // order 1 is the default of the case too: the header names --order only when it is 2
+  return Object.entries(v).filter(([k, x]) => !(k === 'order' && x === '1')).map(([k, x]) => `--${k} ${typeof x === 'string' && /\s/.test(x) ? JSON.stringify(x) : x}`).join(' ');
 }
