@@ -4,12 +4,13 @@ import type { CaseModel } from './case/model.js';
 import type { PolyMesh } from './mesh/polymesh.js';
 import { buildDomain } from './geometry/domain.js';
 import { generateMesh } from './mesh/generate.js';
-import { Analysis, type AnalysisResult, type Snapshot, type StepEvent } from './fracture/analysis.js';
+import { Analysis, type AnalysisOptions, type AnalysisResult, type Snapshot, type StepEvent } from './fracture/analysis.js';
 import type { LoopState } from './fracture/checkpoint.js';
 import { checkHeldPieces } from './fracture/pieces.js';
 import { OutputFolder, checkedFilePath, defaultOutDir } from './output/folder.js';
 import { shellQuote } from './output/shell.js';
 import { LefmAnalysis } from './fracture/lefm.js';
+import { Elastic2Analysis } from './fracture/elastic2.js';
 import { RunFiles } from './output/runfiles.js';
 import { writeMatrixMarket } from './linalg/mtx.js';
 import { readCheckpoint, removeCheckpoint, writeCheckpoint } from './fracture/checkpoint.js';
@@ -42,6 +43,13 @@ export function meshCase(c: CaseModel): { mesh: PolyMesh; seconds: number } {
   return { mesh, seconds: (performance.now() - t0) / 1000 };
 }
 
+/** The analysis that runs a case: the brittle mode, an order-2 elastic solve, or the staggered loop. */
+export function analysisFor(c: CaseModel, mesh: PolyMesh, opt: AnalysisOptions = {}): Analysis | LefmAnalysis | Elastic2Analysis {
+  if (c.crack?.model === 'lefm') return new LefmAnalysis(c, mesh, { maxDofs: opt.maxDofs });
+  if (c.mesh.order === 2 && !c.crack) return new Elastic2Analysis(c, mesh, { maxDofs: opt.maxDofs });
+  return new Analysis(c, mesh, opt);
+}
+
 /** Where a fresh run starts: the loop state before step 1 (a checkpoint of it lets a cut-off run be finished from the start). */
 const START: LoopState = { inc: 1, frac: 1, done: 0, step: 0, peak: { load_N: 0, displacement_mm: 0, cmod_mm: null, step: 0 } };
 
@@ -53,6 +61,8 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   const matrixFile = opt.exportMatrix !== undefined ? checkedFilePath(opt.exportMatrix, 'the --export-matrix file') : undefined;
   const lefm = c.crack?.model === 'lefm';
   if (opt.resume && lefm) throw new InputError('--resume goes on from a checkpoint, and crack.model lefm runs write none (they take seconds): run the case again with --force');
+  // an order-2 run keeps only vertex values between topologies, so a resume would not repeat its numbers exactly
+  if (opt.resume && c.mesh.order === 2) throw new InputError('--resume cannot go on with a run of mesh.order 2 (it would not repeat the uninterrupted run exactly): run the case again with --force');
   // nothing to go on with in a folder that is not there (and no empty folder made to say so)
   if (opt.resume && lstatOrNull(dir) === null) readCheckpoint(dir, c);
   const created = lstatOrNull(dir) === null;
@@ -64,9 +74,9 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
       throw new InputError(`the output folder ${dir} already holds a run; pass --force to overwrite it, --resume to go on with it, or --out to choose another folder`);
     }
     const { mesh, seconds } = meshCase(c);
-    const a = lefm ? new LefmAnalysis(c, mesh, { maxDofs: opt.maxDofs }) : new Analysis(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
+    const a = analysisFor(c, mesh, { maxDofs: opt.maxDofs, checkpointEvery: opt.checkpointEvery ?? 5 });
     // a specimen cut into pieces that are not each held would run to a meaningless curve
-    if (a instanceof Analysis) checkHeldPieces(c, mesh, a.wm);
+    if (!(a instanceof LefmAnalysis)) checkHeldPieces(c, mesh, a.wm);
     const files = new RunFiles(dir, c, { force: opt.force, resume: resumed?.rows, caseFile: opt.caseFile });
     if (resumed && a instanceof Analysis) a.restore(resumed);
     if (opt.stopRequested) a.stopRequested = opt.stopRequested;

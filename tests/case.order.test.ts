@@ -1,5 +1,5 @@
-// mesh.order: 1 (default) or 2; order 2 is refused by runs, with one sentence, until the run
-// pipeline carries edge and cell dofs.
+// mesh.order: 1 (default) or 2; order 2 runs elastic and cohesive cases, and is refused, with
+// one sentence, in the brittle mode.
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { parse } from 'yaml';
@@ -21,11 +21,13 @@ describe('mesh.order', () => {
     expect(parseCase(demoText, 'beam.yaml').mesh.order).toBe(1);
     expect(messageOf((c) => { c.mesh.order = 1; })).toBe('(no error)');
   });
-  it('order 2 with a crack block is refused with one sentence', () => {
-    expect(messageOf((c) => { c.mesh.order = 2; })).toBe('mesh.order must be 1 in a run with a crack block: crack growth does not yet support second-order elements (found 2)');
+  it('order 2 with a cohesive crack block is accepted; with the brittle mode it is refused with one sentence', () => {
+    expect(messageOf((c) => { c.mesh.order = 2; })).toBe('(no error)');
+    expect(messageOf((c) => { c.mesh.order = 2; c.crack.model = 'lefm'; c.material.KIc = 1; c.geometry.notches[0].width = 0; }))
+      .toBe('mesh.order must be 1 with crack.model lefm: the brittle mode does not yet support second-order elements (found 2)');
   });
-  it('order 2 in an elastic run is refused with one sentence', () => {
-    expect(messageOf((c) => { c.mesh.order = 2; delete c.crack; })).toBe('mesh.order must be 1 for rupta run: second-order elements are not yet wired into runs, only into the library solver (found 2)');
+  it('order 2 is accepted in an elastic run (no crack block)', () => {
+    expect(messageOf((c) => { c.mesh.order = 2; delete c.crack; })).toBe('(no error)');
   });
   it('order 3 names the choices', () => {
     expect(messageOf((c) => { c.mesh.order = 3; })).toMatch(/^mesh\.order must be 1 \(linear virtual elements\) or 2 \(quadratic\)/);

@@ -68,7 +68,7 @@ const mesh = z.strictObject({
   coarsen: z.boolean().optional(),
   seed: num.optional(),
   lloyd: num.optional(),
-  // element order: 2 only for library solves until the run pipeline carries edge and cell dofs
+  // element order: 2 runs elastic cases; crack growth is of order 1 only (case/check.ts)
   order: z.union([z.literal(1), z.literal(2)]).optional(),
 });
 

@@ -12,6 +12,7 @@ import { solveStep, type StepState, type NewtonOptions, type ControlKind } from 
 import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
 import { RunStopped } from '../errors.js';
+import type { NodeMesh } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { buildDomain } from '../geometry/domain.js';
@@ -133,12 +134,22 @@ export class Analysis {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
     this.eqReleased = (s.released ?? []).join(',');
-    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements);
+    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2());
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
     s.dofs.final = nd;
     this.dirty = false;
+  }
+
+  /**
+   * Order 2: the equations of each topology are built on its node mesh (vertices and edge
+   * midpoints, vem/dofs2.ts), rebuilt from the work mesh after every cut, refinement and
+   * coarsening; supports and loads are selected on it, so they hold and drive the midpoints too.
+   */
+  private order2(): { drivenOn: (nm: NodeMesh) => Driven } | undefined {
+    if (this.c.mesh.order !== 2) return undefined;
+    return { drivenOn: (nm) => selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid) };
   }
 
   private equations(): Equations {
@@ -171,7 +182,8 @@ export class Analysis {
         r = this.solveOnce(kind, target);
         break;
       }
-      if (!r.ok || this.driven.strips.length === 0 || round >= CONTACT_ROUNDS) break;
+      // order 2 selects its holds on the node mesh each topology: its strips stay two-sided
+      if (!r.ok || this.driven.strips.length === 0 || this.c.mesh.order === 2 || round >= CONTACT_ROUNDS) break;
       const eq = this.eq, rig = this.rigNow();
       const b = bearings(rig, s.released ?? [], eq.compact.compactOf, eq.work.u, eq.work.f, s.lambda, this.tol);
       let umax = Math.abs(s.lambda);
@@ -405,8 +417,8 @@ export class Analysis {
     if (!(ratio > 0)) return undefined;
     const uw = new Float64Array(s.uw.length);
     for (let i = 0; i < uw.length; i++) uw[i] = s.uw[i] + ratio * tr.du[i];
-    const eq = this.eq, fd = eq.sys.freeDofs, vo = eq.compact.vertexOf, uf = new Float64Array(fd.length);
-    for (let i = 0; i < fd.length; i++) uf[i] = uw[2 * vo[fd[i] >> 1] + (fd[i] & 1)];
+    const uf = new Float64Array(this.eq.sys.freeDofs.length);
+    this.eq.gatherInto(uw, uf);
     return { uf, lambda: s.lambda + ratio * tr.dLambda };
   }
 

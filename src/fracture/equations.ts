@@ -10,6 +10,9 @@ import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import type { WorkMesh } from './workmesh.js';
 import type { Crack } from './state.js';
+import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh } from '../vem/dofs2.js';
+import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
+import { pairGeometry2 } from './interface2.js';
 
 export class Equations {
   readonly compact: ReturnType<WorkMesh['toPolyMesh']>;
@@ -24,19 +27,49 @@ export class Equations {
   readonly pairPlus: number[];
   readonly pairOf: Map<number, number>;
 
-  /** The equations of the work mesh as it is; throws RunStopped above maxDofs. */
+  /** Order 2: the node mesh the System is built on (vertices keep their compact ids, midpoints follow). */
+  readonly node: NodeMesh | null = null;
+  private readonly cells2: Order2Cells | null = null;
+
+  /**
+   * Stresses of the last evaluated state: per cell (order 1 its constant, order 2 the
+   * projection's at the centroid) and, when asked, per node (order 1 the area-weighted vertex
+   * average, order 2 the projections of the cells around the node evaluated there).
+   */
+  stresses(D: Float64Array, atNodes = false): { cell: Float64Array; node: Float64Array | null } {
+    const m = this.sys.mesh, u = this.work.u;
+    if (!this.cells2 || !this.node) {
+      const cell = cellStresses(m, u, D);
+      return { cell, node: atNodes ? vertexStresses(m, cell, cellAreas(m)) : null };
+    }
+    const field = this.cells2.field(u);
+    return { cell: centroidStresses2(field, D), node: atNodes ? nodeStresses2(this.node, field, D) : null };
+  }
+
+  /**
+   * The equations of the work mesh as it is; throws RunStopped above maxDofs. With `order2`
+   * the System is of second order on the node mesh (vem/dofs2.ts), driven as order2.drivenOn
+   * selects on it, with Simpson face pairs (interface2.ts).
+   */
   constructor(wm: WorkMesh, cracks: readonly Crack[], driven: Driven, D: Float64Array, thickness: number,
-    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache) {
+    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache, order2?: { drivenOn: (nm: NodeMesh) => Driven }) {
     const cp = wm.toPolyMesh();
     this.compact = cp;
     const co = cp.compactOf;
-    const nd = 2 * cp.vertexOf.length;
+    const nm = order2 ? nodeMesh(cp.mesh) : null;
+    const nd = nm ? nm.mesh.xy.length : 2 * cp.vertexOf.length;
     if (maxDofs && nd > maxDofs) throw new RunStopped(`the mesh grew to ${nd} dofs, above the limit of ${maxDofs}`);
-    const dd = compactDriven(driven, co);
-    const { geom, plus } = pairGeometry(wm, cracks, co, thickness);
+    const { geom, plus } = nm ? pairGeometry2(wm, cracks, co, thickness, nm) : pairGeometry(wm, cracks, co, thickness);
     this.pairPlus = plus;
     this.pairOf = new Map(plus.map((v, i) => [v, i]));
-    this.sys = new System(cp.mesh, D, thickness, geom, dd, elements ? { cache: elements, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined);
+    if (nm && order2) {
+      const cells = new Order2Cells(nm, D, thickness), nn = nm.mesh.xy.length >> 1, id = new Int32Array(nn);
+      for (let i = 0; i < nn; i++) id[i] = i;
+      this.node = nm; this.cells2 = cells;
+      this.sys = new System(nm.mesh, D, thickness, geom, compactDriven(order2.drivenOn(nm), id), (k, Ke) => cells.stiffness(k, Ke));
+    } else {
+      this.sys = new System(cp.mesh, D, thickness, geom, compactDriven(driven, co), undefined, elements ? { cache: elements, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined);
+    }
     this.work = new NewtonWork(this.sys);
     this.uf = new Float64Array(this.sys.nFree);
     this.gather(uw);
@@ -44,16 +77,29 @@ export class Equations {
     this.kapTrial = this.kap.slice();
   }
 
-  get dofs(): number { return 2 * this.compact.vertexOf.length; }
+  get dofs(): number { return this.sys.nDof; }
 
   /** uf from the displacements on stable ids. */
-  gather(uw: Float64Array): void {
-    const fd = this.sys.freeDofs, vo = this.compact.vertexOf, uf = this.uf;
-    for (let i = 0; i < fd.length; i++) uf[i] = uw[2 * vo[fd[i] >> 1] + (fd[i] & 1)];
+  gather(uw: Float64Array): void { this.gatherInto(uw, this.uf); }
+
+  /**
+   * Free values from displacements on stable ids, into uf. Order 2 keeps only the vertex values
+   * between topologies: a midpoint starts from the mean of its edge's ends (the bulk is linear,
+   * so Newton's first iteration puts it right).
+   */
+  gatherInto(uw: Float64Array, uf: Float64Array): void {
+    const fd = this.sys.freeDofs, vo = this.compact.vertexOf, nv = vo.length, L = this.node?.layout;
+    for (let i = 0; i < fd.length; i++) {
+      const n = fd[i] >> 1, c = fd[i] & 1;
+      if (n < nv || !L) { uf[i] = uw[2 * vo[n] + c]; continue; }
+      const a = L.edgeVerts[2 * (n - nv)], b = L.edgeVerts[2 * (n - nv) + 1];
+      uf[i] = 0.5 * (uw[2 * vo[a] + c] + uw[2 * vo[b] + c]);
+    }
   }
 
   /** The last evaluated displacement (work.u) onto the stable ids. */
   scatter(uw: Float64Array): void {
+    // order 2: the vertex nodes come first, with their compact ids
     const u = this.work.u, vo = this.compact.vertexOf;
     for (let i = 0; i < vo.length; i++) { uw[2 * vo[i]] = u[2 * i]; uw[2 * vo[i] + 1] = u[2 * i + 1]; }
   }

@@ -4,7 +4,7 @@
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
-import { cellAreas, cellStresses } from '../vem/stress.js';
+import { cellAreas } from '../vem/stress.js';
 import { boundaryVertices } from '../solver/driven.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
@@ -33,7 +33,7 @@ export interface GrowthRoom {
 /** Cell stresses, areas and centroids of the last evaluated state, for the tip checks. */
 export function fields(g: GrowthRoom): { m: PolyMesh; stress: Float64Array; areas: Float64Array; cent: Float64Array } {
   const m = g.eq.sys.mesh;
-  const stress = cellStresses(m, g.eq.work.u, g.D);
+  const stress = g.eq.stresses(g.D).cell;
   const areas = cellAreas(m);
   return { m, stress, areas, cent: centroidsOf(g.wm, m, g.eq.compact.cellOf) };
 }

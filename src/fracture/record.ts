@@ -3,7 +3,6 @@
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
-import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
 import { RunStopped } from '../errors.js';
 import { readDofs, type VertexDof } from '../solver/driven.js';
 import type { WorkMesh } from './workmesh.js';
@@ -113,8 +112,7 @@ export function recordStep(r: RecordRoom, step: number, control: number): StepEv
   }
   s.rows.push(row);
   const m = sys.mesh, u = eq.work.u.slice();
-  const cs = cellStresses(m, u, r.D);
-  const vs = vertexStresses(m, cs, cellAreas(m));
+  const st = eq.stresses(r.D, true), cs = st.cell, vs = st.node!;
   const probes: ProbeRow[] = c.probes.map((p, i) => {
     const v = eq.compact.compactOf[r.probeVerts[i]];
     const sxx = vs[3 * v], syy = vs[3 * v + 1], sxy = vs[3 * v + 2];

@@ -5,7 +5,7 @@
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CaseModel } from '../case/model.js';
 import type { WorkMesh } from './workmesh.js';
-import { PER_SQRT_M, SifWork, mtsKink, tipFactors, type Elastic, type FaceData } from './sif.js';
+import { PER_SQRT_M, SifWork, mtsKink, tipFactors, type Elastic, type FaceData, type TipFrame, type TipResult } from './sif.js';
 
 /**
  * Tractions on the crack faces for the face term of the interaction integral: for a face vertex
@@ -121,10 +121,12 @@ function room(wm: WorkMesh, m: PolyMesh, vertexOf: Int32Array, c: CaseModel, cra
  * K_I, K_II and the MTS direction at every tip. m, vertexOf, compactOf: the compact mesh of the
  * current state; u its displacements (2 per compact vertex). A domain smaller than two tip
  * cells gives no K; so does a crack for which withK is false (its end is listed all the same).
+ * factors: K at one tip within radius R (default: the order-1 interaction integral on cp.mesh and u).
  */
 export function measureTips(
   wm: WorkMesh, cracks: CrackLine[], cp: { mesh: PolyMesh; vertexOf: Int32Array; compactOf: Int32Array },
   u: Float64Array, el: Elastic, c: CaseModel, withK: (crack: number) => boolean = () => true, traction?: FaceTraction,
+  factors?: (tip: TipFrame, R: number, work: SifWork) => TipResult,
 ): TipMeasure[] {
   const ends = crackEnds(cracks);
   if (ends.length === 0) return [];
@@ -142,7 +144,7 @@ export function measureTips(
     const R = room(wm, cp.mesh, cp.vertexOf, c, cracks, e.crack, e.v, e.back, dx, dy, cap);
     const base = { crack: e.crack, end: e.end, v: e.v, x, y, dx, dy, R };
     if (!(R >= 2 * c.mesh.tipSize)) return { ...base, KI: null, KII: null, spread: null, kink: null };
-    const f = tipFactors(cp.mesh, u, el, { x, y, dx, dy }, R, work, faces);
+    const f = factors ? factors({ x, y, dx, dy }, R, work) : tipFactors(cp.mesh, u, el, { x, y, dx, dy }, R, work, faces);
     // an unloaded tip has no direction to take
     const kink = f.KI === 0 && f.KII === 0 ? null : Math.atan2(dy, dx) + mtsKink(f.KI, f.KII);
     return { ...base, KI: f.KI, KII: f.KII, spread: f.spread, kink };

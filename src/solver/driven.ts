@@ -99,7 +99,7 @@ function pick(m: PolyMesh, on: Uint8Array, field: string, at: Vec2 | undefined, 
  * corners and holes alike), with each one's share of the strip's length (half of each strip
  * edge it ends).
  */
-function alongBoundary(m: PolyMesh, v0: number, r: number): { pts: number[]; len: number[] } {
+function alongBoundary(m: PolyMesh, v0: number, r: number, mid?: Uint8Array): { pts: number[]; len: number[] } {
   const nv = m.xy.length >> 1, next = new Int32Array(nv).fill(-1), prev = new Int32Array(nv).fill(-1);
   const edges = new Set<number>();
   const { cellStart, cellVerts } = m;
@@ -123,30 +123,37 @@ function alongBoundary(m: PolyMesh, v0: number, r: number): { pts: number[]; len
       const e = Math.hypot(m.xy[2 * w] - m.xy[2 * v], m.xy[2 * w + 1] - m.xy[2 * v + 1]);
       d += e;
       if (d > r || out.includes(w)) break;
-      len[out.indexOf(v)] += e / 2;
-      out.push(w); len.push(e / 2);
+      len[out.indexOf(v)] += e * share(v, mid);
+      out.push(w); len.push(e * share(w, mid));
       v = w;
     }
   }
   return { pts: out, len };
 }
 
+/**
+ * A node's share of a boundary segment it ends: half of it (trapezoid) on an order-1 mesh; on
+ * an order-2 node mesh, whose segments are half edges, ⅓ at a vertex and ⅔ at a midpoint, so a
+ * whole edge gives Simpson's 1/6, 4/6, 1/6 (the consistent loads of a quadratic edge).
+ */
+const share = (v: number, mid: Uint8Array | undefined): number => (mid ? (mid[v] ? 2 / 3 : 1 / 3) : 1 / 2);
+
 /** A load's strip points with their lengths along the boundary (pressure platens). */
-function stripLengths(m: PolyMesh, on: Uint8Array, l: Load, tol: number): { pts: number[]; len: number[] } {
+function stripLengths(m: PolyMesh, on: Uint8Array, l: Load, tol: number, mid?: Uint8Array): { pts: number[]; len: number[] } {
   const near = nearestBoundary(m, on, l.at!);
-  return alongBoundary(m, near.v, l.width / 2 + tol);
+  return alongBoundary(m, near.v, l.width / 2 + tol, mid);
 }
 
 /**
  * Loads as the spreader sees them: a pressure strip becomes one load per point, each with
  * the share of the strip's force its length along the boundary gives (uniform pressure).
  */
-function spreadLoads(c: CaseModel, m: PolyMesh, on: Uint8Array, tol: number, which: number[]): { loads: (Load & { of: number })[]; pts: number[][] } {
+function spreadLoads(c: CaseModel, m: PolyMesh, on: Uint8Array, tol: number, which: number[], mid?: Uint8Array): { loads: (Load & { of: number })[]; pts: number[][] } {
   const loads: (Load & { of: number })[] = [], pts: number[][] = [];
   for (const i of which) {
     const l = c.loads[i];
     if (l.platen === 'pressure' && l.at && l.width > 0) {
-      const s = stripLengths(m, on, l, tol), total = s.len.reduce((a, b) => a + b, 0);
+      const s = stripLengths(m, on, l, tol, mid), total = s.len.reduce((a, b) => a + b, 0);
       s.pts.forEach((v, k) => {
         loads.push({ at: [m.xy[2 * v], m.xy[2 * v + 1]], width: 0, direction: l.direction, share: (l.share ?? 1) * s.len[k] / total, of: i });
         pts.push([v]);
@@ -212,7 +219,8 @@ function inward(m: PolyMesh, v: number, comp: 0 | 1): number {
   return sum >= 0 ? 1 : -1;
 }
 
-export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
+/** mid: on an order-2 node mesh (vem/dofs2.ts), 1 for the edge-midpoint nodes. */
+export function selectDriven(c: CaseModel, m: PolyMesh, tol: number, mid?: Uint8Array): Driven {
   const on = boundaryVertices(m);
   const fixed: StripDof[] = [], load: StripDof[] = [], slaves: (SlaveDof & { strip?: number })[] = [], strips: BearingStrip[] = [];
   /** A strip of points bearing along comp: its holds go in as made by stripHolds with every point in contact. */
@@ -246,7 +254,7 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number): Driven {
     }
   });
   const spread = (which: number[], wedge = false) => {
-    const { loads, pts } = spreadLoads(c, m, on, tol, which);
+    const { loads, pts } = spreadLoads(c, m, on, tol, which, mid);
     // a wedge: each face takes the machine's force (the splitting force) and λ is the opening at the load line
     if (wedge) for (const l of loads) l.share = (l.share ?? 1);
     const sp = spreaderSlaves(loads, pts, m, tol, !wedge);

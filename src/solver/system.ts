@@ -39,6 +39,12 @@ export class ElementCache {
 /** Where a System finds and keeps element matrices: the cache, each cell's key and each vertex's stable id. */
 export interface ElementReuse { cache: ElementCache; cellKey: Int32Array; vertexId: Int32Array }
 
+/**
+ * Stiffness block of cell c, (2n)² values for its n vertices in cell order, into Ke; absent: the
+ * first-order element. Order 2 passes its condensed cells on the node mesh (vem/dofs2.ts).
+ */
+export type CellStiffness = (c: number, Ke: Float64Array) => void;
+
 export class System {
   readonly nDof: number;
   readonly nFree: number;
@@ -63,7 +69,7 @@ export class System {
   readonly m4 = new Float64Array(4);
   readonly zLoad: Float64Array;
 
-  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs, reuse?: ElementReuse) {
+  constructor(readonly mesh: PolyMesh, D: Float64Array, t: number, readonly pairs: PairGeom, readonly driven: DrivenDofs, cells?: CellStiffness, reuse?: ElementReuse) {
     const nv = mesh.xy.length >> 1, nc = mesh.cellStart.length - 1, np = pairs.plus.length;
     this.nDof = 2 * nv;
     this.nCellBlocks = nc;
@@ -94,7 +100,8 @@ export class System {
       const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
       const o = off[c];
       let K: Float64Array = Ke;
-      if (reuse) {
+      if (cells) cells(c, Ke);
+      else if (reuse) {
         const key = reuse.cellKey[c], hit = reuse.cache.entries.get(key);
         if (hit && sameCell(hit, mesh, reuse.vertexId, s, e)) {
           for (let k = 0; k < m * m; k++) vals[map[o + k]] += hit.Ke[k];

@@ -4,7 +4,7 @@ import type { Vec2 } from '../case/model.js';
 import {
   criticalOpening, materialOf, meshFor, mouthTarget, niceDown, nominalStrength, num, optionLine, pt, q, sig2, str, travelTarget, type MeshChoice,
 } from './common.js';
-import { fmt, length, materialOption, meshOptions, need, softeningOption, titleOption, withDefaults } from './options.js';
+import { fmt, length, materialOption, meshOptions, need, softeningOption, titleOption, withDefaults, orderOf } from './options.js';
 import type { Template, TemplateOption, Values } from './types.js';
 import { caseText, meshNote, type CaseSpec, type LoadSpec, type SupportSpec } from './write.js';
 
@@ -180,7 +180,7 @@ function lefmMesh(tpl: string, v: Values, D: number): MeshChoice {
   need(tpl, 'mesh-size', size, 0, D / 2, 'mm', `for a depth of ${fmt(D)} mm`);
   const tipSize = v['tip-size'] === 'auto' ? q(D / 80) : num(v, 'tip-size');
   need(tpl, 'tip-size', tipSize, 0, size, 'mm', `for a mesh-size of ${fmt(size)} mm`);
-  return { size, tipSize, refineRadius: q(10 * tipSize), growthStep: q(2 * tipSize), averagingRadius: q(3 * tipSize) };
+  return { size, tipSize, refineRadius: q(10 * tipSize), growthStep: q(2 * tipSize), averagingRadius: q(3 * tipSize), order: orderOf(v) };
 }
 
 export const beam3pb = beamTemplate('beam-3pb', '3pb',

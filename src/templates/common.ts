@@ -2,7 +2,7 @@
 // the material, and control targets that reach well into the softening branch.
 import type { Vec2 } from '../case/model.js';
 import { charLength, materialNamed, type MaterialPreset } from './materials.js';
-import { fmt, need } from './options.js';
+import { fmt, need, orderOf } from './options.js';
 import type { Values } from './types.js';
 
 /** Coordinates rounded to 1e-6 mm, so the written text and the checks see the same numbers. */
@@ -57,7 +57,11 @@ export function travelTarget(m: MaterialChoice, elastic: number): number {
   return sig2(6 * criticalOpening(m) + 10 * elastic);
 }
 
-export interface MeshChoice { size: number; tipSize: number; refineRadius: number; growthStep: number; averagingRadius: number }
+export interface MeshChoice {
+  size: number; tipSize: number; refineRadius: number; growthStep: number; averagingRadius: number;
+  /** Element order (--order). */
+  order?: 1 | 2;
+}
 
 /**
  * Cell sizes: `auto` takes autoSize far away and, near tips, autoTip or l_ch / 8 when the
@@ -69,10 +73,11 @@ export function meshFor(tpl: string, v: Values, autoSize: number, autoTip: numbe
   const tipAuto = niceDown(Math.min(autoTip, charLength(m.preset) / 8, size));
   const tipSize = v['tip-size'] === 'auto' ? tipAuto : num(v, 'tip-size');
   need(tpl, 'tip-size', tipSize, 0, size, 'mm', `for a mesh-size of ${fmt(size)} mm`);
-  return { size, tipSize, refineRadius: q(10 * tipSize), growthStep: q(2 * tipSize), averagingRadius: q(3 * tipSize) };
+  return { size, tipSize, refineRadius: q(10 * tipSize), growthStep: q(2 * tipSize), averagingRadius: q(3 * tipSize), order: orderOf(v) };
 }
 
 /** The option line written into the header of a case, for re-running the template. */
 export function optionLine(v: Values): string {
-  return Object.entries(v).map(([k, x]) => `--${k} ${typeof x === 'string' && /\s/.test(x) ? JSON.stringify(x) : x}`).join(' ');
+  // order 1 is the default of the case too: the header names --order only when it is 2
+  return Object.entries(v).filter(([k, x]) => !(k === 'order' && x === '1')).map(([k, x]) => `--${k} ${typeof x === 'string' && /\s/.test(x) ? JSON.stringify(x) : x}`).join(' ');
 }

@@ -88,6 +88,10 @@ export const softeningOption: TemplateOption = {
 export const meshOptions: TemplateOption[] = [
   { name: 'mesh-size', unit: 'mm', default: 'auto', min: 0.001, max: 100000, help: 'cell size far from the crack' },
   { name: 'tip-size', unit: 'mm', default: 'auto', min: 0.0001, max: 100000, help: 'cell size near notch and crack tips' },
+  { name: 'order', unit: '', default: '1', choices: ['1', '2'], help: 'virtual element order (2: quadratic; the brittle-mode templates then write an elastic case)' },
 ];
+
+/** The element order chosen by --order (absent: 1). */
+export const orderOf = (v: Values): 1 | 2 => (v.order === '2' ? 2 : 1);
 
 export const titleOption = (def: string): TemplateOption => ({ name: 'title', unit: '', default: def, help: 'title of the case' });

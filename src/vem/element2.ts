@@ -279,3 +279,18 @@ export function displacement2(coef: Float64Array | number[], xi: number, eta: nu
   }
   out[0] = ux; out[1] = uy;
 }
+
+/** Displacement gradient [∂ux/∂x, ∂ux/∂y, ∂uy/∂x, ∂uy/∂y] of Πu at the scaled point (ξ, η), from coef[o … o+11] (rotation included). */
+export function gradientAt2(coef: Float64Array, o: number, h: number, xi: number, eta: number, out: Float64Array | number[]): void {
+  let a = 0, b = 0, c = 0, d = 0;
+  for (let j = 0; j < NB; j++) {
+    const k = coef[o + j];
+    if (k === 0) continue;
+    const x = 12 * j, y = x + 6;
+    a += k * (BASIS[x + 1] + 2 * BASIS[x + 3] * xi + BASIS[x + 4] * eta);
+    b += k * (BASIS[x + 2] + BASIS[x + 4] * xi + 2 * BASIS[x + 5] * eta);
+    c += k * (BASIS[y + 1] + 2 * BASIS[y + 3] * xi + BASIS[y + 4] * eta);
+    d += k * (BASIS[y + 2] + BASIS[y + 4] * xi + 2 * BASIS[y + 5] * eta);
+  }
+  out[0] = a / h; out[1] = b / h; out[2] = c / h; out[3] = d / h;
+}

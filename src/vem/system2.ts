@@ -137,7 +137,7 @@ export function solveOrder2(
  * (f0, f1): Kc = Kbb − Kbi Kii⁻¹ Kib, fc = −Kbi Kii⁻¹ fi (the body force acts only on the mean).
  * rec[o …] receives Kii⁻¹ fi (2) then the two rows of Kii⁻¹ Kib, to recover the mean.
  */
-function condense(Ke: Float64Array, nd: number, f0: number, f1: number, Kc: Float64Array, fc: Float64Array, rec: Float64Array, o: number): void {
+export function condense(Ke: Float64Array, nd: number, f0: number, f1: number, Kc: Float64Array, fc: Float64Array, rec: Float64Array, o: number): void {
   const nb = nd - 2;
   const k00 = Ke[nb * nd + nb], k01 = Ke[nb * nd + nb + 1], k11 = Ke[(nb + 1) * nd + nb + 1], idet = 1 / (k00 * k11 - k01 * k01);
   const i00 = k11 * idet, i01 = -k01 * idet, i11 = k00 * idet;
