@@ -157,7 +157,7 @@ export class Analysis {
     return this.eq;
   }
 
-  private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt, rig: this.rig, holes: this.holes }; }
+  private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt, rig: this.c.mesh.order === 2 ? [] : this.rig, holes: this.holes }; }
 
   private newtonOptions(kind: ControlKind, target: number): NewtonOptions {
     const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);

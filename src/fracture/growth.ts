@@ -291,10 +291,11 @@ export function grow(g: GrowthRoom): number {
     // it); the compressed zone in front of it is ligament like the rest, its faces in contact.
     // Passing beside the rig, it stops a tip cell short of it.
     const room = contactRoom(c, tx, ty);
-    let len = crack.growthStep;
+    let len = crack.growthStep, atRig = false;
     if (room < crack.growthStep + c.mesh.tipSize) {
       const aim = rigAim(c, wm, g.rig ?? [], tx, ty, gx, gy, crack.growthStep + 2 * c.mesh.tipSize + maxWidth(c), c.mesh.tipSize);
       if (aim >= 0) {
+        atRig = true;
         len = Math.hypot(wm.x[aim] - tx, wm.y[aim] - ty);
         gx = (wm.x[aim] - tx) / len; gy = (wm.y[aim] - ty) / len;
       } else {
@@ -331,7 +332,7 @@ export function grow(g: GrowthRoom): number {
     if (through) {
       t.active = false;
       const h = cut.end === 'boundary' ? ringAt(g.holes, wm.x[end], wm.y[end], 1e-3 * c.mesh.tipSize) : -1;
-      t.end = cut.end === 'crack' ? 'crack' : h >= 0 ? 'hole' : 'outline';
+      t.end = cut.end === 'crack' ? 'crack' : h >= 0 ? 'hole' : atRig ? 'contact' : 'outline';
       if (h >= 0) {
         t.hole = h;
         // the rim of the hole at the tip size, so that its stress is resolved where a crack may start again
