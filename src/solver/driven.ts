@@ -233,7 +233,7 @@ export function selectDriven(c: CaseModel, m: PolyMesh, tol: number, mid?: Uint8
   const seen = new Map<number, string>();
   const claim = (v: number, comp: number, who: string, what: string) => {
     const other = seen.get(2 * v + comp);
-    if (other) throw new InputError(`${who} acts on a point that ${other} already holds in the same direction; move the ${what} or the support`);
+    if (other) throw new InputError(`${who} acts on a point that ${other} already holds in the same direction; ${what === 'support' ? 'move one of the two supports' : `move the ${what} or the support`}`);
     seen.set(2 * v + comp, who);
   };
   c.supports.forEach((s, i) => {
