@@ -84,7 +84,7 @@ describe('crack insertion in the work mesh', () => {
     expect(a.minArea).toBeGreaterThan(0);
     expect(a.open.length).toBeGreaterThanOrEqual(32); // only the outline is open
     for (const [p, q] of a.open) expect([wm.x[p], wm.y[p], wm.x[q], wm.y[q]].some((v) => v === 0 || v === 32)).toBe(true);
-    const merged = coarsenAway(wm, [[100, 100]], 10);
+    const merged = coarsenAway(wm, [[100, 100, 100, 100]], 10);
     expect(merged).toBeGreaterThan(0);
     a = audit(wm);
     expect(a.area).toBeCloseTo(32 * 32, 9);

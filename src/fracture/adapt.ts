@@ -4,6 +4,7 @@
 // collinear vertices, which the virtual element method accepts as they are. Children
 // remember their family, so far from the tips a family is merged back into its parent.
 import type { WorkMesh } from './workmesh.js';
+import { segDist2 } from '../geometry/rings.js';
 
 /** Cell size as the spacing of a regular hexagonal tiling with the same cell area. */
 export const cellSize = (area: number): number => Math.sqrt(area * 1.1547);
@@ -63,6 +64,14 @@ export function refineCell(wm: WorkMesh, c: number): boolean {
 
 /** Refine cells near (cx, cy) until they are about `size` across; returns the number of cells split. */
 export function refineAround(wm: WorkMesh, cx: number, cy: number, radius: number, size: number, maxRounds = 6): number {
+  return refineAlong(wm, cx, cy, cx, cy, radius, size, maxRounds);
+}
+
+/**
+ * Refine cells within `radius` of the segment a–b until they are about `size` across, leaving
+ * the cells `frozen` says as they are; returns the number of cells split.
+ */
+export function refineAlong(wm: WorkMesh, ax: number, ay: number, bx: number, by: number, radius: number, size: number, maxRounds = 6, frozen?: (c: number) => boolean): number {
   let total = 0;
   for (let round = 0; round < maxRounds; round++) {
     const todo: number[] = [];
@@ -70,8 +79,9 @@ export function refineAround(wm: WorkMesh, cx: number, cy: number, radius: numbe
       if (!vs || wm.cracked[c]) return;
       const a = wm.area(c), h = cellSize(a);
       if (h < 1.5 * size) return;
+      if (frozen && frozen(c)) return;
       const [gx, gy] = wm.centroid(c);
-      if (Math.hypot(gx - cx, gy - cy) - 0.5 * h < radius) todo.push(c);
+      if (Math.sqrt(segDist2(gx, gy, ax, ay, bx, by)) - 0.5 * h < radius) todo.push(c);
     });
     let done = 0;
     for (const c of todo) if (wm.cells[c] && refineCell(wm, c)) done++;
@@ -131,8 +141,11 @@ function pruneIfCollinear(wm: WorkMesh, v: number): void {
   for (const c of cs) { const vs = wm.cells[c]!.slice(); vs.splice(vs.indexOf(v), 1); wm.setCell(c, vs); }
 }
 
-/** Merge families whose cells are all farther than `radius` from every tip; returns merges done. */
-export function coarsenAway(wm: WorkMesh, tips: [number, number][], radius: number): number {
+/**
+ * Merge families whose cells are all farther than `radius` from every kept segment
+ * [ax, ay, bx, by] (a point: both ends the same) and none of them `frozen`; returns merges done.
+ */
+export function coarsenAway(wm: WorkMesh, keep: [number, number, number, number][], radius: number, frozen?: (c: number) => boolean): number {
   let total = 0;
   for (let round = 0; round < 8; round++) {
     let done = 0;
@@ -141,9 +154,9 @@ export function coarsenAway(wm: WorkMesh, tips: [number, number][], radius: numb
       if (!fam.open) continue;
       let far = true;
       for (const ch of fam.children) {
-        if (!wm.cells[ch]) { far = false; break; }
+        if (!wm.cells[ch] || (frozen && frozen(ch))) { far = false; break; }
         const [gx, gy] = wm.centroid(ch);
-        for (const t of tips) if (Math.hypot(gx - t[0], gy - t[1]) < radius) { far = false; break; }
+        for (const t of keep) if (segDist2(gx, gy, t[0], t[1], t[2], t[3]) < radius * radius) { far = false; break; }
         if (!far) break;
       }
       if (far && mergeFamily(wm, f)) done++;

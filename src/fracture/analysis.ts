@@ -15,7 +15,7 @@ import { RunStopped } from '../errors.js';
 import type { NodeMesh } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
-import { buildDomain } from '../geometry/domain.js';
+import { buildDomain, type Domain } from '../geometry/domain.js';
 import { strengthOf } from '../study/field.js';
 import { softeningJump, overshootLimit } from './criterion.js';
 import { Equations } from './equations.js';
@@ -92,13 +92,15 @@ export class Analysis {
   private resumeAt: LoopState | null = null;
   /** Rings of the domain's holes: a crack that reaches one joins it. */
   private readonly holes: Float64Array[];
+  private readonly domain: Domain;
 
   constructor(readonly c: CaseModel, initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
     this.wm = WorkMesh.fromPolyMesh(initial);
     for (let v = 0; v < this.wm.vertexCount; v++) this.wm.pinned[v] = 1;
     this.D = elasticMatrix(c.material.E, c.material.nu, c.model);
     this.ftAt = strengthOf(c);
-    this.holes = buildDomain(c).holes;
+    this.domain = buildDomain(c);
+    this.holes = this.domain.holes;
     this.coh = { law: makeLaw(c.material.softening, c.material.ft, c.material.GF), penalty: penaltyFor(c.material.E, c.mesh.tipSize), beta: c.material.shearWeight };
     const ext = extent(initial);
     this.tol = 1e-6 * ext;
@@ -157,7 +159,7 @@ export class Analysis {
     return this.eq;
   }
 
-  private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt, rig: this.c.mesh.order === 2 ? [] : this.rig, holes: this.holes }; }
+  private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt, rig: this.c.mesh.order === 2 ? [] : this.rig, holes: this.holes, domain: this.domain }; }
 
   private newtonOptions(kind: ControlKind, target: number): NewtonOptions {
     const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);

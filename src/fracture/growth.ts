@@ -8,7 +8,8 @@ import { cellAreas } from '../vem/stress.js';
 import { boundaryVertices } from '../solver/driven.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
-import { refineAround, coarsenAway } from './adapt.js';
+import { refineAround, refineAlong, coarsenAway } from './adapt.js';
+import { segmentHitsBoundary, domainExtent, type Domain } from '../geometry/domain.js';
 import { weakestDirection } from '../study/field.js';
 import {
   tipStress, growthDirection, hoopDirection, faceKink, limitTurn, MAX_TURN,
@@ -28,6 +29,8 @@ export interface GrowthRoom {
   rig?: readonly number[];
   /** Rings of the domain's holes (flat xy), for cracks that reach a hole and start again on its far side. */
   holes: readonly Float64Array[];
+  /** The specimen's domain: where the line ahead of a tip leaves it. */
+  domain: Domain;
 }
 
 /** Cell stresses, areas and centroids of the last evaluated state, for the tip checks. */
@@ -339,14 +342,50 @@ export function grow(g: GrowthRoom): number {
         const [hx, hy, hr] = ringCircle(g.holes[h]);
         refineAround(wm, hx, hy, hr + crack.averagingRadius, c.mesh.tipSize);
       }
-    } else refineAround(wm, wm.x[end], wm.y[end], c.mesh.refineRadius, c.mesh.tipSize);
+    } else {
+      const [ax, ay, bx, by] = ahead(g, t);
+      refineAlong(wm, ax, ay, bx, by, c.mesh.refineRadius, c.mesh.tipSize, undefined, rigZone(g));
+    }
     grown++;
   }
   if (grown > 0) {
-    const at = s.tips.filter((t) => t.active).map((t) => [wm.x[t.v], wm.y[t.v]] as [number, number]);
-    if (c.mesh.coarsen && at.length > 0) coarsenAway(wm, at, 2 * c.mesh.refineRadius + 2 * c.mesh.size);
+    const at = s.tips.filter((t) => t.active).map((t) => ahead(g, t));
+    if (c.mesh.coarsen && at.length > 0) coarsenAway(wm, at, 2 * c.mesh.refineRadius + 2 * c.mesh.size, rigZone(g));
   }
   return grown;
+}
+
+/**
+ * The stretch kept at the tip size ahead of a tip: from the tip along its direction to where
+ * that line leaves the specimen (order 1; order 2 keeps the disc around the tip, its growth runs
+ * costing ten times more per unknown). A mesh change moves the strain energy of the cells it
+ * touches, which no interface accounts for (the spaces before and after are not nested); laid
+ * out along the whole line before loading, a straight crack meets no change on its way.
+ */
+function ahead(g: GrowthRoom, t: Tip): [number, number, number, number] {
+  const x = g.wm.x[t.v], y = g.wm.y[t.v];
+  if (g.c.mesh.order === 2 || (t.dx === 0 && t.dy === 0)) return [x, y, x, y];
+  const L = 2 * domainExtent(g.domain);
+  const hit = segmentHitsBoundary(g.domain, x, y, x + L * t.dx, y + L * t.dy);
+  return hit ? [x, y, hit.x, hit.y] : [x, y, x + L * t.dx, y + L * t.dy];
+}
+
+/**
+ * Once loading has begun, the cells around the rig's points (two layers) are neither refined
+ * nor merged: bearing stresses put much of the strain energy there, and remeshing them moved
+ * up to half of it in one growth. Before loading they refine like the rest.
+ */
+function rigZone(g: GrowthRoom): ((c: number) => boolean) | undefined {
+  const { wm, s, rig } = g;
+  if (s.rows.length === 0 || !rig || rig.length === 0) return undefined;
+  const cells = new Set<number>();
+  let verts: Iterable<number> = rig;
+  for (let layer = 0; layer < 2; layer++) {
+    const next = new Set<number>();
+    for (const v of verts) for (const c of wm.cellsOf(v)) { if (!cells.has(c)) { cells.add(c); for (const u of wm.cells[c]!) next.add(u); } }
+    verts = next;
+  }
+  return (c) => cells.has(c);
 }
 
 /** K_I, K_II and the MTS direction at every slit and crack end of the last evaluated state. */

@@ -252,7 +252,7 @@ export class LefmAnalysis {
         if (through) { reason = 'a crack has run through the specimen, which has come apart'; break; }
         if (grown === 0) { reason = 'no crack tip can grow further (a tip reached a load or support)'; break; }
         const at = this.measureFree();
-        if (c.mesh.coarsen && at.length > 0) coarsenAway(this.wm, at, 2 * c.mesh.refineRadius + 2 * c.mesh.size);
+        if (c.mesh.coarsen && at.length > 0) coarsenAway(this.wm, at.map(([x, y]) => [x, y, x, y]), 2 * c.mesh.refineRadius + 2 * c.mesh.size);
       }
       if (!reason) reason = `stopped after ${maxSteps} growth steps`;
     } catch (e) {
