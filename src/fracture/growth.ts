@@ -345,6 +345,9 @@ export function grow(g: GrowthRoom): number {
     } else {
       const [ax, ay, bx, by] = ahead(g, t);
       refineAlong(wm, ax, ay, bx, by, c.mesh.refineRadius, c.mesh.tipSize, undefined, rigZone(g));
+      // a hole on the line ahead before loading gets its rim refined now, not once the crack has reached it under load
+      const h = s.rows.length === 0 && (ax !== bx || ay !== by) ? ringAt(g.holes, bx, by, 1e-6 * domainExtent(g.domain)) : -1;
+      if (h >= 0) { const [hx, hy, hr] = ringCircle(g.holes[h]); refineAround(wm, hx, hy, hr + crack.averagingRadius, c.mesh.tipSize); }
     }
     grown++;
   }
