@@ -23,18 +23,20 @@ describe('notched beam in three-point bending', () => {
     }
   });
 
-  // Here the mesh is refined around the tip as it runs (12 mm cells, 3 mm tips): each
-  // refinement changes the discrete model a little (the virtual element spaces before and
-  // after are not nested, so it may stiffen or soften), and the re-solve at the same control
-  // level moves energy that no interface accounts for. Measured 1.5–3.0 % on these runs;
-  // the 1 % check below runs on a beam whose ligament is meshed at the tip size from the start.
-  it('energy balance on the adaptive coarse beam: within 4 % at every step (definition of GF)', () => {
+  // Here the mesh is refined as the crack runs (12 mm cells, 3 mm tips): each mesh change
+  // alters the discrete model (the virtual element spaces before and after are not nested)
+  // and the re-solve at the same control level moves strain energy no interface accounts
+  // for. The loop therefore refines the whole line ahead of a tip to the outline before
+  // loading and leaves the cells at the rig alone once loaded (growth.ts), so a straight
+  // crack meets no mesh change on its way. Measured 0.09–0.59 % on these runs (1.5–3.0 %
+  // with the disc around the tip alone); the check is the balance itself (definition of GF).
+  it('energy balance on the adaptive coarse beam: within 1 % at every step (definition of GF)', () => {
     for (const { res } of results) {
       const Wend = res.rows.at(-1)!.external_work_Nmm;
       for (const r of res.rows) {
         if (r.external_work_Nmm < 1e-3 * Wend) continue;
         const gap = r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm;
-        expect(Math.abs(gap) / r.external_work_Nmm, `step ${r.step} of a run with peak ${res.peak.load_N.toFixed(0)} N`).toBeLessThan(0.04);
+        expect(Math.abs(gap) / r.external_work_Nmm, `step ${r.step} of a run with peak ${res.peak.load_N.toFixed(0)} N`).toBeLessThan(0.01);
       }
     }
   });

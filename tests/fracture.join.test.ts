@@ -49,8 +49,9 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
       expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
       expect(pk.later).toBeNull();
       expect(runWarnings(c, res, null)).toEqual([]);
-      // the band of the adaptive coarse beam (tests/fracture.beam.test.ts): refinement moves some energy
-      expect(worstGap(res)).toBeLessThan(0.04);
+      // measured 1.50 % (notch tips) and 2.07 % (anywhere): the hole's rim is refined and the
+      // new crack beyond it starts under load, so those mesh changes move some strain energy
+      expect(worstGap(res)).toBeLessThan(0.025);
     }, 120_000);
   }
 });
