@@ -83,7 +83,7 @@ async function killAndResume(out: string, rows: number, how: How, delay: number,
   expect(r.stderr).not.toMatch(/\n\s+at /);
   if (how === 'SIGKILL') expect(r.signal).toBe('SIGKILL');
   else expect(r.code).toBe(3);
-  if (how === 'SIGINT' || how === 'SIGTERM') expect(r.stderr).toMatch(/the fit was interrupted: interrupted after \d+ simulations; the values are the best so far; go on with the same command and --resume/);
+  if (how === 'SIGINT' || how === 'SIGTERM') expect(r.stderr).toMatch(/the fit was interrupted: interrupted after \d+ simulations(; the values are the best so far|, after the optimum was found); go on with the same command and --resume/);
   // stopped well before its end: the checkpoint is there to go on from
   const ck = join(dir, out, 'fit-checkpoint.jsonl');
   expect(existsSync(ck)).toBe(true);

@@ -1,6 +1,8 @@
-// Calibration of E, ft and GF against a measured curve: physical estimates first (initial
-// compliance, peak load, work of fracture), then Nelder–Mead on log-parameters over full
-// simulations, run two at a time on worker threads.
+// Calibration of E, ft and GF against a measured curve. A cohesive fit of two or three
+// parameters searches l_ch = E·GF/ft² alone, each simulated curve taking its best exact
+// scaling without a run (fitscale.ts); otherwise physical estimates (initial compliance, peak
+// load, work of fracture), then Nelder–Mead on log-parameters over full simulations. Runs go
+// two at a time on worker threads.
 
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
@@ -516,7 +518,12 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       if (sh.f < (shapeBest?.f ?? Infinity)) shapeBest = sh;
       if (sh.f < best.f) best = { m: sh.m, f: sh.f };
     };
-    const run = async (ms: Mat[], phase: FitEvaluation['phase']): Promise<void> => { await evaluate(ms, phase); };
+    const scaleAll = onRun;
+    const run = async (ms: Mat[], phase: FitEvaluation['phase']): Promise<void> => {
+      const rs = await evaluate(ms, phase);
+      // runs taken from the cache (the compliance estimate's run of the case) are scaled here
+      ms.forEach((m, i) => { if (!shapes.has(keyOf(m))) scaleAll(m, rs[i]!); });
+    };
     // the case's own values first: their best scaling is the estimate
     await run([start], 'estimate');
     const first = shapes.get(keyOf(start))!;
