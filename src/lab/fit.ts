@@ -629,119 +629,119 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       }
       if (shapeSearch) await searchShapes();
       else {
-      let km = NaN;
-      if (params.includes('E')) {
-        const s = await elasticRun();
-        const ks = slope(s, xAxis === 'cmod' ? s.cmod : s.displacement);
-        km = initialStiffness(measured);
-        if (Number.isFinite(ks) && ks > 0 && km > 0) {
-          Object.assign(est, clamp({ ...est, E: start.E * (km / ks) }));
-          notes.push(`E from the initial compliance (load between 5 and 40 % of the peak, rising branch): measured ${km.toPrecision(4)} N/mm, elastic run ${ks.toPrecision(4)} N/mm at E = ${start.E.toPrecision(4)} MPa`);
-        } else notes.push('E: the initial slope could not be measured; kept from the case');
-      }
-
-      // GF from the work of fracture (load-point displacement only), then ft and GF by Broyden on (peak, work)
-      // a noisy gauge may start a little below zero, where a simulated curve has no points
-      const lo0 = Math.max(0, measured.x[0]!), hi0 = measured.x[measured.x.length - 1]!;
-      const Wm = areaOver(measured, lo0, hi0);
-      if (params.includes('GF') && xAxis === 'displacement' && A > 0) {
-        est.GF = clamp({ ...est, GF: rilemGF(workOfFracture(measured.x, measured.y), A) }).GF;
-        notes.push(`GF start from the work of fracture over the ligament (${A.toFixed(0)} mm²): ${est.GF.toPrecision(3)} N/mm`);
-      }
-      const sub = params.filter((p): p is 'ft' | 'GF' => p === 'ft' || p === 'GF');
-      if (sub.length > 0) {
-        let J: number[][] = sub.map((_, i) => sub.map((__, j) => (i === j ? 1 : 0))); // peak ∝ ft, work ∝ GF
-        let x = sub.map((p) => Math.log(est[p]));
-        let g: number[] | null = null, prevX = x;
-        for (let it = 0; it < 5; it++) {
-          const m: Mat = { ...est };
-          sub.forEach((p, i) => { m[p] = Math.exp(x[i]!); });
-          const [r] = await evaluate([clamp(m)], 'estimate');
-          const Ps = r!.curve.y.length ? r!.curve.y[peakIndex(r!.curve.y)]! : 0;
-          const Ws = r!.curve.x.length > 1 ? areaOver(r!.curve, lo0, hi0) : 0;
-          if (!(Ps > 0) || !(Ws > 0)) break;
-          const gn = sub.map((p) => (p === 'ft' ? Math.log(Ps / Pm) : Math.log(Ws / Wm)));
-          Object.assign(est, clamp(m));
-          // the model's rising branch bends before the peak as the faces at the notch take up
-          // load, so E follows the slope measured the same way on the simulated curve
-          const kr = params.includes('E') && km > 0 ? initialStiffness(r!.curve) : NaN;
-          const eStep = kr > 0 ? Math.log(km / kr) : 0;
-          if (kr > 0) Object.assign(est, clamp({ ...est, E: est.E * (km / kr) }));
-          if (gn.every((v) => Math.abs(v) < 0.005) && Math.abs(eStep) < 0.005) break;
-          if (g) {
-            // Broyden's update from the last step
-            const dx = x.map((v, i) => v - prevX[i]!), dg = gn.map((v, i) => v - g![i]!);
-            const dd = dx.reduce((s, v) => s + v * v, 0);
-            if (dd > 0) J = J.map((row, i) => row.map((v, j) => v + ((dg[i]! - row.reduce((s, a, k) => s + a * dx[k]!, 0)) * dx[j]!) / dd));
-          }
-          const step = solve(J, gn.map((v) => -v));
-          if (!step) break;
-          const big = Math.max(...step.map(Math.abs));
-          const scale = big > Math.log(1.5) ? Math.log(1.5) / big : 1;
-          prevX = x;
-          g = gn;
-          x = x.map((v, i) => v + scale * step[i]!);
+        let km = NaN;
+        if (params.includes('E')) {
+          const s = await elasticRun();
+          const ks = slope(s, xAxis === 'cmod' ? s.cmod : s.displacement);
+          km = initialStiffness(measured);
+          if (Number.isFinite(ks) && ks > 0 && km > 0) {
+            Object.assign(est, clamp({ ...est, E: start.E * (km / ks) }));
+            notes.push(`E from the initial compliance (load between 5 and 40 % of the peak, rising branch): measured ${km.toPrecision(4)} N/mm, elastic run ${ks.toPrecision(4)} N/mm at E = ${start.E.toPrecision(4)} MPa`);
+          } else notes.push('E: the initial slope could not be measured; kept from the case');
         }
-        notes.push(`ft${sub.includes('GF') ? ' and GF' : ''} from the peak load ${Pm.toFixed(1)} N${sub.includes('GF') ? ` and the work ${Wm.toPrecision(4)} N·mm under the measured curve` : ''}${params.includes('E') && km > 0 ? ', E from the slope between 5 and 40 % of the peak on the simulated curves' : ''} (${history.filter((h) => h.phase === 'estimate').length} runs)`);
-      }
 
-      // Nelder–Mead on log-parameters from the best point so far
-      const [e0] = await evaluate([est], 'estimate');
-      let best0 = { m: est, f: e0!.f };
-      for (const h of history) if (h.phase !== 'elastic' && h.objective < best0.f) best0 = { m: { E: h.E, ft: h.ft, GF: h.GF }, f: h.objective };
-      const x0 = params.map((p) => Math.log(best0.m[p]));
-      const simplex: { x: number[]; f: number }[] = [{ x: x0, f: NaN }];
-      for (let j = 0; j < params.length; j++) simplex.push({ x: x0.map((v, i) => (i === j ? v + 0.05 : v)), f: NaN });
-      // the case's own values ride along for the report
-      const fs = await evaluate([...simplex.map((s) => toMat(s.x)), start], 'simplex');
-      simplex.forEach((s, i) => { s.f = fs[i]!.f; });
-      const n = params.length;
-      const at = (c0: number[], w: number[], t: number) => c0.map((v, i) => v + t * (v - w[i]!));
-      let lastGood = true; // the last move went outward: speculate an expansion, else a contraction
-      const sortS = () => simplex.sort((a, b) => a.f - b.f);
-      try {
-        for (;;) {
-          sortS();
-          const fb = simplex[0]!.f, fw = simplex[n]!.f, fsw = simplex[n - 1]!.f;
-          const size = Math.max(...simplex.slice(1).map((s) => Math.max(...s.x.map((v, i) => Math.abs(v - simplex[0]!.x[i]!)))));
-          if (size < 0.003 && fw - fb < 0.01 * fb + 1e-6) break;
-          // a noisy objective (growth events are discrete) keeps a small simplex wandering: closed
-          // once it is within 3 % and the best has improved by under 2 % of itself over the last 6n simulations
-          const back = history.length - 1 - 6 * n;
-          if (size < 0.03 && back >= 0 && history[back]!.best - fb < 0.02 * fb) break;
-          const cen = params.map((_, i) => simplex.slice(0, n).reduce((s, v) => s + v.x[i]!, 0) / n);
-          const w = simplex[n]!.x;
-          const xr = at(cen, w, 1), xe = at(cen, w, 2), xi = at(cen, w, -0.5);
-          // a speculative second candidate only while the budget has room for it
-          const spec = nWorkers > 1 && maxEvals - sims >= 2 ? [lastGood ? xe : xi] : [];
-          const [rr, rs] = await evaluate([xr, ...spec].map(toMat), 'simplex');
-          const fr = rr!.f;
-          const known = (x: number[]) => (rs && spec[0] === x ? rs.f : null);
-          if (fr < fb) {
-            const fe = known(xe) ?? (await evaluate([toMat(xe)], 'simplex'))[0]!.f;
-            simplex[n] = fe < fr ? { x: xe, f: fe } : { x: xr, f: fr };
-            lastGood = true;
-          } else if (fr < fsw) {
-            simplex[n] = { x: xr, f: fr };
-            lastGood = true;
-          } else {
-            lastGood = false;
-            const out = fr < fw;
-            const xc = out ? at(cen, w, 0.5) : xi;
-            const fc = (!out ? known(xi) : null) ?? (await evaluate([toMat(xc)], 'simplex'))[0]!.f;
-            if (fc < (out ? fr : fw)) simplex[n] = { x: xc, f: fc };
-            else {
-              const b = simplex[0]!.x;
-              const shrunk = simplex.slice(1).map((s) => s.x.map((v, i) => b[i]! + 0.5 * (v - b[i]!)));
-              const fsh = await evaluate(shrunk.map(toMat), 'simplex');
-              shrunk.forEach((x, k) => { simplex[k + 1] = { x, f: fsh[k]!.f }; });
+        // GF from the work of fracture (load-point displacement only), then ft and GF by Broyden on (peak, work)
+        // a noisy gauge may start a little below zero, where a simulated curve has no points
+        const lo0 = Math.max(0, measured.x[0]!), hi0 = measured.x[measured.x.length - 1]!;
+        const Wm = areaOver(measured, lo0, hi0);
+        if (params.includes('GF') && xAxis === 'displacement' && A > 0) {
+          est.GF = clamp({ ...est, GF: rilemGF(workOfFracture(measured.x, measured.y), A) }).GF;
+          notes.push(`GF start from the work of fracture over the ligament (${A.toFixed(0)} mm²): ${est.GF.toPrecision(3)} N/mm`);
+        }
+        const sub = params.filter((p): p is 'ft' | 'GF' => p === 'ft' || p === 'GF');
+        if (sub.length > 0) {
+          let J: number[][] = sub.map((_, i) => sub.map((__, j) => (i === j ? 1 : 0))); // peak ∝ ft, work ∝ GF
+          let x = sub.map((p) => Math.log(est[p]));
+          let g: number[] | null = null, prevX = x;
+          for (let it = 0; it < 5; it++) {
+            const m: Mat = { ...est };
+            sub.forEach((p, i) => { m[p] = Math.exp(x[i]!); });
+            const [r] = await evaluate([clamp(m)], 'estimate');
+            const Ps = r!.curve.y.length ? r!.curve.y[peakIndex(r!.curve.y)]! : 0;
+            const Ws = r!.curve.x.length > 1 ? areaOver(r!.curve, lo0, hi0) : 0;
+            if (!(Ps > 0) || !(Ws > 0)) break;
+            const gn = sub.map((p) => (p === 'ft' ? Math.log(Ps / Pm) : Math.log(Ws / Wm)));
+            Object.assign(est, clamp(m));
+            // the model's rising branch bends before the peak as the faces at the notch take up
+            // load, so E follows the slope measured the same way on the simulated curve
+            const kr = params.includes('E') && km > 0 ? initialStiffness(r!.curve) : NaN;
+            const eStep = kr > 0 ? Math.log(km / kr) : 0;
+            if (kr > 0) Object.assign(est, clamp({ ...est, E: est.E * (km / kr) }));
+            if (gn.every((v) => Math.abs(v) < 0.005) && Math.abs(eStep) < 0.005) break;
+            if (g) {
+              // Broyden's update from the last step
+              const dx = x.map((v, i) => v - prevX[i]!), dg = gn.map((v, i) => v - g![i]!);
+              const dd = dx.reduce((s, v) => s + v * v, 0);
+              if (dd > 0) J = J.map((row, i) => row.map((v, j) => v + ((dg[i]! - row.reduce((s, a, k) => s + a * dx[k]!, 0)) * dx[j]!) / dd));
+            }
+            const step = solve(J, gn.map((v) => -v));
+            if (!step) break;
+            const big = Math.max(...step.map(Math.abs));
+            const scale = big > Math.log(1.5) ? Math.log(1.5) / big : 1;
+            prevX = x;
+            g = gn;
+            x = x.map((v, i) => v + scale * step[i]!);
+          }
+          notes.push(`ft${sub.includes('GF') ? ' and GF' : ''} from the peak load ${Pm.toFixed(1)} N${sub.includes('GF') ? ` and the work ${Wm.toPrecision(4)} N·mm under the measured curve` : ''}${params.includes('E') && km > 0 ? ', E from the slope between 5 and 40 % of the peak on the simulated curves' : ''} (${history.filter((h) => h.phase === 'estimate').length} runs)`);
+        }
+
+        // Nelder–Mead on log-parameters from the best point so far
+        const [e0] = await evaluate([est], 'estimate');
+        let best0 = { m: est, f: e0!.f };
+        for (const h of history) if (h.phase !== 'elastic' && h.objective < best0.f) best0 = { m: { E: h.E, ft: h.ft, GF: h.GF }, f: h.objective };
+        const x0 = params.map((p) => Math.log(best0.m[p]));
+        const simplex: { x: number[]; f: number }[] = [{ x: x0, f: NaN }];
+        for (let j = 0; j < params.length; j++) simplex.push({ x: x0.map((v, i) => (i === j ? v + 0.05 : v)), f: NaN });
+        // the case's own values ride along for the report
+        const fs = await evaluate([...simplex.map((s) => toMat(s.x)), start], 'simplex');
+        simplex.forEach((s, i) => { s.f = fs[i]!.f; });
+        const n = params.length;
+        const at = (c0: number[], w: number[], t: number) => c0.map((v, i) => v + t * (v - w[i]!));
+        let lastGood = true; // the last move went outward: speculate an expansion, else a contraction
+        const sortS = () => simplex.sort((a, b) => a.f - b.f);
+        try {
+          for (;;) {
+            sortS();
+            const fb = simplex[0]!.f, fw = simplex[n]!.f, fsw = simplex[n - 1]!.f;
+            const size = Math.max(...simplex.slice(1).map((s) => Math.max(...s.x.map((v, i) => Math.abs(v - simplex[0]!.x[i]!)))));
+            if (size < 0.003 && fw - fb < 0.01 * fb + 1e-6) break;
+            // a noisy objective (growth events are discrete) keeps a small simplex wandering: closed
+            // once it is within 3 % and the best has improved by under 2 % of itself over the last 6n simulations
+            const back = history.length - 1 - 6 * n;
+            if (size < 0.03 && back >= 0 && history[back]!.best - fb < 0.02 * fb) break;
+            const cen = params.map((_, i) => simplex.slice(0, n).reduce((s, v) => s + v.x[i]!, 0) / n);
+            const w = simplex[n]!.x;
+            const xr = at(cen, w, 1), xe = at(cen, w, 2), xi = at(cen, w, -0.5);
+            // a speculative second candidate only while the budget has room for it
+            const spec = nWorkers > 1 && maxEvals - sims >= 2 ? [lastGood ? xe : xi] : [];
+            const [rr, rs] = await evaluate([xr, ...spec].map(toMat), 'simplex');
+            const fr = rr!.f;
+            const known = (x: number[]) => (rs && spec[0] === x ? rs.f : null);
+            if (fr < fb) {
+              const fe = known(xe) ?? (await evaluate([toMat(xe)], 'simplex'))[0]!.f;
+              simplex[n] = fe < fr ? { x: xe, f: fe } : { x: xr, f: fr };
+              lastGood = true;
+            } else if (fr < fsw) {
+              simplex[n] = { x: xr, f: fr };
+              lastGood = true;
+            } else {
+              lastGood = false;
+              const out = fr < fw;
+              const xc = out ? at(cen, w, 0.5) : xi;
+              const fc = (!out ? known(xi) : null) ?? (await evaluate([toMat(xc)], 'simplex'))[0]!.f;
+              if (fc < (out ? fr : fw)) simplex[n] = { x: xc, f: fc };
+              else {
+                const b = simplex[0]!.x;
+                const shrunk = simplex.slice(1).map((s) => s.x.map((v, i) => b[i]! + 0.5 * (v - b[i]!)));
+                const fsh = await evaluate(shrunk.map(toMat), 'simplex');
+                shrunk.forEach((x, k) => { simplex[k + 1] = { x, f: fsh[k]!.f }; });
+              }
             }
           }
+        } finally {
+          sortS();
+          xb = simplex[0]!.x; fit = toMat(xb); fbest = simplex[0]!.f;
         }
-      } finally {
-        sortS();
-        xb = simplex[0]!.x; fit = toMat(xb); fbest = simplex[0]!.f;
-      }
       }
     } catch (e) {
       if (!(e instanceof FitStop)) throw e;
