@@ -496,8 +496,8 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       if (!inside(scaledMaterial(m, lb, ll)) || reached * Math.exp(ll) < end) return Infinity;
       return objective(scaledCurve(r.curve, lb, ll));
     };
-    let o = nelderMead(F, dirs.map(() => 0), 0.05, 1e-5);
-    o = nelderMead(F, o.x, 0.01, 1e-6);
+    let o = nelderMead(F, dirs.map(() => 0), 0.05, 1e-4);
+    o = nelderMead(F, o.x, 0.01, 1e-5);
     if (!(o.f < r.f)) return { s, m, f: r.f, curve: r.curve, lb: 0, ll: 0 };
     const [lb, ll] = factors(o.x);
     return { s, m: scaledMaterial(m, lb, ll), f: o.f, curve: scaledCurve(r.curve, lb, ll), lb, ll };
