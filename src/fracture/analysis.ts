@@ -12,13 +12,13 @@ import { solveStep, type StepState, type NewtonOptions, type ControlKind } from 
 import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
 import { RunStopped } from '../errors.js';
-import type { NodeMesh } from '../vem/dofs2.js';
+import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { buildDomain } from '../geometry/domain.js';
 import { strengthOf } from '../study/field.js';
 import { softeningJump, overshootLimit } from './criterion.js';
-import { Equations } from './equations.js';
+import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
@@ -77,6 +77,8 @@ export class Analysis {
   private eq!: Equations;
   /** Element stiffnesses of the cells a growth left unchanged, reused by the next topology. */
   private readonly elements = new ElementCache();
+  /** The same for order 2 (condensed cells on the node mesh and their projections). */
+  private readonly cells2: Cell2Cache = new ElementCache<Cell2>();
   /** The mesh or the cracks changed since the equations were built. */
   private dirty = true;
   /** Largest |load| of the converged steps so far (N), for the secant's last-resort tolerance. */
@@ -147,9 +149,9 @@ export class Analysis {
    * midpoints, vem/dofs2.ts), rebuilt from the work mesh after every cut, refinement and
    * coarsening; supports and loads are selected on it, so they hold and drive the midpoints too.
    */
-  private order2(): { drivenOn: (nm: NodeMesh) => Driven } | undefined {
+  private order2(): Order2Setup | undefined {
     if (this.c.mesh.order !== 2) return undefined;
-    return { drivenOn: (nm) => selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid) };
+    return { drivenOn: (nm) => selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid), cells: this.cells2 };
   }
 
   private equations(): Equations {

@@ -10,9 +10,12 @@ import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import type { WorkMesh } from './workmesh.js';
 import type { Crack } from './state.js';
-import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh } from '../vem/dofs2.js';
+import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh, type Cell2Cache } from '../vem/dofs2.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
 import { pairGeometry2 } from './interface2.js';
+
+/** Order 2: how the rig is selected on a node mesh, and the cells kept from the last topology. */
+export interface Order2Setup { drivenOn: (nm: NodeMesh) => Driven; cells?: Cell2Cache }
 
 export class Equations {
   readonly compact: ReturnType<WorkMesh['toPolyMesh']>;
@@ -49,10 +52,10 @@ export class Equations {
   /**
    * The equations of the work mesh as it is; throws RunStopped above maxDofs. With `order2`
    * the System is of second order on the node mesh (vem/dofs2.ts), driven as order2.drivenOn
-   * selects on it, with Simpson face pairs (interface2.ts).
+   * selects on it, with Simpson face pairs (interface2.ts); unchanged cells come from order2.cells.
    */
   constructor(wm: WorkMesh, cracks: readonly Crack[], driven: Driven, D: Float64Array, thickness: number,
-    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache, order2?: { drivenOn: (nm: NodeMesh) => Driven }) {
+    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache, order2?: Order2Setup) {
     const cp = wm.toPolyMesh();
     this.compact = cp;
     const co = cp.compactOf;
@@ -63,7 +66,7 @@ export class Equations {
     this.pairPlus = plus;
     this.pairOf = new Map(plus.map((v, i) => [v, i]));
     if (nm && order2) {
-      const cells = new Order2Cells(nm, D, thickness), nn = nm.mesh.xy.length >> 1, id = new Int32Array(nn);
+      const cells = new Order2Cells(nm, D, thickness, order2.cells ? { cache: order2.cells, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined), nn = nm.mesh.xy.length >> 1, id = new Int32Array(nn);
       for (let i = 0; i < nn; i++) id[i] = i;
       this.node = nm; this.cells2 = cells;
       this.sys = new System(nm.mesh, D, thickness, geom, compactDriven(order2.drivenOn(nm), id), (k, Ke) => cells.stiffness(k, Ke));
