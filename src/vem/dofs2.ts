@@ -63,6 +63,8 @@ export type Cell2Cache = ElementCache<Cell2>;
  */
 export class Order2Cells {
   private readonly cells: Cell2[];
+  /** Node values of one cell (scratch). */
+  private readonly loc: Float64Array;
 
   constructor(readonly nm: NodeMesh, readonly D: Float64Array, readonly t: number, reuse?: ElementReuse<Cell2>) {
     const b = nm.base, nc = b.cellStart.length - 1, n = nm.layout.maxVerts, nd = 4 * n + 2;
@@ -70,6 +72,7 @@ export class Order2Cells {
     const fc = new Float64Array(4 * n), rec = new Float64Array(2 + 8 * n);
     const kept = reuse ? new Map<number, Cell2>() : null;
     this.cells = new Array<Cell2>(nc);
+    this.loc = new Float64Array(4 * n);
     for (let c = 0; c < nc; c++) {
       const s = b.cellStart[c], e = b.cellStart[c + 1];
       const key = reuse ? reuse.cellKey[c] : -1, hit = reuse?.cache.entries.get(key);
@@ -111,13 +114,14 @@ export class Order2Cells {
    * coefficients of Πu, from node displacements u (2 per node); the cell mean is recovered.
    */
   field(u: Float64Array): Float64Array {
-    const m = this.nm.mesh, nc = m.cellStart.length - 1, out = new Float64Array(FIELD * nc);
+    const m = this.nm.mesh, nc = m.cellStart.length - 1, out = new Float64Array(FIELD * nc), loc = this.loc;
     for (let c = 0; c < nc; c++) {
       const { F, cx, cy, h } = this.cells[c], s = m.cellStart[c], nb = 2 * (m.cellStart[c + 1] - s), o = FIELD * c;
+      for (let q = 0; q < nb; q += 2) { const v = m.cellVerts[s + (q >> 1)]; loc[q] = u[2 * v]; loc[q + 1] = u[2 * v + 1]; }
       out[o] = cx; out[o + 1] = cy; out[o + 2] = h;
-      for (let j = 0; j < NB; j++) {
+      for (let j = 0, r = 0; j < NB; j++, r += nb) {
         let sum = 0;
-        for (let q = 0; q < nb; q++) sum += F[j * nb + q] * u[2 * m.cellVerts[s + (q >> 1)] + (q & 1)];
+        for (let q = 0; q < nb; q++) sum += F[r + q] * loc[q];
         out[o + 3 + j] = sum;
       }
     }
