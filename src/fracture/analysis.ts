@@ -136,7 +136,7 @@ export class Analysis {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
     this.eqReleased = (s.released ?? []).join(',');
-    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2());
+    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2(), s.mid);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
@@ -229,6 +229,7 @@ export class Analysis {
     }
     eq.uf.set(st.uf); s.lambda = st.lambda;
     eq.scatter(s.uw);
+    s.mid = eq.midpoints();
     return { ok: true, reason: '' };
   }
 
@@ -241,7 +242,7 @@ export class Analysis {
   /** Undo a step attempt: the solution as saved, the trial histories as committed. */
   private undo(saved: Solution): void {
     restore(this.s, saved);
-    if (!this.dirty) { this.eq.gather(this.s.uw); this.eq.kapTrial.set(this.eq.kap); }
+    if (!this.dirty) { this.eq.gather(this.s.uw, this.s.mid); this.eq.kapTrial.set(this.eq.kap); }
   }
 
   /**
@@ -279,6 +280,7 @@ export class Analysis {
     if (r.ok && grow(this.room()) > 0) this.dirty = true;
     this.undo(saved);
     this.s.uw.fill(0);
+    this.s.mid = null;
     this.equations().uf.fill(0);
   }
 
@@ -419,17 +421,20 @@ export class Analysis {
     if (!(ratio > 0)) return undefined;
     const uw = new Float64Array(s.uw.length);
     for (let i = 0; i < uw.length; i++) uw[i] = s.uw[i] + ratio * tr.du[i];
+    // order 2: the midpoints go on along their trend too (the same topology: the same edges)
+    const m = s.mid, mid = m && tr.dmid?.length === m.u.length ? { key: m.key, u: m.u.map((v, i) => v + ratio * tr.dmid![i]) } : m;
     const uf = new Float64Array(this.eq.sys.freeDofs.length);
-    this.eq.gatherInto(uw, uf);
+    this.eq.gatherInto(uw, uf, mid);
     return { uf, lambda: s.lambda + ratio * tr.dLambda };
   }
 
   /** Commit a converged step and record it at the case's control level it reached. */
-  private converged(at: LoopState, kind: ControlKind, target: number, start: { uw: Float64Array; lambda: number; level: number; growth: number }): StepEvent {
+  private converged(at: LoopState, kind: ControlKind, target: number, start: { uw: Float64Array; mid: Float64Array | null; lambda: number; level: number; growth: number }): StepEvent {
     const ctl = this.c.control;
     const s = this.s;
     s.trend = kind !== 'opening' && s.growthLog.length === start.growth && start.uw.length === s.uw.length
       ? { du: s.uw.map((v, i) => v - start.uw[i]), dLambda: s.lambda - start.lambda, dLevel: target - start.level } : null;
+    if (s.trend && s.mid && start.mid?.length === s.mid.u.length) s.trend.dmid = s.mid.u.map((v, i) => v - start.mid![i]);
     this.eq.commit(this.s.kappa);
     // driven by the opening, the level reached is the gauge reading or the load-point travel
     const level = kind !== 'opening' ? target : ctl.by === 'cmod' ? this.eq.sys.gaugeReading(this.eq.work.u) : this.s.lambda;
@@ -471,7 +476,7 @@ export class Analysis {
           await onCheckpoint?.(this.state(mark));
           break;
         }
-        const start = { uw: this.s.uw.slice(), lambda: this.s.lambda, level: at.done, growth: this.s.growthLog.length };
+        const start = { uw: this.s.uw.slice(), mid: this.s.mid?.u.slice() ?? null, lambda: this.s.lambda, level: at.done, growth: this.s.growthLog.length };
         const step = this.advance(at, target);
         if (step === null) continue;
         if ('end' in step) { reason = step.end; break; }
