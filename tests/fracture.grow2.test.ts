@@ -26,6 +26,22 @@ describe('crack growth of order 2 in a notched beam', () => {
     f.addCohesiveCut([220, 30], [220, 80]);
     const fine = await f.run(() => {});
     expect(Math.abs(res.peak.load_N / fine.peak.load_N - 1)).toBeLessThan(0.015);
+    // the 1.28 % is one refinement ahead of the tip (step 12: the gap jumps by 0.53 N·mm and
+    // stays): the discrete model changes under the re-solve at the same CMOD. Carrying the
+    // midpoints between topologies left it as it was (the converged state does not depend on
+    // where Newton starts); the next test meshes the ligament at the tip size instead
     for (const r of res.rows.slice(1)) expect(Math.abs(r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm)).toBeLessThan(0.015 * r.external_work_Nmm);
+  });
+
+  it('with the ligament meshed at the tip size from the start, the work of the machine equals the elastic energy plus the energy dissipated on the faces within 1 % at every step (energy balance, definition of GF)', async () => {
+    // measured: 0.20 % at its worst step (step 2), 5 growth events, crack 55 mm, 3.5k–3.8k dofs
+    const c = coarseBeam({ tip: 8, size: 24, radius: 10, target: 0.2, increments: 30 });
+    c.mesh.order = 2;
+    const a = new Analysis(c, meshCase(c).mesh);
+    const res = await a.run(() => {});
+    expect(res.status, res.reason).toBe('complete');
+    expect(a.growthLog.length).toBeGreaterThan(3);
+    expect(res.rows.at(-1)!.crack_length_mm).toBeGreaterThan(40);
+    for (const r of res.rows.slice(1)) expect(Math.abs(r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm)).toBeLessThan(0.01 * r.external_work_Nmm);
   });
 });
