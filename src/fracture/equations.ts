@@ -51,6 +51,11 @@ export class Equations {
     return { cell: centroidStresses2(field, D), node: atNodes ? nodeStresses2(this.node, field, D) : null };
   }
 
+  /** Order 2: the projected field (FIELD stride per cell, vem/system2.ts) of the last evaluated state; null at order 1. */
+  projectedField(): Float64Array | null {
+    return this.cells2 ? this.cells2.field(this.work.u) : null;
+  }
+
   /**
    * The equations of the work mesh as it is; throws RunStopped above maxDofs. With `order2`
    * the System is of second order on the node mesh (vem/dofs2.ts), driven as order2.drivenOn
