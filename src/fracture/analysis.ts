@@ -11,6 +11,7 @@ import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
+import { vertexBearings, withMidpoints } from '../solver/contact2.js';
 import { RunStopped } from '../errors.js';
 import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
@@ -147,11 +148,15 @@ export class Analysis {
   /**
    * Order 2: the equations of each topology are built on its node mesh (vertices and edge
    * midpoints, vem/dofs2.ts), rebuilt from the work mesh after every cut, refinement and
-   * coarsening; supports and loads are selected on it, so they hold and drive the midpoints too.
+   * coarsening; supports and loads are selected on it, so they hold and drive the midpoints too,
+   * and a bearing strip lets go of the nodes (vertices and midpoints) lifted off it.
    */
   private order2(): Order2Setup | undefined {
     if (this.c.mesh.order !== 2) return undefined;
-    return { drivenOn: (nm) => selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid), cells: this.cells2 };
+    return {
+      drivenOn: (nm, key) => releaseFrom(selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid), nodesOf(key, this.s.released ?? []), this.tol),
+      cells: this.cells2,
+    };
   }
 
   private equations(): Equations {
@@ -184,16 +189,16 @@ export class Analysis {
         r = this.solveOnce(kind, target);
         break;
       }
-      // order 2 selects its holds on the node mesh each topology: its strips stay two-sided
-      if (!r.ok || this.driven.strips.length === 0 || this.c.mesh.order === 2 || round >= CONTACT_ROUNDS) break;
-      const eq = this.eq, rig = this.rigNow();
-      const b = bearings(rig, s.released ?? [], eq.compact.compactOf, eq.work.u, eq.work.f, s.lambda, this.tol);
+      if (!r.ok || this.driven.strips.length === 0 || round >= CONTACT_ROUNDS) break;
+      const eq = this.eq, v = this.contactView(), L = eq.node?.layout;
+      // order 2 decides at the vertices (solver/contact2.ts), its midpoints follow their edges
+      const all = bearings(v.rig, v.released, v.co, eq.work.u, eq.work.f, s.lambda, this.tol), b = L ? vertexBearings(all, L) : all;
       let umax = Math.abs(s.lambda);
       for (const x of b) umax = Math.max(umax, Math.abs(x.gap));
-      const next = contactUpdate(b, s.released ?? [], 1e-6 * this.fScale, 1e-6 * umax + 1e-9 * this.tol);
+      const next = contactUpdate(b, L ? v.released.filter((n) => n < L.nv) : v.released, 1e-6 * this.fScale, 1e-6 * umax + 1e-9 * this.tol);
       if (!next) break;
       before = s.released ?? [];
-      s.released = next;
+      s.released = (L ? withMidpoints(next, all, L) : next).map(v.key).sort((p, q) => p - q);
     }
     if (!r.ok) return r;
     const F = this.eq.sys.loadForce(this.eq.work.f);
@@ -324,17 +329,32 @@ export class Analysis {
 
   /**
    * The rig's forces in the last solved state: every bearing-strip point (force the platen puts
-   * on it along its push, gap, in contact or lifted off), the resultant [x, y] of all support
+   * on it along its push, gap, in contact or lifted off; at order 2 the vertices, each with half
+   * the reaction of the strip midpoints beside it), the resultant [x, y] of all support
    * reactions on the specimen (N), and the machine force along the load direction (N).
    */
   rigForces(): { bearings: Bearing[]; supports: [number, number]; machine: number } {
-    const eq = this.equations(), rig = this.rigNow(), co = eq.compact.compactOf, f = eq.work.f, released = this.s.released ?? [];
+    const eq = this.equations(), { rig, co, released, key } = this.contactView(), f = eq.work.f;
     const keys = new Set<number>();
     for (const d of rig.fixed) if (co[d.v] >= 0) keys.add(2 * co[d.v] + d.comp);
     for (const st of rig.strips) if (st.support) for (const v of st.pts) if (co[v] >= 0) keys.add(2 * co[v] + st.comp);
     const R: [number, number] = [0, 0];
     for (const k of keys) R[k & 1] += f[k];
-    return { bearings: bearings(rig, released, co, eq.work.u, f, this.s.lambda, this.tol), supports: R, machine: eq.sys.loadForce(f) };
+    const all = bearings(rig, released, co, eq.work.u, f, this.s.lambda, this.tol), L = eq.node?.layout;
+    const b = (L ? vertexBearings(all, L) : all).map((x) => ({ ...x, v: key(x.v) }));
+    return { bearings: b, supports: R, machine: eq.sys.loadForce(f) };
+  }
+
+  /**
+   * The bearing strips as the equations hold them: the rig, the map from its point ids to the
+   * equations' nodes, the lifted-off points among those ids, and each id's key in the record's
+   * `released`. Order 1: stable vertex ids throughout. Order 2: node ids of the node mesh, kept
+   * in the record by stable id (vertices) or midpointKey (midpoints).
+   */
+  private contactView(): { rig: Driven; co: Int32Array; released: number[]; key: (p: number) => number } {
+    const eq = this.eq, nr = eq.nodeRig, rel = this.s.released ?? [];
+    if (!nr) return { rig: this.rigNow(), co: eq.compact.compactOf, released: rel, key: (v) => v };
+    return { rig: nr.driven, co: nr.ids, released: nodesOf(nr.key, rel), key: (n) => nr.key[n] };
   }
 
   /** Crack face area (mm²) whose traction has reached ft, and the part of it fully separated (no traction left). */
@@ -512,6 +532,14 @@ export class Analysis {
       ...(status === 'failed' ? { error: failure } : {}),
     };
   }
+}
+
+/** The nodes whose key is among the released ones (order 2: vertex stable ids and midpoint keys). */
+function nodesOf(key: Float64Array, released: readonly number[]): number[] {
+  if (released.length === 0) return [];
+  const off = new Set(released), out: number[] = [];
+  for (let n = 0; n < key.length; n++) if (off.has(key[n])) out.push(n);
+  return out;
 }
 
 function extent(m: PolyMesh): number {

@@ -12,10 +12,10 @@ import type { WorkMesh } from './workmesh.js';
 import type { Crack, MidValues } from './state.js';
 import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh, type Cell2Cache } from '../vem/dofs2.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
-import { pairGeometry2, edgeKey } from './interface2.js';
+import { pairGeometry2, edgeKey, midpointKey } from './interface2.js';
 
-/** Order 2: how the rig is selected on a node mesh, and the cells kept from the last topology. */
-export interface Order2Setup { drivenOn: (nm: NodeMesh) => Driven; cells?: Cell2Cache }
+/** Order 2: the rig on a node mesh (each node's key among the lifted-off points given), and the cells kept from the last topology. */
+export interface Order2Setup { drivenOn: (nm: NodeMesh, key: Float64Array) => Driven; cells?: Cell2Cache }
 
 export class Equations {
   readonly compact: ReturnType<WorkMesh['toPolyMesh']>;
@@ -35,6 +35,12 @@ export class Equations {
   private readonly cells2: Order2Cells | null = null;
   /** Order 2: the key (edgeKey of its stable vertex ids) of each edge, in the node mesh's midpoint order. */
   readonly midKey: Float64Array | null = null;
+  /**
+   * Order 2: the rig as held on the node mesh (node ids; `ids` maps them to themselves, as a
+   * compact map), and each node's key among the lifted-off strip points of the record (a
+   * vertex's stable id, a midpoint's midpointKey).
+   */
+  readonly nodeRig: { driven: Driven; ids: Int32Array; key: Float64Array } | null = null;
 
   /**
    * Stresses of the last evaluated state: per cell (order 1 its constant, order 2 the
@@ -76,10 +82,16 @@ export class Equations {
       const cells = new Order2Cells(nm, D, thickness, order2.cells ? { cache: order2.cells, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined), nn = nm.mesh.xy.length >> 1, id = new Int32Array(nn);
       for (let i = 0; i < nn; i++) id[i] = i;
       this.node = nm; this.cells2 = cells;
-      const L = nm.layout, vo = cp.vertexOf;
+      const L = nm.layout, vo = cp.vertexOf, key = new Float64Array(nn);
       this.midKey = new Float64Array(L.ne);
-      for (let e = 0; e < L.ne; e++) this.midKey[e] = edgeKey(vo[L.edgeVerts[2 * e]], vo[L.edgeVerts[2 * e + 1]]);
-      this.sys = new System(nm.mesh, D, thickness, geom, compactDriven(order2.drivenOn(nm), id), (k, Ke) => cells.stiffness(k, Ke));
+      for (let v = 0; v < L.nv; v++) key[v] = vo[v];
+      for (let e = 0; e < L.ne; e++) {
+        const a = vo[L.edgeVerts[2 * e]], b = vo[L.edgeVerts[2 * e + 1]];
+        this.midKey[e] = edgeKey(a, b); key[L.nv + e] = midpointKey(a, b);
+      }
+      const rig = order2.drivenOn(nm, key);
+      this.nodeRig = { driven: rig, ids: id, key };
+      this.sys = new System(nm.mesh, D, thickness, geom, compactDriven(rig, id), (k, Ke) => cells.stiffness(k, Ke));
     } else {
       this.sys = new System(cp.mesh, D, thickness, geom, compactDriven(driven, co), undefined, elements ? { cache: elements, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined);
     }

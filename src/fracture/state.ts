@@ -56,7 +56,7 @@ export interface CrackState {
   mid?: MidValues | null;
   /** Wall time spent in the equilibrium solves (ms). */
   solveTime: number;
-  /** Points of the bearing strips lifted off their platens (stable ids, sorted). */
+  /** Points of the bearing strips lifted off their platens (stable ids, sorted; order 2 adds edge midpoints by their negative midpointKey). */
   released?: number[];
 }
 
