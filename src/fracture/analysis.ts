@@ -11,7 +11,7 @@ import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
-import { vertexBearings, withMidpoints } from '../solver/contact2.js';
+import { vertexBearings, contactUpdate2 } from '../solver/contact2.js';
 import { RunStopped } from '../errors.js';
 import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
@@ -60,7 +60,7 @@ export interface AnalysisResult {
 type Solution = Saved<typeof SOLUTION[number]>;
 
 /** Contact updates tried at one control level before its last solve is taken as it stands. */
-const CONTACT_ROUNDS = 8;
+export const CONTACT_ROUNDS = 8;
 
 export class Analysis {
   readonly wm: WorkMesh;
@@ -191,14 +191,15 @@ export class Analysis {
       }
       if (!r.ok || this.driven.strips.length === 0 || round >= CONTACT_ROUNDS) break;
       const eq = this.eq, v = this.contactView(), L = eq.node?.layout;
-      // order 2 decides at the vertices (solver/contact2.ts), its midpoints follow their edges
-      const all = bearings(v.rig, v.released, v.co, eq.work.u, eq.work.f, s.lambda, this.tol), b = L ? vertexBearings(all, L) : all;
+      const b = bearings(v.rig, v.released, v.co, eq.work.u, eq.work.f, s.lambda, this.tol);
       let umax = Math.abs(s.lambda);
       for (const x of b) umax = Math.max(umax, Math.abs(x.gap));
-      const next = contactUpdate(b, L ? v.released.filter((n) => n < L.nv) : v.released, 1e-6 * this.fScale, 1e-6 * umax + 1e-9 * this.tol);
+      const tolF = 1e-6 * this.fScale, tolU = 1e-6 * umax + 1e-9 * this.tol;
+      // order 2 decides at the vertices (solver/contact2.ts), its midpoints follow their edges
+      const next = L ? contactUpdate2(b, v.released, L, tolF, tolU) : contactUpdate(b, v.released, tolF, tolU);
       if (!next) break;
       before = s.released ?? [];
-      s.released = (L ? withMidpoints(next, all, L) : next).map(v.key).sort((p, q) => p - q);
+      s.released = next.map(v.key).sort((p, q) => p - q);
     }
     if (!r.ok) return r;
     const F = this.eq.sys.loadForce(this.eq.work.f);

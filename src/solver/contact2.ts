@@ -6,7 +6,7 @@
 // each edge, which is ≥ 0 wherever the platen pushes. A midpoint bears while both ends of its
 // edge do.
 import type { Order2Layout } from '../vem/system2.js';
-import type { Bearing } from './driven.js';
+import { contactUpdate, type Bearing } from './driven.js';
 
 /**
  * The vertices among node bearings `b` (node ids), each with its own reaction plus half of the
@@ -38,6 +38,15 @@ export function withMidpoints(vertices: readonly number[], b: readonly Bearing[]
     if (off.has(L.edgeVerts[2 * e]) || off.has(L.edgeVerts[2 * e + 1])) out.add(x.v);
   }
   return [...out].sort((p, q) => p - q);
+}
+
+/**
+ * One update of the contact set of a node mesh (node ids, as contactUpdate): decided at the
+ * vertices, the midpoints following their edges. Null when nothing changes.
+ */
+export function contactUpdate2(all: readonly Bearing[], released: readonly number[], L: Order2Layout, tolF: number, tolU: number): number[] | null {
+  const next = contactUpdate(vertexBearings(all, L), released.filter((n) => n < L.nv), tolF, tolU);
+  return next && withMidpoints(next, all, L);
 }
 
 const key = (strip: number, v: number) => strip * 2 ** 32 + v;
