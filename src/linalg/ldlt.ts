@@ -360,25 +360,13 @@ function factorPanel(
   let neg = 0;
   for (let j0 = 0; j0 < k; j0 += PANEL_BLOCK) {
     const j1 = Math.min(k, j0 + PANEL_BLOCK);
-    // left-looking inside the block: earlier blocks are already applied
+    // left-looking inside the block: earlier blocks are already applied; column j's rows j.. take
+    // the update of the block's columns j0..j − 1 (a one-column rank update)
     for (let j = j0; j < j1; j++) {
       const cj = lp + j * m;
-      let p = j0;
-      for (; p + 3 < j; p += 4) {
-        const c0 = lp + p * m;
-        const c1 = c0 + m;
-        const c2 = c1 + m;
-        const c3 = c2 + m;
-        const w0 = lx[c0 + j] * dd[f + p];
-        const w1 = lx[c1 + j] * dd[f + p + 1];
-        const w2 = lx[c2 + j] * dd[f + p + 2];
-        const w3 = lx[c3 + j] * dd[f + p + 3];
-        for (let i = j; i < m; i++) lx[cj + i] -= lx[c0 + i] * w0 + lx[c1 + i] * w1 + lx[c2 + i] * w2 + lx[c3 + i] * w3;
-      }
-      for (; p < j; p++) {
-        const c0 = lp + p * m;
-        const w0 = lx[c0 + j] * dd[f + p];
-        for (let i = j; i < m; i++) lx[cj + i] -= lx[c0 + i] * w0;
+      if (j > j0) {
+        if (F.kern) F.kern.rankUpdate(lp + j0 * m + j, m, j - j0, F.dBase + f + j0, cj + j, m, m - j, 1);
+        else rankUpdate(lx, lp + j0 * m + j, m, j - j0, dd, f + j0, lx, cj + j, m, m - j, 1);
       }
       const dj = lx[cj + j];
       if (!(Math.abs(dj) > tiny)) {
