@@ -53,7 +53,7 @@ describe('SIMD rank update U −= S D Sᵀ (lower trapezoid; dense reference: th
   });
 });
 
-describe('factorization on WebAssembly memory', () => {
+describe('factorization on WebAssembly memory (rank updates and extend-adds there)', () => {
   maybe('gives the bits of the plain-array factorization and a small residual (common practice) on a grid stiffness', () => {
     const A = gridStiffnessQ4(60, 40);
     const sym = analyze(A, { ordering: 'dissection' });

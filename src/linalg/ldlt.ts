@@ -53,24 +53,31 @@ class SupernodalFactor implements Factor {
   readonly stacked: Int32Array;
   /** Where a trailing refactorization starts from (factorizeTrailing), or null. */
   mark: SweepMark | null = null;
-  /** The SIMD kernels when lx, d and stack are views on their memory (d from dBase, stack from sBase there), else null. */
+  /**
+   * The SIMD kernels when lx, d and stack are views on their memory (d from dBase, stack from sBase
+   * there, and a copy of the symbolic relIdx as 32-bit integers from rBase), else null.
+   */
   readonly kern: SimdKernels | null;
   readonly dBase: number;
   readonly sBase: number;
+  readonly rBase: number;
 
   constructor(readonly sym: Symbolic) {
     this.n = sym.n;
     this.nnzL = sym.nnzL;
     if (sym.stackSize >= 2 ** 31) throw new RangeError(`the update stack would need ${sym.stackSize} entries, more than this solver can index`);
     const ls = sym.lSize, ss = Math.max(1, sym.stackSize);
-    this.kern = simdAllowed && ls >= SIMD_FROM_ENTRIES ? simdKernels(ls + sym.n + ss) : null;
+    const nrel = sym.relIdx.length;
+    this.kern = simdAllowed && ls >= SIMD_FROM_ENTRIES ? simdKernels(ls + sym.n + ss + Math.ceil(nrel / 2)) : null;
     this.dBase = ls;
     this.sBase = ls + sym.n;
+    this.rBase = 2 * (ls + sym.n + ss);
     if (this.kern) {
       const all = this.kern.f64;
       this.lx = all.subarray(0, ls);
       this.d = all.subarray(this.dBase, this.dBase + sym.n);
       this.stack = all.subarray(this.sBase, this.sBase + ss);
+      new Int32Array(all.buffer, 4 * this.rBase, nrel).set(sym.relIdx);
     } else {
       this.lx = new Float64Array(ls);
       this.d = new Float64Array(sym.n);
@@ -293,7 +300,8 @@ function numeric(A: CsrMatrix, sym: Symbolic, F: SupernodalFactor, from: number 
     for (let t = firstChild; t < nStacked; t++) {
       const c = onStack[t];
       const rc = rowPtr[c + 1] - rowPtr[c] - (superStart[c + 1] - superStart[c]);
-      extendAdd(stack, childPos[c], rc, relIdx, relPtr[c], lx, lp, m, k, up, r);
+      if (F.kern) F.kern.extendAdd(childPos[c] + F.sBase, rc, relPtr[c] + F.rBase, lp, m, k, up + F.sBase, r);
+      else extendAdd(stack, childPos[c], rc, relIdx, relPtr[c], lx, lp, m, k, up, r);
     }
     nStacked = firstChild;
 

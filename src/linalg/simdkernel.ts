@@ -1,8 +1,9 @@
 // The supernodal factorization's rank update U −= S D Sᵀ as a WebAssembly SIMD (f64x2) kernel on
-// one memory that holds L, D and the update stack: two rows per vector, two target columns per
-// pass sharing the loads of S. Each entry of U receives exactly the operations of the scalar
-// update in ldlt.ts, in the same order (source columns in groups of 4, then 2, then 1; products
-// summed left to right; no fused multiply-add), so both give the same bits.
+// one memory that holds L, D, the update stack and the relative row indices: two rows per vector,
+// two target columns per pass sharing the loads of S. Each entry of U receives exactly the
+// operations of the scalar update in ldlt.ts, in the same order (source columns in groups of 4,
+// then 2, then 1; products summed left to right; no fused multiply-add), so both give the same
+// bits. The extend-add of a child's update matrix is there too (scalar, without bounds checks).
 
 import { F64, FunctionBody, I32, V128, moduleBytes } from './wasm.js';
 
@@ -17,7 +18,7 @@ declare const WebAssembly: {
 };
 
 // opcodes (WebAssembly core specification 2.0, and the SIMD numbers after the 0xfd prefix)
-const I32_ADD = 0x6a, I32_MUL = 0x6c, I32_SHL = 0x74, I32_LT_S = 0x48, I32_GE_S = 0x4e, I32_LT_U = 0x49, I32_GE_U = 0x4f;
+const I32_LOAD = 0x28, I32_ADD = 0x6a, I32_SUB = 0x6b, I32_MUL = 0x6c, I32_SHL = 0x74, I32_LT_S = 0x48, I32_GE_S = 0x4e, I32_LT_U = 0x49, I32_GE_U = 0x4f;
 const F64_LOAD = 0x2b, F64_STORE = 0x39, F64_ADD = 0xa0, F64_SUB = 0xa1, F64_MUL = 0xa2;
 const V128_LOAD = 0, V128_STORE = 11, F64X2_SPLAT = 20, F64X2_ADD = 240, F64X2_SUB = 241, F64X2_MUL = 242;
 
@@ -114,10 +115,41 @@ function rankUpdateBody(): FunctionBody {
   return f;
 }
 
+/**
+ * extend_add(cp, rc, rp, lp, m, k, up, r): the child's rc×rc update matrix at cp (doubles, lower
+ * part, column-major) added into the parent's L block at lp (m rows, k columns) and update matrix
+ * at up (r×r); its rows' places in the parent's row list are the 32-bit integers from rp.
+ */
+function extendAddBody(): FunctionBody {
+  const f = new FunctionBody(8);
+  const CP = 0, RC = 1, RP = 2, LP = 3, M = 4, K = 5, UP = 6, R = 7;
+  const j = f.local(I32), pj = f.local(I32), dst = f.local(I32), ri = f.local(I32), rend = f.local(I32), si = f.local(I32), a = f.local(I32);
+  f.get(RP).get(RC).op(I32_ADD).i32(2).op(I32_SHL).set(rend);
+  f.i32(0).set(j);
+  f.whileNot(() => f.get(j).get(RC).op(I32_GE_S), () => {
+    f.get(RP).get(j).op(I32_ADD).i32(2).op(I32_SHL).set(ri);
+    f.get(ri).mem(I32_LOAD, 2).set(pj);
+    // column pj of the parent: in L when pj < k, else in the update matrix (row i at dst + i)
+    f.get(UP).get(pj).get(K).op(I32_SUB).get(R).op(I32_MUL).op(I32_ADD).get(K).op(I32_SUB).set(dst);
+    f.get(pj).get(K).op(I32_LT_S).when(() => { f.get(LP).get(pj).get(M).op(I32_MUL).op(I32_ADD).set(dst); });
+    f.get(dst).i32(3).op(I32_SHL).set(dst);
+    f.get(CP).get(j).get(RC).op(I32_MUL).op(I32_ADD).get(j).op(I32_ADD).i32(3).op(I32_SHL).set(si);
+    f.whileNot(() => f.get(ri).get(rend).op(I32_GE_U), () => {
+      f.get(dst).get(ri).mem(I32_LOAD, 2).i32(3).op(I32_SHL).op(I32_ADD).set(a);
+      f.get(a).get(a).mem(F64_LOAD, 3).get(si).mem(F64_LOAD, 3).op(F64_ADD).mem(F64_STORE, 3);
+      f.get(ri).i32(4).op(I32_ADD).set(ri);
+      f.get(si).i32(8).op(I32_ADD).set(si);
+    });
+    f.get(j).i32(1).op(I32_ADD).set(j);
+  });
+  return f;
+}
+
 /** The kernels of one memory, and that memory seen as doubles. */
 export interface SimdKernels {
   readonly memory: WasmMemory;
   readonly f64: Float64Array;
+  extendAdd(cp: number, rc: number, rp: number, lp: number, m: number, k: number, up: number, r: number): void;
   rankUpdate(src: number, lds: number, np: number, dOff: number, up: number, ldu: number, R: number, C: number): void;
 }
 
@@ -128,7 +160,7 @@ function kernelModule(): WasmModule | null {
   if (compiled === undefined) {
     compiled = null;
     try {
-      const bytes = moduleBytes([{ name: 'rank_update', body: rankUpdateBody() }]);
+      const bytes = moduleBytes([{ name: 'rank_update', body: rankUpdateBody() }, { name: 'extend_add', body: extendAddBody() }]);
       if (typeof WebAssembly !== 'undefined' && WebAssembly.validate(bytes)) compiled = new WebAssembly.Module(bytes);
     } catch {
       compiled = null;
@@ -147,7 +179,12 @@ export function simdKernels(doubles: number): SimdKernels | null {
   try {
     const memory = new WebAssembly.Memory({ initial: Math.max(1, Math.ceil((doubles * 8) / 65536)) });
     const inst = new WebAssembly.Instance(mod, { env: { memory } });
-    return { memory, f64: new Float64Array(memory.buffer), rankUpdate: inst.exports.rank_update as SimdKernels['rankUpdate'] };
+    return {
+      memory,
+      f64: new Float64Array(memory.buffer),
+      rankUpdate: inst.exports.rank_update as SimdKernels['rankUpdate'],
+      extendAdd: inst.exports.extend_add as SimdKernels['extendAdd'],
+    };
   } catch {
     return null; // the address space or memory is short: the caller keeps plain arrays
   }
