@@ -430,7 +430,8 @@ export function fieldSvg(p: FieldPicture, layers?: Set<string>): string {
     body.push(layer('cells', cells));
   }
 
-  const lines = meshLines(p, L);
+  // the mesh's lines only when a layer draws them (the shared layers of a frame do not)
+  const lines = want('undeformed') || want('mesh') || want('outline') ? meshLines(p, L) : { undeformed: [], inner: [], outline: [] };
   const pathOf = (ls: Float64Array[]): string => ls.map((l) => polyPath(l, false)).join('');
   if (p.displacement && want('undeformed')) {
     body.push(layer('undeformed', [el('path', { d: pathOf(lines.undeformed), fill: 'none', stroke: UNDEFORMED, 'stroke-width': 1 * u, 'stroke-dasharray': `${n(5 * u)} ${n(3.5 * u)}` })]));

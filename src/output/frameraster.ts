@@ -12,7 +12,7 @@ import {
   meshLines, NO_VALUES, screenCracks, supportPlaces, supportShape, UNDEFORMED, valueScale, type FieldPicture,
 } from './field.js';
 import { insetGeometry, INSET_STYLE } from './inset.js';
-import { deflateSync } from 'node:zlib';
+import { constants as zlibConstants, deflateSync } from 'node:zlib';
 import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb, type Overlay, type PaletteLut, type Rgb } from './raster.js';
 import { layer, svgDocument, text } from './svg.js';
 
@@ -22,6 +22,12 @@ const INK = rgb(INK_COLOR);
 const SHARED = new Set(['title', 'colorbar', 'damagebar', 'inset', 'scalebar']);
 /** Palette PNG: frames have few colours, and it is about a third of the size. */
 export const FRAME_PNG = { palette: true, colours: 128, effort: 1, dither: 0, compressionLevel: 6 } as const;
+
+/**
+ * Deflate of the indexed rows: runs of one index only (measured on the demo's frames: 1.4 ms a
+ * frame against 5.4 ms at level 6, for 79 KB against 67 KB).
+ */
+const FRAME_DEFLATE = { level: 6, strategy: zlibConstants.Z_RLE };
 
 /** Draws the frames of a run one after another, keeping its buffers and the shared overlay. */
 export class FrameRaster {
@@ -149,6 +155,6 @@ export class FrameRaster {
     // the nearest palette entry of each colour met, kept from frame to frame
     if (this.lutFor !== palette) { this.lut = paletteLut(); this.lutFor = palette; }
     if (this.rows.length !== (width + 1) * height) this.rows = new Uint8Array((width + 1) * height);
-    return indexedPng(data, width, height, palette, this.lut!, (b) => deflateSync(b, { level: 6 }), this.rows);
+    return indexedPng(data, width, height, palette, this.lut!, (b) => deflateSync(b, FRAME_DEFLATE), this.rows);
   }
 }

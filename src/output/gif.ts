@@ -3,20 +3,27 @@
 // frame (delay, and one transparent index for the pixels that stay as the frame before left them,
 // inside the box of the ones that change), and the application extension that makes it loop.
 
+// the LZW table, (prefix code, next index) → code, stamped so a clear (or the next frame) needs no
+// wipe: 8 MB kept between calls instead of allocated and zeroed per frame
+const CODE = new Int32Array(4096 * 256), STAMP = new Int32Array(4096 * 256);
+let gen = 0;
+
 /** LZW codes of a frame's indices (the GIF variant: clear and end codes, widths up to 12 bits). */
 export function lzw(ix: Uint8Array, minSize: number): Uint8Array {
   const clear = 1 << minSize, end = clear + 1;
-  const out: number[] = [];
+  // at most one code of at most 12 bits per index, and the clears between: 2 bytes an index is room enough
+  const out = new Uint8Array(2 * ix.length + 16);
+  let o = 0;
   let acc = 0, bits = 0, size = minSize + 1, next = end + 1;
   const put = (code: number): void => {
     acc |= code << bits; bits += size;
-    while (bits >= 8) { out.push(acc & 255); acc >>>= 8; bits -= 8; }
+    while (bits >= 8) { out[o++] = acc & 255; acc >>>= 8; bits -= 8; }
   };
-  // the table: (prefix code, next index) → code, stamped so a clear needs no wipe
-  const code = new Int32Array(4096 * 256), stamp = new Int32Array(4096 * 256);
-  let gen = 1;
+  const code = CODE, stamp = STAMP;
+  if (gen >= 0x7fffffff) { stamp.fill(0); gen = 0; }
+  gen++;
   put(clear);
-  if (ix.length === 0) { put(end); if (bits > 0) out.push(acc & 255); return Uint8Array.from(out); }
+  if (ix.length === 0) { put(end); if (bits > 0) out[o++] = acc & 255; return out.slice(0, o); }
   let prefix = ix[0];
   for (let i = 1; i < ix.length; i++) {
     const k = ix[i], key = (prefix << 8) | k;
@@ -34,8 +41,8 @@ export function lzw(ix: Uint8Array, minSize: number): Uint8Array {
   }
   put(prefix);
   put(end);
-  if (bits > 0) out.push(acc & 255);
-  return Uint8Array.from(out);
+  if (bits > 0) out[o++] = acc & 255;
+  return out.slice(0, o);
 }
 
 /** Frames of indices into one palette (r, g, b, …; at most 255 colours, one index is kept for transparency) as GIF bytes. */
@@ -79,12 +86,15 @@ export function gifOf(frames: Uint8Array[], width: number, height: number, palet
     const d = Buffer.alloc(10);
     d[0] = 0x2c; d.writeUInt16LE(x0, 1); d.writeUInt16LE(y0, 3); d.writeUInt16LE(w, 5); d.writeUInt16LE(h, 7); d[9] = 0;
     parts.push(d, Buffer.from([minSize]));
-    const data = lzw(sub, minSize);
+    // the codes in sub-blocks of at most 255 bytes, each after its length, and an empty one to end
+    const data = lzw(sub, minSize), blocks = Buffer.alloc(data.length + Math.ceil(data.length / 255) + 1);
+    let b = 0;
     for (let o = 0; o < data.length; o += 255) {
       const len = Math.min(255, data.length - o);
-      parts.push(Buffer.from([len]), Buffer.from(data.subarray(o, o + len)));
+      blocks[b++] = len; blocks.set(data.subarray(o, o + len), b); b += len;
     }
-    parts.push(Buffer.from([0]));
+    blocks[b] = 0;
+    parts.push(blocks);
     prev = f;
   });
   parts.push(Buffer.from([0x3b]));

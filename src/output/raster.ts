@@ -82,9 +82,17 @@ export class Canvas {
     const h = w / 2 + 0.5, top = Math.min(1, w);
     const [c0, r0, c1, r1] = this.grow(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
     const dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width;
+    // on each row, only the columns within h of the segment's line (a pixel farther away is not
+    // covered): a slanted thin stroke then visits a band instead of its whole box
+    const ady = Math.abs(dy), band = ady > 1e-9 * Math.sqrt(L2) ? (h * Math.sqrt(L2)) / ady + 1 : Infinity;
     for (let r = r0; r < r1; r++) {
       const py = r + 0.5 - ya;
-      for (let c = c0; c < c1; c++) {
+      let cA = c0, cB = c1;
+      if (band !== Infinity) {
+        const mid = xa + (py * dx) / dy - 0.5; // the column whose centre lies on the line
+        cA = Math.max(c0, Math.floor(mid - band)); cB = Math.min(c1, Math.ceil(mid + band) + 1);
+      }
+      for (let c = cA; c < cB; c++) {
         const px = c + 0.5 - xa;
         let t = L2 > 0 ? (px * dx + py * dy) / L2 : 0;
         t = t < 0 ? 0 : t > 1 ? 1 : t;
