@@ -6,6 +6,7 @@ import { colorAt, damageMap, diverging, sequential } from './colormap.js';
 import { el, layer, n, n1, polyPath, svgDocument, text } from './svg.js';
 import { formatTicks, formatValue, niceTicks } from './ticks.js';
 import { curveInsetSvg, type CurveInset } from './inset.js';
+import { VertexGrid } from './vertexgrid.js';
 
 export interface FieldPicture {
   mesh: PolyMesh;
@@ -124,37 +125,18 @@ function chainEdges(a: Int32Array, b: Int32Array, mask: Uint8Array, nv: number):
   return lines;
 }
 
-/** Displacement at a model point: the mean over the nearest vertices (both faces of a crack), via a bucket grid. */
+/** Displacement at a model point: the mean over the nearest vertices (both faces of a crack); the grid is built at the first look-up. */
 function pointMover(mesh: PolyMesh, disp: Float64Array, mag: number): (x: number, y: number) => [number, number] {
-  const xy = mesh.xy, nv = vertexCount(mesh);
-  const [x0, y0, x1, y1] = bbox(xy);
-  const h = Math.max(Math.sqrt(((x1 - x0) * (y1 - y0) || 1) / Math.max(1, nv)) * 2, 1e-9);
-  const gx = Math.max(1, Math.ceil((x1 - x0) / h) + 1), gy = Math.max(1, Math.ceil((y1 - y0) / h) + 1);
-  const start = new Int32Array(gx * gy + 1), items = new Int32Array(nv);
-  const cellOf = (i: number): number =>
-    Math.min(gx - 1, Math.floor((xy[2 * i] - x0) / h)) + gx * Math.min(gy - 1, Math.floor((xy[2 * i + 1] - y0) / h));
-  for (let i = 0; i < nv; i++) start[cellOf(i) + 1]++;
-  for (let c = 0; c < gx * gy; c++) start[c + 1] += start[c];
-  const fill = start.slice(0, gx * gy);
-  for (let i = 0; i < nv; i++) items[fill[cellOf(i)]++] = i;
-  const tol = 1e-7 * Math.max(x1 - x0, y1 - y0, 1);
-  const visit = (x: number, y: number, r: number, f: (i: number) => void): void => {
-    const cx = Math.floor((x - x0) / h), cy = Math.floor((y - y0) / h);
-    for (let j = Math.max(0, cy - r); j <= Math.min(gy - 1, cy + r); j++)
-      for (let i = Math.max(0, cx - r); i <= Math.min(gx - 1, cx + r); i++)
-        for (let q = start[i + gx * j]; q < start[i + gx * j + 1]; q++) f(items[q]);
-  };
+  let grid: VertexGrid | null = null, tol = 0;
   return (x, y) => {
-    if (nv === 0) return [x, y];
-    let best = Infinity;
-    for (let r = 0; r <= gx + gy; r++) {
-      visit(x, y, r, (i) => { best = Math.min(best, Math.hypot(xy[2 * i] - x, xy[2 * i + 1] - y)); });
-      if (best < r * h) break;
+    if (!grid) {
+      grid = new VertexGrid(mesh.xy);
+      const [x0, y0, x1, y1] = bbox(mesh.xy);
+      tol = 1e-7 * Math.max(x1 - x0, y1 - y0, 1);
     }
-    let ux = 0, uy = 0, cnt = 0;
-    visit(x, y, Math.ceil((best + tol) / h) + 1, (i) => {
-      if (Math.hypot(xy[2 * i] - x, xy[2 * i + 1] - y) <= best + tol) { ux += disp[2 * i]; uy += disp[2 * i + 1]; cnt++; }
-    });
+    const cnt = grid.nearest(x, y, tol), f = grid.found;
+    let ux = 0, uy = 0;
+    for (let k = 0; k < cnt; k++) { ux += disp[2 * f[k]]; uy += disp[2 * f[k] + 1]; }
     return cnt ? [x + (mag * ux) / cnt, y + (mag * uy) / cnt] : [x, y];
   };
 }

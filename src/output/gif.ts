@@ -69,9 +69,15 @@ export function gifOf(frames: Uint8Array[], width: number, height: number, palet
     let x0 = 0, y0 = 0, x1 = width - 1, y1 = height - 1;
     if (prev) {
       x0 = width; y0 = height; x1 = -1; y1 = -1;
-      for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) {
-        const i = y * width + x;
-        if (f[i] !== prev[i]) { if (x < x0) x0 = x; if (x > x1) x1 = x; if (y < y0) y0 = y; if (y > y1) y1 = y; }
+      for (let y = 0, r = 0; y < height; y++, r += width) {
+        // the first and last change of the row, each searched from its own end
+        let a = 0;
+        while (a < width && f[r + a] === prev[r + a]) a++;
+        if (a === width) continue;
+        let b = width - 1;
+        while (f[r + b] === prev[r + b]) b--;
+        if (a < x0) x0 = a; if (b > x1) x1 = b;
+        if (y0 > y) y0 = y; y1 = y;
       }
       if (x1 < 0) { x0 = 0; y0 = 0; x1 = 0; y1 = 0; }
     }
