@@ -13,13 +13,16 @@ import {
 } from './field.js';
 import { insetGeometry, INSET_STYLE } from './inset.js';
 import { constants as zlibConstants, deflateSync } from 'node:zlib';
-import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb, type Overlay, type PaletteLut, type Rgb } from './raster.js';
+import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb, toPalette, type Overlay, type PaletteLut, type Rgb } from './raster.js';
 import { layer, svgDocument, text } from './svg.js';
 
 const WHITE: Rgb = [255, 255, 255];
 const INK = rgb(INK_COLOR);
 /** The layers every frame of a run shares, drawn from SVG once. */
 const SHARED = new Set(['title', 'colorbar', 'damagebar', 'inset', 'scalebar']);
+/** A page of an animation: indices into the run's palette, width × height of them. */
+export interface AnimationPage { ix: Uint8Array; width: number; height: number }
+
 /** Palette PNG: frames have few colours, and it is about a third of the size. */
 export const FRAME_PNG = { palette: true, colours: 128, effort: 1, dither: 0, compressionLevel: 6 } as const;
 
@@ -136,25 +139,42 @@ export class FrameRaster {
   /**
    * One palette for all frames of a run: the colours the quantiser keeps for this picture (the
    * run's last frame, which has the most of them); at most 255 entries, so an animation keeps
-   * one index for transparency.
+   * one index for transparency; with the picture's size.
    */
-  async palette(p: FieldPicture): Promise<Uint8Array> {
+  async palette(p: FieldPicture): Promise<{ palette: Uint8Array; width: number; height: number }> {
     const { data, width, height } = await this.pixels(p);
     const q = await sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
-    return coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 255);
+    return { palette: coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 255), width, height };
   }
 
   private lut: PaletteLut | null = null;
   private lutFor: Uint8Array | null = null;
   private rows = new Uint8Array(0);
 
+  /** The nearest palette entry of each colour met, kept from frame to frame. */
+  private lutOf(palette: Uint8Array): PaletteLut {
+    if (this.lutFor !== palette || !this.lut) { this.lut = paletteLut(); this.lutFor = palette; }
+    return this.lut;
+  }
+
   /** A field picture as PNG bytes: indexed against the run's palette when given, else through sharp's quantiser. */
   async png(p: FieldPicture, palette?: Uint8Array): Promise<Buffer> {
     const { data, width, height } = await this.pixels(p);
     if (!palette) return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
-    // the nearest palette entry of each colour met, kept from frame to frame
-    if (this.lutFor !== palette) { this.lut = paletteLut(); this.lutFor = palette; }
     if (this.rows.length !== (width + 1) * height) this.rows = new Uint8Array((width + 1) * height);
-    return indexedPng(data, width, height, palette, this.lut!, (b) => deflateSync(b, FRAME_DEFLATE), this.rows);
+    return indexedPng(data, width, height, palette, this.lutOf(palette), (b) => deflateSync(b, FRAME_DEFLATE), this.rows);
+  }
+
+  /**
+   * The picture drawn last, at most width px wide (Lanczos resampling), as indices into the
+   * palette: an animation's page, from the pixels in hand rather than a decoded PNG file.
+   */
+  async page(width: number, palette: Uint8Array): Promise<AnimationPage> {
+    const { width: w0, height: h0, px } = this.canvas;
+    const w = Math.max(1, Math.min(w0, Math.round(width))), h = Math.max(1, Math.round((h0 * w) / w0));
+    const raw = await sharp(px, { raw: { width: w0, height: h0, channels: 3 } })
+      .resize({ width: w, height: h, fit: 'contain', position: 'top', background: '#ffffff', kernel: 'lanczos3' })
+      .flatten({ background: '#ffffff' }).removeAlpha().raw().toBuffer();
+    return { ix: toPalette(raw, palette, this.lutOf(palette)), width: w, height: h };
   }
 }

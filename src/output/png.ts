@@ -45,6 +45,12 @@ export function pickFrames(count: number, maxFrames: number): number[] {
   return [...new Set(out)];
 }
 
+/** Delays of an animation's pages (ms): each delayMs, the last held holdLastMs (at least delayMs). */
+export function animationDelays(count: number, delayMs = 120, holdLastMs = 1500): number[] {
+  const delay = Math.round(delayMs), hold = Math.round(holdLastMs);
+  return Array.from({ length: count }, (_, k) => (k === count - 1 ? Math.max(delay, hold) : delay));
+}
+
 /** Join PNG frames (all brought to the first frame's size, at most maxWidth wide) into a looping GIF or WebP animation. */
 export async function framesToAnimation(
   pngPaths: string[],
@@ -52,7 +58,6 @@ export async function framesToAnimation(
   opts: { delayMs?: number; holdLastMs?: number; maxFrames?: number; maxWidth?: number; format?: 'gif' | 'webp' } = {},
 ): Promise<void> {
   if (pngPaths.length === 0) throw new Error('framesToAnimation: no frames');
-  const delay = Math.round(opts.delayMs ?? 120), hold = Math.round(opts.holdLastMs ?? 1500);
   const pick = pickFrames(pngPaths.length, Math.max(1, opts.maxFrames ?? 120));
   const format = opts.format ?? (path.toLowerCase().endsWith('.webp') ? 'webp' : 'gif');
   const first = await sharp(readFileSync(pngPaths[pick[0]])).metadata();
@@ -69,7 +74,7 @@ export async function framesToAnimation(
       .raw()
       .toBuffer()));
   const page = width * height * 3;
-  const delays = pick.map((_, k) => (k === pick.length - 1 ? Math.max(delay, hold) : delay));
+  const delays = animationDelays(pick.length, opts.delayMs, opts.holdLastMs);
   if (format === 'gif') {
     // frames that share a palette of at most 255 colours (rupta's own) go into a GIF with that
     // palette: no quantiser, and the pixels a frame leaves as they were stay transparent
