@@ -14,10 +14,10 @@ import {
 import { insetGeometry, INSET_STYLE } from './inset.js';
 import { constants as zlibConstants, deflateSync } from 'node:zlib';
 import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb, toPalette, type Overlay, type PaletteLut, type Rgb } from './raster.js';
-import { layer, svgDocument, text } from './svg.js';
+import { GlyphText } from './glyphs.js';
 
 const WHITE: Rgb = [255, 255, 255];
-const INK = rgb(INK_COLOR);
+const INK = rgb(INK_COLOR), CAPTION = rgb(CAPTION_COLOR);
 /** The layers every frame of a run shares, drawn from SVG once. */
 const SHARED = new Set(['title', 'colorbar', 'damagebar', 'inset', 'scalebar']);
 /** A page of an animation: indices into the run's palette, width × height of them. */
@@ -36,6 +36,7 @@ const FRAME_DEFLATE = { level: 6, strategy: zlibConstants.Z_RLE };
 export class FrameRaster {
   private canvas = new Canvas();
   private shared = new Map<string, Overlay>();
+  private glyphs: GlyphText | null = null;
 
   /** The raw pixels of a field picture (the layout of fieldSvg at widthPx). */
   async pixels(p: FieldPicture): Promise<{ data: Uint8Array; width: number; height: number }> {
@@ -126,12 +127,14 @@ export class FrameRaster {
       }
     }
 
-    // the caption: a strip of text below everything else
+    // the caption: a strip of text below everything else, from glyphs rendered once
     const top = Math.floor(L.capY);
     if (L.captionLines.length && H > top) {
-      const body = [layer('caption', L.captionLines.map((line, i) => text(L.pad, L.capY - top + (i + 0.8) * 22 * u, line, { 'font-size': 15 * u, fill: CAPTION_COLOR })))];
-      const strip = await sharp(Buffer.from(svgDocument(W, H - top, body)), { density: 72 }).flatten({ background: '#ffffff' }).removeAlpha().raw().toBuffer();
-      cv.rows(strip, top);
+      const fs = 15 * u;
+      if (this.glyphs?.fontPx !== fs) this.glyphs = new GlyphText(fs);
+      await this.glyphs.prepare(L.captionLines);
+      cv.px.fill(255, 3 * top * W);
+      L.captionLines.forEach((line, i) => this.glyphs!.draw(cv, L.pad, L.capY + (i + 0.8) * 22 * u, line, CAPTION));
     }
     return { data: cv.px, width: W, height: H };
   }
