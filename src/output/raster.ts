@@ -79,7 +79,7 @@ export class Canvas {
 
   /** Add a segment of width w (px) with round ends to the stroke being built. */
   segment(xa: number, ya: number, xb: number, yb: number, w: number): void {
-    const h = w / 2 + 0.5, top = Math.min(1, w);
+    const h = w / 2 + 0.5, h2 = h * h, top = Math.min(1, w);
     const [c0, r0, c1, r1] = this.grow(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
     const dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width;
     // on each row, only the columns within h of the segment's line (a pixel farther away is not
@@ -96,8 +96,9 @@ export class Canvas {
         const px = c + 0.5 - xa;
         let t = L2 > 0 ? (px * dx + py * dy) / L2 : 0;
         t = t < 0 ? 0 : t > 1 ? 1 : t;
-        const ex = px - t * dx, ey = py - t * dy;
-        const v = Math.min(top, h - Math.sqrt(ex * ex + ey * ey));
+        const ex = px - t * dx, ey = py - t * dy, d2 = ex * ex + ey * ey;
+        if (d2 >= h2) continue; // not covered: no root to take
+        const v = Math.min(top, h - Math.sqrt(d2));
         if (v > cov[r * W + c]) cov[r * W + c] = v;
       }
     }
