@@ -38,8 +38,11 @@ export class FrameRaster {
   private shared = new Map<string, Overlay>();
   private glyphs: GlyphText | null = null;
 
-  /** The raw pixels of a field picture (the layout of fieldSvg at widthPx). */
-  async pixels(p: FieldPicture): Promise<{ data: Uint8Array; width: number; height: number }> {
+  /**
+   * The raw pixels of a field picture (the layout of fieldSvg at widthPx); sharedKey: a name for
+   * its shared layers, the same for pictures whose shared layers are the same (default: their SVG).
+   */
+  async pixels(p: FieldPicture, sharedKey?: string): Promise<{ data: Uint8Array; width: number; height: number }> {
     const L = fieldLayout(p), u = L.u, cv = this.canvas;
     const W = Math.ceil(L.W), H = Math.ceil(L.H);
     cv.reset(W, H, WHITE);
@@ -102,12 +105,13 @@ export class FrameRaster {
     }
 
     // what every frame shares, from SVG once
-    const sharedSvg = fieldSvg(p, SHARED);
-    let o = this.shared.get(sharedSvg);
+    // (under the caller's key when it has one: building the SVG only to look it up costs about 2 ms a frame)
+    const key = sharedKey ?? fieldSvg(p, SHARED);
+    let o = this.shared.get(key);
     if (!o) {
-      o = overlayOf(await sharp(Buffer.from(sharedSvg), { density: 72, limitInputPixels: false }).ensureAlpha().raw().toBuffer());
+      o = overlayOf(await sharp(Buffer.from(fieldSvg(p, SHARED)), { density: 72, limitInputPixels: false }).ensureAlpha().raw().toBuffer());
       this.shared.clear();
-      this.shared.set(sharedSvg, o);
+      this.shared.set(key, o);
     }
     cv.overlay(o);
 
@@ -160,9 +164,9 @@ export class FrameRaster {
     return this.lut;
   }
 
-  /** A field picture as PNG bytes: indexed against the run's palette when given, else through sharp's quantiser. */
-  async png(p: FieldPicture, palette?: Uint8Array): Promise<Buffer> {
-    const { data, width, height } = await this.pixels(p);
+  /** A field picture as PNG bytes: indexed against the run's palette when given, else through sharp's quantiser (sharedKey: see pixels). */
+  async png(p: FieldPicture, palette?: Uint8Array, sharedKey?: string): Promise<Buffer> {
+    const { data, width, height } = await this.pixels(p, sharedKey);
     if (!palette) return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
     if (this.rows.length !== (width + 1) * height) this.rows = new Uint8Array((width + 1) * height);
     return indexedPng(data, width, height, palette, this.lutOf(palette), (b) => deflateSync(b, FRAME_DEFLATE), this.rows);

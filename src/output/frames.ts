@@ -219,6 +219,12 @@ export function framePicture(c: CaseModel, d: StepData, rows: StepRow[], plan: F
   };
 }
 
+/**
+ * What tells apart the shared layers (title, colour bar, damage key, the inset's whole curve and
+ * axes, scale bar) of two frames of one plan: only whether a damage key is drawn, and the size.
+ */
+const sharedLayersKey = (p: FieldPicture): string => `${p.widthPx}|${p.cohesive?.length ? 1 : 0}|${p.caption?.length ?? 0}`;
+
 /** The SVG picture of one stored state. */
 export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan): string {
   return fieldSvg(framePicture(c, d, rows, plan, 1000));
@@ -241,7 +247,8 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
     if (svg !== null) writeFileAtomic(`${base}.svg`, svg);
     if (c.output.frames.includes('png')) {
       // drawn straight into pixels at the PNG's width: no SVG text to build and parse for the mesh
-      const png = await raster.png(framePicture(c, d, rows, plan, c.output.pngWidth), palette);
+      const pic = framePicture(c, d, rows, plan, c.output.pngWidth);
+      const png = await raster.png(pic, palette, sharedLayersKey(pic));
       writeFileAtomic(`${base}.png`, png);
       // the frame itself: a smaller copy would save little on a palette PNG and cost a resize and an encode
       const uri = `data:image/png;base64,${png.toString('base64')}`;
