@@ -110,7 +110,7 @@ export class FrameRaster {
     let o = this.shared.get(key);
     if (!o) {
       o = overlayOf(await sharp(Buffer.from(fieldSvg(p, SHARED)), { density: 72, limitInputPixels: false }).ensureAlpha().raw().toBuffer());
-      this.shared.clear();
+      if (this.shared.size >= 4) this.shared.clear(); // a run's frames have one or two kinds (with and without a damage key)
       this.shared.set(key, o);
     }
     cv.overlay(o);
@@ -148,8 +148,8 @@ export class FrameRaster {
    * run's last frame, which has the most of them); at most 255 entries, so an animation keeps
    * one index for transparency; with the picture's size.
    */
-  async palette(p: FieldPicture): Promise<{ palette: Uint8Array; width: number; height: number }> {
-    const { data, width, height } = await this.pixels(p);
+  async palette(p: FieldPicture, sharedKey?: string): Promise<{ palette: Uint8Array; width: number; height: number }> {
+    const { data, width, height } = await this.pixels(p, sharedKey);
     const q = await sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
     return { palette: coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 255), width, height };
   }

@@ -288,7 +288,8 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
   if (c.output.frames.includes('png')) {
     // one palette for every frame: quantised once, each frame then only looks its colours up
     const last = plan.steps[plan.steps.length - 1]!;
-    const q = await here.palette(framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth));
+    const pic = framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth);
+    const q = await here.palette(pic, sharedLayersKey(pic));
     plan.palette = Array.from(q.palette);
     pixels = q.width * q.height * plan.steps.length;
   }

@@ -272,9 +272,12 @@ export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, 
 /** Pixels mapped to a fixed palette and written as an indexed PNG: rows unfiltered, as the PNG specification recommends for palette images, then deflated. */
 export function indexedPng(px: Uint8Array, width: number, height: number, palette: Uint8Array, lut: PaletteLut, deflate: (b: Uint8Array) => Uint8Array, scratch?: Uint8Array): Buffer {
   const rows = scratch && scratch.length === (width + 1) * height ? scratch : new Uint8Array((width + 1) * height);
+  const bytes = Buffer.from(px.buffer, px.byteOffset, px.byteLength), n = 3 * width, m = width + 1;
   for (let r = 0; r < height; r++) {
-    rows[r * (width + 1)] = 0; // filter: none
-    toPalette(px.subarray(3 * r * width, 3 * (r + 1) * width), palette, lut, rows.subarray(r * (width + 1) + 1, (r + 1) * (width + 1)));
+    rows[r * m] = 0; // filter: none
+    // a row like the one above it (about a quarter of a frame's: margins, flat parts) takes its indices
+    if (r > 0 && bytes.compare(bytes, (r - 1) * n, r * n, r * n, (r + 1) * n) === 0) rows.copyWithin(r * m + 1, (r - 1) * m + 1, r * m);
+    else toPalette(px.subarray(r * n, (r + 1) * n), palette, lut, rows.subarray(r * m + 1, (r + 1) * m));
   }
   const head = Buffer.alloc(13);
   head.writeUInt32BE(width, 0); head.writeUInt32BE(height, 4);
