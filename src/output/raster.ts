@@ -234,10 +234,12 @@ export const paletteLut = (): PaletteLut => ({ index: new Uint8Array(1 << 24), k
 export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, out: Uint8Array = new Uint8Array(px.length / 3)): Uint8Array {
   const n = palette.length / 3;
   if (n < 1 || n > 256 || n % 1 !== 0) throw new Error(`toPalette: a palette of ${n} colours`);
+  // a colour's key: r | g << 8 | b << 16, the three bytes read at once (little-endian)
   if (!lut.exact) {
     lut.exact = new Map();
-    for (let q = n - 1; q >= 0; q--) lut.exact.set((palette[3 * q] << 16) | (palette[3 * q + 1] << 8) | palette[3 * q + 2], q);
+    for (let q = n - 1; q >= 0; q--) lut.exact.set(palette[3 * q] | (palette[3 * q + 1] << 8) | (palette[3 * q + 2] << 16), q);
   }
+  const exact = lut.exact, index = lut.index, known = lut.known;
   const nearest = (r: number, g: number, b: number): number => {
     let best = 0, bd = Infinity;
     for (let q = 0; q < n; q++) {
@@ -248,22 +250,29 @@ export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, 
     }
     return best;
   };
+  // a colour not met before: its palette entry, or the entry nearest to its cell's centre
+  const learn = (key: number): number => {
+    let j = exact.get(key);
+    if (j === undefined) {
+      const r = key & 255, g = (key >> 8) & 255, b = key >> 16;
+      const c = ((r >> 3) << 10) | ((g >> 3) << 5) | (b >> 3);
+      if (lut.cell[c] < 0) lut.cell[c] = nearest((r & 0xf8) + 4, (g & 0xf8) + 4, (b & 0xf8) + 4);
+      j = lut.cell[c];
+    }
+    index[key] = j;
+    known[key >> 3] |= 1 << (key & 7);
+    return j;
+  };
+  const m = px.length / 3;
+  if (m === 0) return out;
+  const dv = new DataView(px.buffer, px.byteOffset, px.byteLength);
   let last = -1, lastIx = 0;
-  for (let i = 0, k = 0, m = px.length / 3; i < m; i++, k += 3) {
-    const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
+  for (let i = 0, k = 0; i < m; i++, k += 3) {
+    // four bytes read at once, but not past the end
+    const key = i + 1 < m ? dv.getUint32(k, true) & 0xffffff : px[k] | (px[k + 1] << 8) | (px[k + 2] << 16);
     // most pixels repeat their left neighbour (flat cells, white page)
     if (key === last) { out[i] = lastIx; continue; }
-    if ((lut.known[key >> 3] & (1 << (key & 7))) === 0) {
-      let j = lut.exact.get(key);
-      if (j === undefined) {
-        const c = ((px[k] >> 3) << 10) | ((px[k + 1] >> 3) << 5) | (px[k + 2] >> 3);
-        if (lut.cell[c] < 0) lut.cell[c] = nearest((px[k] & 0xf8) + 4, (px[k + 1] & 0xf8) + 4, (px[k + 2] & 0xf8) + 4);
-        j = lut.cell[c];
-      }
-      lut.index[key] = j;
-      lut.known[key >> 3] |= 1 << (key & 7);
-    }
-    out[i] = lastIx = lut.index[key];
+    out[i] = lastIx = (known[key >> 3] & (1 << (key & 7))) === 0 ? learn(key) : index[key];
     last = key;
   }
   return out;
