@@ -1,5 +1,5 @@
 // npm run bench -- --frames [--against DIR]: processor time of the demo beam's analysis against
-// that of its pictures (the frames, drawn on the worker threads, and the animation), side by side;
+// that of its pictures (the frames, with a worker thread where drawFrames starts one, and the animation), side by side;
 // with --against, the same by another build of rupta (a folder holding its compiled .build/), run
 // alternately with this one so both meet the same load on this shared machine. The analysis is a
 // run without frames or animation (mesh, solve and the small files); the pictures are drawn again

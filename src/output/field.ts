@@ -240,11 +240,28 @@ export const UNDEFORMED = '#8a9099';
 export const MESH_ON_VALUES = { opacity: 0.28, width: 0.5 };
 export const MESH_PLAIN = { color: '#5b6470', width: 0.6 };
 
-/** Screen polylines of the undeformed boundary, the interior edges (joined into long lines) and the deformed boundary; a closed loop repeats its first point. */
-export function meshLines(p: FieldPicture, L: FieldLayout): { undeformed: Float64Array[]; inner: Float64Array[]; outline: Float64Array[] } {
-  const mesh = p.mesh, nv = vertexCount(mesh);
+const sameInts = (x: Int32Array, y: Int32Array): boolean =>
+  x.length === y.length && Buffer.from(x.buffer, x.byteOffset, x.byteLength).equals(Buffer.from(y.buffer, y.byteOffset, y.byteLength));
+
+// the chains of the mesh drawn last: the frames of a run mostly share their mesh, and comparing
+// it costs far less than chaining its edges again
+let lastChains: { nv: number; start: Int32Array; verts: Int32Array; loops: number[][]; inner: number[][] } | null = null;
+
+/** The boundary loops and the interior edges of a mesh joined into polylines (vertex lists). */
+function meshChains(mesh: PolyMesh): { loops: number[][]; inner: number[][] } {
+  const nv = vertexCount(mesh), m = lastChains;
+  if (m && m.nv === nv && sameInts(m.start, mesh.cellStart) && sameInts(m.verts, mesh.cellVerts)) return m;
   const edges = meshEdges(mesh);
   const loops = chainEdges(edges.a, edges.b, edges.boundary, nv);
+  const inner = chainEdges(edges.a, edges.b, edges.boundary.map((b) => 1 - b), nv);
+  lastChains = { nv, start: Int32Array.from(mesh.cellStart), verts: Int32Array.from(mesh.cellVerts), loops, inner };
+  return lastChains;
+}
+
+/** Screen polylines of the undeformed boundary, the interior edges (joined into long lines) and the deformed boundary; a closed loop repeats its first point. */
+export function meshLines(p: FieldPicture, L: FieldLayout): { undeformed: Float64Array[]; inner: Float64Array[]; outline: Float64Array[] } {
+  const mesh = p.mesh;
+  const { loops, inner } = meshChains(mesh);
   const toScreen = (line: number[], px: (i: number) => number, py: (i: number) => number): Float64Array => {
     const out = new Float64Array(2 * line.length);
     for (let k = 0; k < line.length; k++) { out[2 * k] = px(line[k]); out[2 * k + 1] = py(line[k]); }
@@ -254,7 +271,7 @@ export function meshLines(p: FieldPicture, L: FieldLayout): { undeformed: Float6
   const showMesh = p.showMesh ?? !p.values;
   return {
     undeformed: p.displacement ? loops.map((l) => toScreen(l, (i) => L.X(mesh.xy[2 * i]), (i) => L.Y(mesh.xy[2 * i + 1]))) : [],
-    inner: showMesh ? chainEdges(edges.a, edges.b, edges.boundary.map((b) => 1 - b), nv).map((l) => toScreen(l, sx, sy)) : [],
+    inner: showMesh ? inner.map((l) => toScreen(l, sx, sy)) : [],
     outline: loops.map((l) => toScreen(l, sx, sy)),
   };
 }
