@@ -84,7 +84,7 @@ export class Canvas {
     const dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width;
     // on each row, only the columns within h of the segment's line (a pixel farther away is not
     // covered): a slanted thin stroke then visits a band instead of its whole box
-    const ady = Math.abs(dy), band = ady > 1e-9 * Math.sqrt(L2) ? (h * Math.sqrt(L2)) / ady + 1 : Infinity;
+    const ady = Math.abs(dy), band = ady > 1e-9 * Math.sqrt(L2) ? (h * Math.sqrt(L2)) / ady + 1e-6 : Infinity;
     for (let r = r0; r < r1; r++) {
       const py = r + 0.5 - ya;
       let cA = c0, cB = c1;
