@@ -3,9 +3,11 @@
 // frame (delay, and one transparent index for the pixels that stay as the frame before left them,
 // inside the box of the ones that change), and the application extension that makes it loop.
 
-// the LZW table, (prefix code, next index) → code, stamped so a clear (or the next frame) needs no
-// wipe: stamp and code side by side (one memory access a look-up), 8 MB kept between calls
-const TABLE = new Int32Array(2 * 4096 * 256);
+// the LZW table, (prefix code, next index) → code, as an open-addressing hash of 8192 slots (at
+// most 4096 entries, so at most half full) of stamp, key and code side by side: 96 KB that stay
+// in cache, stamped so a clear (or the next frame) needs no wipe
+const SLOTS = 8192;
+const TABLE = new Int32Array(3 * SLOTS);
 let gen = 0;
 
 /** LZW codes of a frame's indices (the GIF variant: clear and end codes, widths up to 12 bits). */
@@ -26,11 +28,17 @@ export function lzw(ix: Uint8Array, minSize: number): Uint8Array {
   if (ix.length === 0) { put(end); if (bits > 0) out[o++] = acc & 255; return out.slice(0, o); }
   let prefix = ix[0];
   for (let i = 1; i < ix.length; i++) {
-    const k = ix[i], key = ((prefix << 8) | k) << 1;
-    if (table[key] === gen) { prefix = table[key + 1]; continue; }
+    const k = ix[i], key = (prefix << 8) | k;
+    // Fibonacci hashing of the 20-bit key to 13 bits, then the next slots in turn
+    let h = (Math.imul(key, 0x9e3779b1) >>> 19) * 3, found = -1;
+    while (table[h] === gen) {
+      if (table[h + 1] === key) { found = table[h + 2]; break; }
+      h = h + 3 === 3 * SLOTS ? 0 : h + 3;
+    }
+    if (found >= 0) { prefix = found; continue; }
     put(prefix);
     if (next < 4096) {
-      table[key] = gen; table[key + 1] = next++;
+      table[h] = gen; table[h + 1] = key; table[h + 2] = next++;
       // the reader's table is one entry behind; it widens its codes once it holds 2^size entries
       if (next > 1 << size && size < 12) size++;
     } else {
