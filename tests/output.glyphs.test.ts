@@ -38,6 +38,19 @@ describe('glyph text', () => {
     expect(g.width(LINE)).toBeCloseTo(a.right - X, -1);
   });
 
+  it('keeps ink that reaches left of the pen (the tail of a j)', async () => {
+    const line = 'just 0.5 mm';
+    const whole = await sharp(Buffer.from(svgDocument(W, H, [text(X, Y, line, { 'font-size': FS, fill: '#000000' })])), { density: 72 })
+      .flatten({ background: '#ffffff' }).removeAlpha().raw().toBuffer();
+    const g = new GlyphText(FS), cv = new Canvas();
+    await g.prepare([line]);
+    cv.reset(W, H, [255, 255, 255]);
+    g.draw(cv, X, Y, line, [0, 0, 0]);
+    const a = ink(Uint8Array.from(whole)), b = ink(cv.px);
+    expect(Math.abs(b.left - a.left)).toBeLessThanOrEqual(1);
+    expect(Math.abs(b.dark / a.dark - 1)).toBeLessThan(0.03);
+  });
+
   it('renders only characters not met before', async () => {
     const g = new GlyphText(FS);
     await g.prepare(['12.5 mm']);

@@ -25,14 +25,15 @@ export class GlyphText {
   async prepare(lines: string[]): Promise<void> {
     const fresh = [...new Set([...lines.join('')])].filter((ch) => !this.glyphs.has(ch) && ch !== '\n');
     if (fresh.length === 0) return;
-    const fs = this.fontPx, band = Math.ceil(2 * fs), box = Math.ceil(2 * fs), x0 = Math.ceil(fs);
+    // pad: room left of the pen for ink that reaches back past it (the tail of a j)
+    const fs = this.fontPx, band = Math.ceil(2 * fs), box = Math.ceil(2 * fs), x0 = Math.ceil(fs), pad = Math.ceil(0.3 * fs);
     // each band: the glyph at the four offsets, then a run of (glyph, H) pairs; the first band holds a run of H alone
     const runX = x0 + PHASES * box + box, W = Math.ceil(runX + (RUN + 2) * 2 * fs), H = band * (fresh.length + 1);
     const base = (b: number): number => b * band + Math.round(1.3 * fs);
-    const body: string[] = [text(runX, base(0), 'H'.repeat(RUN), { 'font-size': fs }), text(x0, base(0), 'H', { 'font-size': fs })];
+    const body: string[] = [text(runX, base(0), 'H'.repeat(RUN), { 'font-size': fs }), text(x0 + pad, base(0), 'H', { 'font-size': fs })];
     fresh.forEach((ch, j) => {
       const b = j + 1;
-      for (let k = 0; k < PHASES; k++) body.push(text(x0 + k * box + k / PHASES, base(b), ch, { 'font-size': fs, 'xml:space': 'preserve' }));
+      for (let k = 0; k < PHASES; k++) body.push(text(x0 + k * box + pad + k / PHASES, base(b), ch, { 'font-size': fs, 'xml:space': 'preserve' }));
       body.push(text(runX, base(b), (ch + 'H').repeat(RUN), { 'font-size': fs, 'xml:space': 'preserve' }));
     });
     const px = await sharp(Buffer.from(svgDocument(W, H, body, { background: 'none' })), { density: 72 }).ensureAlpha().extractChannel(3).raw().toBuffer();
@@ -46,7 +47,7 @@ export class GlyphText {
       return c0;
     };
     const runEnd = (b: number): number => inkRight(b, runX, W);
-    const hOne = inkRight(0, x0, x0 + box) - x0;
+    const hOne = inkRight(0, x0, x0 + box) - x0 - pad;
     const hAdvance = (runEnd(0) - runX - hOne) / (RUN - 1);
     fresh.forEach((ch, j) => {
       const b = j + 1;
@@ -63,7 +64,7 @@ export class GlyphText {
         for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) g[y * w + x] = px[(b * band + t + y) * W + x0 + k * box + l + x];
         return g;
       });
-      this.glyphs.set(ch, { advance, w, h, left: l, top: t - (base(b) - b * band), cover });
+      this.glyphs.set(ch, { advance, w, h, left: l - pad, top: t - (base(b) - b * band), cover });
     });
   }
 
