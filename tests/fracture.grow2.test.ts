@@ -8,10 +8,10 @@ import { parseCase } from '../src/case/index.js';
 import { coarseBeam } from './support/beam.js';
 
 describe('crack growth of order 2 in a notched beam', () => {
-  it('the crack runs up the plane of symmetry (common practice), the peak within 1.5 % of order 1 on a fine prescribed path, energy balanced within 1.5 % at every step', async () => {
-    // measured: order 2 on 6 mm tips 2005.0 N, tip 1.3 mm off the plane, balance 1.28 % at its
-    // worst step (refinement around the tip during the run; order 1, which refines the whole line ahead, 0.15 %); the fine
-    // order-1 reference (0.5 mm tips, prescribed path) 1997.9 N
+  it('the crack runs up the plane of symmetry (common practice), the peak within 1.5 % of order 1 on a fine prescribed path, energy balanced within 1 % at every step (energy balance, definition of GF)', async () => {
+    // measured: order 2 on 6 mm tips 2005.0 N, tip 1.3 mm off the plane, balance 0.76 % at its
+    // worst step (seeds 2, 3: 0.16 %, 0.54 %; 1.28 % before the whole line ahead of the tip was
+    // refined at each growth); the fine order-1 reference (0.5 mm tips, prescribed path) 1997.9 N
     const c = coarseBeam({ tip: 6, size: 20, target: 0.2, increments: 40 });
     c.mesh.order = 2;
     const a = new Analysis(c, meshCase(c).mesh);
@@ -27,11 +27,9 @@ describe('crack growth of order 2 in a notched beam', () => {
     f.addCohesiveCut([220, 30], [220, 80]);
     const fine = await f.run(() => {});
     expect(Math.abs(res.peak.load_N / fine.peak.load_N - 1)).toBeLessThan(0.015);
-    // the 1.28 % is one refinement ahead of the tip (step 12: the gap jumps by 0.53 N·mm and
-    // stays): the discrete model changes under the re-solve at the same CMOD. Carrying the
-    // midpoints between topologies left it as it was (the converged state does not depend on
-    // where Newton starts); the next test meshes the ligament at the tip size instead
-    for (const r of res.rows.slice(1)) expect(Math.abs(r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm)).toBeLessThan(0.015 * r.external_work_Nmm);
+    // what is left is the refinement of cells beside the line (the spaces before and after a
+    // mesh change are not nested); the next test meshes the ligament at the tip size instead
+    for (const r of res.rows.slice(1)) expect(Math.abs(r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm)).toBeLessThan(0.01 * r.external_work_Nmm);
   });
 
   it('with the ligament meshed at the tip size from the start, the work of the machine equals the elastic energy plus the energy dissipated on the faces within 1 % at every step (energy balance, definition of GF)', async () => {

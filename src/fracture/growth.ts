@@ -361,14 +361,13 @@ export function grow(g: GrowthRoom): number {
 
 /**
  * The stretch kept at the tip size ahead of a tip: from the tip along its direction to where
- * that line leaves the specimen (order 1; order 2 keeps the disc around the tip, its factor being
- * denser per unknown). A mesh change moves the strain energy of the cells it
+ * that line leaves the specimen (both orders). A mesh change moves the strain energy of the cells it
  * touches, which no interface accounts for (the spaces before and after are not nested); laid
  * out along the whole line before loading, a straight crack meets no change on its way.
  */
 function ahead(g: GrowthRoom, t: Tip): [number, number, number, number] {
   const x = g.wm.x[t.v], y = g.wm.y[t.v];
-  if (g.c.mesh.order === 2 || (t.dx === 0 && t.dy === 0)) return [x, y, x, y];
+  if (t.dx === 0 && t.dy === 0) return [x, y, x, y];
   const L = 2 * domainExtent(g.domain);
   const hit = segmentHitsBoundary(g.domain, x, y, x + L * t.dx, y + L * t.dy);
   return hit ? [x, y, hit.x, hit.y] : [x, y, x + L * t.dx, y + L * t.dy];
