@@ -121,7 +121,7 @@ export function tipOvershoot(g: GrowthRoom): number {
   const starts = startsPossible(g);
   if (!starts && !g.s.tips.some((t) => t.active)) return 0;
   const f = fields(g), { m, stress, areas, cent } = f;
-  // a crack that starts is laid intact like the next segment of a tip: not far above insertAt·ft
+  // a crack that starts is laid intact like the next segment of a tip: not far above its level
   let worst = starts ? Math.min(10, startCandidate(g, f).readiness) : 0;
   for (const t of g.s.tips) {
     // a tip without faces lays its first segment at any load
@@ -134,29 +134,38 @@ export function tipOvershoot(g: GrowthRoom): number {
 }
 
 /**
- * Where new cracks may start. With `crack.start: anywhere`: anywhere in the material while no
- * crack is growing (the first crack, and the next once every tip has joined a hole, another
- * crack or the outline; not beside a crack stopped short of a strip).
+ * Where new cracks may start. With `crack.start: anywhere`: anywhere in the material where the
+ * stress reaches ft away from the cracks and the rig while no crack is growing (the first
+ * crack, and further cracks once every tip has joined a hole, another crack, the outline or a
+ * point of the rig, like those a split disc shows beside its bearing strips), but not while a
+ * crack is held a tip cell short of a strip.
  * Whatever the start: on the rim of a hole that a crack has reached, where the stress there
  * reaches the strength (the far side of the hole, so a crack passes through it as in the lab).
  */
 function startsPossible(g: GrowthRoom): boolean {
-  const tips = g.s.tips;
-  // a crack held a tip cell short of a strip leaves its halves clamped by the strips, which
-  // load them on: a new crack beside it would be the strips' doing, not the specimen's
-  if (g.c.crack!.start === 'anywhere' && !tips.some((t) => t.active || t.end === 'contact')) return true;
-  return tips.some((t) => t.end === 'hole');
+  return freeStarts(g) || g.s.tips.some((t) => t.end === 'hole');
+}
+
+/**
+ * `crack.start: anywhere` and no crack held a tip cell short of a strip: that leaves its
+ * halves clamped by the strips, which load them on, so a new crack beside it would be the
+ * strips' doing, not the specimen's. A crack run through to a rig point has split the
+ * specimen; what the pieces then carry is theirs.
+ */
+function freeStarts(g: GrowthRoom): boolean {
+  return g.c.crack!.start === 'anywhere' && !g.s.tips.some((t) => t.active || t.end === 'contact');
 }
 
 /**
  * The cell where a crack would start next and how close it is (≥ 1: start): the largest major
- * principal stress over insertAt·ft among the cells allowed (away from supports, loads, cracks
- * and tips; on the rim of a reached hole unless `anywhere` applies). Like a tip's next segment
- * the start is laid intact before the stress reaches ft, so its faces take up load gradually.
+ * principal stress over the start level among the cells allowed (away from supports, loads,
+ * cracks and tips; on the rim of a reached hole unless `anywhere` applies). In the bulk a crack
+ * starts at ft. On a reached hole's rim, like a tip's next segment, it is laid intact at
+ * insertAt·ft, so its faces take up load gradually.
  */
 function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: number; readiness: number } {
   const { c, wm, s } = g, crack = c.crack!, { m, stress, cent } = f;
-  const free = crack.start === 'anywhere' && !s.tips.some((t) => t.active || t.end === 'contact');
+  const free = freeStarts(g);
   const reached = new Set<number>();
   for (const t of s.tips) if (t.end === 'hole' && t.hole !== undefined) reached.add(t.hole);
   const rims = [...reached].map((h) => g.holes[h]);
@@ -166,29 +175,27 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
     const pts = q.at ? [q.at] : q.along ? [q.along[0], q.along[1], [(q.along[0][0] + q.along[1][0]) / 2, (q.along[0][1] + q.along[1][1]) / 2]] : [];
     for (const p of pts) away.push({ x: p[0], y: p[1], r: q.width / 2 + keep + (q.along ? Math.hypot(q.along[1][0] - q.along[0][0], q.along[1][1] - q.along[0][1]) / 2 : 0) });
   }
-  // the cracks and tips there are: the stress next to them is theirs to relieve
+  // the cracks and tips there are: the stress next to them is theirs to relieve; ahead of a
+  // growing tip the whole refined zone is its process zone's
   const clear = keep + 2 * c.mesh.tipSize;
   for (const k of s.cracks) for (const v of k.path) away.push({ x: wm.x[v], y: wm.y[v], r: clear });
-  for (const t of s.tips) if (t.active) away.push({ x: wm.x[t.v], y: wm.y[t.v], r: clear });
-  // the first crack of `anywhere` starts at ft: laid at insertAt·ft in the split disc's nearly
-  // uniform field, its interface ran along the diameter and the split took 11× the Newton iterations
-  const ft = c.material.ft * (s.tips.length === 0 ? 1 : crack.insertAt ?? 1), tol = 1e-3 * c.mesh.tipSize;
+  for (const t of s.tips) if (t.active) away.push({ x: wm.x[t.v], y: wm.y[t.v], r: Math.max(clear, c.mesh.refineRadius) });
+  const ft = c.material.ft, rimFt = ft * (crack.insertAt ?? 1), tol = 1e-3 * c.mesh.tipSize;
   const cs = m.cellStart, cv = m.cellVerts, xy = m.xy;
-  let best = -1, bestS = -Infinity;
+  let best = -1, bestR = 0;
   for (let k = 0; k < cs.length - 1; k++) {
     const sxx = stress[3 * k], syy = stress[3 * k + 1], sxy = stress[3 * k + 2];
     const s1 = (sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy);
-    if (s1 <= bestS || s1 < 0.5 * ft) continue;
+    if (s1 <= bestR * rimFt || s1 < 0.5 * rimFt) continue;
     const x = cent[2 * k], y = cent[2 * k + 1];
     if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
-    if (!free) {
-      let onRim = false;
-      for (let j = cs[k]; j < cs[k + 1] && !onRim; j++) onRim = ringAt(rims, xy[2 * cv[j]], xy[2 * cv[j] + 1], tol) >= 0;
-      if (!onRim) continue;
-    }
-    bestS = s1; best = k;
+    let onRim = false;
+    for (let j = cs[k]; j < cs[k + 1] && !onRim && rims.length > 0; j++) onRim = ringAt(rims, xy[2 * cv[j]], xy[2 * cv[j] + 1], tol) >= 0;
+    if (!free && !onRim) continue;
+    const r = s1 / (onRim ? rimFt : ft);
+    if (r > bestR) { bestR = r; best = k; }
   }
-  return { cell: best, readiness: best < 0 ? 0 : bestS / ft };
+  return { cell: best, readiness: bestR };
 }
 
 /**
@@ -332,7 +339,7 @@ export function grow(g: GrowthRoom): number {
     if (through) {
       t.active = false;
       const h = cut.end === 'boundary' ? ringAt(g.holes, wm.x[end], wm.y[end], 1e-3 * c.mesh.tipSize) : -1;
-      t.end = cut.end === 'crack' ? 'crack' : h >= 0 ? 'hole' : atRig ? 'contact' : 'outline';
+      t.end = cut.end === 'crack' ? 'crack' : h >= 0 ? 'hole' : atRig ? 'rig' : 'outline';
       if (h >= 0) {
         t.hole = h;
         // the rim of the hole at the tip size, so that its stress is resolved where a crack may start again

@@ -16,7 +16,7 @@ export interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: numb
 export interface Tip {
   crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number;
   /** Where a stopped tip ended: on the outline, on a hole (`hole`: its index among the domain's holes), on another crack's face, or a tip cell short of a load or support. */
-  end?: 'outline' | 'hole' | 'crack' | 'contact'; hole?: number;
+  end?: 'outline' | 'hole' | 'crack' | 'rig' | 'contact'; hole?: number;
 }
 
 /** One growth event: tip index, position, chosen direction, whether it was the kink out of the start, and the averaged stress there. */
