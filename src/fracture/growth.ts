@@ -292,6 +292,9 @@ export function grow(g: GrowthRoom): number {
     if (g.ftAt) [gx, gy] = weakestDirection(g.ftAt, tx, ty, gx, gy, crack.growthStep, MAX_TURN);
     // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
     if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
+    // beside another crack's face it turns toward that face and joins it
+    const toFace = t.crack >= 0 ? faceAim(g, t, gx, gy) : null;
+    if (toFace) [gx, gy] = toFace;
     s.growthLog.push({ tip: s.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
     // Near where the machine or a support touches the specimen the crack runs through to that
     // face in one cut, ending on a point of the rig (twinned with it, so both halves bear on
@@ -354,6 +357,40 @@ export function grow(g: GrowthRoom): number {
     if (c.mesh.coarsen && at.length > 0) coarsenAway(wm, at, 2 * c.mesh.refineRadius + 2 * c.mesh.size);
   }
   return grown;
+}
+
+/**
+ * The direction of a tip that runs beside the face of another crack (null when none is near):
+ * halfway between its own and the way to the nearest point of that face, when that point lies
+ * within the refined zone around the tip (mesh.refineRadius), inside that crack (not at one of
+ * its ends: two tips meeting head on join by their cuts), and not behind the tip. Between
+ * overlapping cracks the ligament is a bridge that the tips cut across, so that passing cracks
+ * hook into each other's faces (the S-shaped link of offset notches, common practice) instead
+ * of running on side by side; repeated each step, the turn closes on the face.
+ */
+function faceAim(g: GrowthRoom, t: Tip, dx: number, dy: number): [number, number] | null {
+  const { wm, s } = g, x = wm.x[t.v], y = wm.y[t.v], reach = g.c.mesh.refineRadius;
+  const partner = t.partner !== undefined ? s.tips[t.partner].crack : -1;
+  let best: [number, number] | null = null, bd = reach;
+  s.cracks.forEach((k, ki) => {
+    if (ki === t.crack || ki === t.slit || ki === partner) return;
+    const P = k.path;
+    let kd = Infinity, kx = 0, ky = 0, atEnd = false;
+    for (let i = 0; i + 1 < P.length; i++) {
+      const ax = wm.x[P[i]], ay = wm.y[P[i]], ex = wm.x[P[i + 1]] - ax, ey = wm.y[P[i + 1]] - ay, L2 = ex * ex + ey * ey;
+      if (!(L2 > 0)) continue;
+      const u = ((x - ax) * ex + (y - ay) * ey) / L2, uc = Math.max(0, Math.min(1, u));
+      const px = ax + uc * ex - x, py = ay + uc * ey - y, d = Math.hypot(px, py);
+      if (d < kd) { kd = d; kx = px; ky = py; atEnd = (i === 0 && u <= 0) || (i + 2 === P.length && u >= 1); }
+    }
+    // nearest at one of the crack's ends: its tip or mouth, not a face beside; and not behind
+    // the tip (a little past square to it, for a face that bends away)
+    if (atEnd || kd >= bd || kd === 0 || kx * dx + ky * dy < -0.25 * kd) return;
+    bd = kd; best = [kx / kd, ky / kd];
+  });
+  if (!best) return null;
+  const hx = dx + best[0], hy = dy + best[1], h = Math.hypot(hx, hy);
+  return h > 0 ? [hx / h, hy / h] : null;
 }
 
 /** K_I, K_II and the MTS direction at every slit and crack end of the last evaluated state. */
