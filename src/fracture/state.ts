@@ -15,7 +15,7 @@ export interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: numb
 /** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
 export interface Tip {
   crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number;
-  /** Where a stopped tip ended: on the outline, on a hole (`hole`: its index among the domain's holes), on another crack's face, or a tip cell short of a load or support. */
+  /** Where a stopped tip ended: on the outline, on a hole (`hole`: its index among the domain's holes), on another crack's face, on a point of a load or support it ran through to (`rig`), or a tip cell short of one (`contact`). */
   end?: 'outline' | 'hole' | 'crack' | 'rig' | 'contact'; hole?: number;
 }
 
