@@ -8,6 +8,7 @@ import { readFileSync } from 'node:fs';
 import { parseCase } from '../src/case/index.js';
 import type { CaseModel } from '../src/case/model.js';
 import { Analysis, type AnalysisResult } from '../src/fracture/analysis.js';
+import { pairGeometry } from '../src/fracture/equations.js';
 import { meshCase } from '../src/run.js';
 import { renderTemplate } from '../src/templates/index.js';
 import { curvePeaks, runWarnings } from '../src/output/warnings.js';
@@ -94,11 +95,31 @@ describe('two cracks that meet', () => {
     expect(toPath(q.at(-1)!, p)).toBeLessThan(0.1);
     expect(p.at(-1)![0]).toBeGreaterThan(100);
     expect(q.at(-1)![0]).toBeLessThan(100);
+    // where a crack ended on a face, the vertex there was twinned: its copy pairs with the met
+    // crack's other face too, and the pairs of each crack cover its face once (lumped
+    // integration, one node pair per vertex with half of each adjacent segment: common practice)
+    const co = a.wm.toPolyMesh().compactOf, t = c.thickness;
+    const { geom } = pairGeometry(a.wm, a.cracks, co, t);
+    const paired = new Set([...geom.plus, ...geom.minus]);
+    let first = 0;
+    for (const k of a.cracks) {
+      if (k.kind !== 'cohesive') continue;
+      expect(k.joins?.length ?? 0).toBe(1);
+      for (const j of k.joins!) { expect(paired.has(co[j.copy])).toBe(true); expect(paired.has(co[j.v])).toBe(true); }
+      // both ends are twinned (the notch tip it grew from, the face it ended on): the pairs cover its whole length
+      expect(k.twins.every((w) => w >= 0)).toBe(true);
+      const n = k.twins.length + k.joins!.length;
+      let area = 0, length = 0;
+      for (let i = first; i < first + n; i++) area += geom.area[i];
+      for (let i = 0; i + 1 < k.path.length; i++) length += Math.hypot(a.wm.x[k.path[i + 1]] - a.wm.x[k.path[i]], a.wm.y[k.path[i + 1]] - a.wm.y[k.path[i]]);
+      expect(area / t).toBeCloseTo(length, 9);
+      first += n;
+    }
     // a panel cut through carries no load (common practice)
     const pk = curvePeaks(res.rows);
     expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
     expect(pk.later).toBeNull();
-    // measured 0.04 % (0.35 % when one crack ran past the other): checked at the 1 % of a ligament meshed fine from the start
+    // measured 0.28 % (0.35 % when one crack ran past the other): checked at the 1 % of a ligament meshed fine from the start
     expect(worstGap(res)).toBeLessThan(0.01);
   }, 120_000);
 
@@ -136,12 +157,12 @@ describe('a split disc', () => {
     const later = res.crackPaths.slice(2);
     expect(later.length).toBeGreaterThan(0);
     for (const p of later) expect(toPath(p[0], split)).toBeGreaterThan(c.mesh.tipSize);
-    // the halves no longer stand as columns between the strips: measured 57 % of the peak at the
+    // the halves no longer stand as columns between the strips: measured 49 % of the peak at the
     // end of the run, 88-90 % when no crack started after the split (a specimen cracked into
     // pieces carries less: common practice; the issue asks that the load falls after the peak)
     const pk = curvePeaks(res.rows);
     expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.75 * Math.abs(pk.peak.load_N));
     // measured 9.2 %: the split snaps across the diameter at once (DEVELOPERS.md, known gaps)
     expect(worstGap(res)).toBeLessThan(0.12);
-  }, 120_000);
+  }, 300_000);
 });

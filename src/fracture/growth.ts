@@ -334,6 +334,7 @@ export function grow(g: GrowthRoom): number {
       if (q.path[0] === k.path[0] && q.twins[0] < 0) { q.twins[0] = q.path[0]; q.path[0] = tw[0][1]; }
     }
     for (let i = 1; i < cut.path.length; i++) { k.path.push(cut.path[i]); k.twins.push(tw[i][1]); }
+    if (cut.end === 'crack') joinFace(g, t.crack, cut.path[cut.path.length - 1], tw[tw.length - 1][1]);
     const end = cut.path[cut.path.length - 1], prev = cut.path[cut.path.length - 2];
     t.back = [wm.x[prev], wm.y[prev]];
     const L = Math.hypot(wm.x[end] - tx, wm.y[end] - ty);
@@ -391,6 +392,69 @@ function faceAim(g: GrowthRoom, t: Tip, dx: number, dy: number): [number, number
   if (!best) return null;
   const hx = dx + best[0], hy = dy + best[1], h = Math.hypot(hx, hy);
   return h > 0 ? [hx / h, hy / h] : null;
+}
+
+/**
+ * A crack (index `own`) ended on vertex v of another crack's face and twinned it there, its copy
+ * taking the cells on one side of the junction: the met crack records the join, so that the copy
+ * pairs with its other face over the half segment the copy's cells border (pairGeometry) and
+ * starts from the met pair's history. A junction cut into the middle of a face segment first
+ * becomes a vertex of the met crack, paired with a new vertex on the other face's edge.
+ */
+function joinFace(g: GrowthRoom, own: number, v: number, copy: number): void {
+  if (copy < 0) return;
+  const { wm, s } = g;
+  s.cracks.forEach((k, ki) => {
+    if (ki === own || k.kind !== 'cohesive') return;
+    let i = k.path.indexOf(v) >= 0 ? k.path.indexOf(v) : k.twins.indexOf(v);
+    if (i < 0) i = splitFaceSegment(g, k, v);
+    if (i < 0 || k.twins[i] < 0) return;
+    const face = k.path[i] === v ? k.path : k.twins;
+    const next = i + 1 < face.length ? (face[i + 1] >= 0 ? face[i + 1] : k.path[i + 1]) : -1;
+    // the copy's cells border the segment toward the next vertex when one of them has both
+    const after = next >= 0 && wm.cellsOf(copy).some((c) => adjacentIn(wm.cells[c]!, copy, next));
+    (k.joins ??= []).push({ v, copy, after });
+    const h = s.kappa.get(k.path[i]);
+    if (h !== undefined) s.kappa.set(copy, h);
+  });
+}
+
+/**
+ * Vertex v was cut into the face edge between vertices i and i+1 of crack k (its parents):
+ * put it into the crack there with a twin on the other face's edge, so that the two form a pair
+ * (history interpolated from its neighbours). Returns its index in the crack, or −1.
+ */
+function splitFaceSegment(g: GrowthRoom, k: { path: number[]; twins: number[] }, v: number): number {
+  const { wm, s } = g, from = wm.from[v];
+  if (!from || from.v.length !== 2) return -1;
+  const [pa, pb] = from.v, w = from.w[1];
+  const other = (f: number[], o: number[], j: number): number => (o[j] >= 0 ? o[j] : f[j]);
+  for (const [face, opp] of [[k.path, k.twins], [k.twins, k.path]] as const) {
+    for (let i = 0; i + 1 < face.length; i++) {
+      const a = face[i] >= 0 ? face[i] : k.path[i], b = face[i + 1] >= 0 ? face[i + 1] : k.path[i + 1];
+      if (!((a === pa && b === pb) || (a === pb && b === pa))) continue;
+      const a2 = other(face as number[], opp as number[], i), b2 = other(face as number[], opp as number[], i + 1);
+      const cell = wm.cellsOf(a2).find((c) => adjacentIn(wm.cells[c]!, a2, b2));
+      if (cell === undefined) return -1;
+      const t = a === pa ? w : 1 - w;
+      const q = wm.addVertex(wm.x[v], wm.y[v], [a2, b2], [1 - t, t]);
+      wm.insertOnEdge(cell, a2, b2, q);
+      wm.pinned[q] = 1; wm.face[q] = 1;
+      const onPath = face === k.path;
+      k.path.splice(i + 1, 0, onPath ? v : q);
+      k.twins.splice(i + 1, 0, onPath ? q : v);
+      const h0 = s.kappa.get(k.path[i]), h1 = s.kappa.get(k.path[i + 2]);
+      if (h0 !== undefined || h1 !== undefined) s.kappa.set(k.path[i + 1], (1 - t) * (h0 ?? h1!) + t * (h1 ?? h0!));
+      return i + 1;
+    }
+  }
+  return -1;
+}
+
+/** a and b follow each other in the closed vertex list vs. */
+function adjacentIn(vs: readonly number[], a: number, b: number): boolean {
+  const n = vs.length, i = vs.indexOf(a);
+  return i >= 0 && (vs[(i + 1) % n] === b || vs[(i + n - 1) % n] === b);
 }
 
 /** K_I, K_II and the MTS direction at every slit and crack end of the last evaluated state. */

@@ -11,7 +11,15 @@ export interface StepRow {
 
 export interface ProbeRow { step: number; probe: string; x_mm: number; y_mm: number; ux_mm: number; uy_mm: number; sxx_MPa: number; syy_MPa: number; sxy_MPa: number; s1_MPa: number }
 
-export interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
+export interface Crack {
+  kind: 'notch' | 'cohesive'; path: number[]; twins: number[];
+  /**
+   * Where other cracks ended on this one's faces: the face vertex met (`v`, in path or twins),
+   * its copy on the far side of the joining crack, and whether the copy's cells border this
+   * crack's segment toward the next path index (`after`) or the previous one.
+   */
+  joins?: { v: number; copy: number; after: boolean }[];
+}
 /** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
 export interface Tip {
   crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number;
