@@ -14,7 +14,8 @@
 // --fit adds a three-parameter fit of the fit demo by each.
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // npm run bench -- --frames [--against DIR]: the demo's analysis against its pictures, in CPU time (see bench-frames.ts).
-// npm run bench -- --order: error against unknowns and wall time for element orders 1 and 2 (also part of the default run).
+// npm run bench -- --order: error against unknowns and wall time for element orders 1 and 2, and crack growth at both
+// orders on one mesh (also part of the default run).
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -29,7 +30,7 @@ import { DISSECTION_FROM_ROWS, analyze, factorize, readMatrixMarket, writeMatrix
 import { benchMatrix, cholmodDriver, cholmodTimes, cpuSeconds, type BenchResult, type ReferenceTiming, type SolverLib } from './bench-matrix.js';
 import { runCase } from '../src/run.js';
 import { benchStudy } from './bench-study.js';
-import { benchOrder } from './bench-order.js';
+import { benchOrder, benchGrowthOrders } from './bench-order.js';
 import { validationBench } from './bench-validation.js';
 import { benchFrames } from './bench-frames.js';
 
@@ -327,6 +328,7 @@ if (args.includes('--frames')) {
   await benchFrames(repeat, ai >= 0 ? args[ai + 1] : undefined);
 } else if (args.includes('--order')) {
   benchOrder(repeat);
+  await benchGrowthOrders(repeat);
 } else if (mi >= 0) {
   const file = args[mi + 1];
   if (!file) { process.stderr.write('rupta bench: --matrix needs a Matrix Market file\n'); process.exit(2); }
@@ -354,4 +356,5 @@ if (args.includes('--frames')) {
   if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
   validationBench();
   benchOrder(repeat);
+  await benchGrowthOrders(repeat);
 }
