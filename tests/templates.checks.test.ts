@@ -51,12 +51,14 @@ describe('disc-splitting', () => {
   }, SLOW);
 
   // A disc splits along its loaded diameter (common practice); tip cells of 3 mm, the path
-  // measured within 3.6 mm of the diameter, checked within 5 mm.
+  // measured within 3.6 mm of the diameter, checked within 5 mm. The split is the first crack
+  // (its two halves from the interior start); once it has run through to the strips, further
+  // cracks may start beside them (tests/fracture.join.test.ts).
   it('the crack starts inside and runs along the loaded diameter', async () => {
     const c = templateCase('disc-splitting', { 'mesh-size': 15, 'tip-size': 3 }, shortRun(0.6, 10));
     const { res } = await run(c);
     expect(res.status, res.reason).toBe('complete');
-    const pts = res.crackPaths.flat();
+    const pts = res.crackPaths.slice(0, 2).flat();
     const ys = pts.map((p) => p[1]);
     expect(Math.min(...ys), path(res)).toBeLessThan(40);
     expect(Math.max(...ys), path(res)).toBeGreaterThan(110);
