@@ -8,7 +8,9 @@ import { readFileSync } from 'node:fs';
 import { parseCase } from '../src/case/index.js';
 import type { CaseModel } from '../src/case/model.js';
 import { Analysis, type AnalysisResult } from '../src/fracture/analysis.js';
+import { pairGeometry } from '../src/fracture/equations.js';
 import { meshCase } from '../src/run.js';
+import { renderTemplate } from '../src/templates/index.js';
 import { curvePeaks, runWarnings } from '../src/output/warnings.js';
 import { coarseBeam } from './support/beam.js';
 
@@ -56,7 +58,72 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
   }
 });
 
+/** The double-edge-notched panel example on a coarse mesh (notches moved by `offset` mm: the left one down, the right one up). */
+function coarseDen(offset: number): CaseModel {
+  const text = readFileSync(new URL('../cases/den-tension-example.yaml', import.meta.url), 'utf8')
+    .replace(/^mesh:.*$/m, 'mesh: {size: 20, tipSize: 7, refineRadius: 25, seed: 1, lloyd: 6}')
+    .replace(/growthStep: \d+/, 'growthStep: 14').replace(/averagingRadius: \d+/, 'averagingRadius: 21')
+    .replace(/increments: 100/, 'increments: 40').replace(/^output:.*$/m, 'output: {frames: [], animation: none}')
+    .replace('from: [0, 100], to: [25, 100]', `from: [0, ${100 - offset}], to: [25, ${100 - offset}]`)
+    .replace('from: [200, 100], to: [175, 100]', `from: [200, ${100 + offset}], to: [175, ${100 + offset}]`)
+    .replace('gauge: {from: [0, 96], to: [0, 104]}', `gauge: {from: [0, ${96 - offset}], to: [0, ${104 - offset}]}`);
+  return parseCase(text, 'den.yaml');
+}
+
+/** Distance from a point to a polyline. */
+function toPath(p: [number, number], path: [number, number][]): number {
+  let d = Infinity;
+  for (let i = 0; i + 1 < path.length; i++) {
+    const [ax, ay] = path[i], ex = path[i + 1][0] - ax, ey = path[i + 1][1] - ay, L2 = ex * ex + ey * ey;
+    const u = L2 > 0 ? Math.max(0, Math.min(1, ((p[0] - ax) * ex + (p[1] - ay) * ey) / L2)) : 0;
+    d = Math.min(d, Math.hypot(p[0] - ax - u * ex, p[1] - ay - u * ey));
+  }
+  return d;
+}
+
 describe('two cracks that meet', () => {
+  it('offset notches (20 mm apart in height): the cracks pass, hook into each other\'s faces and the panel comes apart', async () => {
+    const c = coarseDen(10);
+    const { a, res } = await run(c);
+    expect(res.status, res.reason).toBe('complete');
+    // before the turn toward a face beside the tip, one crack ran past the other to the far edge
+    const grown = a.tips.filter((t) => t.crack >= 0);
+    expect(grown.length).toBe(2);
+    for (const t of grown) { expect(t.active).toBe(false); expect(t.end).toBe('crack'); }
+    // each crack ends on the other one, beyond where the two tips passed (x = 100): an S-shaped link
+    const [p, q] = res.crackPaths;
+    expect(toPath(p.at(-1)!, q)).toBeLessThan(0.1);
+    expect(toPath(q.at(-1)!, p)).toBeLessThan(0.1);
+    expect(p.at(-1)![0]).toBeGreaterThan(100);
+    expect(q.at(-1)![0]).toBeLessThan(100);
+    // where a crack ended on a face, the vertex there was twinned: its copy pairs with the met
+    // crack's other face too, and the pairs of each crack cover its face once (lumped
+    // integration, one node pair per vertex with half of each adjacent segment: common practice)
+    const co = a.wm.toPolyMesh().compactOf, t = c.thickness;
+    const { geom } = pairGeometry(a.wm, a.cracks, co, t);
+    const paired = new Set([...geom.plus, ...geom.minus]);
+    let first = 0;
+    for (const k of a.cracks) {
+      if (k.kind !== 'cohesive') continue;
+      expect(k.joins?.length ?? 0).toBe(1);
+      for (const j of k.joins!) { expect(paired.has(co[j.copy])).toBe(true); expect(paired.has(co[j.v])).toBe(true); }
+      // both ends are twinned (the notch tip it grew from, the face it ended on): the pairs cover its whole length
+      expect(k.twins.every((w) => w >= 0)).toBe(true);
+      const n = k.twins.length + k.joins!.length;
+      let area = 0, length = 0;
+      for (let i = first; i < first + n; i++) area += geom.area[i];
+      for (let i = 0; i + 1 < k.path.length; i++) length += Math.hypot(a.wm.x[k.path[i + 1]] - a.wm.x[k.path[i]], a.wm.y[k.path[i + 1]] - a.wm.y[k.path[i]]);
+      expect(area / t).toBeCloseTo(length, 9);
+      first += n;
+    }
+    // a panel cut through carries no load (common practice)
+    const pk = curvePeaks(res.rows);
+    expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
+    expect(pk.later).toBeNull();
+    // measured 0.28 % (0.35 % when one crack ran past the other): checked at the 1 % of a ligament meshed fine from the start
+    expect(worstGap(res)).toBeLessThan(0.01);
+  }, 120_000);
+
   it('double-edge-notched tension: the cracks from both notches join and the panel comes apart', async () => {
     const text = readFileSync(new URL('../cases/den-tension-example.yaml', import.meta.url), 'utf8')
       .replace(/^mesh:.*$/m, 'mesh: {size: 20, tipSize: 7, refineRadius: 25, seed: 1, lloyd: 6}')
@@ -75,4 +142,28 @@ describe('two cracks that meet', () => {
     // measured 0.05 %: checked at the 1 % the beam tests ask of a ligament meshed fine from the start
     expect(worstGap(res)).toBeLessThan(0.01);
   }, 120_000);
+});
+
+describe('a split disc', () => {
+  it('starts further cracks beside its strips once the split has run through to them, and its load falls', async () => {
+    const text = renderTemplate('disc-splitting', { 'mesh-size': '10', 'tip-size': '3' }).replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+    const c = parseCase(text, 'disc.yaml');
+    const { a, res } = await run(c);
+    expect(res.status, res.reason).toBe('complete');
+    // the split runs from the centre through to both strips (its tips end on points of the rig)
+    expect(a.tips[0].end).toBe('rig');
+    expect(a.tips[1].end).toBe('rig');
+    // then cracks start in the bulk beside it, away from the split (not on it)
+    const split = [...res.crackPaths[0]].reverse().concat(res.crackPaths[1]);
+    const later = res.crackPaths.slice(2);
+    expect(later.length).toBeGreaterThan(0);
+    for (const p of later) expect(toPath(p[0], split)).toBeGreaterThan(c.mesh.tipSize);
+    // the halves no longer stand as columns between the strips: measured 49 % of the peak at the
+    // end of the run, 88-90 % when no crack started after the split (a specimen cracked into
+    // pieces carries less: common practice; the issue asks that the load falls after the peak)
+    const pk = curvePeaks(res.rows);
+    expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.75 * Math.abs(pk.peak.load_N));
+    // measured 9.2 %: the split snaps across the diameter at once (DEVELOPERS.md, known gaps)
+    expect(worstGap(res)).toBeLessThan(0.12);
+  }, 300_000);
 });

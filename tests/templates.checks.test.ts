@@ -55,11 +55,13 @@ describe('disc-splitting', () => {
   // loaded, the two layers of cells at each strip keep their size (their strain energy would
   // move with any remeshing, growth.ts): on this mesh, whose 15 mm cells are as wide as the
   // strips, that is the last 30 mm before each strip, where the crack ran up to 8.4 mm off.
+  // The split is the first crack (its two halves from the interior start); once it has run
+  // through to the strips, further cracks may start beside them (tests/fracture.join.test.ts).
   it('the crack starts inside and runs along the loaded diameter', async () => {
     const c = templateCase('disc-splitting', { 'mesh-size': 15, 'tip-size': 3 }, shortRun(0.6, 10));
     const { res } = await run(c);
     expect(res.status, res.reason).toBe('complete');
-    const pts = res.crackPaths.flat();
+    const pts = res.crackPaths.slice(0, 2).flat();
     const ys = pts.map((p) => p[1]);
     expect(Math.min(...ys), path(res)).toBeLessThan(40);
     expect(Math.max(...ys), path(res)).toBeGreaterThan(110);

@@ -208,7 +208,7 @@ export class Equations {
 
 /** Node pairs of the cohesive cracks (compact ids) with their normals and tributary face areas, and the plus vertex (stable id) of each. */
 export function pairGeometry(wm: WorkMesh, cracks: readonly Crack[], co: Int32Array, thickness: number): { geom: PairGeom; plus: number[] } {
-  const plus: number[] = [], minus: number[] = [], nx: number[] = [], ny: number[] = [], area: number[] = [];
+  const plus: number[] = [], minus: number[] = [], nx: number[] = [], ny: number[] = [], area: number[] = [], keys: number[] = [];
   const { x, y } = wm;
   for (const k of cracks) {
     if (k.kind !== 'cohesive') continue;
@@ -217,18 +217,23 @@ export function pairGeometry(wm: WorkMesh, cracks: readonly Crack[], co: Int32Ar
       if (k.twins[i] < 0) continue;
       const a = i > 0 ? P[i - 1] : P[i], b = i + 1 < n ? P[i + 1] : P[i];
       const tx = x[b] - x[a], ty = y[b] - y[a], L = Math.hypot(tx, ty);
-      const len = 0.5 * ((i > 0 ? Math.hypot(x[P[i]] - x[P[i - 1]], y[P[i]] - y[P[i - 1]]) : 0)
-        + (i + 1 < n ? Math.hypot(x[P[i + 1]] - x[P[i]], y[P[i + 1]] - y[P[i]]) : 0));
-      plus.push(co[P[i]]); minus.push(co[k.twins[i]]);
+      const before = i > 0 ? 0.5 * Math.hypot(x[P[i]] - x[P[i - 1]], y[P[i]] - y[P[i - 1]]) : 0;
+      const after = i + 1 < n ? 0.5 * Math.hypot(x[P[i + 1]] - x[P[i]], y[P[i + 1]] - y[P[i]]) : 0;
       // plus = left face; its normal points from the minus (right) face to it
-      nx.push(-ty / L); ny.push(tx / L); area.push(len * thickness);
+      const j = k.joins?.find((q) => q.v === P[i] || q.v === k.twins[i]);
+      plus.push(co[P[i]]); minus.push(co[k.twins[i]]); keys.push(P[i]);
+      nx.push(-ty / L); ny.push(tx / L); area.push((j ? (j.after ? before : after) : before + after) * thickness);
+      if (!j) continue;
+      // a crack ended on this face here: the copy of the met vertex pairs with the other face
+      // over the half segment its cells border (history keyed by the copy)
+      const onPlus = j.v === P[i];
+      plus.push(co[onPlus ? j.copy : P[i]]); minus.push(co[onPlus ? k.twins[i] : j.copy]); keys.push(j.copy);
+      nx.push(-ty / L); ny.push(tx / L); area.push((j.after ? after : before) * thickness);
     }
   }
-  const plusV: number[] = [];
-  for (const k of cracks) if (k.kind === 'cohesive') k.path.forEach((v, i) => { if (k.twins[i] >= 0) plusV.push(v); });
   return {
     geom: { plus: Int32Array.from(plus), minus: Int32Array.from(minus), nx: Float64Array.from(nx), ny: Float64Array.from(ny), area: Float64Array.from(area) },
-    plus: plusV,
+    plus: keys,
   };
 }
 

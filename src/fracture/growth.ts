@@ -125,7 +125,7 @@ export function tipOvershoot(g: GrowthRoom): number {
   const starts = startsPossible(g);
   if (!starts && !g.s.tips.some((t) => t.active)) return 0;
   const f = fields(g), { m, stress, areas, cent } = f;
-  // a crack that starts is laid intact like the next segment of a tip: not far above insertAt·ft
+  // a crack that starts is laid intact like the next segment of a tip: not far above its level
   let worst = starts ? Math.min(10, startCandidate(g, f).readiness) : 0;
   for (const t of g.s.tips) {
     // a tip without faces lays its first segment at any load
@@ -138,29 +138,38 @@ export function tipOvershoot(g: GrowthRoom): number {
 }
 
 /**
- * Where new cracks may start. With `crack.start: anywhere`: anywhere in the material while no
- * crack is growing (the first crack, and the next once every tip has joined a hole, another
- * crack or the outline; not beside a crack stopped short of a strip).
+ * Where new cracks may start. With `crack.start: anywhere`: anywhere in the material where the
+ * stress reaches ft away from the cracks and the rig while no crack is growing (the first
+ * crack, and further cracks once every tip has joined a hole, another crack, the outline or a
+ * point of the rig, like those a split disc shows beside its bearing strips), but not while a
+ * crack is held a tip cell short of a strip.
  * Whatever the start: on the rim of a hole that a crack has reached, where the stress there
  * reaches the strength (the far side of the hole, so a crack passes through it as in the lab).
  */
 function startsPossible(g: GrowthRoom): boolean {
-  const tips = g.s.tips;
-  // a crack held a tip cell short of a strip leaves its halves clamped by the strips, which
-  // load them on: a new crack beside it would be the strips' doing, not the specimen's
-  if (g.c.crack!.start === 'anywhere' && !tips.some((t) => t.active || t.end === 'contact')) return true;
-  return tips.some((t) => t.end === 'hole');
+  return freeStarts(g) || g.s.tips.some((t) => t.end === 'hole');
+}
+
+/**
+ * `crack.start: anywhere` and no crack held a tip cell short of a strip: that leaves its
+ * halves clamped by the strips, which load them on, so a new crack beside it would be the
+ * strips' doing, not the specimen's. A crack run through to a rig point has split the
+ * specimen; what the pieces then carry is theirs.
+ */
+function freeStarts(g: GrowthRoom): boolean {
+  return g.c.crack!.start === 'anywhere' && !g.s.tips.some((t) => t.active || t.end === 'contact');
 }
 
 /**
  * The cell where a crack would start next and how close it is (≥ 1: start): the largest major
- * principal stress over insertAt·ft among the cells allowed (away from supports, loads, cracks
- * and tips; on the rim of a reached hole unless `anywhere` applies). Like a tip's next segment
- * the start is laid intact before the stress reaches ft, so its faces take up load gradually.
+ * principal stress over the start level among the cells allowed (away from supports, loads,
+ * cracks and tips; on the rim of a reached hole unless `anywhere` applies). In the bulk a crack
+ * starts at ft. On a reached hole's rim, like a tip's next segment, it is laid intact at
+ * insertAt·ft, so its faces take up load gradually.
  */
 function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: number; readiness: number } {
   const { c, wm, s } = g, crack = c.crack!, { m, stress, cent } = f;
-  const free = crack.start === 'anywhere' && !s.tips.some((t) => t.active || t.end === 'contact');
+  const free = freeStarts(g);
   const reached = new Set<number>();
   for (const t of s.tips) if (t.end === 'hole' && t.hole !== undefined) reached.add(t.hole);
   const rims = [...reached].map((h) => g.holes[h]);
@@ -170,29 +179,27 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
     const pts = q.at ? [q.at] : q.along ? [q.along[0], q.along[1], [(q.along[0][0] + q.along[1][0]) / 2, (q.along[0][1] + q.along[1][1]) / 2]] : [];
     for (const p of pts) away.push({ x: p[0], y: p[1], r: q.width / 2 + keep + (q.along ? Math.hypot(q.along[1][0] - q.along[0][0], q.along[1][1] - q.along[0][1]) / 2 : 0) });
   }
-  // the cracks and tips there are: the stress next to them is theirs to relieve
+  // the cracks and tips there are: the stress next to them is theirs to relieve; ahead of a
+  // growing tip the whole refined zone is its process zone's
   const clear = keep + 2 * c.mesh.tipSize;
   for (const k of s.cracks) for (const v of k.path) away.push({ x: wm.x[v], y: wm.y[v], r: clear });
-  for (const t of s.tips) if (t.active) away.push({ x: wm.x[t.v], y: wm.y[t.v], r: clear });
-  // the first crack of `anywhere` starts at ft: laid at insertAt·ft in the split disc's nearly
-  // uniform field, its interface ran along the diameter and the split took 11× the Newton iterations
-  const ft = c.material.ft * (s.tips.length === 0 ? 1 : crack.insertAt ?? 1), tol = 1e-3 * c.mesh.tipSize;
+  for (const t of s.tips) if (t.active) away.push({ x: wm.x[t.v], y: wm.y[t.v], r: Math.max(clear, c.mesh.refineRadius) });
+  const ft = c.material.ft, rimFt = ft * (crack.insertAt ?? 1), tol = 1e-3 * c.mesh.tipSize;
   const cs = m.cellStart, cv = m.cellVerts, xy = m.xy;
-  let best = -1, bestS = -Infinity;
+  let best = -1, bestR = 0;
   for (let k = 0; k < cs.length - 1; k++) {
     const sxx = stress[3 * k], syy = stress[3 * k + 1], sxy = stress[3 * k + 2];
     const s1 = (sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy);
-    if (s1 <= bestS || s1 < 0.5 * ft) continue;
+    if (s1 <= bestR * rimFt || s1 < 0.5 * rimFt) continue;
     const x = cent[2 * k], y = cent[2 * k + 1];
     if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
-    if (!free) {
-      let onRim = false;
-      for (let j = cs[k]; j < cs[k + 1] && !onRim; j++) onRim = ringAt(rims, xy[2 * cv[j]], xy[2 * cv[j] + 1], tol) >= 0;
-      if (!onRim) continue;
-    }
-    bestS = s1; best = k;
+    let onRim = false;
+    for (let j = cs[k]; j < cs[k + 1] && !onRim && rims.length > 0; j++) onRim = ringAt(rims, xy[2 * cv[j]], xy[2 * cv[j] + 1], tol) >= 0;
+    if (!free && !onRim) continue;
+    const r = s1 / (onRim ? rimFt : ft);
+    if (r > bestR) { bestR = r; best = k; }
   }
-  return { cell: best, readiness: best < 0 ? 0 : bestS / ft };
+  return { cell: best, readiness: bestR };
 }
 
 /**
@@ -289,6 +296,9 @@ export function grow(g: GrowthRoom): number {
     if (g.ftAt) [gx, gy] = weakestDirection(g.ftAt, tx, ty, gx, gy, crack.growthStep, MAX_TURN);
     // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
     if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
+    // beside another crack's face it turns toward that face and joins it
+    const toFace = t.crack >= 0 ? faceAim(g, t, gx, gy) : null;
+    if (toFace) [gx, gy] = toFace;
     s.growthLog.push({ tip: s.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
     // Near where the machine or a support touches the specimen the crack runs through to that
     // face in one cut, ending on a point of the rig (twinned with it, so both halves bear on
@@ -328,6 +338,7 @@ export function grow(g: GrowthRoom): number {
       if (q.path[0] === k.path[0] && q.twins[0] < 0) { q.twins[0] = q.path[0]; q.path[0] = tw[0][1]; }
     }
     for (let i = 1; i < cut.path.length; i++) { k.path.push(cut.path[i]); k.twins.push(tw[i][1]); }
+    if (cut.end === 'crack') joinFace(g, t.crack, cut.path[cut.path.length - 1], tw[tw.length - 1][1]);
     const end = cut.path[cut.path.length - 1], prev = cut.path[cut.path.length - 2];
     t.back = [wm.x[prev], wm.y[prev]];
     const L = Math.hypot(wm.x[end] - tx, wm.y[end] - ty);
@@ -336,7 +347,7 @@ export function grow(g: GrowthRoom): number {
     if (through) {
       t.active = false;
       const h = cut.end === 'boundary' ? ringAt(g.holes, wm.x[end], wm.y[end], 1e-3 * c.mesh.tipSize) : -1;
-      t.end = cut.end === 'crack' ? 'crack' : h >= 0 ? 'hole' : atRig ? 'contact' : 'outline';
+      t.end = cut.end === 'crack' ? 'crack' : h >= 0 ? 'hole' : atRig ? 'rig' : 'outline';
       if (h >= 0) {
         t.hole = h;
         // the rim of the hole at the tip size, so that its stress is resolved where a crack may start again
@@ -390,6 +401,103 @@ function rigZone(g: GrowthRoom): ((c: number) => boolean) | undefined {
     verts = next;
   }
   return (c) => cells.has(c);
+}
+
+/**
+ * The direction of a tip that runs beside the face of another crack (null when none is near):
+ * halfway between its own and the way to the nearest point of that face, when that point lies
+ * within the refined zone around the tip (mesh.refineRadius), inside that crack (not at one of
+ * its ends: two tips meeting head on join by their cuts), and not behind the tip. Between
+ * overlapping cracks the ligament is a bridge that the tips cut across, so that passing cracks
+ * hook into each other's faces (the S-shaped link of offset notches, common practice) instead
+ * of running on side by side; repeated each step, the turn closes on the face.
+ */
+function faceAim(g: GrowthRoom, t: Tip, dx: number, dy: number): [number, number] | null {
+  const { wm, s } = g, x = wm.x[t.v], y = wm.y[t.v], reach = g.c.mesh.refineRadius;
+  const partner = t.partner !== undefined ? s.tips[t.partner].crack : -1;
+  let best: [number, number] | null = null, bd = reach;
+  s.cracks.forEach((k, ki) => {
+    if (ki === t.crack || ki === t.slit || ki === partner) return;
+    const P = k.path;
+    let kd = Infinity, kx = 0, ky = 0, atEnd = false;
+    for (let i = 0; i + 1 < P.length; i++) {
+      const ax = wm.x[P[i]], ay = wm.y[P[i]], ex = wm.x[P[i + 1]] - ax, ey = wm.y[P[i + 1]] - ay, L2 = ex * ex + ey * ey;
+      if (!(L2 > 0)) continue;
+      const u = ((x - ax) * ex + (y - ay) * ey) / L2, uc = Math.max(0, Math.min(1, u));
+      const px = ax + uc * ex - x, py = ay + uc * ey - y, d = Math.hypot(px, py);
+      if (d < kd) { kd = d; kx = px; ky = py; atEnd = (i === 0 && u <= 0) || (i + 2 === P.length && u >= 1); }
+    }
+    // nearest at one of the crack's ends: its tip or mouth, not a face beside; and not behind
+    // the tip (a little past square to it, for a face that bends away)
+    if (atEnd || kd >= bd || kd === 0 || kx * dx + ky * dy < -0.25 * kd) return;
+    bd = kd; best = [kx / kd, ky / kd];
+  });
+  if (!best) return null;
+  const hx = dx + best[0], hy = dy + best[1], h = Math.hypot(hx, hy);
+  return h > 0 ? [hx / h, hy / h] : null;
+}
+
+/**
+ * A crack (index `own`) ended on vertex v of another crack's face and twinned it there, its copy
+ * taking the cells on one side of the junction: the met crack records the join, so that the copy
+ * pairs with its other face over the half segment the copy's cells border (pairGeometry) and
+ * starts from the met pair's history. A junction cut into the middle of a face segment first
+ * becomes a vertex of the met crack, paired with a new vertex on the other face's edge.
+ */
+function joinFace(g: GrowthRoom, own: number, v: number, copy: number): void {
+  if (copy < 0) return;
+  const { wm, s } = g;
+  s.cracks.forEach((k, ki) => {
+    if (ki === own || k.kind !== 'cohesive') return;
+    let i = k.path.indexOf(v) >= 0 ? k.path.indexOf(v) : k.twins.indexOf(v);
+    if (i < 0) i = splitFaceSegment(g, k, v);
+    if (i < 0 || k.twins[i] < 0) return;
+    const face = k.path[i] === v ? k.path : k.twins;
+    const next = i + 1 < face.length ? (face[i + 1] >= 0 ? face[i + 1] : k.path[i + 1]) : -1;
+    // the copy's cells border the segment toward the next vertex when one of them has both
+    const after = next >= 0 && wm.cellsOf(copy).some((c) => adjacentIn(wm.cells[c]!, copy, next));
+    (k.joins ??= []).push({ v, copy, after });
+    const h = s.kappa.get(k.path[i]);
+    if (h !== undefined) s.kappa.set(copy, h);
+  });
+}
+
+/**
+ * Vertex v was cut into the face edge between vertices i and i+1 of crack k (its parents):
+ * put it into the crack there with a twin on the other face's edge, so that the two form a pair
+ * (history interpolated from its neighbours). Returns its index in the crack, or −1.
+ */
+function splitFaceSegment(g: GrowthRoom, k: { path: number[]; twins: number[] }, v: number): number {
+  const { wm, s } = g, from = wm.from[v];
+  if (!from || from.v.length !== 2) return -1;
+  const [pa, pb] = from.v, w = from.w[1];
+  const other = (f: number[], o: number[], j: number): number => (o[j] >= 0 ? o[j] : f[j]);
+  for (const [face, opp] of [[k.path, k.twins], [k.twins, k.path]] as const) {
+    for (let i = 0; i + 1 < face.length; i++) {
+      const a = face[i] >= 0 ? face[i] : k.path[i], b = face[i + 1] >= 0 ? face[i + 1] : k.path[i + 1];
+      if (!((a === pa && b === pb) || (a === pb && b === pa))) continue;
+      const a2 = other(face as number[], opp as number[], i), b2 = other(face as number[], opp as number[], i + 1);
+      const cell = wm.cellsOf(a2).find((c) => adjacentIn(wm.cells[c]!, a2, b2));
+      if (cell === undefined) return -1;
+      const t = a === pa ? w : 1 - w;
+      const q = wm.addVertex(wm.x[v], wm.y[v], [a2, b2], [1 - t, t]);
+      wm.insertOnEdge(cell, a2, b2, q);
+      wm.pinned[q] = 1; wm.face[q] = 1;
+      const onPath = face === k.path;
+      k.path.splice(i + 1, 0, onPath ? v : q);
+      k.twins.splice(i + 1, 0, onPath ? q : v);
+      const h0 = s.kappa.get(k.path[i]), h1 = s.kappa.get(k.path[i + 2]);
+      if (h0 !== undefined || h1 !== undefined) s.kappa.set(k.path[i + 1], (1 - t) * (h0 ?? h1!) + t * (h1 ?? h0!));
+      return i + 1;
+    }
+  }
+  return -1;
+}
+
+/** a and b follow each other in the closed vertex list vs. */
+function adjacentIn(vs: readonly number[], a: number, b: number): boolean {
+  const n = vs.length, i = vs.indexOf(a);
+  return i >= 0 && (vs[(i + 1) % n] === b || vs[(i + n - 1) % n] === b);
 }
 
 /** K_I, K_II and the MTS direction at every slit and crack end of the last evaluated state. */

@@ -11,12 +11,20 @@ export interface StepRow {
 
 export interface ProbeRow { step: number; probe: string; x_mm: number; y_mm: number; ux_mm: number; uy_mm: number; sxx_MPa: number; syy_MPa: number; sxy_MPa: number; s1_MPa: number }
 
-export interface Crack { kind: 'notch' | 'cohesive'; path: number[]; twins: number[] }
+export interface Crack {
+  kind: 'notch' | 'cohesive'; path: number[]; twins: number[];
+  /**
+   * Where other cracks ended on this one's faces: the face vertex met (`v`, in path or twins),
+   * its copy on the far side of the joining crack, and whether the copy's cells border this
+   * crack's segment toward the next path index (`after`) or the previous one.
+   */
+  joins?: { v: number; copy: number; after: boolean }[];
+}
 /** A crack tip; `slit` is the traction-free slit it starts from (index into cracks, −1 if none). */
 export interface Tip {
   crack: number; v: number; dx: number; dy: number; back: [number, number] | null; active: boolean; slit?: number; partner?: number;
-  /** Where a stopped tip ended: on the outline, on a hole (`hole`: its index among the domain's holes), on another crack's face, or a tip cell short of a load or support. */
-  end?: 'outline' | 'hole' | 'crack' | 'contact'; hole?: number;
+  /** Where a stopped tip ended: on the outline, on a hole (`hole`: its index among the domain's holes), on another crack's face, on a point of a load or support it ran through to (`rig`), or a tip cell short of one (`contact`). */
+  end?: 'outline' | 'hole' | 'crack' | 'rig' | 'contact'; hole?: number;
 }
 
 /** One growth event: tip index, position, chosen direction, whether it was the kink out of the start, and the averaged stress there. */
