@@ -51,4 +51,23 @@ describe('condensation onto the crack faces', () => {
       expect(Math.abs(a.rows[i].displacement_mm - b.rows[i].displacement_mm)).toBeLessThan(1e-9 + 1e-7 * Math.abs(b.rows[i].displacement_mm));
     }
   });
+
+  it('a crack cut through to the load point condenses too (the point and its twin driven alike) and gives the curve of all unknowns', async () => {
+    const c = coarseBeam({ target: 0.15, increments: 12 });
+    const runs = [];
+    for (const condense of [true, false]) {
+      const a = new Analysis(c, meshCase(c).mesh, { condense });
+      a.tips.splice(0);
+      a.addCohesiveCut([220, 30], [220, 100]);
+      runs.push({ res: await a.run(() => {}), condensed: a.condensedFaces });
+    }
+    const [a, b] = runs;
+    expect(a.condensed).toBe(true);
+    expect(a.res.status).toBe('complete');
+    expect(a.res.rows.length).toBe(b.res.rows.length);
+    for (let i = 0; i < a.res.rows.length; i++) {
+      expect(a.res.rows[i].iterations).toBe(b.res.rows[i].iterations);
+      expect(a.res.rows[i].load_N).toBeCloseTo(b.res.rows[i].load_N, 4);
+    }
+  });
 });

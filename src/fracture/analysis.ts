@@ -345,6 +345,9 @@ export class Analysis {
   /** Free dofs of the current mesh. */
   get freeDofs(): number { return this.equations().sys.nFree; }
 
+  /** Whether Newton runs on the bulk condensed onto the faces in the current topology (null: no cohesive solve in it yet). */
+  get condensedFaces(): boolean | null { const c = this.equations().work.cond; return c === undefined ? null : c !== null; }
+
   /** Everything the loop needs to go on from `at` (deep copies: the run may go on at once). */
   state(at: LoopState): AnalysisState { return checkpointState(this.s, this.wm, at); }
 

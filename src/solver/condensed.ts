@@ -172,14 +172,21 @@ export class Condensation {
 
   /**
    * The condensation of sys, or null where it does not apply: no face pairs, a face dof driven
-   * or slaved (its force would reach the machine) or shared by two pairs, too many face dofs, or
-   * a bulk that is not held once the faces are (the full Newton then reports it).
+   * or slaved (its force would reach the machine) while the other face of its pair is not
+   * driven alike, a face dof shared by two pairs, too many face dofs, or a bulk that is not held
+   * once the faces are (the full Newton then reports it). A pair whose two faces are driven
+   * alike (a crack run through to a load point and its twin) has a jump of zero there, and its
+   * forces on the two faces cancel in the machine force, so it counts as held.
    */
   static build(sys: System): Condensation | null {
     const P = sys.pairs, np = P.plus.length;
     if (np === 0) return null;
     const held = new Uint8Array(sys.nDof);
     for (const d of sys.driven.fixed) held[d] = 1;
+    for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
+      const a = 2 * P.plus[p] + c, b = 2 * P.minus[p] + c;
+      if (sys.boundAlike(a, b)) held[a] = held[b] = 1;
+    }
     const sym = sys.sym, n = sys.nFree;
     let first = n;
     for (let p = 0; p < np; p++) for (const v of [P.plus[p], P.minus[p]]) for (let c = 0; c < 2; c++) {
