@@ -87,6 +87,8 @@ export class Condensation {
   private readonly SMM: Float64Array; private readonly dM: Float64Array;
   private readonly X: Float64Array; private readonly zM: Float64Array;
   private readonly rhs: Float64Array;
+  /** The face dofs of a recovered state (scratch). */
+  private readonly qcWork: Float64Array;
   private readonly gauges = new Map<string, CondensedGauge>();
 
   private constructor(private readonly sys: System, private readonly F: Factor, first: number, alpha: number,
@@ -168,6 +170,7 @@ export class Condensation {
     this.r = new Float64Array(nJ); this.a = new Float64Array(nJ); this.b = new Float64Array(nJ);
     this.qTry = new Float64Array(nJ); this.d = new Float64Array(nJ);
     this.rhs = new Float64Array(n);
+    this.qcWork = new Float64Array(n1);
   }
 
   /**
@@ -260,17 +263,20 @@ export class Condensation {
 
   /** The jumps of a free vector. */
   gatherC(uf: Float64Array, out = new Float64Array(this.nc)): Float64Array {
-    const q = this.gatherFaces(uf);
     out.fill(0);
     // j = u⁺ − u⁻ (a held face counts as zero)
-    for (let i = 0; i < this.n1; i++) if (this.eJ[i] >= 0) out[this.eJ[i]] += this.eW[i] > 0 ? q[i] : -q[i];
+    for (let i = 0; i < this.n1; i++) if (this.eJ[i] >= 0) { const q = uf[this.cFree[i]]; out[this.eJ[i]] += this.eW[i] > 0 ? q : -q; }
     return out;
   }
 
-  /** A gauge with gradient gf (free unknowns) and gl (λ) as it reads on the jumps; once per topology and name. */
-  gauge(name: string, gf: Float64Array, gl: number): CondensedGauge {
+  /**
+   * A gauge as it reads on the jumps, once per topology and name: grad fills gf with its
+   * gradient on the free unknowns and returns the one on λ (called only the first time).
+   */
+  gauge(name: string, gf: Float64Array, grad: (gf: Float64Array) => number): CondensedGauge {
     const known = this.gauges.get(name);
     if (known) return known;
+    const gl = grad(gf);
     const n1 = this.n1, nJ = this.nc, nM = this.nM, g1 = this.gatherFaces(gf), gb = gf.slice();
     for (let p = 0; p < n1; p++) gb[this.cFree[p]] = 0;
     let any = false;
@@ -300,7 +306,7 @@ export class Condensation {
   recover(yJ: Float64Array, lambda: number, uf: Float64Array): void {
     const n1 = this.n1, nJ = this.nc, rhs = this.rhs, SA = this.SA, kb = this.kb;
     // means: m = −X j − λ zM; faces: q_c = E y
-    const qc = new Float64Array(n1);
+    const qc = this.qcWork;
     for (let i = 0; i < n1; i++) {
       let v = 0;
       if (this.eJ[i] >= 0) v += this.eW[i] * yJ[this.eJ[i]];

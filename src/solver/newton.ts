@@ -157,11 +157,12 @@ function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa
   let lambda = kind === 'displacement' ? target : st.lambda;
   let gc: Float64Array | null = null, gl0 = 0;
   if (kind === 'cmod' || kind === 'opening') {
-    const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
-    w.z.fill(0);
-    sys.expand(w.gf.fill(0), 1, w.z);
-    const glf = sys.gaugeGradient(w.gf.fill(0), w.z, gauge, gaugeW);
-    const G = cd.gauge(kind, w.gf, glf);
+    const G = cd.gauge(kind, w.gf, (gf) => {
+      const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
+      w.z.fill(0);
+      sys.expand(gf.fill(0), 1, w.z);
+      return sys.gaugeGradient(gf.fill(0), w.z, gauge, gaugeW);
+    });
     gc = G.gc; gl0 = G.gl;
   }
   const constraint = (q: Float64Array, lam: number, F: number): number => {
