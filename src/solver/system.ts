@@ -296,7 +296,10 @@ export class System {
       // a slaved face dof changes the tangent on its masters
       else if (k >= 0 && S) for (let j = S.slaveStart[k]; j < S.slaveStart[k + 1]; j++) last[this.freeOf[S.masterDof[j]]] = 1;
     }
-    this.symbolic = analyze(this.kff, { ordering: fillReducingOrder(this.kff, 'auto', {}, last) });
+    const order = fillReducingOrder(this.kff, 'auto', {}, last);
+    let lastFrom = this.nFree;
+    for (let k = 0; k < this.nFree; k++) if (last[order[k]]) { lastFrom = k; break; }
+    this.symbolic = analyze(this.kff, { ordering: order, lastFrom });
     let first = this.nFree;
     for (let i = 0; i < this.nFree; i++) if (last[i] && this.symbolic.iperm[i] < first) first = this.symbolic.iperm[i];
     this.firstPairCol = first;
