@@ -286,17 +286,19 @@ export class Analysis {
    * re-solve failed (mesh and cracks are then as they were).
    */
   private growAt(kind: ControlKind, target: number, peak: Peak): string {
-    const before = save(this.s, GEOMETRY, this.wm);
+    // the undo snapshot (mesh included) is taken only once growth is about to change something
+    let before: ReturnType<typeof save<typeof GEOMETRY[number]>> | null = null;
+    const snap = (): void => { before ??= save(this.s, GEOMETRY, this.wm); };
     const maxGrowth = this.opt.maxGrowthPerStep ?? 60;
     for (let g = 0; g < maxGrowth; g++) {
-      if (grow(this.room()) === 0) break;
+      if (grow({ ...this.room(), beforeChange: snap }) === 0) break;
       this.dirty = true;
       const r = this.solveAt(kind, target);
       // a crack through to the boundary with little load left: the specimen has come apart
       if (!r.ok && separated(this.s) && Math.abs(this.s.lastF) <= 0.25 * Math.abs(peak.load_N)) return 'apart';
       if (!r.ok) {
         if (kind === 'opening') return r.reason;
-        restore(this.s, before, this.wm);
+        restore(this.s, before!, this.wm);
         this.dirty = true;
         return r.reason;
       }

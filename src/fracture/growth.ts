@@ -28,6 +28,8 @@ export interface GrowthRoom {
   rig?: readonly number[];
   /** Rings of the domain's holes (flat xy), for cracks that reach a hole and start again on its far side. */
   holes: readonly Float64Array[];
+  /** Called before growth first changes the tips, cracks or mesh (the loop takes its undo snapshot only then). */
+  beforeChange?: () => void;
 }
 
 /** Cell stresses, areas and centroids of the last evaluated state, for the tip checks. */
@@ -213,6 +215,7 @@ export function initiate(g: GrowthRoom): number {
   if (v < 0) v = nearestLive(wm, x, y);
   const ts = tipStress(m, stress, cent, cellAreas(m), wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
   const [dx, dy] = growthDirection(ts, 1, 0);
+  g.beforeChange?.();
   if (onOutline(wm, v)) {
     // from the boundary the crack runs into the material
     const sgn = dx * (x - wm.x[v]) + dy * (y - wm.y[v]) >= 0 ? 1 : -1;
@@ -285,6 +288,7 @@ export function grow(g: GrowthRoom): number {
     if (g.ftAt) [gx, gy] = weakestDirection(g.ftAt, tx, ty, gx, gy, crack.growthStep, MAX_TURN);
     // after the first segment a crack turns smoothly: at most MAX_TURN per growth step
     if (t.crack >= 0) [gx, gy] = limitTurn(t.dx, t.dy, gx, gy, MAX_TURN);
+    g.beforeChange?.();
     s.growthLog.push({ tip: s.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
     // Near where the machine or a support touches the specimen the crack runs through to that
     // face in one cut, ending on a point of the rig (twinned with it, so both halves bear on
