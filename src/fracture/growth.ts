@@ -4,7 +4,6 @@
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
-import { cellAreas } from '../vem/stress.js';
 import { boundaryVertices } from '../solver/driven.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
@@ -14,7 +13,7 @@ import {
   tipStress, growthDirection, hoopDirection, faceKink, limitTurn, MAX_TURN,
   readiness, endPairLoad, frontDistance, type FaceLoad,
 } from './criterion.js';
-import { centroidsOf, type Equations } from './equations.js';
+import type { Equations } from './equations.js';
 import { segDist2 } from '../geometry/rings.js';
 import type { CrackState, Tip } from './state.js';
 import { measureTips, type TipMeasure } from './tips.js';
@@ -36,8 +35,8 @@ export interface GrowthRoom {
 export function fields(g: GrowthRoom): { m: PolyMesh; stress: Float64Array; areas: Float64Array; cent: Float64Array } {
   const m = g.eq.sys.mesh;
   const stress = g.eq.stresses(g.D).cell;
-  const areas = cellAreas(m);
-  return { m, stress, areas, cent: centroidsOf(g.wm, m, g.eq.compact.cellOf) };
+  const { areas, cent } = g.eq.cellGeometry(g.wm);
+  return { m, stress, areas, cent };
 }
 
 /**
@@ -202,7 +201,7 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
 export function initiate(g: GrowthRoom): number {
   const { c, wm } = g, crack = c.crack!, tips = g.s.tips;
   if (!startsPossible(g)) return 0;
-  const f = fields(g), { m, stress, cent } = f;
+  const f = fields(g), { m, stress, cent, areas } = f;
   const { cell: best, readiness: r } = startCandidate(g, f);
   if (best < 0 || r < 1) return 0;
   const x = cent[2 * best], y = cent[2 * best + 1];
@@ -213,7 +212,7 @@ export function initiate(g: GrowthRoom): number {
     if (d < bd && onOutline(wm, w)) { bd = d; v = w; }
   }
   if (v < 0) v = nearestLive(wm, x, y);
-  const ts = tipStress(m, stress, cent, cellAreas(m), wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
+  const ts = tipStress(m, stress, cent, areas, wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
   const [dx, dy] = growthDirection(ts, 1, 0);
   g.beforeChange?.();
   if (onOutline(wm, v)) {
