@@ -1,7 +1,9 @@
 // Cohesive growth out of a slanted sharp slit under remote tension: the first 4 mm of each crack
 // against the maximum tangential stress criterion (Erdogan & Sih 1963) with the K of a central
 // slit, K_I = σ√(πa) sin²β, K_II = σ√(πa) sinβ cosβ (REFERENCES.md), over seeds, two mesh sizes
-// and three slit angles, at both tips of the point-symmetric problem.
+// and three slit angles, at both tips of the point-symmetric problem. The direction of the first
+// 4 mm is the chord from the slit tip to the point 4 mm along the crack, which is also the mean
+// direction of the segments weighted by their length over those 4 mm.
 import { describe, expect, it } from 'vitest';
 import { parseCase } from '../src/case/index.js';
 import { Analysis } from '../src/fracture/analysis.js';
@@ -60,25 +62,35 @@ describe('kink out of a slanted slit during cohesive growth (Erdogan & Sih 1963)
     it(`β = ${beta}°: both tips, 5 seeds, two mesh sizes, within the tolerance of the MTS kink`, async () => {
       const b = beta * Math.PI / 180;
       const mts = mtsKink(Math.sin(b) ** 2, Math.sin(b) * Math.cos(b)) * 180 / Math.PI;
-      // At β = 30° (K_II/K_I = 1.7) the MTS kink leaves the new tip with some K_II (the kink of
-      // local symmetry, K_II = 0, is a few degrees larger), and the slit's T-stress σ cos 2β is
-      // positive, so the kinked crack goes on turning (Cotterell & Rice 1980): measured 3.1–6.4°
-      // beyond the MTS angle at 4 mm, both tips alike; traction-free growth with K at every step
-      // turns as far. The issue asks for 5°; 30° is held to 7.5° (DEVELOPERS.md, known gaps).
+      // The MTS kink is the direction at the slit tip; 4 mm further on (0.4 of the half-length)
+      // the slit's T-stress, σ cos 2β, has turned the crack on past it where T > 0 (β = 30°) and
+      // back where T < 0 (β = 60°) (Cotterell & Rice 1980; the generalized MTS criterion with its
+      // T term, Smith, Ayatollahi & Pavier 2001, turns the kink the same ways; from memory).
+      // Measured at 30°: 3.1–6.4° beyond the MTS angle at 4 mm on these meshes, 4.0–5.9° with
+      // 0.25 mm tip cells and 0.5 mm steps (it does not shrink with the mesh), and traction-free
+      // growth with K at every step turns as far. The issue asks for 5°; 30° is held to 7.5°
+      // (DEVELOPERS.md, known gaps).
       const tol = beta === 30 ? 7.5 : 5;
       const devs: string[] = [];
+      let sum = 0, n = 0;
       for (const [size, tip] of [[16, 1], [10, 0.75]]) {
         for (let seed = 1; seed <= 5; seed++) {
           const k = await firstKinks(beta, size, tip, seed);
           expect(k.length).toBe(2);
           const d = k.map((v) => v - mts);
           devs.push(d.map((v) => v.toFixed(1)).join('/'));
+          for (const v of d) { sum += v; n++; }
           for (const v of d) expect(Math.abs(v), `seed ${seed}, mesh ${size}/${tip}: ${d}`).toBeLessThan(tol);
           // point symmetry: the two tips take the same turn
           expect(Math.abs(d[0] - d[1]), `seed ${seed}, mesh ${size}/${tip}: ${d}`).toBeLessThan(3);
         }
       }
-      console.log(`β = ${beta}°: MTS ${mts.toFixed(1)}°, deviations at 4 mm (tip/tip, deg) ${devs.join(', ')}`);
+      console.log(`β = ${beta}°: MTS ${mts.toFixed(1)}°, deviations at 4 mm (tip/tip, deg) ${devs.join(', ')}; mean ${(sum / n).toFixed(2)}`);
+      // the turn past the MTS kink follows the sign of T (same sources as above): measured means
+      // −4.6° (30°), −0.7° (45°, T = 0), +2.0° (60°); a sign error in the mixity read at the
+      // cohesive tips would turn the cracks the other way
+      if (beta === 30) expect(sum / n, devs.join(', ')).toBeLessThan(0);
+      if (beta === 60) expect(sum / n, devs.join(', ')).toBeGreaterThan(0);
     });
   }
 });

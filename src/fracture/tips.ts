@@ -136,9 +136,13 @@ export function measureTips(
   return ends.map((e) => {
     const x = wm.x[e.v], y = wm.y[e.v];
     // the direction of a chord at least two tip cells long: a slit cut through the cells
-    // wavers by a fraction of a cell, which its last short segment would turn into degrees
+    // wavers by a fraction of a cell, which its last short segment would turn into degrees.
+    // The chord stays on the tip's own crack: a crack kinked out of a slit less than two tip
+    // cells ago would otherwise take a frame turned part way back toward the slit, and K read
+    // in a frame that is not the crack's is not the crack's K.
+    const own = cracks[e.crack].path.length - 1;
     let p = e.back[0];
-    for (const v of e.back) { p = v; if (Math.hypot(x - wm.x[v], y - wm.y[v]) >= 2 * c.mesh.tipSize) break; }
+    for (let i = 0; i < own; i++) { p = e.back[i]; if (Math.hypot(x - wm.x[p], y - wm.y[p]) >= 2 * c.mesh.tipSize) break; }
     const L = Math.hypot(x - wm.x[p], y - wm.y[p]), dx = (x - wm.x[p]) / L, dy = (y - wm.y[p]) / L;
     if (!withK(e.crack)) return { crack: e.crack, end: e.end, v: e.v, x, y, dx, dy, R: 0, KI: null, KII: null, spread: null, kink: null };
     const R = room(wm, cp.mesh, cp.vertexOf, c, cracks, e.crack, e.v, e.back, dx, dy, cap);
