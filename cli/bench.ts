@@ -11,10 +11,11 @@
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file,
 // round by round; with --against DIR also another build's solver on the same file.
 // npm run bench -- --against DIR [--fit]: the demo beam (and its 4× finer bulk) by this build and another, side by side;
-// --fit adds a three-parameter fit of the fit demo by each.
+// --fit adds a three-parameter fit of the fit demo by each (--fit-only: the fits alone).
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // npm run bench -- --frames [--against DIR]: the demo's analysis against its pictures, in CPU time (see bench-frames.ts).
-// npm run bench -- --order: error against unknowns and wall time for element orders 1 and 2 (also part of the default run).
+// npm run bench -- --order: error against unknowns and wall time for element orders 1 and 2, and crack growth at both
+// orders on one mesh (also part of the default run).
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -29,7 +30,7 @@ import { DISSECTION_FROM_ROWS, analyze, factorize, readMatrixMarket, writeMatrix
 import { benchMatrix, cholmodDriver, cholmodTimes, cpuSeconds, type BenchResult, type ReferenceTiming, type SolverLib } from './bench-matrix.js';
 import { runCase } from '../src/run.js';
 import { benchStudy } from './bench-study.js';
-import { benchOrder } from './bench-order.js';
+import { benchOrder, benchGrowthOrders } from './bench-order.js';
 import { validationBench } from './bench-validation.js';
 import { benchFrames } from './bench-frames.js';
 
@@ -273,7 +274,7 @@ async function against(dir: string, repeat: number): Promise<void> {
   ] as const;
   console.log(`this build against ${root} (CPU seconds, medians of ${repeat}, run alternately)`);
   const cpu = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
-  for (const [name, text] of variants) {
+  for (const [name, text] of fitOnly ? [] : variants) {
     const t = { ours: [] as number[], other: [] as number[] };
     const out: Record<string, string> = {};
     for (let r = 0; r < repeat; r++) {
@@ -293,27 +294,35 @@ async function against(dir: string, repeat: number): Promise<void> {
     console.log(`${name}: this ${mo.toFixed(2)} s, other ${mx.toFixed(2)} s, ratio ×${(mo / mx).toFixed(2)}`);
     console.log(`  this:  ${out.ours}\n  other: ${out.other}`);
   }
-  if (withFit) await againstFit(root, cpu);
+  if (withFit) await againstFit(root, cpu, repeat);
 }
 
 /**
- * A three-parameter fit (E, ft, GF) of the fit demo to its synthetic lab curve by this build and
- * the other, one after the other, on two worker threads: the process's CPU time (workers
- * included) and the wall time of each.
+ * A three-parameter fit (E, ft, GF) of the fit demo to its synthetic lab curve by the other
+ * build and this one, alternately, `repeat` times each, on two worker threads: medians of the
+ * process's CPU time (worker threads included) and of the wall time, and their ratios.
  */
-async function againstFit(root: string, cpu: () => number): Promise<void> {
+async function againstFit(root: string, cpu: () => number, repeat: number): Promise<void> {
   const lab = fileURLToPath(new URL('../../cases/fit-demo-lab.csv', import.meta.url));
   const text = readFileSync(fileURLToPath(new URL('../../cases/fit-demo.yaml', import.meta.url)), 'utf8');
   const builds = [['other', join(root, '.build')], ['this', fileURLToPath(new URL('..', import.meta.url))]] as const;
-  for (const [who, dir] of builds) {
-    const fit = (await import(pathToFileURL(join(dir, 'src/lab/fit.js')).href)).fitCase as typeof import('../src/lab/fit.js').fitCase;
-    const pc = (await import(pathToFileURL(join(dir, 'src/case/index.js')).href)).parseCase as typeof parseCase;
-    const rl = (await import(pathToFileURL(join(dir, 'src/lab/import.js')).href)).readLabCurve as typeof import('../src/lab/import.js').readLabCurve;
-    const c0 = cpu(), w0 = now();
-    const r = await fit(pc(text, 'fit-demo.yaml'), [rl(lab)], { params: ['E', 'ft', 'GF'], workers: 2 });
-    const v = r.material as unknown as Record<string, number>;
-    console.log(`three-parameter fit (${who}): CPU ${(cpu() - c0).toFixed(1)} s, wall ${(now() - w0).toFixed(1)} s, ${r.evaluations} simulations, E ${v.E?.toFixed(0)} MPa, ft ${v.ft?.toFixed(3)} MPa, GF ${v.GF?.toFixed(4)} N/mm`);
+  const t: Record<string, { cpu: number[]; wall: number[]; say: string }> = { other: { cpu: [], wall: [], say: '' }, this: { cpu: [], wall: [], say: '' } };
+  for (let k = 0; k < repeat; k++) {
+    for (const [who, dir] of builds) {
+      const fit = (await import(pathToFileURL(join(dir, 'src/lab/fit.js')).href)).fitCase as typeof import('../src/lab/fit.js').fitCase;
+      const pc = (await import(pathToFileURL(join(dir, 'src/case/index.js')).href)).parseCase as typeof parseCase;
+      const rl = (await import(pathToFileURL(join(dir, 'src/lab/import.js')).href)).readLabCurve as typeof import('../src/lab/import.js').readLabCurve;
+      const c0 = cpu(), w0 = now();
+      const r = await fit(pc(text, 'fit-demo.yaml'), [rl(lab)], { params: ['E', 'ft', 'GF'], workers: 2 });
+      t[who]!.cpu.push(cpu() - c0); t[who]!.wall.push(now() - w0);
+      const v = r.material as unknown as Record<string, number>;
+      t[who]!.say = `${r.evaluations} simulations, E ${v.E?.toFixed(0)} MPa, ft ${v.ft?.toFixed(3)} MPa, GF ${v.GF?.toFixed(4)} N/mm, RMSE ${(100 * r.objective).toFixed(2)} % of the peak`;
+      console.log(`  three-parameter fit (${who}, round ${k + 1}): CPU ${t[who]!.cpu[k]!.toFixed(1)} s, wall ${t[who]!.wall[k]!.toFixed(1)} s, ${t[who]!.say}`);
+    }
   }
+  const o = t.other!, m = t.this!;
+  console.log(`three-parameter fit, medians of ${repeat}: this CPU ${median(m.cpu).toFixed(1)} s, wall ${median(m.wall).toFixed(1)} s; other CPU ${median(o.cpu).toFixed(1)} s, wall ${median(o.wall).toFixed(1)} s; ratio CPU ×${(median(m.cpu) / median(o.cpu)).toFixed(2)}, wall ×${(median(m.wall) / median(o.wall)).toFixed(2)}`);
+  console.log(`  this:  ${m.say}\n  other: ${o.say}`);
 }
 
 const args = process.argv.slice(2);
@@ -322,11 +331,13 @@ const ri = args.indexOf('--repeat');
 const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
 const opt = (name: string, d: number) => { const i = args.indexOf(name); return i >= 0 ? Math.max(1, Number(args[i + 1]) || d) : d; };
 const ai = args.indexOf('--against');
-const withFit = args.includes('--fit');
+const fitOnly = args.includes('--fit-only');
+const withFit = fitOnly || args.includes('--fit');
 if (args.includes('--frames')) {
   await benchFrames(repeat, ai >= 0 ? args[ai + 1] : undefined);
 } else if (args.includes('--order')) {
   benchOrder(repeat);
+  await benchGrowthOrders(repeat);
 } else if (mi >= 0) {
   const file = args[mi + 1];
   if (!file) { process.stderr.write('rupta bench: --matrix needs a Matrix Market file\n'); process.exit(2); }
@@ -354,4 +365,5 @@ if (args.includes('--frames')) {
   if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
   validationBench();
   benchOrder(repeat);
+  await benchGrowthOrders(repeat);
 }

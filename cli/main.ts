@@ -160,8 +160,11 @@ program
   .description('draw the frames, the animation and report.html of a finished run folder again, from its own files (the report takes up compare*.json and fit*.json found there)')
   .argument('<run-dir>', 'output folder of a rupta run')
   .option('--report-only', 'write report.html again (with the comparisons and fits now in the folder), keep the frames as they are')
-  .action(async (dir: string, o: { reportOnly?: boolean }) => {
-    const { frames } = await redrawRun(dir, { frames: !o.reportOnly });
+  .option('--workers <n>', 'threads that draw the frames: 0 this one alone, 1 a worker, 2 this one and a worker (default: a worker only for SVG frames or many megapixels)')
+  .action(async (dir: string, o: { reportOnly?: boolean; workers?: string }) => {
+    const workers = o.workers === undefined ? undefined : Number(o.workers);
+    if (workers !== undefined && !(o.workers!.trim() !== '' && Number.isInteger(workers) && workers >= 0 && workers <= 2)) throw new InputError(`--workers must be 0, 1 or 2 threads (found "${o.workers}")`);
+    const { frames } = await redrawRun(dir, { frames: !o.reportOnly, workers });
     process.stdout.write(o.reportOnly ? `wrote report.html in ${dir} (${frames} frame${frames === 1 ? '' : 's'})\n`
       : `redrew ${frames} frame${frames === 1 ? '' : 's'}, the animation and report.html in ${dir}\n`);
   });

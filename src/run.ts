@@ -61,8 +61,7 @@ export async function runCase(c: CaseModel, opt: RunOptions = {}): Promise<RunOu
   const matrixFile = opt.exportMatrix !== undefined ? checkedFilePath(opt.exportMatrix, 'the --export-matrix file') : undefined;
   const lefm = c.crack?.model === 'lefm';
   if (opt.resume && lefm) throw new InputError('--resume goes on from a checkpoint, and crack.model lefm runs write none (they take seconds): run the case again with --force');
-  // an order-2 run keeps only vertex values between topologies, so a resume would not repeat its numbers exactly
-  if (opt.resume && c.mesh.order === 2) throw new InputError('--resume cannot go on with a run of mesh.order 2 (it would not repeat the uninterrupted run exactly): run the case again with --force');
+  if (opt.resume && c.mesh.order === 2 && !c.crack) throw new InputError('--resume goes on from a checkpoint, and elastic runs of mesh.order 2 write none (they are one solve): run the case again with --force');
   // nothing to go on with in a folder that is not there (and no empty folder made to say so)
   if (opt.resume && lstatOrNull(dir) === null) readCheckpoint(dir, c);
   const created = lstatOrNull(dir) === null;

@@ -114,12 +114,12 @@ describe('the command line around a run', () => {
     });
   });
 
-  it('redraws the frames byte for byte on worker threads, with the animation and the report', async () => {
+  it('redraws the frames byte for byte on a worker thread and this one (the run drew them on one), with the animation and the report', async () => {
     const before = new Map<string, Buffer>();
     for (const f of readdirSync(join(run, 'frames'))) if (f.endsWith('.png')) before.set(f, readFileSync(join(run, 'frames', f)));
     for (const f of before.keys()) rmSync(join(run, 'frames', f));
     rmSync(join(run, 'report.html'));
-    const r = await rupta(['redraw', run], tmp, 300_000);
+    const r = await rupta(['redraw', run, '--workers', '2'], tmp, 300_000);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     expect(r.stdout).toContain(`redrew ${before.size} frames`);

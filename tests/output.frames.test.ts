@@ -92,6 +92,16 @@ describe('frames of a run', () => {
     expect(m.delay![STEPS]).toBeGreaterThan(m.delay![0]);
   });
 
+  it('draws the GIF pages with the frames: a frame narrower than the animation is its page pixel for pixel', async () => {
+    const gif = await sharp(join(dir, 'animation.gif'), { pages: -1 }).removeAlpha().raw().toBuffer({ resolveWithObject: true });
+    const page = gif.info.width * gif.info.pageHeight! * 3;
+    for (const k of [0, 4, STEPS]) {
+      const png = await sharp(frame(k) + '.png').removeAlpha().raw().toBuffer({ resolveWithObject: true });
+      expect([png.info.width, png.info.height]).toEqual([gif.info.width, gif.info.pageHeight]);
+      expect(Buffer.compare(png.data, gif.data.subarray(k * page, (k + 1) * page)), `page ${k}`).toBe(0);
+    }
+  });
+
   it('writes the VTK series and the summary alongside', () => {
     expect(readdirSync(join(dir, 'vtk')).filter((f) => f.endsWith('.vtu'))).toHaveLength(STEPS + 1);
     expect(existsSync(join(dir, 'vtk', 'steps.pvd'))).toBe(true);

@@ -6,7 +6,9 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { polyMeshFrom } from '../src/mesh/polymesh.js';
 import { fieldSvg } from '../src/output/field.js';
 import { plotSvg } from '../src/output/plot.js';
-import { framesToAnimation, pickFrames, svgToPng, svgWidth } from '../src/output/png.js';
+import { framesToAnimation, pickFrames, pngPalette, svgToPng, svgWidth } from '../src/output/png.js';
+import { indexedPng, paletteLut } from '../src/output/raster.js';
+import { deflateSync } from 'node:zlib';
 
 const dir = mkdtempSync(join(tmpdir(), 'rupta-png-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -64,5 +66,19 @@ describe('framesToAnimation', () => {
     expect(pickFrames(5, 10)).toEqual([0, 1, 2, 3, 4]);
     expect(pickFrames(101, 5)).toEqual([0, 25, 50, 75, 100]);
     expect(pickFrames(7, 1)).toEqual([6]);
+  });
+});
+
+describe('pngPalette', () => {
+  it('reads the colour table of an indexed PNG (PLTE chunk, PNG specification) and nothing from other PNGs', async () => {
+    const palette = Uint8Array.from([255, 255, 255, 200, 30, 30, 10, 10, 200]);
+    const px = Uint8Array.from([255, 255, 255, 200, 30, 30, 10, 10, 200, 12, 12, 190]);
+    const png = indexedPng(px, 2, 2, palette, paletteLut(), (b) => deflateSync(b));
+    expect(Array.from(pngPalette(png)!)).toEqual(Array.from(palette));
+    const rgb = await sharp(Buffer.from(px), { raw: { width: 2, height: 2, channels: 3 } }).png().toBuffer();
+    expect(pngPalette(rgb)).toBeNull();
+    const withAlpha = await sharp(Buffer.from(px), { raw: { width: 2, height: 2, channels: 3 } }).ensureAlpha(0.5).png({ palette: true }).toBuffer();
+    expect(pngPalette(withAlpha)).toBeNull(); // a tRNS chunk: colours alone would lose the transparency
+    expect(pngPalette(Uint8Array.from([1, 2, 3]))).toBeNull();
   });
 });

@@ -4,9 +4,9 @@
 // fit-checkpoint.jsonl, not run again, so the optimiser retraces its course exactly (common
 // practice for restartable computations: a restart repeats the same sequence). A changed setup
 // or a damaged checkpoint is refused with one sentence. Coarse beam, 12 steps a candidate, a
-// budget of 10 simulations: estimates, simplex, sensitivities and one mesh seed, so the kills
-// land in every phase; on one thread, and once on two (whose course differs: the simplex tries
-// a second candidate at once).
+// budget of 7 simulations: the case's values, the shape search (two at a time), the run at the
+// fitted values with the sensitivity run beside it, and one mesh seed, so the kills land in
+// every phase; on one thread, and once on two (where a kill may fall between the two runs of a pair).
 import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -16,7 +16,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CLI, ROOT, ensureBuilt, rupta, type Ran } from './support/cli.js';
 
 let dir = '';
-const args = (workers: number) => ['fit', 'beam.yaml', '--lab', 'lab.csv', '--workers', String(workers), '--quiet', '--max-evals', '10', '--seeds', '1', '--params', 'ft,GF', '--increments', '12'];
+const args = (workers: number) => ['fit', 'beam.yaml', '--lab', 'lab.csv', '--workers', String(workers), '--quiet', '--max-evals', '7', '--seeds', '1', '--params', 'ft,GF', '--increments', '12'];
 const ARGS = args(0);
 const fit = (out: string, ...extra: string[]): Promise<Ran> => rupta([...ARGS, '--out', out, ...extra], dir, 300_000);
 
@@ -73,8 +73,7 @@ async function reference(out: string, workers: number): Promise<Reference> {
   expect(r.stderr).toMatch(/^rupta: the fit stopped at --max-evals/);
   expect(existsSync(join(dir, out, 'fit-checkpoint.jsonl'))).toBe(false);
   const ref = { rows: historyRows(out), json: result(out), best: text(out, 'beam-best-so-far.yaml'), svg: text(out, 'fit.svg'), report: report(out) };
-  expect(ref.rows.map((l) => l.split(',')[1])).toEqual(['estimate', 'estimate', 'estimate', 'simplex', 'simplex', 'simplex', 'simplex', 'jacobian', 'jacobian', 'seed'].slice(0, ref.rows.length));
-  expect(ref.rows).toHaveLength(10);
+  expect(ref.rows.map((l) => l.split(',')[1])).toEqual(['estimate', 'shape', 'shape', 'shape', 'fitted', 'jacobian', 'seed']);
   return ref;
 }
 
@@ -84,17 +83,17 @@ async function killAndResume(out: string, rows: number, how: How, delay: number,
   expect(r.stderr).not.toMatch(/\n\s+at /);
   if (how === 'SIGKILL') expect(r.signal).toBe('SIGKILL');
   else expect(r.code).toBe(3);
-  if (how === 'SIGINT' || how === 'SIGTERM') expect(r.stderr).toMatch(/the fit was interrupted: interrupted after \d+ simulations; the values are the best so far; go on with the same command and --resume/);
+  if (how === 'SIGINT' || how === 'SIGTERM') expect(r.stderr).toMatch(/the fit was interrupted: interrupted after \d+ simulations(; the values are the best so far|, after the optimum was found); go on with the same command and --resume/);
   // stopped well before its end: the checkpoint is there to go on from
   const ck = join(dir, out, 'fit-checkpoint.jsonl');
   expect(existsSync(ck)).toBe(true);
   const before = historyRows(out);
   expect(before.length).toBeGreaterThanOrEqual(rows);
-  expect(before.length).toBeLessThan(10);
+  expect(before.length).toBeLessThan(7);
   if (refusals) {
-    const other = await rupta([...args(workers), '--out', out, '--resume', '--max-evals', '11'], dir, 300_000);
+    const other = await rupta([...args(workers), '--out', out, '--resume', '--max-evals', '8'], dir, 300_000);
     expect(other.code).toBe(2);
-    expect(other.stderr).toMatch(new RegExp(`^rupta: --resume: the fit in ${out} was started otherwise \\(maxEvals was 10, now 11\\); give the same case, measured curves and options, or --force to start afresh\n$`));
+    expect(other.stderr).toMatch(new RegExp(`^rupta: --resume: the fit in ${out} was started otherwise \\(maxEvals was 7, now 8\\); give the same case, measured curves and options, or --force to start afresh\n$`));
     const fresh = await rupta([...args(workers), '--out', out], dir, 300_000);
     expect(fresh.code).toBe(2);
     expect(fresh.stderr).toMatch(new RegExp(`${out} already holds a fit \\(.*\\): give --force to replace it, --resume to go on with it, or --out for another folder`));
@@ -128,8 +127,8 @@ describe('a fit killed at a seeded moment, then resumed', () => {
   it('runs once uninterrupted on one thread for the reference', async () => { one = await reference('whole', 0); }, 300_000);
 
   const next = delays(20261203);
-  // estimates, the start of the simplex, the sensitivities, the mesh seed
-  const cases: [How, number][] = [['SIGINT', 2], ['SIGTERM', 5], ['twice', 8]];
+  // the shape search's first pair, its last run, the sensitivity run and the mesh seed
+  const cases: [How, number][] = [['SIGINT', 1], ['SIGTERM', 3], ['twice', 5]];
   cases.forEach(([how, rows], k) => {
     const delay = next();
     it(`${how} after ${rows} simulations (+${delay} ms): --resume ends with the same history, values and case${k === 0 ? '; a changed setup and a damaged checkpoint are refused first' : ''}`, async () => {
@@ -143,8 +142,8 @@ describe('a fit killed at a seeded moment, then resumed', () => {
     expect(none.stderr).toMatch(/^rupta: whole holds no interrupted fit to go on with \(no fit-checkpoint\.jsonl; a fit that ran to its end removes it\): start the fit without --resume\n$/);
   }, 60_000);
 
-  it('on two threads: its own reference, then SIGKILL in the simplex and --resume', async () => {
+  it('on two threads: its own reference, then SIGKILL within a pair of the shape search and --resume', async () => {
     two = await reference('whole2', 2);
-    await killAndResume('cut-2t', 6, 'SIGKILL', next(), 2, two);
+    await killAndResume('cut-2t', 2, 'SIGKILL', next(), 2, two);
   }, 600_000);
 });

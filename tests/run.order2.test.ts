@@ -128,8 +128,8 @@ output: {frames: []}
     expect(r.result.rows.at(-1)!.cmod_mm).toBeCloseTo(c.control.target, 10);
   });
 
-  it('refuses --resume with one sentence', async () => {
+  it('refuses --resume of an elastic run (one solve, no checkpoint) with one sentence', async () => {
     await expect(runCase(parseCase(cantilever(2, 5), 'c.yaml'), { out: join(root, 'resume'), resume: true }))
-      .rejects.toThrow('--resume cannot go on with a run of mesh.order 2 (it would not repeat the uninterrupted run exactly): run the case again with --force');
+      .rejects.toThrow('--resume goes on from a checkpoint, and elastic runs of mesh.order 2 write none (they are one solve): run the case again with --force');
   });
 });

@@ -11,14 +11,15 @@ import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
+import { vertexBearings, contactUpdate2 } from '../solver/contact2.js';
 import { RunStopped } from '../errors.js';
-import type { NodeMesh } from '../vem/dofs2.js';
+import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { buildDomain } from '../geometry/domain.js';
 import { strengthOf } from '../study/field.js';
 import { softeningJump, overshootLimit } from './criterion.js';
-import { Equations } from './equations.js';
+import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
@@ -59,7 +60,7 @@ export interface AnalysisResult {
 type Solution = Saved<typeof SOLUTION[number]>;
 
 /** Contact updates tried at one control level before its last solve is taken as it stands. */
-const CONTACT_ROUNDS = 8;
+export const CONTACT_ROUNDS = 8;
 
 export class Analysis {
   readonly wm: WorkMesh;
@@ -77,6 +78,8 @@ export class Analysis {
   private eq!: Equations;
   /** Element stiffnesses of the cells a growth left unchanged, reused by the next topology. */
   private readonly elements = new ElementCache();
+  /** The same for order 2 (condensed cells on the node mesh and their projections). */
+  private readonly cells2: Cell2Cache = new ElementCache<Cell2>();
   /** The mesh or the cracks changed since the equations were built. */
   private dirty = true;
   /** Largest |load| of the converged steps so far (N), for the secant's last-resort tolerance. */
@@ -134,7 +137,7 @@ export class Analysis {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
     this.eqReleased = (s.released ?? []).join(',');
-    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2());
+    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2(), s.mid);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
@@ -145,11 +148,15 @@ export class Analysis {
   /**
    * Order 2: the equations of each topology are built on its node mesh (vertices and edge
    * midpoints, vem/dofs2.ts), rebuilt from the work mesh after every cut, refinement and
-   * coarsening; supports and loads are selected on it, so they hold and drive the midpoints too.
+   * coarsening; supports and loads are selected on it, so they hold and drive the midpoints too,
+   * and a bearing strip lets go of the nodes (vertices and midpoints) lifted off it.
    */
-  private order2(): { drivenOn: (nm: NodeMesh) => Driven } | undefined {
+  private order2(): Order2Setup | undefined {
     if (this.c.mesh.order !== 2) return undefined;
-    return { drivenOn: (nm) => selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid) };
+    return {
+      drivenOn: (nm, key) => releaseFrom(selectDriven(this.c, nm.mesh, 1e-6 * extent(nm.mesh), nm.mid), nodesOf(key, this.s.released ?? []), this.tol),
+      cells: this.cells2,
+    };
   }
 
   private equations(): Equations {
@@ -183,16 +190,17 @@ export class Analysis {
         r = this.solveOnce(kind, target);
         break;
       }
-      // order 2 selects its holds on the node mesh each topology: its strips stay two-sided
-      if (!r.ok || this.driven.strips.length === 0 || this.c.mesh.order === 2 || round >= CONTACT_ROUNDS) break;
-      const eq = this.eq, rig = this.rigNow();
-      const b = bearings(rig, s.released ?? [], eq.compact.compactOf, eq.work.u, eq.work.f, s.lambda, this.tol);
+      if (!r.ok || this.driven.strips.length === 0 || round >= CONTACT_ROUNDS) break;
+      const eq = this.eq, v = this.contactView(), L = eq.node?.layout;
+      const b = bearings(v.rig, v.released, v.co, eq.work.u, eq.work.f, s.lambda, this.tol);
       let umax = Math.abs(s.lambda);
       for (const x of b) umax = Math.max(umax, Math.abs(x.gap));
-      const next = contactUpdate(b, s.released ?? [], 1e-6 * this.fScale, 1e-6 * umax + 1e-9 * this.tol);
+      const tolF = 1e-6 * this.fScale, tolU = 1e-6 * umax + 1e-9 * this.tol;
+      // order 2 decides at the vertices (solver/contact2.ts), its midpoints follow their edges
+      const next = L ? contactUpdate2(b, v.released, L, tolF, tolU) : contactUpdate(b, v.released, tolF, tolU);
       if (!next) break;
       before = s.released ?? [];
-      s.released = next;
+      s.released = next.map(v.key).sort((p, q) => p - q);
     }
     if (!r.ok) return r;
     const F = this.eq.sys.loadForce(this.eq.work.f);
@@ -232,6 +240,7 @@ export class Analysis {
     }
     eq.uf.set(st.uf); s.lambda = st.lambda;
     eq.scatter(s.uw);
+    s.mid = eq.midpoints();
     return { ok: true, reason: '' };
   }
 
@@ -244,7 +253,7 @@ export class Analysis {
   /** Undo a step attempt: the solution as saved, the trial histories as committed. */
   private undo(saved: Solution): void {
     restore(this.s, saved);
-    if (!this.dirty) { this.eq.gather(this.s.uw); this.eq.kapTrial.set(this.eq.kap); }
+    if (!this.dirty) { this.eq.gather(this.s.uw, this.s.mid); this.eq.kapTrial.set(this.eq.kap); }
   }
 
   /**
@@ -282,6 +291,7 @@ export class Analysis {
     if (r.ok && grow(this.room()) > 0) this.dirty = true;
     this.undo(saved);
     this.s.uw.fill(0);
+    this.s.mid = null;
     this.equations().uf.fill(0);
   }
 
@@ -327,17 +337,32 @@ export class Analysis {
 
   /**
    * The rig's forces in the last solved state: every bearing-strip point (force the platen puts
-   * on it along its push, gap, in contact or lifted off), the resultant [x, y] of all support
+   * on it along its push, gap, in contact or lifted off; at order 2 the vertices, each with half
+   * the reaction of the strip midpoints beside it), the resultant [x, y] of all support
    * reactions on the specimen (N), and the machine force along the load direction (N).
    */
   rigForces(): { bearings: Bearing[]; supports: [number, number]; machine: number } {
-    const eq = this.equations(), rig = this.rigNow(), co = eq.compact.compactOf, f = eq.work.f, released = this.s.released ?? [];
+    const eq = this.equations(), { rig, co, released, key } = this.contactView(), f = eq.work.f;
     const keys = new Set<number>();
     for (const d of rig.fixed) if (co[d.v] >= 0) keys.add(2 * co[d.v] + d.comp);
     for (const st of rig.strips) if (st.support) for (const v of st.pts) if (co[v] >= 0) keys.add(2 * co[v] + st.comp);
     const R: [number, number] = [0, 0];
     for (const k of keys) R[k & 1] += f[k];
-    return { bearings: bearings(rig, released, co, eq.work.u, f, this.s.lambda, this.tol), supports: R, machine: eq.sys.loadForce(f) };
+    const all = bearings(rig, released, co, eq.work.u, f, this.s.lambda, this.tol), L = eq.node?.layout;
+    const b = (L ? vertexBearings(all, L) : all).map((x) => ({ ...x, v: key(x.v) }));
+    return { bearings: b, supports: R, machine: eq.sys.loadForce(f) };
+  }
+
+  /**
+   * The bearing strips as the equations hold them: the rig, the map from its point ids to the
+   * equations' nodes, the lifted-off points among those ids, and each id's key in the record's
+   * `released`. Order 1: stable vertex ids throughout. Order 2: node ids of the node mesh, kept
+   * in the record by stable id (vertices) or midpointKey (midpoints).
+   */
+  private contactView(): { rig: Driven; co: Int32Array; released: number[]; key: (p: number) => number } {
+    const eq = this.eq, nr = eq.nodeRig, rel = this.s.released ?? [];
+    if (!nr) return { rig: this.rigNow(), co: eq.compact.compactOf, released: rel, key: (v) => v };
+    return { rig: nr.driven, co: nr.ids, released: nodesOf(nr.key, rel), key: (n) => nr.key[n] };
   }
 
   /** Crack face area (mm²) whose traction has reached ft, and the part of it fully separated (no traction left). */
@@ -431,17 +456,20 @@ export class Analysis {
     if (!(ratio > 0)) return undefined;
     const uw = new Float64Array(s.uw.length);
     for (let i = 0; i < uw.length; i++) uw[i] = s.uw[i] + ratio * tr.du[i];
+    // order 2: the midpoints go on along their trend too (the same topology: the same edges)
+    const m = s.mid, mid = m && tr.dmid?.length === m.u.length ? { key: m.key, u: m.u.map((v, i) => v + ratio * tr.dmid![i]) } : m;
     const uf = new Float64Array(this.eq.sys.freeDofs.length);
-    this.eq.gatherInto(uw, uf);
+    this.eq.gatherInto(uw, uf, mid);
     return { uf, lambda: s.lambda + ratio * tr.dLambda };
   }
 
   /** Commit a converged step and record it at the case's control level it reached. */
-  private converged(at: LoopState, kind: ControlKind, target: number, start: { uw: Float64Array; lambda: number; level: number; growth: number }): StepEvent {
+  private converged(at: LoopState, kind: ControlKind, target: number, start: { uw: Float64Array; mid: Float64Array | null; lambda: number; level: number; growth: number }): StepEvent {
     const ctl = this.c.control;
     const s = this.s;
     s.trend = kind !== 'opening' && s.growthLog.length === start.growth && start.uw.length === s.uw.length
       ? { du: s.uw.map((v, i) => v - start.uw[i]), dLambda: s.lambda - start.lambda, dLevel: target - start.level } : null;
+    if (s.trend && s.mid && start.mid?.length === s.mid.u.length) s.trend.dmid = s.mid.u.map((v, i) => v - start.mid![i]);
     this.eq.commit(this.s.kappa);
     // driven by the opening, the level reached is the gauge reading or the load-point travel
     const level = kind !== 'opening' ? target : ctl.by === 'cmod' ? this.eq.sys.gaugeReading(this.eq.work.u) : this.s.lambda;
@@ -483,7 +511,7 @@ export class Analysis {
           await onCheckpoint?.(this.state(mark));
           break;
         }
-        const start = { uw: this.s.uw.slice(), lambda: this.s.lambda, level: at.done, growth: this.s.growthLog.length };
+        const start = { uw: this.s.uw.slice(), mid: this.s.mid?.u.slice() ?? null, lambda: this.s.lambda, level: at.done, growth: this.s.growthLog.length };
         const step = this.advance(at, target);
         if (step === null) continue;
         if ('end' in step) { reason = step.end; break; }
@@ -519,6 +547,14 @@ export class Analysis {
       ...(status === 'failed' ? { error: failure } : {}),
     };
   }
+}
+
+/** The nodes whose key is among the released ones (order 2: vertex stable ids and midpoint keys). */
+function nodesOf(key: Float64Array, released: readonly number[]): number[] {
+  if (released.length === 0) return [];
+  const off = new Set(released), out: number[] = [];
+  for (let n = 0; n < key.length; n++) if (off.has(key[n])) out.push(n);
+  return out;
 }
 
 function extent(m: PolyMesh): number {

@@ -10,7 +10,8 @@ import { elasticMatrix } from '../vem/material.js';
 import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh } from '../vem/dofs2.js';
 import { System } from '../solver/system.js';
 import { NewtonWork, solveStep } from '../solver/newton.js';
-import { selectDriven, compactDriven, readDofs, type Driven } from '../solver/driven.js';
+import { selectDriven, compactDriven, readDofs, releaseFrom, bearings, type Driven } from '../solver/driven.js';
+import { contactUpdate2 } from '../solver/contact2.js';
 import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
@@ -19,7 +20,7 @@ import { emptyState, type CrackState } from './state.js';
 import { crackPolylines } from './record.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { measureTips2 } from './sif2.js';
-import type { AnalysisOptions, AnalysisResult, ProbeRow, Snapshot, StepEvent, StepRow } from './analysis.js';
+import { CONTACT_ROUNDS, type AnalysisOptions, type AnalysisResult, type ProbeRow, type Snapshot, type StepEvent, type StepRow } from './analysis.js';
 
 const NO_PAIRS = { plus: new Int32Array(0), minus: new Int32Array(0), nx: new Float64Array(0), ny: new Float64Array(0), area: new Float64Array(0) };
 
@@ -30,28 +31,71 @@ export class Elastic2Analysis {
   stopRequested: (() => boolean) | null = null;
   private readonly D: Float64Array;
   private readonly s: CrackState;
-  private built: { nm: NodeMesh; cells: Order2Cells; sys: System; work: NewtonWork; driven: Driven; compact: ReturnType<WorkMesh['toPolyMesh']> } | null = null;
+  private built: { nm: NodeMesh; cells: Order2Cells; sys: System; work: NewtonWork; driven: Driven; released: number[]; compact: ReturnType<WorkMesh['toPolyMesh']> } | null = null;
+  /** Geometric tolerance (mm) of the rig's selection. */
+  private readonly tol: number;
   private solveTime = 0;
 
   constructor(readonly c: CaseModel, private readonly initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
     this.wm = WorkMesh.fromPolyMesh(initial);
     for (let v = 0; v < this.wm.vertexCount; v++) this.wm.pinned[v] = 1;
     this.D = elasticMatrix(c.material.E, c.material.nu, c.model);
+    this.tol = 1e-6 * extent(initial);
     this.s = emptyState(this.wm.vertexCount);
     insertNotchSlits(c, this.wm, this.s, initial);
   }
 
-  /** The node mesh, its System and the driven nodes, built once (the mesh does not change). */
+  /** The node mesh, its System and the driven nodes, built once (the mesh does not change; the System again when strip points lift off). */
   private equations(): NonNullable<Elastic2Analysis['built']> {
     if (this.built) return this.built;
     const compact = this.wm.toPolyMesh(), nm = nodeMesh(compact.mesh), nn = nm.mesh.xy.length >> 1;
     if (this.opt.maxDofs && 2 * nn > this.opt.maxDofs) throw new RunStopped(`the mesh has ${2 * nn} dofs, above the limit of ${this.opt.maxDofs}`);
-    const driven = selectDriven(this.c, nm.mesh, 1e-6 * extent(this.initial), nm.mid);
+    const driven = selectDriven(this.c, nm.mesh, this.tol, nm.mid);
     const cells = new Order2Cells(nm, this.D, this.c.thickness);
-    const sys = new System(nm.mesh, this.D, this.c.thickness, NO_PAIRS, compactDriven(driven, identity(nn)), (k, Ke) => cells.stiffness(k, Ke));
     this.dofs.initial = this.dofs.final = this.dofs.max = 2 * nn;
-    this.built = { nm, cells, sys, work: new NewtonWork(sys), driven, compact };
+    this.built = { nm, cells, driven, compact, ...this.holding(nm, cells, driven, []) };
     return this.built;
+  }
+
+  /** The System with the strip points in `released` (node ids) let go. */
+  private holding(nm: NodeMesh, cells: Order2Cells, driven: Driven, released: number[]): { sys: System; work: NewtonWork; released: number[] } {
+    const sys = new System(nm.mesh, this.D, this.c.thickness, NO_PAIRS, compactDriven(releaseFrom(driven, released, this.tol), identity(nm.mesh.xy.length >> 1)), (k, Ke) => cells.stiffness(k, Ke));
+    return { sys, work: new NewtonWork(sys), released };
+  }
+
+  /** One solve at the control target with the contact set as built; the load factor reached. */
+  private solve(): number {
+    const { sys, work } = this.equations(), ctl = this.c.control, fScale = this.c.material.ft * this.c.thickness * extent(this.initial);
+    const st = { uf: new Float64Array(sys.nFree), lambda: 0 };
+    const tolG = ctl.by === 'force' ? 1e-8 * fScale : 1e-9 * Math.max(Math.abs(ctl.target), 1e-3);
+    const r = solveStep(sys, null, new Float64Array(0), new Float64Array(0), ctl.by, ctl.target, st, { maxIter: 3, tolF: 1e-7 * fScale, tolG, floor: 0 }, work);
+    if (!r.converged) throw new RunStopped(`the elastic solve did not converge at ${ctl.by} ${ctl.target.toPrecision(4)}: ${r.reason}`);
+    return st.lambda;
+  }
+
+  /**
+   * Solve, then let the bearing strips push but never pull (the active set of the staggered
+   * loop, decided at the vertices: solver/contact2.ts): solve again while the set changes, at
+   * most CONTACT_ROUNDS times; a set that does not solve leaves the last one standing.
+   */
+  private solveWithContact(): number {
+    let lambda = this.solve();
+    const b = this.equations(), fScale = this.c.material.ft * this.c.thickness * extent(this.initial);
+    for (let round = 0; b.driven.strips.length > 0 && round < CONTACT_ROUNDS; round++) {
+      const all = bearings(b.driven, b.released, identity(b.nm.mesh.xy.length >> 1), b.work.u, b.work.f, lambda, this.tol);
+      let umax = Math.abs(lambda);
+      for (const x of all) umax = Math.max(umax, Math.abs(x.gap));
+      const next = contactUpdate2(all, b.released, b.nm.layout, 1e-6 * fScale, 1e-6 * umax + 1e-9 * this.tol);
+      if (!next) break;
+      const keep = b.released;
+      Object.assign(b, this.holding(b.nm, b.cells, b.driven, next));
+      try { lambda = this.solve(); } catch (e) {
+        if (!(e instanceof RunStopped)) throw e;
+        Object.assign(b, this.holding(b.nm, b.cells, b.driven, keep));
+        return this.solve();
+      }
+    }
+    return lambda;
   }
 
   /** Free dofs of the order-2 system (vertex and midpoint unknowns; the cell means are condensed). */
@@ -100,20 +144,16 @@ export class Elastic2Analysis {
     let status: AnalysisResult['status'] = 'complete', reason = 'elastic analysis at the control target', failure: unknown;
     let probes: ProbeRow[] = [];
     try {
-      const { sys, work } = this.equations();
+      this.equations();
       let ev = this.record(0, 0, 0);
       await onStep(ev);
       if (this.stopRequested) await new Promise<void>((r) => setImmediate(r));
       if (this.stopRequested?.()) {
         status = 'interrupted'; reason = 'interrupted by a signal after step 0';
       } else {
-        const t0 = performance.now(), ext = extent(this.initial), fScale = this.c.material.ft * this.c.thickness * ext;
-        const st = { uf: new Float64Array(sys.nFree), lambda: 0 };
-        const tolG = ctl.by === 'force' ? 1e-8 * fScale : 1e-9 * Math.max(Math.abs(ctl.target), 1e-3);
-        const r = solveStep(sys, null, new Float64Array(0), new Float64Array(0), ctl.by, ctl.target, st, { maxIter: 3, tolF: 1e-7 * fScale, tolG, floor: 0 }, work);
+        const t0 = performance.now(), lambda = this.solveWithContact();
         this.solveTime += performance.now() - t0;
-        if (!r.converged) throw new RunStopped(`the elastic solve did not converge at ${ctl.by} ${ctl.target.toPrecision(4)}: ${r.reason}`);
-        ev = this.record(1, ctl.target, st.lambda);
+        ev = this.record(1, ctl.target, lambda);
         Object.assign(peak, { load_N: ev.row.load_N, displacement_mm: ev.row.displacement_mm, cmod_mm: ev.row.cmod_mm, step: 1 });
         await onStep(ev);
       }

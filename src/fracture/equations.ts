@@ -9,10 +9,13 @@ import { compactDriven, type Driven } from '../solver/driven.js';
 import { RunStopped } from '../errors.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import type { WorkMesh } from './workmesh.js';
-import type { Crack } from './state.js';
-import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh } from '../vem/dofs2.js';
+import type { Crack, MidValues } from './state.js';
+import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh, type Cell2Cache } from '../vem/dofs2.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
-import { pairGeometry2 } from './interface2.js';
+import { pairGeometry2, edgeKey, midpointKey } from './interface2.js';
+
+/** Order 2: the rig on a node mesh (each node's key among the lifted-off points given), and the cells kept from the last topology. */
+export interface Order2Setup { drivenOn: (nm: NodeMesh, key: Float64Array) => Driven; cells?: Cell2Cache }
 
 export class Equations {
   readonly compact: ReturnType<WorkMesh['toPolyMesh']>;
@@ -30,6 +33,14 @@ export class Equations {
   /** Order 2: the node mesh the System is built on (vertices keep their compact ids, midpoints follow). */
   readonly node: NodeMesh | null = null;
   private readonly cells2: Order2Cells | null = null;
+  /** Order 2: the key (edgeKey of its stable vertex ids) of each edge, in the node mesh's midpoint order. */
+  readonly midKey: Float64Array | null = null;
+  /**
+   * Order 2: the rig as held on the node mesh (node ids; `ids` maps them to themselves, as a
+   * compact map), and each node's key among the lifted-off strip points of the record (a
+   * vertex's stable id, a midpoint's midpointKey).
+   */
+  readonly nodeRig: { driven: Driven; ids: Int32Array; key: Float64Array } | null = null;
 
   /**
    * Stresses of the last evaluated state: per cell (order 1 its constant, order 2 the
@@ -46,13 +57,18 @@ export class Equations {
     return { cell: centroidStresses2(field, D), node: atNodes ? nodeStresses2(this.node, field, D) : null };
   }
 
+  /** Order 2: the projected field (FIELD stride per cell, vem/system2.ts) of the last evaluated state; null at order 1. */
+  projectedField(): Float64Array | null {
+    return this.cells2 ? this.cells2.field(this.work.u) : null;
+  }
+
   /**
    * The equations of the work mesh as it is; throws RunStopped above maxDofs. With `order2`
    * the System is of second order on the node mesh (vem/dofs2.ts), driven as order2.drivenOn
-   * selects on it, with Simpson face pairs (interface2.ts).
+   * selects on it, with Simpson face pairs (interface2.ts); unchanged cells come from order2.cells.
    */
   constructor(wm: WorkMesh, cracks: readonly Crack[], driven: Driven, D: Float64Array, thickness: number,
-    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache, order2?: { drivenOn: (nm: NodeMesh) => Driven }) {
+    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache, order2?: Order2Setup, mid?: MidValues | null) {
     const cp = wm.toPolyMesh();
     this.compact = cp;
     const co = cp.compactOf;
@@ -63,16 +79,25 @@ export class Equations {
     this.pairPlus = plus;
     this.pairOf = new Map(plus.map((v, i) => [v, i]));
     if (nm && order2) {
-      const cells = new Order2Cells(nm, D, thickness), nn = nm.mesh.xy.length >> 1, id = new Int32Array(nn);
+      const cells = new Order2Cells(nm, D, thickness, order2.cells ? { cache: order2.cells, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined), nn = nm.mesh.xy.length >> 1, id = new Int32Array(nn);
       for (let i = 0; i < nn; i++) id[i] = i;
       this.node = nm; this.cells2 = cells;
-      this.sys = new System(nm.mesh, D, thickness, geom, compactDriven(order2.drivenOn(nm), id), (k, Ke) => cells.stiffness(k, Ke));
+      const L = nm.layout, vo = cp.vertexOf, key = new Float64Array(nn);
+      this.midKey = new Float64Array(L.ne);
+      for (let v = 0; v < L.nv; v++) key[v] = vo[v];
+      for (let e = 0; e < L.ne; e++) {
+        const a = vo[L.edgeVerts[2 * e]], b = vo[L.edgeVerts[2 * e + 1]];
+        this.midKey[e] = edgeKey(a, b); key[L.nv + e] = midpointKey(a, b);
+      }
+      const rig = order2.drivenOn(nm, key);
+      this.nodeRig = { driven: rig, ids: id, key };
+      this.sys = new System(nm.mesh, D, thickness, geom, compactDriven(rig, id), (k, Ke) => cells.stiffness(k, Ke));
     } else {
       this.sys = new System(cp.mesh, D, thickness, geom, compactDriven(driven, co), undefined, elements ? { cache: elements, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined);
     }
     this.work = new NewtonWork(this.sys);
     this.uf = new Float64Array(this.sys.nFree);
-    this.gather(uw);
+    this.gather(uw, mid);
     this.kap = Float64Array.from(plus.map((v) => kappa.get(v) ?? 0));
     this.kapTrial = this.kap.slice();
   }
@@ -88,22 +113,38 @@ export class Equations {
 
   private geometry: { areas: Float64Array; cent: Float64Array } | null = null;
 
-  /** uf from the displacements on stable ids. */
-  gather(uw: Float64Array): void { this.gatherInto(uw, this.uf); }
+  /** uf from the displacements on stable ids (and, at order 2, the midpoints carried over). */
+  gather(uw: Float64Array, mid?: MidValues | null): void { this.gatherInto(uw, this.uf, mid); }
 
   /**
-   * Free values from displacements on stable ids, into uf. Order 2 keeps only the vertex values
-   * between topologies: a midpoint starts from the mean of its edge's ends (the bulk is linear,
-   * so Newton's first iteration puts it right).
+   * Free values from displacements on stable ids, into uf. Order 2: a midpoint takes its value
+   * from `mid` where its edge (the same two stable vertices) was there before, so a topology
+   * rebuilt from the record starts exactly where the last one stood; a new edge starts from the
+   * mean of its ends (the bulk is linear, so Newton's first iteration puts it right).
    */
-  gatherInto(uw: Float64Array, uf: Float64Array): void {
+  gatherInto(uw: Float64Array, uf: Float64Array, mid?: MidValues | null): void {
     const fd = this.sys.freeDofs, vo = this.compact.vertexOf, nv = vo.length, L = this.node?.layout;
+    const at = L && mid ? this.midIndex(mid) : null;
     for (let i = 0; i < fd.length; i++) {
       const n = fd[i] >> 1, c = fd[i] & 1;
       if (n < nv || !L) { uf[i] = uw[2 * vo[n] + c]; continue; }
+      const k = at ? at[n - nv] : -1;
+      if (k >= 0) { uf[i] = mid!.u[2 * k + c]; continue; }
       const a = L.edgeVerts[2 * (n - nv)], b = L.edgeVerts[2 * (n - nv) + 1];
       uf[i] = 0.5 * (uw[2 * vo[a] + c] + uw[2 * vo[b] + c]);
     }
+  }
+
+  /** Where each edge of this topology is in `mid` (−1: a new edge). */
+  private midIndex(mid: MidValues): Int32Array {
+    const key = this.midKey!, ne = key.length, at = new Int32Array(ne);
+    let same = mid.key.length === ne;
+    for (let e = 0; same && e < ne; e++) same = mid.key[e] === key[e];
+    if (same) { for (let e = 0; e < ne; e++) at[e] = e; return at; }
+    const where = new Map<number, number>();
+    for (let k = 0; k < mid.key.length; k++) where.set(mid.key[k], k);
+    for (let e = 0; e < ne; e++) at[e] = where.get(key[e]) ?? -1;
+    return at;
   }
 
   /** The last evaluated displacement (work.u) onto the stable ids. */
@@ -111,6 +152,13 @@ export class Equations {
     // order 2: the vertex nodes come first, with their compact ids
     const u = this.work.u, vo = this.compact.vertexOf;
     for (let i = 0; i < vo.length; i++) { uw[2 * vo[i]] = u[2 * i]; uw[2 * vo[i] + 1] = u[2 * i + 1]; }
+  }
+
+  /** Order 2: the midpoint values of the last evaluated displacement, by edge key (null at order 1). */
+  midpoints(): MidValues | null {
+    if (!this.midKey) return null;
+    const nv = this.compact.vertexOf.length;
+    return { key: this.midKey, u: this.work.u.slice(2 * nv, 2 * (nv + this.midKey.length)) };
   }
 
   /** Make the trial histories the committed ones, also on the stable ids. */

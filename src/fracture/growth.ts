@@ -17,6 +17,7 @@ import type { Equations } from './equations.js';
 import { segDist2 } from '../geometry/rings.js';
 import type { CrackState, Tip } from './state.js';
 import { measureTips, type TipMeasure } from './tips.js';
+import { tipFactors2 } from './sif2.js';
 
 /** What growth reads and changes: the case, the mesh, the crack record, and the equations of the current state. */
 export interface GrowthRoom {
@@ -354,7 +355,11 @@ export function grow(g: GrowthRoom): number {
 
 /** K_I, K_II and the MTS direction at every slit and crack end of the last evaluated state. */
 export function tipMeasures(g: GrowthRoom, withK?: (crack: number) => boolean): TipMeasure[] {
-  return measureTips(g.wm, g.s.cracks, g.eq.compact, g.eq.work.u, { E: g.c.material.E, nu: g.c.material.nu, model: g.c.model, D: g.D }, g.c, withK);
+  const el = { E: g.c.material.E, nu: g.c.material.nu, model: g.c.model, D: g.D }, cp = g.eq.compact;
+  // order 2: the interaction integral on each cell's projection (vertex, midpoint and mean values)
+  const field = g.eq.projectedField();
+  return measureTips(g.wm, g.s.cracks, cp, g.eq.work.u, el, g.c, withK, undefined,
+    field ? (tip, R, work) => tipFactors2(cp.mesh, field, el, tip, R, work) : undefined);
 }
 
 /**

@@ -8,8 +8,11 @@ import type { NodeMesh } from '../vem/dofs2.js';
 import type { WorkMesh } from './workmesh.js';
 import type { Crack } from './state.js';
 
+/** Key of an edge from its two stable vertex ids (either order; exact below 2²⁶ vertices). */
+export const edgeKey = (a: number, b: number): number => Math.min(a, b) * 67108864 + Math.max(a, b);
+
 /** Key of a segment's midpoint pair in the history map: negative, from the segment's two stable vertex ids. */
-export const midpointKey = (a: number, b: number): number => -1 - (Math.min(a, b) * 67108864 + Math.max(a, b));
+export const midpointKey = (a: number, b: number): number => -1 - edgeKey(a, b);
 
 /** Node pairs (node-mesh ids) of the cohesive cracks with normals and Simpson face areas, and the history key of each. */
 export function pairGeometry2(wm: WorkMesh, cracks: readonly Crack[], co: Int32Array, thickness: number, nm: NodeMesh): { geom: PairGeom; plus: number[] } {

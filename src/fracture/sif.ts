@@ -78,10 +78,12 @@ const GP = [[2 / 3, 1 / 6, 1 / 6], [1 / 6, 2 / 3, 1 / 6], [1 / 6, 1 / 6, 2 / 3]]
 /** Scratch for one evaluation, sized for the largest cell. */
 export class SifWork {
   q: Float64Array; qv: Float64Array;
+  /** The fan's quadrature points of one cell (fanPoints): x, y, weight, r, θ each. */
+  fan: Float64Array;
   readonly w = new Float64Array(10);
   readonly acc = new Float64Array(10);
-  constructor(maxVerts = 16) { this.q = new Float64Array(2 * maxVerts); this.qv = new Float64Array(maxVerts); }
-  fit(n: number): void { if (this.qv.length < n) { this.q = new Float64Array(2 * n); this.qv = new Float64Array(n); } }
+  constructor(maxVerts = 16) { this.q = new Float64Array(2 * maxVerts); this.qv = new Float64Array(maxVerts); this.fan = new Float64Array(15 * maxVerts); }
+  fit(n: number): void { if (this.qv.length < n) { this.q = new Float64Array(2 * n); this.qv = new Float64Array(n); this.fan = new Float64Array(15 * n); } }
   private edgesOf: PolyMesh | null = null;
   private edges = new Set<number>();
   /** The directed edge i → j of a cell has no cell on its other side (no cell holds j → i). */
@@ -98,6 +100,36 @@ export class SifWork {
     }
     return !this.edges.has(j * nv + i);
   }
+}
+
+/** θ of (x, y) about the tip, in the tip frame (rad, from the crack direction). */
+export function tipAngle(tip: TipFrame, x: number, y: number): number {
+  return Math.atan2(-tip.dy * (x - tip.x) + tip.dx * (y - tip.y), tip.dx * (x - tip.x) + tip.dy * (y - tip.y));
+}
+
+/**
+ * Quadrature of cell cellVerts[s..e) on the fan of triangles from (cx, cy), 3 interior points
+ * each: per point x, y, weight, and r, θ about the tip with θ on the branch of thc (θ of the
+ * centroid, so a cell just behind the tip is not split by the cut at ±π), into work.fan (fit to
+ * the cell first). Returns the number of points.
+ */
+export function fanPoints(xy: Float64Array, cellVerts: Int32Array, s: number, e: number, cx: number, cy: number, tip: TipFrame, thc: number, work: SifWork): number {
+  const n = e - s, e1x = tip.dx, e1y = tip.dy, out = work.fan;
+  let np = 0;
+  for (let a = 0; a < n; a++) {
+    const i = cellVerts[s + a], j = cellVerts[s + (a + 1) % n];
+    const xi = xy[2 * i], yi = xy[2 * i + 1], xj = xy[2 * j], yj = xy[2 * j + 1];
+    const triA = 0.5 * ((xi - cx) * (yj - cy) - (xj - cx) * (yi - cy));
+    if (triA === 0) continue;
+    for (const g of GP) {
+      const x = g[0] * cx + g[1] * xi + g[2] * xj, y = g[0] * cy + g[1] * yi + g[2] * yj;
+      const px = x - tip.x, py = y - tip.y, lx = e1x * px + e1y * py, ly = -e1y * px + e1x * py;
+      const th = Math.atan2(ly, lx), o = 5 * np++;
+      out[o] = x; out[o + 1] = y; out[o + 2] = triA / 3;
+      out[o + 3] = Math.hypot(lx, ly); out[o + 4] = thc + Math.atan2(Math.sin(th - thc), Math.cos(th - thc));
+    }
+  }
+  return np;
 }
 
 /** 4-point Gauss rule on [0, 1]: points and weights. */
@@ -219,23 +251,12 @@ export function interactionIntegral(
       a2 += cr; cx += (xy[2 * i] + xy[2 * j]) * cr; cy += (xy[2 * i + 1] + xy[2 * j + 1]) * cr;
     }
     cx /= 3 * a2; cy /= 3 * a2;
-    // θ is taken on the branch of the centroid, so a cell just behind the tip is not split by the cut at ±π
-    const thc = Math.atan2(-e1y * (cx - tip.x) + e1x * (cy - tip.y), e1x * (cx - tip.x) + e1y * (cy - tip.y));
-    const acc = work.acc, w = work.w;
+    const thc = tipAngle(tip, cx, cy), acc = work.acc, w = work.w, fan = work.fan;
     acc.fill(0);
-    for (let a = 0; a < n; a++) {
-      const i = cellVerts[s + a], j = cellVerts[s + (a + 1) % n];
-      const xi = xy[2 * i], yi = xy[2 * i + 1], xj = xy[2 * j], yj = xy[2 * j + 1];
-      const triA = 0.5 * ((xi - cx) * (yj - cy) - (xj - cx) * (yi - cy));
-      if (triA === 0) continue;
-      for (const g of GP) {
-        const px = g[0] * cx + g[1] * xi + g[2] * xj - tip.x, py = g[0] * cy + g[1] * yi + g[2] * yj - tip.y;
-        const lx = e1x * px + e1y * py, ly = -e1y * px + e1x * py;
-        let th = Math.atan2(ly, lx);
-        th = thc + Math.atan2(Math.sin(th - thc), Math.cos(th - thc));
-        williams(Math.hypot(lx, ly), th, mu, kappa, w);
-        for (let k = 0; k < 10; k++) acc[k] += (triA / 3) * w[k];
-      }
+    const np = fanPoints(xy, cellVerts, s, e, cx, cy, tip, thc, work);
+    for (let p = 0; p < 5 * np; p += 5) {
+      williams(fan[p + 3], fan[p + 4], mu, kappa, w);
+      for (let k = 0; k < 10; k++) acc[k] += fan[p + 2] * w[k];
     }
     // integrand per mode: (σ_i1 q1 + σ_i2 q2) u^a_i,1 + (σ^a_i1 q1 + σ^a_i2 q2) u_i,1 − σ_ij ε^a_ij q1,
     // with σ_ij ε^a_ij = σ^a_ij ε_ij (Hooke's law is symmetric)

@@ -9,10 +9,8 @@ import type { PolyMesh } from '../mesh/polymesh.js';
 import { gradientAt2 } from '../vem/element2.js';
 import { FIELD } from '../vem/system2.js';
 import type { WorkMesh } from './workmesh.js';
-import { effectiveModulus, kolosov, ringWeight, williams, SifWork, type Elastic, type TipFactors, type TipFrame, type TipResult } from './sif.js';
+import { effectiveModulus, kolosov, ringWeight, williams, fanPoints, tipAngle, SifWork, type Elastic, type TipFactors, type TipFrame, type TipResult } from './sif.js';
 import { measureTips, type CrackLine, type TipMeasure } from './tips.js';
-
-const GP = [[2 / 3, 1 / 6, 1 / 6], [1 / 6, 2 / 3, 1 / 6], [1 / 6, 1 / 6, 2 / 3]];
 
 /** K_I, K_II and J over the ring r1 < r < r2 of the base mesh m, with the projected field of each cell (FIELD stride). */
 export function interactionIntegral2(m: PolyMesh, field: Float64Array, el: Elastic, tip: TipFrame, r1: number, r2: number, work = new SifWork()): TipFactors {
@@ -42,41 +40,33 @@ export function interactionIntegral2(m: PolyMesh, field: Float64Array, el: Elast
     gqx /= a2 / 2; gqy /= a2 / 2;
     const q1 = e1x * gqx + e1y * gqy, q2 = -e1y * gqx + e1x * gqy;
     const o = FIELD * c, cx = field[o], cy = field[o + 1], h = field[o + 2];
-    const thc = Math.atan2(-e1y * (cx - tip.x) + e1x * (cy - tip.y), e1x * (cx - tip.x) + e1y * (cy - tip.y));
-    for (let a = 0; a < n; a++) {
-      const i = cellVerts[s + a], j = cellVerts[s + (a + 1) % n];
-      const xi = xy[2 * i], yi = xy[2 * i + 1], xj = xy[2 * j], yj = xy[2 * j + 1];
-      const triA = 0.5 * ((xi - cx) * (yj - cy) - (xj - cx) * (yi - cy));
-      if (triA === 0) continue;
-      for (const g of GP) {
-        const x = g[0] * cx + g[1] * xi + g[2] * xj, y = g[0] * cy + g[1] * yi + g[2] * yj, wt = triA / 3;
-        // computed field at the point, in the tip frame
-        gradientAt2(field, o + 3, h, (x - cx) / h, (y - cy) / h, H);
-        const exx = H[0], eyy = H[3], gxy = H[1] + H[2];
-        const sxx = D[0] * exx + D[1] * eyy + D[2] * gxy, syy = D[3] * exx + D[4] * eyy + D[5] * gxy, sxy = D[6] * exx + D[7] * eyy + D[8] * gxy;
-        const s11 = e1x * e1x * sxx + 2 * e1x * e1y * sxy + e1y * e1y * syy;
-        const s22 = e1y * e1y * sxx - 2 * e1x * e1y * sxy + e1x * e1x * syy;
-        const s12 = -e1x * e1y * sxx + (e1x * e1x - e1y * e1y) * sxy + e1x * e1y * syy;
-        const t11 = H[0] * e1x + H[1] * e1y, t21 = H[2] * e1x + H[3] * e1y;
-        const t12 = -H[0] * e1y + H[1] * e1x, t22 = -H[2] * e1y + H[3] * e1x;
-        const u11 = e1x * t11 + e1y * t21, u21 = -e1y * t11 + e1x * t21;
-        const u12 = e1x * t12 + e1y * t22, u22 = -e1y * t12 + e1x * t22;
-        const ep12 = 0.5 * (u12 + u21);
-        // auxiliary field at the point
-        const px = x - tip.x, py = y - tip.y, lx = e1x * px + e1y * py, ly = -e1y * px + e1x * py;
-        let th = Math.atan2(ly, lx);
-        th = thc + Math.atan2(Math.sin(th - thc), Math.cos(th - thc));
-        williams(Math.hypot(lx, ly), th, mu, kappa, w);
-        const f1 = s11 * q1 + s12 * q2, f2 = s12 * q1 + s22 * q2;
-        for (let mode = 0; mode < 2; mode++) {
-          const k = 5 * mode, a11 = w[k], a22 = w[k + 1], a12 = w[k + 2];
-          const val = f1 * w[k + 3] + f2 * w[k + 4] + (a11 * q1 + a12 * q2) * u11 + (a12 * q1 + a22 * q2) * u21
-            - (a11 * u11 + a22 * u22 + 2 * a12 * ep12) * q1;
-          if (mode === 0) II += wt * val; else III += wt * val;
-        }
-        const W = 0.5 * (s11 * u11 + s22 * u22 + 2 * s12 * ep12);
-        JJ += wt * (f1 * u11 + f2 * u21 - W * q1);
+    work.fit(n);
+    const np = fanPoints(xy, cellVerts, s, e, cx, cy, tip, tipAngle(tip, cx, cy), work), fan = work.fan;
+    for (let p = 0; p < 5 * np; p += 5) {
+      const x = fan[p], y = fan[p + 1], wt = fan[p + 2];
+      // computed field at the point, in the tip frame
+      gradientAt2(field, o + 3, h, (x - cx) / h, (y - cy) / h, H);
+      const exx = H[0], eyy = H[3], gxy = H[1] + H[2];
+      const sxx = D[0] * exx + D[1] * eyy + D[2] * gxy, syy = D[3] * exx + D[4] * eyy + D[5] * gxy, sxy = D[6] * exx + D[7] * eyy + D[8] * gxy;
+      const s11 = e1x * e1x * sxx + 2 * e1x * e1y * sxy + e1y * e1y * syy;
+      const s22 = e1y * e1y * sxx - 2 * e1x * e1y * sxy + e1x * e1x * syy;
+      const s12 = -e1x * e1y * sxx + (e1x * e1x - e1y * e1y) * sxy + e1x * e1y * syy;
+      const t11 = H[0] * e1x + H[1] * e1y, t21 = H[2] * e1x + H[3] * e1y;
+      const t12 = -H[0] * e1y + H[1] * e1x, t22 = -H[2] * e1y + H[3] * e1x;
+      const u11 = e1x * t11 + e1y * t21, u21 = -e1y * t11 + e1x * t21;
+      const u12 = e1x * t12 + e1y * t22, u22 = -e1y * t12 + e1x * t22;
+      const ep12 = 0.5 * (u12 + u21);
+      // auxiliary field at the point
+      williams(fan[p + 3], fan[p + 4], mu, kappa, w);
+      const f1 = s11 * q1 + s12 * q2, f2 = s12 * q1 + s22 * q2;
+      for (let mode = 0; mode < 2; mode++) {
+        const k = 5 * mode, a11 = w[k], a22 = w[k + 1], a12 = w[k + 2];
+        const val = f1 * w[k + 3] + f2 * w[k + 4] + (a11 * q1 + a12 * q2) * u11 + (a12 * q1 + a22 * q2) * u21
+          - (a11 * u11 + a22 * u22 + 2 * a12 * ep12) * q1;
+        if (mode === 0) II += wt * val; else III += wt * val;
       }
+      const W = 0.5 * (s11 * u11 + s22 * u22 + 2 * s12 * ep12);
+      JJ += wt * (f1 * u11 + f2 * u21 - W * q1);
     }
   }
   return { KI: 0.5 * Ep * II, KII: 0.5 * Ep * III, J: JJ };

@@ -43,18 +43,28 @@ export interface CrackState {
   growthLog: GrowthEvent[];
   /**
    * What the last converged step did, for the predictor of the next one: the change of the
-   * displacements (stable ids) and of λ over its change of the case's control level; null
+   * displacements (stable ids; at order 2 also of the midpoints, `dmid`, in the order of
+   * `mid`) and of λ over its change of the case's control level; null
    * when that step grew a crack or was driven by the crack opening.
    */
-  trend?: { du: Float64Array; dLambda: number; dLevel: number } | null;
+  trend?: { du: Float64Array; dLambda: number; dLevel: number; dmid?: Float64Array } | null;
+  /**
+   * Order 2: the edge-midpoint displacements of the last solved state (2 per edge, as `u`), by
+   * the key of each edge's two stable vertex ids (`edgeKey`); the next topology starts every
+   * edge that survives from them. Null at order 1 and before the first solve.
+   */
+  mid?: MidValues | null;
   /** Wall time spent in the equilibrium solves (ms). */
   solveTime: number;
-  /** Points of the bearing strips lifted off their platens (stable ids, sorted). */
+  /** Points of the bearing strips lifted off their platens (stable ids, sorted; order 2 adds edge midpoints by their negative midpointKey). */
   released?: number[];
 }
 
+/** Displacements of edge midpoints: edge keys, and 2 values per edge in the same order. */
+export interface MidValues { key: Float64Array; u: Float64Array }
+
 /** The parts a step attempt changes (undone when the attempt is cut). */
-export const SOLUTION = ['uw', 'lambda', 'W', 'lastF', 'lastLambda', 'released'] as const;
+export const SOLUTION = ['uw', 'mid', 'lambda', 'W', 'lastF', 'lastLambda', 'released'] as const;
 /** The parts a growth event changes besides the mesh (undone with it when the re-solve fails). */
 export const GEOMETRY = ['cracks', 'tips', 'growthLog'] as const;
 
@@ -66,7 +76,7 @@ export function emptyState(vertices: number): CrackState {
   return {
     cracks: [], tips: [], kappa: new Map(),
     uw: new Float64Array(2 * vertices), lambda: 0, W: 0, lastF: 0, lastLambda: 0,
-    rows: [], lastProbes: [], dofs: { initial: 0, final: 0, max: 0 }, growthLog: [], trend: null, solveTime: 0, released: [],
+    rows: [], lastProbes: [], dofs: { initial: 0, final: 0, max: 0 }, growthLog: [], trend: null, mid: null, solveTime: 0, released: [],
   };
 }
 

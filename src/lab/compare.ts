@@ -89,21 +89,43 @@ export interface Difference {
  * result does not depend on any sampling.
  */
 export function curveDifference(a: Curve, b: Curve, lo: number, hi: number): Difference {
-  const xs: number[] = [lo, hi];
-  for (const c of [a, b]) for (let i = 0; i < c.x.length; i++) if (c.x[i]! > lo && c.x[i]! < hi) xs.push(c.x[i]!);
-  xs.sort((p, q) => p - q);
+  // the breakpoints in order, merged from both curves (the fit calls this in its inner searches)
+  const xs: number[] = [lo];
+  let i = 0, j = 0;
+  while (i < a.x.length && !(a.x[i]! > lo)) i++;
+  while (j < b.x.length && !(b.x[j]! > lo)) j++;
+  for (;;) {
+    const u = i < a.x.length && a.x[i]! < hi ? a.x[i]! : Infinity, v = j < b.x.length && b.x[j]! < hi ? b.x[j]! : Infinity;
+    if (u === Infinity && v === Infinity) break;
+    if (u <= v) { xs.push(u); i++; } else { xs.push(v); j++; }
+  }
+  xs.push(hi);
+  const fa = walker(a), fb = walker(b);
   let sq = 0, abs = 0, ref = 0;
-  let xp = xs[0]!, dp = interpAt(a, xp) - interpAt(b, xp), bp = interpAt(b, xp);
+  let xp = xs[0]!, bp = fb(xp), dp = fa(xp) - bp;
   for (let k = 1; k < xs.length; k++) {
     const x = xs[k]!, h = x - xp;
     if (!(h > 0)) continue;
-    const bv = interpAt(b, x), d = interpAt(a, x) - bv;
+    const bv = fb(x), d = fa(x) - bv;
     sq += (h * (dp * dp + dp * d + d * d)) / 3;
     abs += absIntegral(dp, d, h);
     ref += absIntegral(bp, bv, h);
     xp = x; dp = d; bp = bv;
   }
   return { lo, hi, rmse: hi > lo ? Math.sqrt(sq / (hi - lo)) : NaN, area: abs, refArea: ref };
+}
+
+/** interpAt for abscissae that never decrease: the segment is walked to, not searched for. */
+function walker(c: Curve): (x: number) => number {
+  const n = c.x.length;
+  let k = 0;
+  return (x) => {
+    if (n === 0 || x < c.x[0]! || x > c.x[n - 1]!) return NaN;
+    if (n === 1) return c.y[0]!;
+    while (k < n - 2 && c.x[k + 1]! <= x) k++;
+    const x0 = c.x[k]!, x1 = c.x[k + 1]!;
+    return x1 === x0 ? c.y[k + 1]! : c.y[k]! + ((c.y[k + 1]! - c.y[k]!) * (x - x0)) / (x1 - x0);
+  };
 }
 
 /** ∫|f| over a segment of length h on which f is linear from f0 to f1. */

@@ -1,6 +1,8 @@
-// Calibration of E, ft and GF against a measured curve: physical estimates first (initial
-// compliance, peak load, work of fracture), then Nelder–Mead on log-parameters over full
-// simulations, run two at a time on worker threads.
+// Calibration of E, ft and GF against a measured curve. A cohesive fit of two or three
+// parameters searches l_ch = E·GF/ft² alone, each simulated curve taking its best exact
+// scaling without a run (fitscale.ts); otherwise physical estimates (initial compliance, peak
+// load, work of fracture), then Nelder–Mead on log-parameters over full simulations. Runs go
+// two at a time on worker threads.
 
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
@@ -18,6 +20,7 @@ import { rilemGF, workOfFracture } from './work.js';
 import { correctCurve, estimateCompliance, type Corrections } from './correct.js';
 import { chooseAxis, curveDifference, initialStiffness, interpAt, meanCurve, specimenLabels, measuredFunction, monotone, peakIndex, thin, type Curve, type XAxis } from './compare.js';
 import { simulateCurve, type SimCurve, type SimJob, type SimReply } from './fitworker.js';
+import { SHAPE_WEIGHT, nelderMead, parabolaAt, parabolaVertex, scaledCurve, scaledMaterial, scalingDirections, shapeOf } from './fitscale.js';
 
 export type FitParam = 'E' | 'ft' | 'GF';
 export const FIT_PARAMS: readonly FitParam[] = ['E', 'ft', 'GF'];
@@ -79,7 +82,7 @@ export interface FitSetup {
 
 export interface FitEvaluation {
   index: number;
-  phase: 'elastic' | 'estimate' | 'simplex' | 'jacobian' | 'seed';
+  phase: 'elastic' | 'estimate' | 'simplex' | 'shape' | 'fitted' | 'jacobian' | 'seed';
   E: number; ft: number; GF: number;
   /** RMSE of load over the measured range / measured peak; NaN for the elastic run. */
   objective: number;
@@ -203,7 +206,7 @@ export function ligamentArea(c: CaseModel): number {
 export { initialStiffness };
 
 /** The case each candidate runs: coarse mesh, no pictures, no probes, the control run to just past the measured range. */
-export function candidateCase(c: CaseModel, measured: Curve, xAxis: XAxis, opt: Pick<FitOptions, 'meshSize' | 'softening' | 'increments'>): CaseModel {
+export function candidateCase(c: CaseModel, measured: Curve, xAxis: XAxis, opt: Pick<FitOptions, 'meshSize' | 'softening' | 'increments'>, reach = 0): CaseModel {
   const k: CaseModel = structuredClone(c);
   const size = opt.meshSize ?? c.mesh.size;
   if (!(size > 0) || !Number.isFinite(size)) throw new InputError(`--mesh-size must be a positive length in mm (found ${size})`);
@@ -225,6 +228,9 @@ export function candidateCase(c: CaseModel, measured: Curve, xAxis: XAxis, opt: 
     const scaled = Math.round((c.control.increments * Math.abs(target)) / Math.abs(k.control.target));
     k.control.increments = opt.increments ?? Math.max(5, scaled, xpeak > 0 ? Math.ceil((6 * Math.abs(target)) / xpeak) : 0);
     k.control.target = target;
+    // a reach past the measured end at the same step size, so a curve scaled to shorter openings still covers it
+    const more = Math.ceil(reach * k.control.increments);
+    if (more > 0) { k.control.target = (target * (k.control.increments + more)) / k.control.increments; k.control.increments += more; }
   } else k.control.increments = opt.increments ?? c.control.increments;
   return k;
 }
@@ -305,6 +311,15 @@ function solve(a: number[][], b: number[]): number[] | null {
 /** Physical ranges of the fitted parameters (and at most a factor 30 from the case's values). */
 export const PARAM_BOUNDS: Record<FitParam, [number, number]> = { E: [10, 1e6], ft: [0.01, 200], GF: [1e-4, 20] };
 
+/** How far past the measured end (a fraction) the shape search runs each candidate, so its curve may be scaled to shorter openings. */
+const REACH = 0.15;
+/** The shape search closes once its next guess of log l_ch is this close to the best one. */
+const SHAPE_TOL = 0.004;
+/** … or once the parabola through the best three promises less than this fraction of the best RMSE. */
+const SHAPE_GAIN = 0.003;
+/** … once the best three lie within this span of log l_ch (a wider parabola is too rough a model to stop on). */
+const SHAPE_NARROW = 0.2;
+
 /** Why a fit ended before its optimiser had closed. */
 class FitStop extends Error {
   constructor(readonly kind: 'limit' | 'interrupted') { super(kind); }
@@ -364,7 +379,9 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
     throw new InputError(`the measured peak load ${Pm.toPrecision(3)} N is ${Pm > Pref ? `${(Pm / Pref).toPrecision(2)} times` : `1/${(Pref / Pm).toPrecision(2)} of`} ft × ligament area of the case (${Pref.toPrecision(3)} N): expected a load in N within a factor 10 above or 1000 below it; check the load unit (--load-unit) or the case`);
   }
 
-  let base = candidateCase(c, measured, xAxis, opt);
+  // a cohesive fit of two or three parameters searches l_ch alone and scales each simulated curve (fitscale.ts)
+  const shapeSearch = c.crack !== undefined && c.crack.model !== 'lefm' && c.material.strengthField === undefined && params.length >= 2;
+  let base = candidateCase(c, measured, xAxis, opt, shapeSearch ? REACH : 0);
   const softening = base.material.softening;
   const mesh = generateMesh(buildDomain(base), base.mesh);
   const polygons = mesh.cellStart.length - 1;
@@ -397,8 +414,9 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   // every simulation counts against the limit; each has a time limit
   // the optimiser leaves room for the sensitivities (one run per parameter) and the mesh seeds
   const seeds = Math.max(0, Math.floor(opt.seeds ?? 2));
-  const reserve = params.length + seeds;
-  let phaseLimit = maxEvals - reserve >= params.length + 4 ? maxEvals - reserve : maxEvals;
+  // (the shape search: the run at the fitted values and one with l_ch moved)
+  const reserve = (shapeSearch ? 2 : params.length) + seeds;
+  let phaseLimit = maxEvals - reserve >= (shapeSearch ? 3 : params.length + 4) ? maxEvals - reserve : maxEvals;
   let sims = 0, best: { m: Mat; f: number } = { m: start, f: Infinity };
   const times: number[] = [];
   const timeLimit = (): number => opt.simTimeout_s ?? (times.length === 0 ? 600 : Math.max(30, 8 * [...times].sort((a, b) => a - b)[times.length >> 1]!));
@@ -433,12 +451,16 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
   const keyOf = (m: Mat): string => `${m.E.toPrecision(10)}|${m.ft.toPrecision(10)}|${m.GF.toPrecision(10)}`;
   const outside = { sim: { status: 'failed', reason: 'outside the parameter bounds', load: new Float64Array(0), displacement: new Float64Array(0), cmod: null, seconds: 0 } as SimCurve, curve: { x: new Float64Array(0), y: new Float64Array(0) }, f: Infinity };
 
-  const evaluate = async (mats: Mat[], phase: FitEvaluation['phase']): Promise<{ sim: SimCurve; curve: Curve; f: number }[]> => {
-    const keys = mats.map(keyOf);
+  type Run = { sim: SimCurve; curve: Curve; f: number };
+  // called with every simulation run or replayed, before its row is recorded (the shape search scales it there)
+  let onRun: ((m: Mat, r: Run) => void) | null = null;
+  const evaluate = async (mats: Mat[], phases: FitEvaluation['phase'] | FitEvaluation['phase'][], on: CaseModel = base): Promise<Run[]> => {
+    // runs of another control target (the shape search's scaled steps) are kept apart
+    const keys = mats.map((m) => (on === base ? keyOf(m) : `${keyOf(m)}@${on.control.target.toPrecision(12)}`));
     const todo = [...new Set(keys.filter((k, i) => !cache.has(k) && inside(mats[i]!)))];
     // all started at once (on the threads), taken up in the order they were started, so the
     // history and the optimiser's course do not depend on which thread finished first
-    const started = todo.map((key) => { const p = simulate(matOf(mats[keys.indexOf(key)]!, base)); p.catch(() => {}); return p; });
+    const started = todo.map((key) => { const p = simulate(matOf(mats[keys.indexOf(key)]!, on)); p.catch(() => {}); return p; });
     let stop: unknown = null;
     for (let i = 0; i < todo.length; i++) {
       let sim: SimCurve;
@@ -447,10 +469,124 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
       const curve = sim.load.length > 0 ? simOpening(sim, xAxis) : { x: new Float64Array(0), y: new Float64Array(0) };
       const f = sim.status === 'failed' || sim.reason === 'time limit' || curve.x.length < 2 ? Infinity : objective(curve);
       cache.set(todo[i]!, { sim, curve, f });
+      onRun?.(m, { sim, curve, f });
+      const phase = typeof phases === 'string' ? phases : phases[keys.indexOf(todo[i]!)]!;
       record({ phase, ...m, objective: f, peak_N: sim.load.length ? sim.load[peakIndex(sim.load)]! : NaN, status: sim.reason === 'time limit' ? 'timed out' : sim.status, seconds: sim.seconds });
     }
     if (stop) throw stop;
     return keys.map((k) => cache.get(k) ?? outside);
+  };
+
+  // the shape search: each simulated curve takes its best exact scaling (fitscale.ts)
+  // a shape: the run at one l_ch and its best scaling (loads × e^lb, openings × e^ll)
+  type Shape = { s: number; m: Mat; f: number; curve: Curve; lb: number; ll: number };
+  const shapes = new Map<string, Shape>();
+  let shapeBest: Shape | null = null;
+  const dirs = scalingDirections(params);
+  const ps: FitParam = params.includes('GF') ? 'GF' : params.includes('E') ? 'E' : 'ft';
+  const xEnd = (): number => Math.max(...targets.map((t) => t.x[t.x.length - 1]!));
+  const scaleFit = (m: Mat, r: Run): Shape => {
+    const s = shapeOf(m);
+    if (!Number.isFinite(r.f)) return { s, m, f: Infinity, curve: r.curve, lb: 0, ll: 0 };
+    // a run that reached its target says nothing past it: its scaled curve must still cover the measured range
+    const reached = r.sim.reason === 'control target reached' ? r.curve.x[r.curve.x.length - 1]! : Infinity, end = xEnd();
+    const factors = (t: number[]): [number, number] => { let lb = 0, ll = 0; dirs.forEach(([db, dl], j) => { lb += t[j]! * db; ll += t[j]! * dl; }); return [lb, ll]; };
+    const F = (t: number[]): number => {
+      const [lb, ll] = factors(t);
+      if (!inside(scaledMaterial(m, lb, ll)) || reached * Math.exp(ll) < end) return Infinity;
+      return objective(scaledCurve(r.curve, lb, ll));
+    };
+    let o = nelderMead(F, dirs.map(() => 0), 0.05, 1e-4);
+    o = nelderMead(F, o.x, 0.01, 1e-5);
+    if (!(o.f < r.f)) return { s, m, f: r.f, curve: r.curve, lb: 0, ll: 0 };
+    const [lb, ll] = factors(o.x);
+    return { s, m: scaledMaterial(m, lb, ll), f: o.f, curve: scaledCurve(r.curve, lb, ll), lb, ll };
+  };
+  // the runs at the fitted values take the control steps of the scaled curve (its target scaled
+  // as the control quantity is), so they reproduce it exactly rather than with other step sizes
+  let post = base;
+  const scaledSteps = (sb: Shape | null): CaseModel => {
+    if (!sb || keyOf(sb.m) !== keyOf(fit) || (sb.lb === 0 && sb.ll === 0)) return base;
+    const k: CaseModel = { ...base, control: { ...base.control } };
+    k.control.target *= Math.exp(k.control.by === 'force' ? sb.lb : sb.ll);
+    return k;
+  };
+  const searchShapes = async (): Promise<void> => {
+    onRun = (m, r) => {
+      const sh = scaleFit(m, r);
+      shapes.set(keyOf(m), sh);
+      if (sh.f < (shapeBest?.f ?? Infinity)) shapeBest = sh;
+      if (sh.f < best.f) best = { m: sh.m, f: sh.f };
+    };
+    const scaleAll = onRun;
+    const run = async (ms: Mat[], phase: FitEvaluation['phase']): Promise<void> => {
+      const rs = await evaluate(ms, phase);
+      // runs taken from the cache (the compliance estimate's run of the case) are scaled here
+      ms.forEach((m, i) => { if (!shapes.has(keyOf(m))) scaleAll(m, rs[i]!); });
+    };
+    // the case's own values first: their best scaling is the estimate
+    await run([start], 'estimate');
+    const first = shapes.get(keyOf(start))!;
+    if (Number.isFinite(first.f)) for (const p of params) est[p] = first.m[p];
+    let span = Math.log(1.3), rounds = 0;
+    // a material of shape s: the best so far moved along one parameter (GF, else E, else ft)
+    const at = (from: Shape, s: number): Mat => { const m = { ...from.m }; m[ps] *= Math.exp((s - from.s) / SHAPE_WEIGHT[ps]); return clamp(m); };
+    for (; rounds < 10; rounds++) {
+      const pts = [...shapes.values()].filter((p) => Number.isFinite(p.f)).sort((a, b) => a.s - b.s);
+      if (pts.length === 0) break;
+      let ib = 0;
+      pts.forEach((p, i) => { if (p.f < pts[ib]!.f) ib = i; });
+      const B = pts[ib]!;
+      let props: number[];
+      if (pts.length === 1) props = [B.s - span, B.s + span];
+      else if (ib === 0 || ib === pts.length - 1) {
+        // not bracketed yet: step outward, further each time
+        const dir = ib === 0 ? -1 : 1, nb = pts[ib === 0 ? 1 : ib - 1]!;
+        span = Math.max(span, Math.abs(B.s - nb.s));
+        props = [B.s + dir * span, B.s + dir * 2.5 * span];
+      } else {
+        const L = pts[ib - 1]!, R = pts[ib + 1]!;
+        const v0 = parabolaVertex([L.s, L.f], [B.s, B.f], [R.s, R.f]);
+        const v = v0 === null ? (B.s - L.s > R.s - B.s ? 0.5 * (L.s + B.s) : 0.5 * (B.s + R.s)) : Math.min(R.s, Math.max(L.s, v0));
+        if (Math.abs(v - B.s) < SHAPE_TOL || R.s - L.s < 3 * SHAPE_TOL) break;
+        // nor when the parabola promises under SHAPE_GAIN of the RMSE (the growth events make it noisy below that)
+        if (v0 !== null && R.s - L.s < SHAPE_NARROW && B.f - parabolaAt([L.s, L.f], [B.s, B.f], [R.s, R.f], v) < SHAPE_GAIN * B.f) break;
+        // the vertex and a point past it, so that it is bracketed closely by the next round
+        const h = Math.max(SHAPE_TOL, 0.5 * Math.abs(v - B.s));
+        props = [v, v + Math.sign(v - B.s) * h];
+      }
+      const ms = props.map((s) => at(B, s)).filter((m) => pts.every((p) => Math.abs(shapeOf(m) - p.s) > 0.5 * SHAPE_TOL));
+      if (ms.length === 0) break;
+      await run(ms, 'shape');
+    }
+    const b = shapeBest ?? { s: shapeOf(start), m: start, f: Infinity, curve: { x: new Float64Array(0), y: new Float64Array(0) }, lb: 0, ll: 0 };
+    const n = history.filter((h) => h.phase === 'estimate' || h.phase === 'shape').length;
+    notes.push(`${params.join(', ')}: l_ch = E·GF/ft² searched over ${n} simulated curves, each scaled to its best fit without a run (at fixed l_ch, loads scale exactly with ft and openings with GF/ft)`);
+    fit = b.m; fbest = b.f; xb = params.map((p) => Math.log(fit[p]));
+  };
+  // the sensitivities of the shape search: one run with l_ch moved (GF, else E, else ft), the
+  // rest by scaling the run at the fitted values; that run replaces the scaled curve
+  const shapeJacobian = async (h: number): Promise<{ r0: Float64Array; cols: Float64Array[] }> => {
+    onRun = null;
+    post = scaledSteps(shapeBest as Shape | null);
+    const moved = { ...fit };
+    moved[ps] *= Math.exp(inside({ ...fit, [ps]: fit[ps] * Math.exp(h) }) ? h : -h);
+    const hp = Math.log(moved[ps] / fit[ps]);
+    const [rf, rj] = await evaluate([fit, moved], ['fitted', 'jacobian'], post);
+    if (Number.isFinite(rf!.f)) { bestCurve = rf!.curve; fbest = rf!.f; }
+    const r0 = residualsAll(bestCurve!, targets);
+    const diff = (c: Curve, step: number) => { const r = residualsAll(c, targets); return Float64Array.from(r0, (v, i) => ((r[i] ?? v) - v) / step); };
+    const colS = diff(rj!.curve, hp);
+    const cols = params.map((p) => {
+      if (p === ps) return colS;
+      // e_p = (w_p / w_ps)·e_ps + a direction of fixed l_ch, whose change of the curve is a scaling
+      const k = SHAPE_WEIGHT[p] / SHAPE_WEIGHT[ps];
+      const v = { E: 0, ft: 0, GF: 0 }; v[p] = 1; v[ps] -= k;
+      const lb = v.ft, ll = v.GF - v.ft, sg = ll < 0 ? -1 : 1; // openings scaled up, so the curve still covers the range
+      const col = diff(scaledCurve(bestCurve!, sg * h * lb, sg * h * ll), sg * h);
+      return Float64Array.from(col, (x, i) => x + k * colS[i]!);
+    });
+    return { r0, cols };
   };
 
   let status: FitResult['status'] = 'fitted', reason = '';
@@ -484,125 +620,128 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
           return { mm_per_N: e.C_mm_per_N, estimated: true };
         });
         correctAll(true);
-        base = candidateCase(c, measured, xAxis, opt);
+        base = candidateCase(c, measured, xAxis, opt, shapeSearch ? REACH : 0);
         // the run is the case's own candidate too, judged against the corrected curves
         const curve = s.load.length > 0 ? simOpening(s, xAxis) : { x: new Float64Array(0), y: new Float64Array(0) };
         const f = s.status === 'failed' || s.reason === 'time limit' || curve.x.length < 2 ? Infinity : objective(curve);
         cache.set(keyOf(start), { sim: s, curve, f });
         record({ phase: 'estimate', ...start, objective: f, peak_N: s.load.length ? s.load[peakIndex(s.load)]! : NaN, status: s.reason === 'time limit' ? 'timed out' : s.status, seconds: s.seconds });
       }
-      let km = NaN;
-      if (params.includes('E')) {
-        const s = await elasticRun();
-        const ks = slope(s, xAxis === 'cmod' ? s.cmod : s.displacement);
-        km = initialStiffness(measured);
-        if (Number.isFinite(ks) && ks > 0 && km > 0) {
-          Object.assign(est, clamp({ ...est, E: start.E * (km / ks) }));
-          notes.push(`E from the initial compliance (load between 5 and 40 % of the peak, rising branch): measured ${km.toPrecision(4)} N/mm, elastic run ${ks.toPrecision(4)} N/mm at E = ${start.E.toPrecision(4)} MPa`);
-        } else notes.push('E: the initial slope could not be measured; kept from the case');
-      }
-
-      // GF from the work of fracture (load-point displacement only), then ft and GF by Broyden on (peak, work)
-      // a noisy gauge may start a little below zero, where a simulated curve has no points
-      const lo0 = Math.max(0, measured.x[0]!), hi0 = measured.x[measured.x.length - 1]!;
-      const Wm = areaOver(measured, lo0, hi0);
-      if (params.includes('GF') && xAxis === 'displacement' && A > 0) {
-        est.GF = clamp({ ...est, GF: rilemGF(workOfFracture(measured.x, measured.y), A) }).GF;
-        notes.push(`GF start from the work of fracture over the ligament (${A.toFixed(0)} mm²): ${est.GF.toPrecision(3)} N/mm`);
-      }
-      const sub = params.filter((p): p is 'ft' | 'GF' => p === 'ft' || p === 'GF');
-      if (sub.length > 0) {
-        let J: number[][] = sub.map((_, i) => sub.map((__, j) => (i === j ? 1 : 0))); // peak ∝ ft, work ∝ GF
-        let x = sub.map((p) => Math.log(est[p]));
-        let g: number[] | null = null, prevX = x;
-        for (let it = 0; it < 5; it++) {
-          const m: Mat = { ...est };
-          sub.forEach((p, i) => { m[p] = Math.exp(x[i]!); });
-          const [r] = await evaluate([clamp(m)], 'estimate');
-          const Ps = r!.curve.y.length ? r!.curve.y[peakIndex(r!.curve.y)]! : 0;
-          const Ws = r!.curve.x.length > 1 ? areaOver(r!.curve, lo0, hi0) : 0;
-          if (!(Ps > 0) || !(Ws > 0)) break;
-          const gn = sub.map((p) => (p === 'ft' ? Math.log(Ps / Pm) : Math.log(Ws / Wm)));
-          Object.assign(est, clamp(m));
-          // the model's rising branch bends before the peak as the faces at the notch take up
-          // load, so E follows the slope measured the same way on the simulated curve
-          const kr = params.includes('E') && km > 0 ? initialStiffness(r!.curve) : NaN;
-          const eStep = kr > 0 ? Math.log(km / kr) : 0;
-          if (kr > 0) Object.assign(est, clamp({ ...est, E: est.E * (km / kr) }));
-          if (gn.every((v) => Math.abs(v) < 0.005) && Math.abs(eStep) < 0.005) break;
-          if (g) {
-            // Broyden's update from the last step
-            const dx = x.map((v, i) => v - prevX[i]!), dg = gn.map((v, i) => v - g![i]!);
-            const dd = dx.reduce((s, v) => s + v * v, 0);
-            if (dd > 0) J = J.map((row, i) => row.map((v, j) => v + ((dg[i]! - row.reduce((s, a, k) => s + a * dx[k]!, 0)) * dx[j]!) / dd));
-          }
-          const step = solve(J, gn.map((v) => -v));
-          if (!step) break;
-          const big = Math.max(...step.map(Math.abs));
-          const scale = big > Math.log(1.5) ? Math.log(1.5) / big : 1;
-          prevX = x;
-          g = gn;
-          x = x.map((v, i) => v + scale * step[i]!);
+      if (shapeSearch) await searchShapes();
+      else {
+        let km = NaN;
+        if (params.includes('E')) {
+          const s = await elasticRun();
+          const ks = slope(s, xAxis === 'cmod' ? s.cmod : s.displacement);
+          km = initialStiffness(measured);
+          if (Number.isFinite(ks) && ks > 0 && km > 0) {
+            Object.assign(est, clamp({ ...est, E: start.E * (km / ks) }));
+            notes.push(`E from the initial compliance (load between 5 and 40 % of the peak, rising branch): measured ${km.toPrecision(4)} N/mm, elastic run ${ks.toPrecision(4)} N/mm at E = ${start.E.toPrecision(4)} MPa`);
+          } else notes.push('E: the initial slope could not be measured; kept from the case');
         }
-        notes.push(`ft${sub.includes('GF') ? ' and GF' : ''} from the peak load ${Pm.toFixed(1)} N${sub.includes('GF') ? ` and the work ${Wm.toPrecision(4)} N·mm under the measured curve` : ''}${params.includes('E') && km > 0 ? ', E from the slope between 5 and 40 % of the peak on the simulated curves' : ''} (${history.filter((h) => h.phase === 'estimate').length} runs)`);
-      }
 
-      // Nelder–Mead on log-parameters from the best point so far
-      const [e0] = await evaluate([est], 'estimate');
-      let best0 = { m: est, f: e0!.f };
-      for (const h of history) if (h.phase !== 'elastic' && h.objective < best0.f) best0 = { m: { E: h.E, ft: h.ft, GF: h.GF }, f: h.objective };
-      const x0 = params.map((p) => Math.log(best0.m[p]));
-      const simplex: { x: number[]; f: number }[] = [{ x: x0, f: NaN }];
-      for (let j = 0; j < params.length; j++) simplex.push({ x: x0.map((v, i) => (i === j ? v + 0.05 : v)), f: NaN });
-      // the case's own values ride along for the report
-      const fs = await evaluate([...simplex.map((s) => toMat(s.x)), start], 'simplex');
-      simplex.forEach((s, i) => { s.f = fs[i]!.f; });
-      const n = params.length;
-      const at = (c0: number[], w: number[], t: number) => c0.map((v, i) => v + t * (v - w[i]!));
-      let lastGood = true; // the last move went outward: speculate an expansion, else a contraction
-      const sortS = () => simplex.sort((a, b) => a.f - b.f);
-      try {
-        for (;;) {
-          sortS();
-          const fb = simplex[0]!.f, fw = simplex[n]!.f, fsw = simplex[n - 1]!.f;
-          const size = Math.max(...simplex.slice(1).map((s) => Math.max(...s.x.map((v, i) => Math.abs(v - simplex[0]!.x[i]!)))));
-          if (size < 0.003 && fw - fb < 0.01 * fb + 1e-6) break;
-          // a noisy objective (growth events are discrete) keeps a small simplex wandering: closed
-          // once it is within 3 % and the best has improved by under 2 % of itself over the last 6n simulations
-          const back = history.length - 1 - 6 * n;
-          if (size < 0.03 && back >= 0 && history[back]!.best - fb < 0.02 * fb) break;
-          const cen = params.map((_, i) => simplex.slice(0, n).reduce((s, v) => s + v.x[i]!, 0) / n);
-          const w = simplex[n]!.x;
-          const xr = at(cen, w, 1), xe = at(cen, w, 2), xi = at(cen, w, -0.5);
-          // a speculative second candidate only while the budget has room for it
-          const spec = nWorkers > 1 && maxEvals - sims >= 2 ? [lastGood ? xe : xi] : [];
-          const [rr, rs] = await evaluate([xr, ...spec].map(toMat), 'simplex');
-          const fr = rr!.f;
-          const known = (x: number[]) => (rs && spec[0] === x ? rs.f : null);
-          if (fr < fb) {
-            const fe = known(xe) ?? (await evaluate([toMat(xe)], 'simplex'))[0]!.f;
-            simplex[n] = fe < fr ? { x: xe, f: fe } : { x: xr, f: fr };
-            lastGood = true;
-          } else if (fr < fsw) {
-            simplex[n] = { x: xr, f: fr };
-            lastGood = true;
-          } else {
-            lastGood = false;
-            const out = fr < fw;
-            const xc = out ? at(cen, w, 0.5) : xi;
-            const fc = (!out ? known(xi) : null) ?? (await evaluate([toMat(xc)], 'simplex'))[0]!.f;
-            if (fc < (out ? fr : fw)) simplex[n] = { x: xc, f: fc };
-            else {
-              const b = simplex[0]!.x;
-              const shrunk = simplex.slice(1).map((s) => s.x.map((v, i) => b[i]! + 0.5 * (v - b[i]!)));
-              const fsh = await evaluate(shrunk.map(toMat), 'simplex');
-              shrunk.forEach((x, k) => { simplex[k + 1] = { x, f: fsh[k]!.f }; });
+        // GF from the work of fracture (load-point displacement only), then ft and GF by Broyden on (peak, work)
+        // a noisy gauge may start a little below zero, where a simulated curve has no points
+        const lo0 = Math.max(0, measured.x[0]!), hi0 = measured.x[measured.x.length - 1]!;
+        const Wm = areaOver(measured, lo0, hi0);
+        if (params.includes('GF') && xAxis === 'displacement' && A > 0) {
+          est.GF = clamp({ ...est, GF: rilemGF(workOfFracture(measured.x, measured.y), A) }).GF;
+          notes.push(`GF start from the work of fracture over the ligament (${A.toFixed(0)} mm²): ${est.GF.toPrecision(3)} N/mm`);
+        }
+        const sub = params.filter((p): p is 'ft' | 'GF' => p === 'ft' || p === 'GF');
+        if (sub.length > 0) {
+          let J: number[][] = sub.map((_, i) => sub.map((__, j) => (i === j ? 1 : 0))); // peak ∝ ft, work ∝ GF
+          let x = sub.map((p) => Math.log(est[p]));
+          let g: number[] | null = null, prevX = x;
+          for (let it = 0; it < 5; it++) {
+            const m: Mat = { ...est };
+            sub.forEach((p, i) => { m[p] = Math.exp(x[i]!); });
+            const [r] = await evaluate([clamp(m)], 'estimate');
+            const Ps = r!.curve.y.length ? r!.curve.y[peakIndex(r!.curve.y)]! : 0;
+            const Ws = r!.curve.x.length > 1 ? areaOver(r!.curve, lo0, hi0) : 0;
+            if (!(Ps > 0) || !(Ws > 0)) break;
+            const gn = sub.map((p) => (p === 'ft' ? Math.log(Ps / Pm) : Math.log(Ws / Wm)));
+            Object.assign(est, clamp(m));
+            // the model's rising branch bends before the peak as the faces at the notch take up
+            // load, so E follows the slope measured the same way on the simulated curve
+            const kr = params.includes('E') && km > 0 ? initialStiffness(r!.curve) : NaN;
+            const eStep = kr > 0 ? Math.log(km / kr) : 0;
+            if (kr > 0) Object.assign(est, clamp({ ...est, E: est.E * (km / kr) }));
+            if (gn.every((v) => Math.abs(v) < 0.005) && Math.abs(eStep) < 0.005) break;
+            if (g) {
+              // Broyden's update from the last step
+              const dx = x.map((v, i) => v - prevX[i]!), dg = gn.map((v, i) => v - g![i]!);
+              const dd = dx.reduce((s, v) => s + v * v, 0);
+              if (dd > 0) J = J.map((row, i) => row.map((v, j) => v + ((dg[i]! - row.reduce((s, a, k) => s + a * dx[k]!, 0)) * dx[j]!) / dd));
+            }
+            const step = solve(J, gn.map((v) => -v));
+            if (!step) break;
+            const big = Math.max(...step.map(Math.abs));
+            const scale = big > Math.log(1.5) ? Math.log(1.5) / big : 1;
+            prevX = x;
+            g = gn;
+            x = x.map((v, i) => v + scale * step[i]!);
+          }
+          notes.push(`ft${sub.includes('GF') ? ' and GF' : ''} from the peak load ${Pm.toFixed(1)} N${sub.includes('GF') ? ` and the work ${Wm.toPrecision(4)} N·mm under the measured curve` : ''}${params.includes('E') && km > 0 ? ', E from the slope between 5 and 40 % of the peak on the simulated curves' : ''} (${history.filter((h) => h.phase === 'estimate').length} runs)`);
+        }
+
+        // Nelder–Mead on log-parameters from the best point so far
+        const [e0] = await evaluate([est], 'estimate');
+        let best0 = { m: est, f: e0!.f };
+        for (const h of history) if (h.phase !== 'elastic' && h.objective < best0.f) best0 = { m: { E: h.E, ft: h.ft, GF: h.GF }, f: h.objective };
+        const x0 = params.map((p) => Math.log(best0.m[p]));
+        const simplex: { x: number[]; f: number }[] = [{ x: x0, f: NaN }];
+        for (let j = 0; j < params.length; j++) simplex.push({ x: x0.map((v, i) => (i === j ? v + 0.05 : v)), f: NaN });
+        // the case's own values ride along for the report
+        const fs = await evaluate([...simplex.map((s) => toMat(s.x)), start], 'simplex');
+        simplex.forEach((s, i) => { s.f = fs[i]!.f; });
+        const n = params.length;
+        const at = (c0: number[], w: number[], t: number) => c0.map((v, i) => v + t * (v - w[i]!));
+        let lastGood = true; // the last move went outward: speculate an expansion, else a contraction
+        const sortS = () => simplex.sort((a, b) => a.f - b.f);
+        try {
+          for (;;) {
+            sortS();
+            const fb = simplex[0]!.f, fw = simplex[n]!.f, fsw = simplex[n - 1]!.f;
+            const size = Math.max(...simplex.slice(1).map((s) => Math.max(...s.x.map((v, i) => Math.abs(v - simplex[0]!.x[i]!)))));
+            if (size < 0.003 && fw - fb < 0.01 * fb + 1e-6) break;
+            // a noisy objective (growth events are discrete) keeps a small simplex wandering: closed
+            // once it is within 3 % and the best has improved by under 2 % of itself over the last 6n simulations
+            const back = history.length - 1 - 6 * n;
+            if (size < 0.03 && back >= 0 && history[back]!.best - fb < 0.02 * fb) break;
+            const cen = params.map((_, i) => simplex.slice(0, n).reduce((s, v) => s + v.x[i]!, 0) / n);
+            const w = simplex[n]!.x;
+            const xr = at(cen, w, 1), xe = at(cen, w, 2), xi = at(cen, w, -0.5);
+            // a speculative second candidate only while the budget has room for it
+            const spec = nWorkers > 1 && maxEvals - sims >= 2 ? [lastGood ? xe : xi] : [];
+            const [rr, rs] = await evaluate([xr, ...spec].map(toMat), 'simplex');
+            const fr = rr!.f;
+            const known = (x: number[]) => (rs && spec[0] === x ? rs.f : null);
+            if (fr < fb) {
+              const fe = known(xe) ?? (await evaluate([toMat(xe)], 'simplex'))[0]!.f;
+              simplex[n] = fe < fr ? { x: xe, f: fe } : { x: xr, f: fr };
+              lastGood = true;
+            } else if (fr < fsw) {
+              simplex[n] = { x: xr, f: fr };
+              lastGood = true;
+            } else {
+              lastGood = false;
+              const out = fr < fw;
+              const xc = out ? at(cen, w, 0.5) : xi;
+              const fc = (!out ? known(xi) : null) ?? (await evaluate([toMat(xc)], 'simplex'))[0]!.f;
+              if (fc < (out ? fr : fw)) simplex[n] = { x: xc, f: fc };
+              else {
+                const b = simplex[0]!.x;
+                const shrunk = simplex.slice(1).map((s) => s.x.map((v, i) => b[i]! + 0.5 * (v - b[i]!)));
+                const fsh = await evaluate(shrunk.map(toMat), 'simplex');
+                shrunk.forEach((x, k) => { simplex[k + 1] = { x, f: fsh[k]!.f }; });
+              }
             }
           }
+        } finally {
+          sortS();
+          xb = simplex[0]!.x; fit = toMat(xb); fbest = simplex[0]!.f;
         }
-      } finally {
-        sortS();
-        xb = simplex[0]!.x; fit = toMat(xb); fbest = simplex[0]!.f;
       }
     } catch (e) {
       if (!(e instanceof FitStop)) throw e;
@@ -616,15 +755,19 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
 
     // sensitivities and confidence from a forward-difference Jacobian at the optimum, then the
     // model's own scatter from other mesh seeds
-    const bestEval = cache.get(keyOf(fit));
-    bestCurve = bestEval?.curve ?? null;
+    const bestEval = cache.get(keyOf(fit)), sb = shapeBest as Shape | null;
+    bestCurve = bestEval?.curve ?? (sb && keyOf(sb.m) === keyOf(fit) ? sb.curve : null);
     phaseLimit = maxEvals;
     if ((status === 'fitted' || status === 'limit') && Number.isFinite(fbest)) {
       try {
         const h = Math.log(1.03);
-        const r0 = residualsAll(bestCurve!, targets);
-        const jr = await evaluate(params.map((_, j) => toMat(xb.map((v, i) => (i === j ? v + h : v)))), 'jacobian');
-        const cols = jr.map((r) => { const rj = residualsAll(r.curve, targets); return Float64Array.from(r0, (v, i) => ((rj[i] ?? v) - v) / h); });
+        let r0: Float64Array, cols: Float64Array[];
+        if (shapeSearch) ({ r0, cols } = await shapeJacobian(h));
+        else {
+          r0 = residualsAll(bestCurve!, targets);
+          const jr = await evaluate(params.map((_, j) => toMat(xb.map((v, i) => (i === j ? v + h : v)))), 'jacobian');
+          cols = jr.map((r) => { const rj = residualsAll(r.curve, targets); return Float64Array.from(r0, (v, i) => ((rj[i] ?? v) - v) / h); });
+        }
         const n = params.length, N = r0.length, ssr = r0.reduce((s, v) => s + v * v, 0), s2 = ssr / Math.max(1, N - n);
         const JtJ = params.map((_, i) => params.map((__, j) => cols[i]!.reduce((s, v, k) => s + v * cols[j]![k]!, 0)));
         const cov = inverse(JtJ);
@@ -633,17 +776,23 @@ export async function fitCase(c: CaseModel, labIn: LabCurve | LabCurve[], opt: F
         // model scatter: the same fitted values on meshes of other seeds; the shift of the
         // parameters that would absorb each one's change of the curve (Gauss–Newton step)
         const shifts: number[][] = [new Array(n).fill(0)];
-        for (let s = 1; s <= seeds && cov; s++) {
-          const k = matOf(fit, base);
-          k.mesh = { ...k.mesh, seed: base.mesh.seed + s };
-          const sim = await simulate(k, generateMesh(buildDomain(k), k.mesh));
+        // started together (two threads), taken up in starting order
+        const seedRuns = Array.from({ length: cov ? seeds : 0 }, (_, j) => {
+          const k = matOf(fit, post);
+          k.mesh = { ...k.mesh, seed: base.mesh.seed + j + 1 };
+          const p = simulate(k, generateMesh(buildDomain(k), k.mesh));
+          p.catch(() => {});
+          return p;
+        });
+        for (const run of seedRuns) {
+          const sim = await run;
           const curve = sim.load.length > 0 ? simOpening(sim, xAxis) : { x: new Float64Array(0), y: new Float64Array(0) };
           const f = sim.status === 'failed' || curve.x.length < 2 ? Infinity : objective(curve);
           record({ phase: 'seed', ...fit, objective: f, peak_N: sim.load.length ? sim.load[peakIndex(sim.load)]! : NaN, status: sim.status, seconds: sim.seconds });
           if (!Number.isFinite(f)) continue;
           const rs = residualsAll(curve, targets);
           const g = params.map((_, i) => cols[i]!.reduce((a, v, k2) => a + v * ((rs[k2] ?? r0[k2]!) - r0[k2]!), 0));
-          shifts.push(params.map((_, i) => -cov[i]!.reduce((a, v, j) => a + v * g[j]!, 0)));
+          shifts.push(params.map((_, i) => -cov![i]!.reduce((a, v, j) => a + v * g[j]!, 0)));
         }
         const sdModel = params.map((_, i) => (shifts.length > 1 ? Math.sqrt(shifts.reduce((a, v) => a + v[i]! * v[i]!, 0) / (shifts.length - 1)) : NaN));
         if (shifts.length > 1) notes.push(`±95 %: from the Jacobian at the optimum (residuals at the measured points taken as independent) combined with the model's own scatter over ${shifts.length} mesh seeds; the error of the model itself is not in it`);

@@ -31,6 +31,11 @@ interface Work {
   /** Of the last level structure built: vertices reached and its height. */
   reached: number;
   height: number;
+  /** The structure built before it (level2, queue2, reached2, height2), kept by swapStructures. */
+  level2: Int32Array;
+  queue2: Int32Array;
+  reached2: number;
+  height2: number;
   /** A vertex of the last level of the structure the last levelSeparator used. */
   far: number;
   /** Separator improvement lists, reused: the separator's vertices and the log of moves. */
@@ -62,17 +67,31 @@ function levelStructure(wk: Work, root: number): void {
   wk.height = level[queue[tail - 1]];
 }
 
+/** The current level structure becomes the kept one and the kept one current (no copying). */
+function swapStructures(wk: Work): void {
+  const { level, queue, reached, height } = wk;
+  wk.level = wk.level2;
+  wk.queue = wk.queue2;
+  wk.reached = wk.reached2;
+  wk.height = wk.height2;
+  wk.level2 = level;
+  wk.queue2 = queue;
+  wk.reached2 = reached;
+  wk.height2 = height;
+}
+
 /**
  * Two ends of a pseudo-diameter found by the pseudo-peripheral search (George & Liu 1979): the root and
- * its farthest try, whose level structure queue and level hold on return. Starts from the level
- * structure of start, which queue and level hold.
+ * its farthest try. On return the current level structure is the try's, the kept one the root's.
+ * Starts from the level structure of start, the current one.
  */
 function pseudoPeripheral(wk: Work, start: number): [number, number] {
-  const { g, level, queue } = wk;
+  const g = wk.g;
   let root = start;
   let reached = wk.reached;
   let height = wk.height;
   for (;;) {
+    const { level, queue } = wk;
     // the last level's vertex of least degree starts the next try
     let best = -1;
     let bestDeg = Infinity;
@@ -84,6 +103,7 @@ function pseudoPeripheral(wk: Work, start: number): [number, number] {
         bestDeg = d;
       }
     }
+    swapStructures(wk);
     levelStructure(wk, best);
     if (wk.height <= height) return [root, best];
     root = best;
@@ -225,15 +245,14 @@ function refineSeparator(wk: Work, verts: Int32Array, side: Uint8Array, balance:
 }
 
 /**
- * Splits the piece (vertices marked with wk.pieceId) by a level of the level structure rooted at root,
+ * Splits the piece (vertices marked with wk.pieceId) by a level of the current level structure,
  * refined: side[v] = 0 or 1 for the two sides, 2 for the separator. Returns the separator's weight
  * (Infinity when the structure has fewer than three levels).
  */
-function levelSeparator(wk: Work, verts: Int32Array, root: number, built: boolean, side: Uint8Array, balance: number, passes: number): number {
+function levelSeparator(wk: Work, verts: Int32Array, side: Uint8Array, balance: number, passes: number): number {
   const { g, piece, level, queue } = wk;
   const id = wk.pieceId;
   const m = verts.length;
-  if (!built) levelStructure(wk, root);
   const height = wk.height;
   wk.far = queue[m - 1];
   if (height < 2) return Infinity;
@@ -330,11 +349,15 @@ export function dissectionStages(g: Graph, opts: DissectionOptions = {}): Int32A
     pieceId: 0,
     reached: 0,
     height: 0,
+    level2: new Int32Array(n),
+    queue2: new Int32Array(n),
+    reached2: 0,
+    height2: 0,
     far: -1,
     sep: [],
     log: [],
   };
-  const { piece, queue } = wk;
+  const piece = wk.piece;
   const side = new Uint8Array(n);
   const keep = new Uint8Array(n);
   const depth = new Int32Array(n).fill(-1);
@@ -361,6 +384,7 @@ export function dissectionStages(g: Graph, opts: DissectionOptions = {}): Int32A
     levelStructure(wk, start);
     const reached = wk.reached;
     if (reached < m) {
+      const queue = wk.queue;
       for (let t = 0; t < reached; t++) piece[queue[t]] = -1;
       let k = reached;
       for (let t = 0; t < m; t++) if (piece[pv[t]] === id) tmp[k++] = pv[t];
@@ -371,14 +395,15 @@ export function dissectionStages(g: Graph, opts: DissectionOptions = {}): Int32A
       continue;
     }
 
-    // level structures from both ends of a pseudo-diameter (the far end's is built already); the lighter separator wins
+    // level structures from both ends of a pseudo-diameter (both built by the search); the lighter separator wins
     const [r1, r2] = pseudoPeripheral(wk, start);
-    let sepW = levelSeparator(wk, pv, r2, true, side, balance, 0);
+    let sepW = levelSeparator(wk, pv, side, balance, 0);
     let root = r2;
     let far = wk.far;
     if (r2 !== r1) {
       for (let t = 0; t < m; t++) keep[t] = side[pv[t]];
-      const w1 = levelSeparator(wk, pv, r1, false, side, balance, 0);
+      swapStructures(wk);
+      const w1 = levelSeparator(wk, pv, side, balance, 0);
       if (w1 < sepW) {
         sepW = w1;
         root = r1;

@@ -6,6 +6,7 @@ import { colorAt, damageMap, diverging, sequential } from './colormap.js';
 import { el, layer, n, n1, polyPath, svgDocument, text } from './svg.js';
 import { formatTicks, formatValue, niceTicks } from './ticks.js';
 import { curveInsetSvg, type CurveInset } from './inset.js';
+import { VertexGrid } from './vertexgrid.js';
 
 export interface FieldPicture {
   mesh: PolyMesh;
@@ -124,37 +125,18 @@ function chainEdges(a: Int32Array, b: Int32Array, mask: Uint8Array, nv: number):
   return lines;
 }
 
-/** Displacement at a model point: the mean over the nearest vertices (both faces of a crack), via a bucket grid. */
+/** Displacement at a model point: the mean over the nearest vertices (both faces of a crack); the grid is built at the first look-up. */
 function pointMover(mesh: PolyMesh, disp: Float64Array, mag: number): (x: number, y: number) => [number, number] {
-  const xy = mesh.xy, nv = vertexCount(mesh);
-  const [x0, y0, x1, y1] = bbox(xy);
-  const h = Math.max(Math.sqrt(((x1 - x0) * (y1 - y0) || 1) / Math.max(1, nv)) * 2, 1e-9);
-  const gx = Math.max(1, Math.ceil((x1 - x0) / h) + 1), gy = Math.max(1, Math.ceil((y1 - y0) / h) + 1);
-  const start = new Int32Array(gx * gy + 1), items = new Int32Array(nv);
-  const cellOf = (i: number): number =>
-    Math.min(gx - 1, Math.floor((xy[2 * i] - x0) / h)) + gx * Math.min(gy - 1, Math.floor((xy[2 * i + 1] - y0) / h));
-  for (let i = 0; i < nv; i++) start[cellOf(i) + 1]++;
-  for (let c = 0; c < gx * gy; c++) start[c + 1] += start[c];
-  const fill = start.slice(0, gx * gy);
-  for (let i = 0; i < nv; i++) items[fill[cellOf(i)]++] = i;
-  const tol = 1e-7 * Math.max(x1 - x0, y1 - y0, 1);
-  const visit = (x: number, y: number, r: number, f: (i: number) => void): void => {
-    const cx = Math.floor((x - x0) / h), cy = Math.floor((y - y0) / h);
-    for (let j = Math.max(0, cy - r); j <= Math.min(gy - 1, cy + r); j++)
-      for (let i = Math.max(0, cx - r); i <= Math.min(gx - 1, cx + r); i++)
-        for (let q = start[i + gx * j]; q < start[i + gx * j + 1]; q++) f(items[q]);
-  };
+  let grid: VertexGrid | null = null, tol = 0;
   return (x, y) => {
-    if (nv === 0) return [x, y];
-    let best = Infinity;
-    for (let r = 0; r <= gx + gy; r++) {
-      visit(x, y, r, (i) => { best = Math.min(best, Math.hypot(xy[2 * i] - x, xy[2 * i + 1] - y)); });
-      if (best < r * h) break;
+    if (!grid) {
+      grid = new VertexGrid(mesh.xy);
+      const [x0, y0, x1, y1] = bbox(mesh.xy);
+      tol = 1e-7 * Math.max(x1 - x0, y1 - y0, 1);
     }
-    let ux = 0, uy = 0, cnt = 0;
-    visit(x, y, Math.ceil((best + tol) / h) + 1, (i) => {
-      if (Math.hypot(xy[2 * i] - x, xy[2 * i + 1] - y) <= best + tol) { ux += disp[2 * i]; uy += disp[2 * i + 1]; cnt++; }
-    });
+    const cnt = grid.nearest(x, y, tol), f = grid.found;
+    let ux = 0, uy = 0;
+    for (let k = 0; k < cnt; k++) { ux += disp[2 * f[k]]; uy += disp[2 * f[k] + 1]; }
     return cnt ? [x + (mag * ux) / cnt, y + (mag * uy) / cnt] : [x, y];
   };
 }
@@ -258,11 +240,28 @@ export const UNDEFORMED = '#8a9099';
 export const MESH_ON_VALUES = { opacity: 0.28, width: 0.5 };
 export const MESH_PLAIN = { color: '#5b6470', width: 0.6 };
 
-/** Screen polylines of the undeformed boundary, the interior edges (joined into long lines) and the deformed boundary; a closed loop repeats its first point. */
-export function meshLines(p: FieldPicture, L: FieldLayout): { undeformed: Float64Array[]; inner: Float64Array[]; outline: Float64Array[] } {
-  const mesh = p.mesh, nv = vertexCount(mesh);
+const sameInts = (x: Int32Array, y: Int32Array): boolean =>
+  x.length === y.length && Buffer.from(x.buffer, x.byteOffset, x.byteLength).equals(Buffer.from(y.buffer, y.byteOffset, y.byteLength));
+
+// the chains of the mesh drawn last: the frames of a run mostly share their mesh, and comparing
+// it costs far less than chaining its edges again
+let lastChains: { nv: number; start: Int32Array; verts: Int32Array; loops: number[][]; inner: number[][] } | null = null;
+
+/** The boundary loops and the interior edges of a mesh joined into polylines (vertex lists). */
+function meshChains(mesh: PolyMesh): { loops: number[][]; inner: number[][] } {
+  const nv = vertexCount(mesh), m = lastChains;
+  if (m && m.nv === nv && sameInts(m.start, mesh.cellStart) && sameInts(m.verts, mesh.cellVerts)) return m;
   const edges = meshEdges(mesh);
   const loops = chainEdges(edges.a, edges.b, edges.boundary, nv);
+  const inner = chainEdges(edges.a, edges.b, edges.boundary.map((b) => 1 - b), nv);
+  lastChains = { nv, start: Int32Array.from(mesh.cellStart), verts: Int32Array.from(mesh.cellVerts), loops, inner };
+  return lastChains;
+}
+
+/** Screen polylines of the undeformed boundary, the interior edges (joined into long lines) and the deformed boundary; a closed loop repeats its first point. */
+export function meshLines(p: FieldPicture, L: FieldLayout): { undeformed: Float64Array[]; inner: Float64Array[]; outline: Float64Array[] } {
+  const mesh = p.mesh;
+  const { loops, inner } = meshChains(mesh);
   const toScreen = (line: number[], px: (i: number) => number, py: (i: number) => number): Float64Array => {
     const out = new Float64Array(2 * line.length);
     for (let k = 0; k < line.length; k++) { out[2 * k] = px(line[k]); out[2 * k + 1] = py(line[k]); }
@@ -272,7 +271,7 @@ export function meshLines(p: FieldPicture, L: FieldLayout): { undeformed: Float6
   const showMesh = p.showMesh ?? !p.values;
   return {
     undeformed: p.displacement ? loops.map((l) => toScreen(l, (i) => L.X(mesh.xy[2 * i]), (i) => L.Y(mesh.xy[2 * i + 1]))) : [],
-    inner: showMesh ? chainEdges(edges.a, edges.b, edges.boundary.map((b) => 1 - b), nv).map((l) => toScreen(l, sx, sy)) : [],
+    inner: showMesh ? inner.map((l) => toScreen(l, sx, sy)) : [],
     outline: loops.map((l) => toScreen(l, sx, sy)),
   };
 }
@@ -430,7 +429,8 @@ export function fieldSvg(p: FieldPicture, layers?: Set<string>): string {
     body.push(layer('cells', cells));
   }
 
-  const lines = meshLines(p, L);
+  // the mesh's lines only when a layer draws them (the shared layers of a frame do not)
+  const lines = want('undeformed') || want('mesh') || want('outline') ? meshLines(p, L) : { undeformed: [], inner: [], outline: [] };
   const pathOf = (ls: Float64Array[]): string => ls.map((l) => polyPath(l, false)).join('');
   if (p.displacement && want('undeformed')) {
     body.push(layer('undeformed', [el('path', { d: pathOf(lines.undeformed), fill: 'none', stroke: UNDEFORMED, 'stroke-width': 1 * u, 'stroke-dasharray': `${n(5 * u)} ${n(3.5 * u)}` })]));

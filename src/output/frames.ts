@@ -16,7 +16,7 @@ import { autoMagnification, bbox, fieldSvg, type FieldPicture } from './field.js
 import type { CurveInset } from './inset.js';
 import sharp from 'sharp';
 import { pngDataUri, svgToPngBuffer } from './png.js';
-import { FrameRaster } from './frameraster.js';
+import { FrameRaster, type AnimationPage } from './frameraster.js';
 import { decodeStep, encodeStep, type StepData } from './stepdata.js';
 
 /** The validated case as the run used it, in the run folder. */
@@ -25,8 +25,15 @@ export const stepName = (k: number): string => `step-${String(k).padStart(4, '0'
 const DATA_FILE = /^step-(\d{4,})\.bin$/;
 const PICTURE_FILE = /^step-(\d{4,})\.(svg|png)$/;
 
-/** A frame drawn for the report and the animation; thumb: the report's copy (data URI: the PNG frame, or the SVG one drawn STEPPER_WIDTH wide). */
-export interface FrameFile { step: number; svg?: string; png?: string; thumb?: string }
+/**
+ * A frame drawn for the report and the animation; thumb: the report's copy (data URI: the PNG
+ * frame, or the SVG one drawn STEPPER_WIDTH wide); page: the GIF animation's page of it, with the
+ * palette its indices refer to.
+ */
+export interface FrameFile { step: number; svg?: string; png?: string; thumb?: string; page?: AnimationPage & { palette: Uint8Array } }
+
+/** Width of the animation's pages (px; narrower frames keep theirs). */
+export const ANIMATION_WIDTH = 720;
 
 /** Width of SVG-only frames in report.html (px); PNG frames go in as they are. */
 export const STEPPER_WIDTH = 900;
@@ -212,16 +219,27 @@ export function framePicture(c: CaseModel, d: StepData, rows: StepRow[], plan: F
   };
 }
 
+/**
+ * What tells apart the shared layers (title, colour bar, damage key, the inset's whole curve and
+ * axes, scale bar) of two frames of one plan: only whether a damage key is drawn, and the size.
+ */
+const sharedLayersKey = (p: FieldPicture): string => `${p.widthPx}|${p.cohesive?.length ? 1 : 0}|${p.caption?.length ?? 0}`;
+
 /** The SVG picture of one stored state. */
 export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan): string {
   return fieldSvg(framePicture(c, d, rows, plan, 1000));
 }
 
-/** Draw some of the planned frames into frames/ (in this thread); returns the report's copy of each. */
-export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[], raster = new FrameRaster()): Promise<[number, string][]> {
+/** What drawing a frame gives besides its files: the report's copy, and the GIF animation's page when there is one. */
+export interface FrameDrawn { step: number; thumb: string; page?: AnimationPage }
+
+/** Draw some of the planned frames into frames/ (in this thread); returns the report's copy of each and its page of the GIF. */
+export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number[], raster = new FrameRaster()): Promise<FrameDrawn[]> {
   const c = readRunCase(dir), rows = readCurveRows(dir);
-  const thumbs: [number, string][] = [];
+  const thumbs: FrameDrawn[] = [];
   const palette = plan.palette ? Uint8Array.from(plan.palette) : undefined;
+  // the GIF's pages from the pixels in hand (rupta's palette has room for its transparent index)
+  const pages = c.output.animation === 'gif' && palette !== undefined && palette.length / 3 <= 255;
   for (const k of steps) {
     const d = readStep(dir, k);
     const base = join(dir, 'frames', stepName(k));
@@ -229,19 +247,28 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
     if (svg !== null) writeFileAtomic(`${base}.svg`, svg);
     if (c.output.frames.includes('png')) {
       // drawn straight into pixels at the PNG's width: no SVG text to build and parse for the mesh
-      const png = await raster.png(framePicture(c, d, rows, plan, c.output.pngWidth), palette);
+      const pic = framePicture(c, d, rows, plan, c.output.pngWidth);
+      const png = await raster.png(pic, palette, sharedLayersKey(pic));
       writeFileAtomic(`${base}.png`, png);
       // the frame itself: a smaller copy would save little on a palette PNG and cost a resize and an encode
       const uri = `data:image/png;base64,${png.toString('base64')}`;
-      thumbs.push([k, uri.includes('http') ? await pngDataUri(sharp(png)) : uri]);
-    } else thumbs.push([k, await pngDataUri(sharp(await svgToPngBuffer(svg!, STEPPER_WIDTH)))]);
+      thumbs.push({ step: k, thumb: uri.includes('http') ? await pngDataUri(sharp(png)) : uri, page: pages ? await raster.page(ANIMATION_WIDTH, palette) : undefined });
+    } else thumbs.push({ step: k, thumb: await pngDataUri(sharp(await svgToPngBuffer(svg!, STEPPER_WIDTH))) });
   }
   return thumbs;
 }
 
 /**
+ * PNG pixels of a run's frames from which a worker draws half of them: PNG frames cost about 30 ms
+ * of processor time a megapixel on one thread (the demo's 30 frames of 1200 × 780 px: 0.9 s), so
+ * a worker's half then takes at least 1.4 s, four times its start.
+ */
+export const WORKER_FROM_PIXELS = 90e6;
+
+/**
  * Frames of a finished (or stopped) run folder, drawn on this thread and a worker (workers: 2), on
- * one worker (1) or here alone (0); pictures of other
+ * one worker (1) or here alone (0); by default on a worker too for SVG frames and for PNG frames
+ * of at least WORKER_FROM_PIXELS pixels in all, else here alone. Pictures of other
  * steps are removed, and with prune (a complete run, which no resume needs) their stored states too.
  */
 export async function drawFrames(dir: string, opt: { workers?: number; prune?: boolean } = {}): Promise<FrameFile[]> {
@@ -257,15 +284,23 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
   }
   if (!plan) return [];
   const here = new FrameRaster();
+  let pixels = Infinity; // of all PNG frames together
   if (c.output.frames.includes('png')) {
     // one palette for every frame: quantised once, each frame then only looks its colours up
     const last = plan.steps[plan.steps.length - 1]!;
-    plan.palette = Array.from(await here.palette(framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth)));
+    const pic = framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth);
+    const q = await here.palette(pic, sharedLayersKey(pic));
+    plan.palette = Array.from(q.palette);
+    pixels = q.width * q.height * plan.steps.length;
   }
   if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) removeFile(join(framesDir, `${stepName(k)}.bin`));
   const compiled = import.meta.url.endsWith('.js');
-  const n = compiled ? Math.min(Math.max(0, Math.floor(opt.workers ?? 2)), availableParallelism(), 2, plan.steps.length) : 0;
-  let thumbs: [number, string][];
+  // a worker costs its start in processor time (modules, sharp, its own shared overlay and warm-up:
+  // about 0.35 s measured); it is started only for SVG frames or when its half of the PNG frames
+  // costs several times that
+  const auto = c.output.frames.includes('svg') || pixels >= WORKER_FROM_PIXELS ? 2 : 0;
+  const n = compiled ? Math.min(Math.max(0, Math.floor(opt.workers ?? auto)), availableParallelism(), 2, plan.steps.length) : 0;
+  let thumbs: FrameDrawn[];
   if (n === 0) thumbs = await drawFrameSteps(dir, plan, plan.steps, here);
   else {
     // interleaved shares: early frames (small cracks) and late ones cost about the same in each;
@@ -276,21 +311,22 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
     const [a, b] = await Promise.all([mine, Promise.all(away)]);
     thumbs = [...a, ...b.flat()];
   }
-  const thumbOf = new Map(thumbs);
+  const drawn = new Map(thumbs.map((t) => [t.step, t]));
+  const palette = plan.palette ? Uint8Array.from(plan.palette) : null;
   return plan.steps.map((k) => {
-    const base = join(framesDir, stepName(k));
-    const f: FrameFile = { step: k, thumb: thumbOf.get(k) };
+    const base = join(framesDir, stepName(k)), d = drawn.get(k), page = d?.page;
+    const f: FrameFile = { step: k, thumb: d?.thumb, ...(page && palette ? { page: { ...page, palette } } : {}) };
     if (c.output.frames.includes('svg')) f.svg = `${base}.svg`;
     if (c.output.frames.includes('png')) f.png = `${base}.png`;
     return f;
   });
 }
 
-function onWorker(job: { dir: string; plan: FramePlan; steps: number[] }): Promise<[number, string][]> {
+function onWorker(job: { dir: string; plan: FramePlan; steps: number[] }): Promise<FrameDrawn[]> {
   return new Promise((resolve, reject) => {
     const w = new Worker(new URL('./frameworker.js', import.meta.url), { workerData: job });
     let done = false;
-    w.once('message', (m: { error?: string; thumbs?: [number, string][] }) => { done = true; if (m.error) reject(new Error(m.error)); else resolve(m.thumbs ?? []); });
+    w.once('message', (m: { error?: string; thumbs?: FrameDrawn[] }) => { done = true; if (m.error) reject(new Error(m.error)); else resolve(m.thumbs ?? []); });
     w.once('error', (e) => { done = true; reject(e); });
     w.once('exit', (code) => { if (!done) reject(new Error(`the frame worker stopped with code ${code}`)); });
   });

@@ -3,27 +3,42 @@
 // frame (delay, and one transparent index for the pixels that stay as the frame before left them,
 // inside the box of the ones that change), and the application extension that makes it loop.
 
+// the LZW table, (prefix code, next index) → code, as an open-addressing hash of 8192 slots (at
+// most 4096 entries, so at most half full) of stamp, key and code side by side: 96 KB that stay
+// in cache, stamped so a clear (or the next frame) needs no wipe
+const SLOTS = 8192;
+const TABLE = new Int32Array(3 * SLOTS);
+let gen = 0;
+
 /** LZW codes of a frame's indices (the GIF variant: clear and end codes, widths up to 12 bits). */
 export function lzw(ix: Uint8Array, minSize: number): Uint8Array {
   const clear = 1 << minSize, end = clear + 1;
-  const out: number[] = [];
+  // at most one code of at most 12 bits per index, and the clears between: 2 bytes an index is room enough
+  const out = new Uint8Array(2 * ix.length + 16);
+  let o = 0;
   let acc = 0, bits = 0, size = minSize + 1, next = end + 1;
   const put = (code: number): void => {
     acc |= code << bits; bits += size;
-    while (bits >= 8) { out.push(acc & 255); acc >>>= 8; bits -= 8; }
+    while (bits >= 8) { out[o++] = acc & 255; acc >>>= 8; bits -= 8; }
   };
-  // the table: (prefix code, next index) → code, stamped so a clear needs no wipe
-  const code = new Int32Array(4096 * 256), stamp = new Int32Array(4096 * 256);
-  let gen = 1;
+  const table = TABLE;
+  if (gen >= 0x7fffffff) { table.fill(0); gen = 0; }
+  gen++;
   put(clear);
-  if (ix.length === 0) { put(end); if (bits > 0) out.push(acc & 255); return Uint8Array.from(out); }
+  if (ix.length === 0) { put(end); if (bits > 0) out[o++] = acc & 255; return out.slice(0, o); }
   let prefix = ix[0];
   for (let i = 1; i < ix.length; i++) {
     const k = ix[i], key = (prefix << 8) | k;
-    if (stamp[key] === gen) { prefix = code[key]; continue; }
+    // Fibonacci hashing of the 20-bit key to 13 bits, then the next slots in turn
+    let h = (Math.imul(key, 0x9e3779b1) >>> 19) * 3, found = -1;
+    while (table[h] === gen) {
+      if (table[h + 1] === key) { found = table[h + 2]; break; }
+      h = h + 3 === 3 * SLOTS ? 0 : h + 3;
+    }
+    if (found >= 0) { prefix = found; continue; }
     put(prefix);
     if (next < 4096) {
-      stamp[key] = gen; code[key] = next++;
+      table[h] = gen; table[h + 1] = key; table[h + 2] = next++;
       // the reader's table is one entry behind; it widens its codes once it holds 2^size entries
       if (next > 1 << size && size < 12) size++;
     } else {
@@ -34,8 +49,8 @@ export function lzw(ix: Uint8Array, minSize: number): Uint8Array {
   }
   put(prefix);
   put(end);
-  if (bits > 0) out.push(acc & 255);
-  return Uint8Array.from(out);
+  if (bits > 0) out[o++] = acc & 255;
+  return out.slice(0, o);
 }
 
 /** Frames of indices into one palette (r, g, b, …; at most 255 colours, one index is kept for transparency) as GIF bytes. */
@@ -62,9 +77,15 @@ export function gifOf(frames: Uint8Array[], width: number, height: number, palet
     let x0 = 0, y0 = 0, x1 = width - 1, y1 = height - 1;
     if (prev) {
       x0 = width; y0 = height; x1 = -1; y1 = -1;
-      for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) {
-        const i = y * width + x;
-        if (f[i] !== prev[i]) { if (x < x0) x0 = x; if (x > x1) x1 = x; if (y < y0) y0 = y; if (y > y1) y1 = y; }
+      for (let y = 0, r = 0; y < height; y++, r += width) {
+        // the first and last change of the row, each searched from its own end
+        let a = 0;
+        while (a < width && f[r + a] === prev[r + a]) a++;
+        if (a === width) continue;
+        let b = width - 1;
+        while (f[r + b] === prev[r + b]) b--;
+        if (a < x0) x0 = a; if (b > x1) x1 = b;
+        if (y0 > y) y0 = y; y1 = y;
       }
       if (x1 < 0) { x0 = 0; y0 = 0; x1 = 0; y1 = 0; }
     }
@@ -79,12 +100,15 @@ export function gifOf(frames: Uint8Array[], width: number, height: number, palet
     const d = Buffer.alloc(10);
     d[0] = 0x2c; d.writeUInt16LE(x0, 1); d.writeUInt16LE(y0, 3); d.writeUInt16LE(w, 5); d.writeUInt16LE(h, 7); d[9] = 0;
     parts.push(d, Buffer.from([minSize]));
-    const data = lzw(sub, minSize);
+    // the codes in sub-blocks of at most 255 bytes, each after its length, and an empty one to end
+    const data = lzw(sub, minSize), blocks = Buffer.alloc(data.length + Math.ceil(data.length / 255) + 1);
+    let b = 0;
     for (let o = 0; o < data.length; o += 255) {
       const len = Math.min(255, data.length - o);
-      parts.push(Buffer.from([len]), Buffer.from(data.subarray(o, o + len)));
+      blocks[b++] = len; blocks.set(data.subarray(o, o + len), b); b += len;
     }
-    parts.push(Buffer.from([0]));
+    blocks[b] = 0;
+    parts.push(blocks);
     prev = f;
   });
   parts.push(Buffer.from([0x3b]));

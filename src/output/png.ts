@@ -45,6 +45,12 @@ export function pickFrames(count: number, maxFrames: number): number[] {
   return [...new Set(out)];
 }
 
+/** Delays of an animation's pages (ms): each delayMs, the last held holdLastMs (at least delayMs). */
+export function animationDelays(count: number, delayMs = 120, holdLastMs = 1500): number[] {
+  const delay = Math.round(delayMs), hold = Math.round(holdLastMs);
+  return Array.from({ length: count }, (_, k) => (k === count - 1 ? Math.max(delay, hold) : delay));
+}
+
 /** Join PNG frames (all brought to the first frame's size, at most maxWidth wide) into a looping GIF or WebP animation. */
 export async function framesToAnimation(
   pngPaths: string[],
@@ -52,7 +58,6 @@ export async function framesToAnimation(
   opts: { delayMs?: number; holdLastMs?: number; maxFrames?: number; maxWidth?: number; format?: 'gif' | 'webp' } = {},
 ): Promise<void> {
   if (pngPaths.length === 0) throw new Error('framesToAnimation: no frames');
-  const delay = Math.round(opts.delayMs ?? 120), hold = Math.round(opts.holdLastMs ?? 1500);
   const pick = pickFrames(pngPaths.length, Math.max(1, opts.maxFrames ?? 120));
   const format = opts.format ?? (path.toLowerCase().endsWith('.webp') ? 'webp' : 'gif');
   const first = await sharp(readFileSync(pngPaths[pick[0]])).metadata();
@@ -68,19 +73,22 @@ export async function framesToAnimation(
       .removeAlpha()
       .raw()
       .toBuffer()));
-  const page = width * height * 3, stack = Buffer.alloc(page * pages.length);
-  pages.forEach((b, k) => b.copy(stack, k * page, 0, page));
-  const delays = pick.map((_, k) => (k === pick.length - 1 ? Math.max(delay, hold) : delay));
+  const page = width * height * 3;
+  const delays = animationDelays(pick.length, opts.delayMs, opts.holdLastMs);
   if (format === 'gif') {
     // frames that share a palette of at most 255 colours (rupta's own) go into a GIF with that
     // palette: no quantiser, and the pixels a frame leaves as they were stay transparent
-    const palette = coloursOf(await sharp(readFileSync(pngPaths[pick[pick.length - 1]])).flatten({ background: '#ffffff' }).removeAlpha().raw().toBuffer());
+    const last = readFileSync(pngPaths[pick[pick.length - 1]]);
+    const palette = pngPalette(last) ?? coloursOf(await sharp(last).flatten({ background: '#ffffff' }).removeAlpha().raw().toBuffer());
     if (palette.length / 3 <= 255) {
       const lut = paletteLut();
       writeFileAtomic(path, gifOf(pages.map((b) => toPalette(b.subarray(0, page), palette, lut)), width, height, palette, delays));
       return;
     }
   }
+  // the raw pages stacked into one tall image
+  const stack = Buffer.alloc(page * pages.length);
+  pages.forEach((b, k) => b.copy(stack, k * page, 0, page));
   const joined = sharp(stack, { raw: { width, height: height * pages.length, channels: 3, pageHeight: height } });
   const buf = format === 'webp'
     ? await joined.webp({ loop: 0, delay: delays, quality: 90, effort: 4 }).toBuffer()
@@ -88,6 +96,25 @@ export async function framesToAnimation(
     // no dithering: the frames are flat colours, and it saves a fifth of the time
     : await joined.gif({ loop: 0, delay: delays, effort: 3, interFrameMaxError: 8, dither: 0 }).toBuffer();
   writeFileAtomic(path, buf);
+}
+
+/**
+ * The colour table (r, g, b, …) of an indexed PNG without transparency, as the PNG specification
+ * lays out its chunks (PLTE; no tRNS); null for any other PNG.
+ */
+export function pngPalette(png: Uint8Array): Uint8Array | null {
+  const b = Buffer.from(png.buffer, png.byteOffset, png.byteLength);
+  if (b.length < 33 || b.readUInt32BE(0) !== 0x89504e47 || b[25] !== 3) return null; // colour type 3: indexed
+  let plte: Uint8Array | null = null;
+  for (let o = 8; o + 8 <= b.length;) {
+    const n = b.readUInt32BE(o), type = b.toString('latin1', o + 4, o + 8);
+    if (o + 12 + n > b.length) return null;
+    if (type === 'PLTE') plte = Uint8Array.from(b.subarray(o + 8, o + 8 + n));
+    else if (type === 'tRNS') return null;
+    else if (type === 'IDAT' || type === 'IEND') break;
+    o += 12 + n;
+  }
+  return plte;
 }
 
 /** A PNG data URI whose text never contains "http", so a page can be checked for outside addresses by a plain search. */

@@ -79,17 +79,26 @@ export class Canvas {
 
   /** Add a segment of width w (px) with round ends to the stroke being built. */
   segment(xa: number, ya: number, xb: number, yb: number, w: number): void {
-    const h = w / 2 + 0.5, top = Math.min(1, w);
+    const h = w / 2 + 0.5, h2 = h * h, top = Math.min(1, w);
     const [c0, r0, c1, r1] = this.grow(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
     const dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width;
+    // on each row, only the columns within h of the segment's line (a pixel farther away is not
+    // covered): a slanted thin stroke then visits a band instead of its whole box
+    const ady = Math.abs(dy), band = ady > 1e-9 * Math.sqrt(L2) ? (h * Math.sqrt(L2)) / ady + 1e-6 : Infinity;
     for (let r = r0; r < r1; r++) {
       const py = r + 0.5 - ya;
-      for (let c = c0; c < c1; c++) {
+      let cA = c0, cB = c1;
+      if (band !== Infinity) {
+        const mid = xa + (py * dx) / dy - 0.5; // the column whose centre lies on the line
+        cA = Math.max(c0, Math.floor(mid - band)); cB = Math.min(c1, Math.ceil(mid + band) + 1);
+      }
+      for (let c = cA; c < cB; c++) {
         const px = c + 0.5 - xa;
         let t = L2 > 0 ? (px * dx + py * dy) / L2 : 0;
         t = t < 0 ? 0 : t > 1 ? 1 : t;
-        const ex = px - t * dx, ey = py - t * dy;
-        const v = Math.min(top, h - Math.sqrt(ex * ex + ey * ey));
+        const ex = px - t * dx, ey = py - t * dy, d2 = ex * ex + ey * ey;
+        if (d2 >= h2) continue; // not covered: no root to take
+        const v = Math.min(top, h - Math.sqrt(d2));
         if (v > cov[r * W + c]) cov[r * W + c] = v;
       }
     }
@@ -225,10 +234,12 @@ export const paletteLut = (): PaletteLut => ({ index: new Uint8Array(1 << 24), k
 export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, out: Uint8Array = new Uint8Array(px.length / 3)): Uint8Array {
   const n = palette.length / 3;
   if (n < 1 || n > 256 || n % 1 !== 0) throw new Error(`toPalette: a palette of ${n} colours`);
+  // a colour's key: r | g << 8 | b << 16, the three bytes read at once (little-endian)
   if (!lut.exact) {
     lut.exact = new Map();
-    for (let q = n - 1; q >= 0; q--) lut.exact.set((palette[3 * q] << 16) | (palette[3 * q + 1] << 8) | palette[3 * q + 2], q);
+    for (let q = n - 1; q >= 0; q--) lut.exact.set(palette[3 * q] | (palette[3 * q + 1] << 8) | (palette[3 * q + 2] << 16), q);
   }
+  const exact = lut.exact, index = lut.index, known = lut.known;
   const nearest = (r: number, g: number, b: number): number => {
     let best = 0, bd = Infinity;
     for (let q = 0; q < n; q++) {
@@ -239,22 +250,29 @@ export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, 
     }
     return best;
   };
+  // a colour not met before: its palette entry, or the entry nearest to its cell's centre
+  const learn = (key: number): number => {
+    let j = exact.get(key);
+    if (j === undefined) {
+      const r = key & 255, g = (key >> 8) & 255, b = key >> 16;
+      const c = ((r >> 3) << 10) | ((g >> 3) << 5) | (b >> 3);
+      if (lut.cell[c] < 0) lut.cell[c] = nearest((r & 0xf8) + 4, (g & 0xf8) + 4, (b & 0xf8) + 4);
+      j = lut.cell[c];
+    }
+    index[key] = j;
+    known[key >> 3] |= 1 << (key & 7);
+    return j;
+  };
+  const m = px.length / 3;
+  if (m === 0) return out;
+  const dv = new DataView(px.buffer, px.byteOffset, px.byteLength);
   let last = -1, lastIx = 0;
-  for (let i = 0, k = 0, m = px.length / 3; i < m; i++, k += 3) {
-    const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
+  for (let i = 0, k = 0; i < m; i++, k += 3) {
+    // four bytes read at once, but not past the end
+    const key = i + 1 < m ? dv.getUint32(k, true) & 0xffffff : px[k] | (px[k + 1] << 8) | (px[k + 2] << 16);
     // most pixels repeat their left neighbour (flat cells, white page)
     if (key === last) { out[i] = lastIx; continue; }
-    if ((lut.known[key >> 3] & (1 << (key & 7))) === 0) {
-      let j = lut.exact.get(key);
-      if (j === undefined) {
-        const c = ((px[k] >> 3) << 10) | ((px[k + 1] >> 3) << 5) | (px[k + 2] >> 3);
-        if (lut.cell[c] < 0) lut.cell[c] = nearest((px[k] & 0xf8) + 4, (px[k + 1] & 0xf8) + 4, (px[k + 2] & 0xf8) + 4);
-        j = lut.cell[c];
-      }
-      lut.index[key] = j;
-      lut.known[key >> 3] |= 1 << (key & 7);
-    }
-    out[i] = lastIx = lut.index[key];
+    out[i] = lastIx = (known[key >> 3] & (1 << (key & 7))) === 0 ? learn(key) : index[key];
     last = key;
   }
   return out;
@@ -263,9 +281,12 @@ export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, 
 /** Pixels mapped to a fixed palette and written as an indexed PNG: rows unfiltered, as the PNG specification recommends for palette images, then deflated. */
 export function indexedPng(px: Uint8Array, width: number, height: number, palette: Uint8Array, lut: PaletteLut, deflate: (b: Uint8Array) => Uint8Array, scratch?: Uint8Array): Buffer {
   const rows = scratch && scratch.length === (width + 1) * height ? scratch : new Uint8Array((width + 1) * height);
+  const bytes = Buffer.from(px.buffer, px.byteOffset, px.byteLength), n = 3 * width, m = width + 1;
   for (let r = 0; r < height; r++) {
-    rows[r * (width + 1)] = 0; // filter: none
-    toPalette(px.subarray(3 * r * width, 3 * (r + 1) * width), palette, lut, rows.subarray(r * (width + 1) + 1, (r + 1) * (width + 1)));
+    rows[r * m] = 0; // filter: none
+    // a row like the one above it (about a quarter of a frame's: margins, flat parts) takes its indices
+    if (r > 0 && bytes.compare(bytes, (r - 1) * n, r * n, r * n, (r + 1) * n) === 0) rows.copyWithin(r * m + 1, (r - 1) * m + 1, r * m);
+    else toPalette(px.subarray(r * n, (r + 1) * n), palette, lut, rows.subarray(r * m + 1, (r + 1) * m));
   }
   const head = Buffer.alloc(13);
   head.writeUInt32BE(width, 0); head.writeUInt32BE(height, 4);

@@ -32,8 +32,8 @@ function framesInFolder(dir: string): FrameFile[] {
   return [...by.values()].sort((a, b) => a.step - b.step);
 }
 
-/** Frames (unless frames is false), animation and report of a run folder, again; the report takes up compare*.json and fit*.json found there. */
-export async function redrawRun(dir: string, opt: { frames?: boolean } = {}): Promise<{ frames: number }> {
+/** Frames (unless frames is false; workers: see drawFrames), animation and report of a run folder, again; the report takes up compare*.json and fit*.json found there. */
+export async function redrawRun(dir: string, opt: { frames?: boolean; workers?: number } = {}): Promise<{ frames: number }> {
   if (!existsSync(dir)) throw new InputError(`the run folder ${dir} does not exist`);
   // written like a run: under the folder's lock (unless this process holds it already), no link followed
   const folder = OutputFolder.open(dir, 'the run folder');
@@ -47,7 +47,7 @@ export async function redrawRun(dir: string, opt: { frames?: boolean } = {}): Pr
   }
 }
 
-async function redrawLocked(dir: string, opt: { frames?: boolean }): Promise<{ frames: number }> {
+async function redrawLocked(dir: string, opt: { frames?: boolean; workers?: number }): Promise<{ frames: number }> {
   const info = readRunInfo(dir), c = info.case;
   const rows = readCurveRows(dir);
   const sp = join(dir, 'summary.json');
@@ -56,7 +56,7 @@ async function redrawLocked(dir: string, opt: { frames?: boolean }): Promise<{ f
   let frames: FrameFile[];
   if (opt.frames === false) frames = framesInFolder(dir);
   else {
-    frames = await drawFrames(dir);
+    frames = await drawFrames(dir, { workers: opt.workers });
     await writeAnimation(dir, c, frames);
   }
   const text = (f: string): string | null => (existsSync(join(dir, f)) ? readFileSync(join(dir, f), 'utf8') : null);

@@ -6,14 +6,15 @@ import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { AnalysisResult, Snapshot, StepEvent, StepRow } from '../fracture/analysis.js';
 import { InputError } from '../errors.js';
-import { RowWriter, csvCell, lstatOrNull } from './files.js';
+import { RowWriter, csvCell, lstatOrNull, writeFileAtomic } from './files.js';
 import { OutputFolder } from './folder.js';
 import { fieldSvg, meshSvg } from './field.js';
 import { plotPanelsSvg, plotSvg, type PlotOptions, type Series } from './plot.js';
-import { svgToPng, framesToAnimation } from './png.js';
+import { animationDelays, svgToPng, framesToAnimation } from './png.js';
+import { gifOf } from './gif.js';
 import { VtkSeries } from './vtk.js';
 import { writeReport } from './report.js';
-import { CASE_FILE, FrameStore, drawFrames, readRunInfo, specimenSymbols, type FrameFile, type RunCaseFile } from './frames.js';
+import { ANIMATION_WIDTH, CASE_FILE, FrameStore, drawFrames, readRunInfo, specimenSymbols, type FrameFile, type RunCaseFile } from './frames.js';
 import { VERSION, sha256 } from '../version.js';
 import { cracksCsv, cracksDxf } from './exports.js';
 import { s1OverFt } from './stepdata.js';
@@ -235,7 +236,14 @@ export class RunFiles {
 export async function writeAnimation(dir: string, c: CaseModel, frames: FrameFile[]): Promise<void> {
   const pngs = frames.flatMap((f) => (f.png ? [f.png] : []));
   if (c.crack && c.output.animation !== 'none' && pngs.length > 1) {
-    await framesToAnimation(pngs, join(dir, `animation.${c.output.animation}`), { format: c.output.animation, maxFrames: c.output.maxFrames, maxWidth: 720 });
+    const path = join(dir, `animation.${c.output.animation}`);
+    // the GIF's pages drawn with the frames: no PNG to decode and resize again
+    const pages = frames.flatMap((f) => (f.png && f.page ? [f.page] : []));
+    const one = pages[0];
+    if (c.output.animation === 'gif' && one && pages.length === pngs.length && pages.length <= c.output.maxFrames &&
+      pages.every((p) => p.width === one.width && p.height === one.height && p.palette.length === one.palette.length)) {
+      writeFileAtomic(path, gifOf(pages.map((p) => p.ix), one.width, one.height, one.palette, animationDelays(pages.length)));
+    } else await framesToAnimation(pngs, path, { format: c.output.animation, maxFrames: c.output.maxFrames, maxWidth: ANIMATION_WIDTH });
   }
 }
 

@@ -32,12 +32,15 @@ export interface DrivenDofs {
  * Element stiffnesses kept between topologies, by a key of the caller's (the work mesh's cell
  * id): a cell whose vertices (stable ids) and coordinates are unchanged reuses its matrix.
  */
-export class ElementCache {
-  entries = new Map<number, { verts: Int32Array; xy: Float64Array; Ke: Float64Array }>();
+export class ElementCache<E extends CellIdentity = CellIdentity & { Ke: Float64Array }> {
+  entries = new Map<number, E>();
 }
 
+/** What a cached cell is known by: its vertices' stable ids and coordinates, in cell order. */
+export interface CellIdentity { verts: Int32Array; xy: Float64Array }
+
 /** Where a System finds and keeps element matrices: the cache, each cell's key and each vertex's stable id. */
-export interface ElementReuse { cache: ElementCache; cellKey: Int32Array; vertexId: Int32Array }
+export interface ElementReuse<E extends CellIdentity = CellIdentity & { Ke: Float64Array }> { cache: ElementCache<E>; cellKey: Int32Array; vertexId: Int32Array }
 
 /**
  * Stiffness block of cell c, (2n)² values for its n vertices in cell order, into Ke; absent: the
@@ -95,7 +98,7 @@ export class System {
     this.kBulk = matrixOnPattern(pattern);
     const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn);
     const vals = this.kBulk.values;
-    const kept = reuse ? new Map<number, { verts: Int32Array; xy: Float64Array; Ke: Float64Array }>() : null;
+    const kept = reuse ? new Map<number, CellIdentity & { Ke: Float64Array }>() : null;
     for (let c = 0; c < nc; c++) {
       const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
       const o = off[c];
@@ -110,12 +113,7 @@ export class System {
         }
         elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
         K = Ke.slice(0, m * m);
-        const verts = new Int32Array(e - s), xy = new Float64Array(2 * (e - s));
-        for (let k = s; k < e; k++) {
-          const v = mesh.cellVerts[k];
-          verts[k - s] = reuse.vertexId[v]; xy[2 * (k - s)] = mesh.xy[2 * v]; xy[2 * (k - s) + 1] = mesh.xy[2 * v + 1];
-        }
-        kept!.set(key, { verts, xy, Ke: K });
+        kept!.set(key, { ...cellIdentity(mesh, reuse.vertexId, s, e), Ke: K });
       } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
       for (let k = 0; k < m * m; k++) vals[map[o + k]] += K[k];
     }
@@ -384,7 +382,18 @@ export class System {
 }
 
 /** The cached cell has the same vertices, in the same order, at the same places. */
-function sameCell(hit: { verts: Int32Array; xy: Float64Array }, mesh: PolyMesh, vertexId: Int32Array, s: number, e: number): boolean {
+/** Stable vertex ids and coordinates of the cell cellVerts[s..e) of mesh, as a cache keeps them. */
+export function cellIdentity(mesh: PolyMesh, vertexId: Int32Array, s: number, e: number): CellIdentity {
+  const verts = new Int32Array(e - s), xy = new Float64Array(2 * (e - s));
+  for (let k = s; k < e; k++) {
+    const v = mesh.cellVerts[k];
+    verts[k - s] = vertexId[v]; xy[2 * (k - s)] = mesh.xy[2 * v]; xy[2 * (k - s) + 1] = mesh.xy[2 * v + 1];
+  }
+  return { verts, xy };
+}
+
+/** The cached cell is the cell cellVerts[s..e) of mesh: same stable vertex ids, same coordinates. */
+export function sameCell(hit: CellIdentity, mesh: PolyMesh, vertexId: Int32Array, s: number, e: number): boolean {
   if (hit.verts.length !== e - s) return false;
   for (let k = s; k < e; k++) {
     const v = mesh.cellVerts[k], i = k - s;

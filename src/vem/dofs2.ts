@@ -7,6 +7,7 @@
 import type { PolyMesh } from '../mesh/polymesh.js';
 import { order2Layout, condense, FIELD, stressAt2, type Order2Layout } from './system2.js';
 import { Element2Work, NB, elementStiffness2 } from './element2.js';
+import { sameCell, cellIdentity, type ElementCache, type ElementReuse } from '../solver/system.js';
 
 export interface NodeMesh {
   base: PolyMesh;
@@ -38,56 +39,89 @@ const elementDof = (q: number, n: number): number => {
   return (j & 1) === 0 ? 2 * (j >> 1) + (q & 1) : 2 * n + 2 * (j >> 1) + (q & 1);
 };
 
-/** Order-2 cells of a node mesh: condensed stiffness blocks in node order, and the projected field. */
+/**
+ * One order-2 cell as the node mesh sees it, kept between topologies (keyed by the work mesh's
+ * cell id) while its vertices (stable ids) and coordinates stay: the element depends on nothing
+ * else (its midpoints are those of its edges).
+ */
+export interface Cell2 {
+  verts: Int32Array; xy: Float64Array;
+  /** Condensed stiffness, 4n × 4n in node order (2 per node around the cell). */
+  K: Float64Array;
+  /** 12 × 4n: the basis coefficients of Πu from the node values, the cell mean recovered. */
+  F: Float64Array;
+  /** Centroid and diameter the basis is scaled with. */
+  cx: number; cy: number; h: number;
+}
+
+/** Order-2 cells kept from one topology to the next (as ElementCache at order 1). */
+export type Cell2Cache = ElementCache<Cell2>;
+
+/**
+ * Order-2 cells of a node mesh: condensed stiffness blocks in node order, and the projected
+ * field. Each cell is computed once per topology, or taken from the cache when given.
+ */
 export class Order2Cells {
-  private readonly w: Element2Work;
-  private readonly Ke: Float64Array;
-  private readonly Kc: Float64Array;
-  private readonly fc: Float64Array;
-  private readonly rec: Float64Array;
+  private readonly cells: Cell2[];
+  /** Node values of one cell (scratch). */
   private readonly loc: Float64Array;
 
-  constructor(readonly nm: NodeMesh, readonly D: Float64Array, readonly t: number) {
-    const n = nm.layout.maxVerts, nd = 4 * n + 2;
-    this.w = new Element2Work(n);
-    this.Ke = new Float64Array(nd * nd); this.Kc = new Float64Array(16 * n * n);
-    this.fc = new Float64Array(4 * n); this.rec = new Float64Array(2 + 8 * n); this.loc = new Float64Array(nd);
+  constructor(readonly nm: NodeMesh, readonly D: Float64Array, readonly t: number, reuse?: ElementReuse<Cell2>) {
+    const b = nm.base, nc = b.cellStart.length - 1, n = nm.layout.maxVerts, nd = 4 * n + 2;
+    const w = new Element2Work(n), Ke = new Float64Array(nd * nd), Kc = new Float64Array(16 * n * n);
+    const fc = new Float64Array(4 * n), rec = new Float64Array(2 + 8 * n);
+    const kept = reuse ? new Map<number, Cell2>() : null;
+    this.cells = new Array<Cell2>(nc);
+    this.loc = new Float64Array(4 * n);
+    for (let c = 0; c < nc; c++) {
+      const s = b.cellStart[c], e = b.cellStart[c + 1];
+      const key = reuse ? reuse.cellKey[c] : -1, hit = reuse?.cache.entries.get(key);
+      const cell = hit && sameCell(hit, b, reuse!.vertexId, s, e) ? hit
+        : this.compute(s, e, reuse ? cellIdentity(b, reuse.vertexId, s, e) : { verts: new Int32Array(0), xy: new Float64Array(0) }, w, Ke, Kc, fc, rec);
+      this.cells[c] = cell;
+      kept?.set(key, cell);
+    }
+    if (reuse) reuse.cache.entries = kept!;
   }
 
-  /** Element matrix of cell c with its mean condensed: Kc (element order) and the mean's recovery rows in rec. */
-  private condensed(c: number): number {
-    const b = this.nm.base, s = b.cellStart[c], e = b.cellStart[c + 1], n = e - s;
-    elementStiffness2(b.xy, b.cellVerts, s, e, this.D, this.t, this.Ke, this.w);
-    condense(this.Ke, 4 * n + 2, 0, 0, this.Kc, this.fc, this.rec, 0);
-    return n;
+  /** Cell s..e of the base mesh: its element with the mean condensed, rearranged to node order. */
+  private compute(s: number, e: number, id: { verts: Int32Array; xy: Float64Array }, w: Element2Work,
+    Ke: Float64Array, Kc: Float64Array, fc: Float64Array, rec: Float64Array): Cell2 {
+    const b = this.nm.base, n = e - s, nb = 4 * n, nd = nb + 2;
+    elementStiffness2(b.xy, b.cellVerts, s, e, this.D, this.t, Ke, w);
+    condense(Ke, nd, 0, 0, Kc, fc, rec, 0);
+    const K = new Float64Array(nb * nb), F = new Float64Array(NB * nb);
+    for (let a = 0; a < nb; a++) {
+      const pa = elementDof(a, n) * nb;
+      for (let q = 0; q < nb; q++) K[a * nb + q] = Kc[pa + elementDof(q, n)];
+    }
+    // Πu = Π*_b u_b + Π*_m ū with ū = −R u_b (no body force): F = Π*_b − Π*_m R
+    for (let j = 0; j < NB; j++) {
+      const pm0 = w.Pi[j * nd + nb], pm1 = w.Pi[j * nd + nb + 1];
+      for (let q = 0; q < nb; q++) {
+        const d = elementDof(q, n);
+        F[j * nb + q] = w.Pi[j * nd + d] - pm0 * rec[2 + d] - pm1 * rec[2 + nb + d];
+      }
+    }
+    return { ...id, K, F, cx: w.cx, cy: w.cy, h: w.h };
   }
 
   /** The 4n × 4n block of cell c in the node mesh's dof order (2 per node around the cell). */
-  stiffness(c: number, out: Float64Array): void {
-    const n = this.condensed(c), nb = 4 * n, Kc = this.Kc;
-    for (let a = 0; a < nb; a++) {
-      const pa = elementDof(a, n) * nb;
-      for (let b = 0; b < nb; b++) out[a * nb + b] = Kc[pa + elementDof(b, n)];
-    }
-  }
+  stiffness(c: number, out: Float64Array): void { out.set(this.cells[c].K); }
 
   /**
    * Per cell (FIELD stride, as Order2Solution.field): centroid, diameter and the 12 basis
    * coefficients of Πu, from node displacements u (2 per node); the cell mean is recovered.
    */
   field(u: Float64Array): Float64Array {
-    const m = this.nm.mesh, nc = m.cellStart.length - 1, out = new Float64Array(FIELD * nc), { loc, rec, w } = this;
+    const m = this.nm.mesh, nc = m.cellStart.length - 1, out = new Float64Array(FIELD * nc), loc = this.loc;
     for (let c = 0; c < nc; c++) {
-      const n = this.condensed(c), nb = 4 * n, nd = nb + 2, s = m.cellStart[c];
-      for (let q = 0; q < nb; q++) loc[elementDof(q, n)] = u[2 * m.cellVerts[s + (q >> 1)] + (q & 1)];
-      let m0 = rec[0], m1 = rec[1];
-      for (let q = 0; q < nb; q++) { m0 -= rec[2 + q] * loc[q]; m1 -= rec[2 + nb + q] * loc[q]; }
-      loc[nb] = m0; loc[nb + 1] = m1;
-      const o = FIELD * c;
-      out[o] = w.cx; out[o + 1] = w.cy; out[o + 2] = w.h;
-      for (let j = 0; j < NB; j++) {
+      const { F, cx, cy, h } = this.cells[c], s = m.cellStart[c], nb = 2 * (m.cellStart[c + 1] - s), o = FIELD * c;
+      for (let q = 0; q < nb; q += 2) { const v = m.cellVerts[s + (q >> 1)]; loc[q] = u[2 * v]; loc[q + 1] = u[2 * v + 1]; }
+      out[o] = cx; out[o + 1] = cy; out[o + 2] = h;
+      for (let j = 0, r = 0; j < NB; j++, r += nb) {
         let sum = 0;
-        for (let q = 0; q < nd; q++) sum += w.Pi[j * nd + q] * loc[q];
+        for (let q = 0; q < nb; q++) sum += F[r + q] * loc[q];
         out[o + 3 + j] = sum;
       }
     }
