@@ -9,6 +9,8 @@ import { analyze, factorize, fillReducingOrder, toDense, trailingSchur } from '.
 import { randomDominant } from '../src/linalg/samples.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { meshCase } from '../src/run.js';
+import { readFileSync } from 'node:fs';
+import { parseCase } from '../src/case/index.js';
 import { coarseBeam } from './support/beam.js';
 
 describe('condensation onto the crack faces', () => {
@@ -49,6 +51,48 @@ describe('condensation onto the crack faces', () => {
       expect(a.rows[i].iterations).toBe(b.rows[i].iterations);
       expect(a.rows[i].load_N).toBeCloseTo(b.rows[i].load_N, 4);
       expect(Math.abs(a.rows[i].displacement_mm - b.rows[i].displacement_mm)).toBeLessThan(1e-9 + 1e-7 * Math.abs(b.rows[i].displacement_mm));
+    }
+  });
+
+  it('two cracks that join (a face dof in two pairs) condense and give the curve of all unknowns', async () => {
+    // the double-notched panel of the examples on a coarse mesh: its cracks meet in the middle
+    const text = readFileSync(new URL('../cases/den-tension-example.yaml', import.meta.url), 'utf8')
+      .replace(/^mesh:.*$/m, 'mesh: {size: 20, tipSize: 6, refineRadius: 24, coarsen: true, seed: 1, lloyd: 6}')
+      .replace(/^  increments: .*$/m, '  increments: 30').replace(/^  growthStep: .*$/m, '  growthStep: 12')
+      .replace(/^  averagingRadius: .*$/m, '  averagingRadius: 18').replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+    const c = parseCase(text, 'den-coarse.yaml');
+    const runs = [];
+    for (const condense of [true, false]) {
+      const a = new Analysis(c, meshCase(c).mesh, { condense });
+      runs.push({ res: await a.run(() => {}), condensed: a.condensedFaces, tips: a.tips.map((t) => t.end) });
+    }
+    const [a, b] = runs;
+    expect(a.tips).toContain('crack');
+    expect(a.condensed).toBe(true);
+    expect(a.res.status).toBe('complete');
+    expect(a.res.rows.length).toBe(b.res.rows.length);
+    for (let i = 0; i < a.res.rows.length; i++) {
+      expect(a.res.rows[i].iterations).toBe(b.res.rows[i].iterations);
+      expect(a.res.rows[i].load_N).toBeCloseTo(b.res.rows[i].load_N, 4);
+    }
+  });
+
+  it('a crack cut through to the load point condenses too (the point and its twin driven alike) and gives the curve of all unknowns', async () => {
+    const c = coarseBeam({ target: 0.15, increments: 12 });
+    const runs = [];
+    for (const condense of [true, false]) {
+      const a = new Analysis(c, meshCase(c).mesh, { condense });
+      a.tips.splice(0);
+      a.addCohesiveCut([220, 30], [220, 100]);
+      runs.push({ res: await a.run(() => {}), condensed: a.condensedFaces });
+    }
+    const [a, b] = runs;
+    expect(a.condensed).toBe(true);
+    expect(a.res.status).toBe('complete');
+    expect(a.res.rows.length).toBe(b.res.rows.length);
+    for (let i = 0; i < a.res.rows.length; i++) {
+      expect(a.res.rows[i].iterations).toBe(b.res.rows[i].iterations);
+      expect(a.res.rows[i].load_N).toBeCloseTo(b.res.rows[i].load_N, 4);
     }
   });
 });

@@ -180,11 +180,12 @@ export class Analysis {
    * the contact set stands (at most CONTACT_ROUNDS times; the order is fixed, so it is
    * deterministic). On failure the solution is as before.
    */
-  private solveAt(kind: ControlKind, target: number, from?: StepState): { ok: boolean; reason: string } {
+  private solveAt(kind: ControlKind, target: number, from?: StepState, reject?: () => boolean): { ok: boolean; reason: string; rejected?: boolean } {
     const s = this.s;
-    let before = s.released ?? [], r = { ok: false, reason: '' };
+    let before = s.released ?? [], r: { ok: boolean; reason: string; rejected?: boolean } = { ok: false, reason: '' };
     for (let round = 0; ; round++) {
-      r = this.solveOnce(kind, target, round === 0 ? from : undefined);
+      r = this.solveOnce(kind, target, round === 0 ? from : undefined, round === 0 ? reject : undefined);
+      if (r.rejected) return r;
       if (!r.ok && round > 0) {
         // the new contact set does not converge: the last one that did stands
         s.released = before;
@@ -210,20 +211,23 @@ export class Analysis {
     return r;
   }
 
-  /** One solve at a control level with the contact set as it stands; on failure the solution is as before. */
-  private solveOnce(kind: ControlKind, target: number, from?: StepState): { ok: boolean; reason: string } {
+  /**
+   * One solve at a control level with the contact set as it stands; on failure the solution is
+   * as before, and so when `reject` turns the converged state down (condensed iterations only).
+   */
+  private solveOnce(kind: ControlKind, target: number, from?: StepState, reject?: () => boolean): { ok: boolean; reason: string; rejected?: boolean } {
     const eq = this.equations(), s = this.s;
     const t0 = performance.now();
-    const opt = this.newtonOptions(kind, target);
+    const opt = { ...this.newtonOptions(kind, target), reject };
     let st: StepState = from ?? { uf: eq.uf.slice(), lambda: s.lambda };
     let r = solveStep(eq.sys, this.coh, eq.kap, eq.kapTrial, kind, target, st, opt, eq.work);
-    if (!r.converged && from) {
+    if (!r.converged && !r.rejected && from) {
       // the predictor may have led Newton astray: once more from the converged state
       this.iterations += r.iterations;
       st = { uf: eq.uf.slice(), lambda: s.lambda };
       r = solveStep(eq.sys, this.coh, eq.kap, eq.kapTrial, kind, target, st, opt, eq.work);
     }
-    if (!r.converged && eq.sys.pairs.plus.length > 0) {
+    if (!r.converged && !r.rejected && eq.sys.pairs.plus.length > 0) {
       // points switching between loading and unloading can make Newton cycle: fall back to the secant
       this.iterations += r.iterations;
       st = { uf: eq.uf.slice(), lambda: s.lambda };
@@ -231,6 +235,7 @@ export class Analysis {
     }
     s.solveTime += performance.now() - t0;
     this.iterations += r.iterations;
+    if (r.rejected) return { ok: false, reason: '', rejected: true };
     if (!r.converged) {
       const where = r.reason === 'non-finite residual' ? eq.nonFinitePlace() ?? `the control equation (${this.c.control.by}) became NaN or infinite` : r.reason;
       return { ok: false, reason: where };
@@ -298,17 +303,19 @@ export class Analysis {
    * re-solve failed (mesh and cracks are then as they were).
    */
   private growAt(kind: ControlKind, target: number, peak: Peak): string {
-    const before = save(this.s, GEOMETRY, this.wm);
+    // the undo snapshot (mesh included) is taken only once growth is about to change something
+    let before: ReturnType<typeof save<typeof GEOMETRY[number]>> | null = null;
+    const snap = (): void => { before ??= save(this.s, GEOMETRY, this.wm); };
     const maxGrowth = this.opt.maxGrowthPerStep ?? 60;
     for (let g = 0; g < maxGrowth; g++) {
-      if (grow(this.room()) === 0) break;
+      if (grow({ ...this.room(), beforeChange: snap }) === 0) break;
       this.dirty = true;
       const r = this.solveAt(kind, target);
       // a crack through to the boundary with little load left: the specimen has come apart
       if (!r.ok && separated(this.s) && Math.abs(this.s.lastF) <= 0.25 * Math.abs(peak.load_N)) return 'apart';
       if (!r.ok) {
         if (kind === 'opening') return r.reason;
-        restore(this.s, before, this.wm);
+        restore(this.s, before!, this.wm);
         this.dirty = true;
         return r.reason;
       }
@@ -372,6 +379,9 @@ export class Analysis {
   /** Free dofs of the current mesh. */
   get freeDofs(): number { return this.equations().sys.nFree; }
 
+  /** Whether Newton runs on the bulk condensed onto the faces in the current topology (null: no cohesive solve in it yet). */
+  get condensedFaces(): boolean | null { const c = this.equations().work.cond; return c === undefined ? null : c !== null; }
+
   /** Everything the loop needs to go on from `at` (deep copies: the run may go on at once). */
   state(at: LoopState): AnalysisState { return checkpointState(this.s, this.wm, at); }
 
@@ -397,11 +407,15 @@ export class Analysis {
     // while the case's control value still falls back, go on with the crack opening at once
     const skipped = at.opening === true;
     let kind: ControlKind = ctl.by;
-    const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done));
-    if (skipped) at.frac = WHILE_OPENING;
     // the cohesive stress may fall by at most 5 % of ft in one step (0.5 % past a peak),
-    // and a tip may not be taken past the point where the segment it lays would start above ft
-    if (r.ok && !elastic && at.frac > MIN_FRACTION && !at.opening && (this.softening() > 0.05 || tipOvershoot(this.room()) > overshootLimit(this.c.crack!.insertAt ?? 1))) {
+    // and a tip may not be taken past the point where the segment it lays would start above ft;
+    // the first is asked of the condensed solution already, before the bulk's solve (not with
+    // bearing strips, whose contact rounds come after it)
+    const checked = !skipped && !elastic && at.frac > MIN_FRACTION && !at.opening;
+    const early = checked && this.driven.strips.length === 0 ? () => this.softening() > 0.05 : undefined;
+    const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
+    if (skipped) at.frac = WHILE_OPENING;
+    if (r.rejected || (r.ok && checked && (this.softening() > 0.05 || tipOvershoot(this.room()) > overshootLimit(this.c.crack!.insertAt ?? 1)))) {
       this.undo(saved);
       cut(at);
       return null;

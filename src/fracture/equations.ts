@@ -104,6 +104,15 @@ export class Equations {
 
   get dofs(): number { return this.sys.nDof; }
 
+  /** Cell areas and centroids of this topology's compact mesh (from the work mesh it was built on), computed once. */
+  cellGeometry(wm: WorkMesh): { areas: Float64Array; cent: Float64Array } {
+    const m = this.sys.mesh;
+    this.geometry ??= { areas: cellAreas(m), cent: centroidsOf(wm, m, this.compact.cellOf) };
+    return this.geometry;
+  }
+
+  private geometry: { areas: Float64Array; cent: Float64Array } | null = null;
+
   /** uf from the displacements on stable ids (and, at order 2, the midpoints carried over). */
   gather(uw: Float64Array, mid?: MidValues | null): void { this.gatherInto(uw, this.uf, mid); }
 

@@ -4,7 +4,6 @@
 import type { CaseModel } from '../case/model.js';
 import type { PolyMesh } from '../mesh/polymesh.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
-import { cellAreas } from '../vem/stress.js';
 import { boundaryVertices } from '../solver/driven.js';
 import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
@@ -15,7 +14,7 @@ import {
   tipStress, growthDirection, hoopDirection, faceKink, limitTurn, MAX_TURN,
   readiness, endPairLoad, frontDistance, type FaceLoad,
 } from './criterion.js';
-import { centroidsOf, type Equations } from './equations.js';
+import type { Equations } from './equations.js';
 import { segDist2 } from '../geometry/rings.js';
 import type { CrackState, Tip } from './state.js';
 import { measureTips, type TipMeasure } from './tips.js';
@@ -32,14 +31,16 @@ export interface GrowthRoom {
   holes: readonly Float64Array[];
   /** The specimen's domain: where the line ahead of a tip leaves it. */
   domain: Domain;
+  /** Called before growth first changes the tips, cracks or mesh (the loop takes its undo snapshot only then). */
+  beforeChange?: () => void;
 }
 
 /** Cell stresses, areas and centroids of the last evaluated state, for the tip checks. */
 export function fields(g: GrowthRoom): { m: PolyMesh; stress: Float64Array; areas: Float64Array; cent: Float64Array } {
   const m = g.eq.sys.mesh;
   const stress = g.eq.stresses(g.D).cell;
-  const areas = cellAreas(m);
-  return { m, stress, areas, cent: centroidsOf(g.wm, m, g.eq.compact.cellOf) };
+  const { areas, cent } = g.eq.cellGeometry(g.wm);
+  return { m, stress, areas, cent };
 }
 
 /**
@@ -211,7 +212,7 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
 export function initiate(g: GrowthRoom): number {
   const { c, wm } = g, crack = c.crack!, tips = g.s.tips;
   if (!startsPossible(g)) return 0;
-  const f = fields(g), { m, stress, cent } = f;
+  const f = fields(g), { m, stress, cent, areas } = f;
   const { cell: best, readiness: r } = startCandidate(g, f);
   if (best < 0 || r < 1) return 0;
   const x = cent[2 * best], y = cent[2 * best + 1];
@@ -222,8 +223,9 @@ export function initiate(g: GrowthRoom): number {
     if (d < bd && onOutline(wm, w)) { bd = d; v = w; }
   }
   if (v < 0) v = nearestLive(wm, x, y);
-  const ts = tipStress(m, stress, cent, cellAreas(m), wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
+  const ts = tipStress(m, stress, cent, areas, wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
   const [dx, dy] = growthDirection(ts, 1, 0);
+  g.beforeChange?.();
   if (onOutline(wm, v)) {
     // from the boundary the crack runs into the material
     const sgn = dx * (x - wm.x[v]) + dy * (y - wm.y[v]) >= 0 ? 1 : -1;
@@ -299,6 +301,7 @@ export function grow(g: GrowthRoom): number {
     // beside another crack's face it turns toward that face and joins it
     const toFace = t.crack >= 0 ? faceAim(g, t, gx, gy) : null;
     if (toFace) [gx, gy] = toFace;
+    g.beforeChange?.();
     s.growthLog.push({ tip: s.tips.indexOf(t), x: tx, y: ty, dx: gx, dy: gy, first: t.crack < 0, sxx: ts.sxx, syy: ts.syy, sxy: ts.sxy });
     // Near where the machine or a support touches the specimen the crack runs through to that
     // face in one cut, ending on a point of the rig (twinned with it, so both halves bear on

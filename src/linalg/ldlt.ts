@@ -94,7 +94,10 @@ class SupernodalFactor implements Factor {
     const n = this.n;
     if (b.length < n) throw new RangeError(`right-hand side has ${b.length} entries for ${n} equations`);
     const out = x ?? new Float64Array(n);
-    const y = this.work;
+    // the rows below a supernode's own columns are gathered into g once per supernode and
+    // scattered back, so the inner loops run on contiguous memory; each entry still meets the
+    // same operations in the same order (bitwise the result of the plain sweeps)
+    const y = this.work, g = this.work2;
     const { perm, superStart, rowPtr, rowIdx, lPtr, nsuper } = sym;
     const lx = this.lx;
     const d = this.d;
@@ -103,16 +106,23 @@ class SupernodalFactor implements Factor {
     for (let s = 0; s < nsuper; s++) {
       const f = superStart[s];
       const k = superStart[s + 1] - f;
+      let any = false;
+      for (let j = 0; j < k; j++) if (y[f + j] !== 0) { any = true; break; }
+      if (!any) continue;
       const r0 = rowPtr[s];
       const m = rowPtr[s + 1] - r0;
       const lp = lPtr[s];
+      const nb = m - k, ri = r0 + k;
+      for (let i = 0; i < nb; i++) g[i] = y[rowIdx[ri + i]];
       for (let j = 0; j < k; j++) {
         const yj = y[f + j];
         if (yj === 0) continue;
         const cb = lp + j * m;
         for (let i = j + 1; i < k; i++) y[f + i] -= lx[cb + i] * yj;
-        for (let i = k; i < m; i++) y[rowIdx[r0 + i]] -= lx[cb + i] * yj;
+        const cr = cb + k;
+        for (let i = 0; i < nb; i++) g[i] -= lx[cr + i] * yj;
       }
+      for (let i = 0; i < nb; i++) y[rowIdx[ri + i]] = g[i];
     }
     for (let i = 0; i < n; i++) y[i] /= d[i];
     // backward: Lᵀ x = y
@@ -122,11 +132,14 @@ class SupernodalFactor implements Factor {
       const r0 = rowPtr[s];
       const m = rowPtr[s + 1] - r0;
       const lp = lPtr[s];
+      const nb = m - k, ri = r0 + k;
+      for (let i = 0; i < nb; i++) g[i] = y[rowIdx[ri + i]];
       for (let j = k - 1; j >= 0; j--) {
         const cb = lp + j * m;
         let t = y[f + j];
         for (let i = j + 1; i < k; i++) t -= lx[cb + i] * y[f + i];
-        for (let i = k; i < m; i++) t -= lx[cb + i] * y[rowIdx[r0 + i]];
+        const cr = cb + k;
+        for (let i = 0; i < nb; i++) t -= lx[cr + i] * g[i];
         y[f + j] = t;
       }
     }

@@ -50,6 +50,8 @@ export interface AnalyzeOptions {
   ordering?: 'auto' | 'dissection' | 'mindegree' | 'natural' | Int32Array;
   /** Relaxed amalgamation on (default true). */
   amalgamate?: boolean;
+  /** The columns from this position of the ordering on stay last where the elimination tree allows (see postorder). */
+  lastFrom?: number;
 }
 
 /** Elimination tree of the pattern permuted by perm (iperm its inverse). */
@@ -75,20 +77,35 @@ function etree(p: CsrPattern, perm: Int32Array, iperm: Int32Array): Int32Array {
   return parent;
 }
 
-/** Depth-first postorder of a forest, children visited in ascending order. */
-function postorder(parent: Int32Array): Int32Array {
+/**
+ * Depth-first postorder of a forest, children visited in ascending order. With lastFrom, the
+ * columns from lastFrom on are to stay last: among the children of a column (and among the
+ * roots) those whose subtree holds an earlier column go first, those holding only later ones
+ * after them, so where the later columns form a chain above the rest (one branch holding
+ * earlier columns below each of them) they all come out last, as they went in.
+ */
+function postorder(parent: Int32Array, lastFrom = parent.length): Int32Array {
   const n = parent.length;
-  const head = new Int32Array(n).fill(-1);
-  const next = new Int32Array(n);
-  for (let j = n - 1; j >= 0; j--) {
-    const pj = parent[j];
-    if (pj === -1) continue;
-    next[j] = head[pj];
-    head[pj] = j;
+  // a virtual root n above the forest's roots, so the roots are ordered like children
+  const up = new Int32Array(n + 1);
+  for (let j = 0; j < n; j++) up[j] = parent[j] === -1 ? n : parent[j];
+  up[n] = -1;
+  const early = new Uint8Array(n + 1);
+  for (let j = 0; j < n; j++) { if (j < lastFrom) early[j] = 1; if (early[j]) early[up[j]] = 1; }
+  const head = new Int32Array(n + 1).fill(-1);
+  const next = new Int32Array(n + 1);
+  // prepended class by class, last class first: early subtrees, then the others, each ascending
+  for (const cls of [0, 1]) {
+    for (let j = n - 1; j >= 0; j--) {
+      if (early[j] !== cls) continue;
+      const pj = up[j];
+      next[j] = head[pj];
+      head[pj] = j;
+    }
   }
-  const post = new Int32Array(n);
-  forestPostorder(n, parent, head, next, post, new Int32Array(n));
-  return post;
+  const post = new Int32Array(n + 1);
+  forestPostorder(n + 1, up, head, next, post, new Int32Array(n + 1));
+  return post.subarray(0, n);
 }
 
 /** Entries of a lower trapezoid with k columns and m rows (first k rows form the triangle). */
@@ -218,7 +235,7 @@ export function analyze(p: CsrPattern, opts: AnalyzeOptions = {}): Symbolic {
 
   // postorder the elimination tree so that supernodes are contiguous; the tree is relabelled, not rebuilt
   const parent0 = etree(p, perm0, iperm);
-  const post = postorder(parent0);
+  const post = postorder(parent0, opts.lastFrom);
   const perm = new Int32Array(n);
   const ipost = new Int32Array(n);
   for (let k = 0; k < n; k++) {

@@ -87,6 +87,8 @@ export class Condensation {
   private readonly SMM: Float64Array; private readonly dM: Float64Array;
   private readonly X: Float64Array; private readonly zM: Float64Array;
   private readonly rhs: Float64Array;
+  /** The face dofs of a recovered state (scratch). */
+  private readonly qcWork: Float64Array;
   private readonly gauges = new Map<string, CondensedGauge>();
 
   private constructor(private readonly sys: System, private readonly F: Factor, first: number, alpha: number,
@@ -168,18 +170,26 @@ export class Condensation {
     this.r = new Float64Array(nJ); this.a = new Float64Array(nJ); this.b = new Float64Array(nJ);
     this.qTry = new Float64Array(nJ); this.d = new Float64Array(nJ);
     this.rhs = new Float64Array(n);
+    this.qcWork = new Float64Array(n1);
   }
 
   /**
    * The condensation of sys, or null where it does not apply: no face pairs, a face dof driven
-   * or slaved (its force would reach the machine) or shared by two pairs, too many face dofs, or
-   * a bulk that is not held once the faces are (the full Newton then reports it).
+   * or slaved (its force would reach the machine) while the other face of its pair is not
+   * driven alike, a face dof shared by two pairs, too many face dofs, or a bulk that is not held
+   * once the faces are (the full Newton then reports it). A pair whose two faces are driven
+   * alike (a crack run through to a load point and its twin) has a jump of zero there, and its
+   * forces on the two faces cancel in the machine force, so it counts as held.
    */
   static build(sys: System): Condensation | null {
     const P = sys.pairs, np = P.plus.length;
     if (np === 0) return null;
     const held = new Uint8Array(sys.nDof);
     for (const d of sys.driven.fixed) held[d] = 1;
+    for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
+      const a = 2 * P.plus[p] + c, b = 2 * P.minus[p] + c;
+      if (sys.boundAlike(a, b)) held[a] = held[b] = 1;
+    }
     const sym = sys.sym, n = sys.nFree;
     let first = n;
     for (let p = 0; p < np; p++) for (const v of [P.plus[p], P.minus[p]]) for (let c = 0; c < 2; c++) {
@@ -189,26 +199,60 @@ export class Condensation {
     }
     const n1 = n - first;
     if (n1 <= 0 || n1 > MAX_CONDENSED) return null;
-    // coordinates: a jump for each pair's x and y where a face dof is free, a mean where both are
+    // coordinates: a jump for each pair's x and y where a face dof is free, and a mean for each
+    // group of face dofs the pairs link (two faces: the jump splits half and half about their
+    // mean; a dof shared by several pairs where cracks join: it is the mean, and the others lie
+    // one jump from it). Groups of other shapes, and a shared dof with a held partner, do not apply.
     const posOf = new Int32Array(n).fill(-1);
     for (let q = first; q < n; q++) posOf[sym.perm[q]] = q - first;
+    const ends = (p: number, c: number): [number, number] => {
+      const fp = sys.freeOf[2 * P.plus[p] + c], fm = sys.freeOf[2 * P.minus[p] + c];
+      return [fp >= 0 ? posOf[fp] : -1, fm >= 0 ? posOf[fm] : -1];
+    };
+    const deg = new Int32Array(n1), half = new Int32Array(n1), root = new Int32Array(n1);
+    for (let i = 0; i < n1; i++) root[i] = i;
+    const find = (i: number): number => { while (root[i] !== i) i = root[i] = root[root[i]]; return i; };
+    for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
+      const [ip, im] = ends(p, c);
+      if (ip >= 0 && im >= 0) { deg[ip]++; deg[im]++; root[find(ip)] = find(im); } else if (ip >= 0) half[ip]++; else if (im >= 0) half[im]++;
+    }
+    // each group: its dofs, links and the dof every link touches (its centre when it has more than one link)
+    const gDofs = new Int32Array(n1), gLinks = new Int32Array(n1), centre = new Int32Array(n1).fill(-1);
+    for (let i = 0; i < n1; i++) {
+      if (half[i] > 1 || (half[i] > 0 && deg[i] > 0)) return null;
+      if (deg[i] > 0) { const r = find(i); gDofs[r]++; gLinks[r] += deg[i]; }
+    }
+    for (let i = 0; i < n1; i++) {
+      if (deg[i] === 0) continue;
+      const r = find(i), links = gLinks[r] / 2;
+      if (links !== gDofs[r] - 1) return null;
+      if (links > 1 && deg[i] === links) centre[r] = i;
+    }
+    for (let i = 0; i < n1; i++) if (deg[i] > 0 && gDofs[find(i)] > 2 && centre[find(i)] < 0) return null;
     const jumpOf = new Int32Array(2 * np).fill(-1), eJ = new Int32Array(n1).fill(-1), eM = new Int32Array(n1).fill(-1), eW = new Float64Array(n1);
+    const meanOf = new Int32Array(n1).fill(-1);
     let nJ = 0, nM = 0;
     for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
-      const fp = sys.freeOf[2 * P.plus[p] + c], fm = sys.freeOf[2 * P.minus[p] + c];
-      const ip = fp >= 0 ? posOf[fp] : -1, im = fm >= 0 ? posOf[fm] : -1;
+      const [ip, im] = ends(p, c);
       if (ip < 0 && im < 0) continue;
-      if ((ip >= 0 && eJ[ip] >= 0) || (im >= 0 && eJ[im] >= 0)) return null;
       const j = nJ++;
       jumpOf[2 * p + c] = j;
       if (ip >= 0 && im >= 0) {
-        const m = nM++;
-        eJ[ip] = j; eW[ip] = 0.5; eM[ip] = m;
-        eJ[im] = j; eW[im] = -0.5; eM[im] = m;
+        const r = find(ip);
+        const m = meanOf[r] >= 0 ? meanOf[r] : (meanOf[r] = nM++);
+        const o = centre[r];
+        if (o < 0) {
+          eJ[ip] = j; eW[ip] = 0.5; eM[ip] = m;
+          eJ[im] = j; eW[im] = -0.5; eM[im] = m;
+        } else {
+          // u⁺ − u⁻ = j with the centre at the mean
+          eM[o] = m;
+          if (ip === o) { eJ[im] = j; eW[im] = -1; eM[im] = m; } else { eJ[ip] = j; eW[ip] = 1; eM[ip] = m; }
+        }
       } else if (ip >= 0) { eJ[ip] = j; eW[ip] = 1; } else { eJ[im] = j; eW[im] = -1; }
     }
     // trailing dofs of no face (the ordering may put some there) are means of their own
-    for (let i = 0; i < n1; i++) if (eJ[i] < 0) eM[i] = nM++;
+    for (let i = 0; i < n1; i++) if (eJ[i] < 0 && eM[i] < 0) eM[i] = nM++;
     // the bulk's free–free stiffness, with α added on the trailing diagonal so that it is
     // positive definite even where the faces alone join the pieces of the specimen
     const K = sys.stiffnessOfBulk();
@@ -253,17 +297,25 @@ export class Condensation {
 
   /** The jumps of a free vector. */
   gatherC(uf: Float64Array, out = new Float64Array(this.nc)): Float64Array {
-    const q = this.gatherFaces(uf);
-    out.fill(0);
     // j = u⁺ − u⁻ (a held face counts as zero)
-    for (let i = 0; i < this.n1; i++) if (this.eJ[i] >= 0) out[this.eJ[i]] += this.eW[i] > 0 ? q[i] : -q[i];
+    const P = this.sys.pairs, fo = this.sys.freeOf, J = this.jumpOf;
+    for (let p = 0; p < P.plus.length; p++) for (let c = 0; c < 2; c++) {
+      const j = J[2 * p + c];
+      if (j < 0) continue;
+      const fp = fo[2 * P.plus[p] + c], fm = fo[2 * P.minus[p] + c];
+      out[j] = (fp >= 0 ? uf[fp] : 0) - (fm >= 0 ? uf[fm] : 0);
+    }
     return out;
   }
 
-  /** A gauge with gradient gf (free unknowns) and gl (λ) as it reads on the jumps; once per topology and name. */
-  gauge(name: string, gf: Float64Array, gl: number): CondensedGauge {
+  /**
+   * A gauge as it reads on the jumps, once per topology and name: grad fills gf with its
+   * gradient on the free unknowns and returns the one on λ (called only the first time).
+   */
+  gauge(name: string, gf: Float64Array, grad: (gf: Float64Array) => number): CondensedGauge {
     const known = this.gauges.get(name);
     if (known) return known;
+    const gl = grad(gf);
     const n1 = this.n1, nJ = this.nc, nM = this.nM, g1 = this.gatherFaces(gf), gb = gf.slice();
     for (let p = 0; p < n1; p++) gb[this.cFree[p]] = 0;
     let any = false;
@@ -293,7 +345,7 @@ export class Condensation {
   recover(yJ: Float64Array, lambda: number, uf: Float64Array): void {
     const n1 = this.n1, nJ = this.nc, rhs = this.rhs, SA = this.SA, kb = this.kb;
     // means: m = −X j − λ zM; faces: q_c = E y
-    const qc = new Float64Array(n1);
+    const qc = this.qcWork;
     for (let i = 0; i < n1; i++) {
       let v = 0;
       if (this.eJ[i] >= 0) v += this.eW[i] * yJ[this.eJ[i]];

@@ -10,7 +10,11 @@ import { Condensation } from './condensed.js';
 
 export type ControlKind = 'displacement' | 'cmod' | 'force' | 'opening';
 
-export interface StepResult { converged: boolean; iterations: number; reason: string }
+export interface StepResult {
+  converged: boolean; iterations: number; reason: string;
+  /** The iterations converged but NewtonOptions.reject turned the state down (the step state is as it was). */
+  rejected?: boolean;
+}
 
 export interface NewtonOptions {
   maxIter: number;
@@ -27,6 +31,12 @@ export interface NewtonOptions {
   tolFEnd?: number;
   /** Iterate on the bulk condensed onto the faces' jumps where it applies (default true; false: all free unknowns). */
   condense?: boolean;
+  /**
+   * Asked once the condensed iterations have converged, before the bulk is recovered (the
+   * trial histories hold the converged state): true turns the state down without the bulk's
+   * solve. The caller checks the full iterations' result itself.
+   */
+  reject?: () => boolean;
 }
 
 /** Scratch vectors for one topology (allocated once, reused every iteration). */
@@ -68,7 +78,7 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
     if (w.cond === undefined) w.cond = Condensation.build(sys);
     if (w.cond) {
       const r = condensedStep(sys, w.cond, coh, kappa, kappaTrial, kind, target, st, opt, w);
-      if (r.converged || r.reason) return r;
+      if (r.converged || r.reason || r.rejected) return r;
       // the full residual disagrees with the condensed one: finish with the full iterations
       before = r.iterations;
     }
@@ -157,11 +167,12 @@ function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa
   let lambda = kind === 'displacement' ? target : st.lambda;
   let gc: Float64Array | null = null, gl0 = 0;
   if (kind === 'cmod' || kind === 'opening') {
-    const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
-    w.z.fill(0);
-    sys.expand(w.gf.fill(0), 1, w.z);
-    const glf = sys.gaugeGradient(w.gf.fill(0), w.z, gauge, gaugeW);
-    const G = cd.gauge(kind, w.gf, glf);
+    const G = cd.gauge(kind, w.gf, (gf) => {
+      const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
+      w.z.fill(0);
+      sys.expand(gf.fill(0), 1, w.z);
+      return sys.gaugeGradient(gf.fill(0), w.z, gauge, gaugeW);
+    });
     gc = G.gc; gl0 = G.gl;
   }
   const constraint = (q: Float64Array, lam: number, F: number): number => {
@@ -183,7 +194,7 @@ function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa
   let res = cd.evaluate(qc, lambda, coh, kappa, kappaTrial, true, opt.floor, sec);
   let g = constraint(qc, lambda, res.F);
   for (let it = 1; it <= opt.maxIter; it++) {
-    if (res.rmax <= opt.tolF && Math.abs(g) <= opt.tolG) return finish(it - 1, opt.tolF);
+    if (res.rmax <= opt.tolF && Math.abs(g) <= opt.tolG) return opt.reject?.() ? { converged: false, iterations: it - 1, reason: '', rejected: true } : finish(it - 1, opt.tolF);
     if (!Number.isFinite(res.rmax) || !Number.isFinite(g)) {
       const f = finish(it, opt.tolF);
       return f.converged ? f : { converged: false, iterations: it, reason: 'non-finite residual' };
@@ -223,7 +234,9 @@ function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa
       g = constraint(qc, lambda, res.F);
     }
   }
-  if (res.rmax <= (opt.tolFEnd ?? opt.tolF) && Math.abs(g) <= opt.tolG) return finish(opt.maxIter, opt.tolFEnd ?? opt.tolF);
+  if (res.rmax <= (opt.tolFEnd ?? opt.tolF) && Math.abs(g) <= opt.tolG) {
+    return opt.reject?.() ? { converged: false, iterations: opt.maxIter, reason: '', rejected: true } : finish(opt.maxIter, opt.tolFEnd ?? opt.tolF);
+  }
   return { converged: false, iterations: opt.maxIter, reason: `no convergence in ${opt.maxIter} iterations (out-of-balance ${res.rmax.toExponential(2)} N)` };
 }
 

@@ -146,6 +146,27 @@ export class System {
     for (let i = 0; i < driven.load.length; i++) this.zLoad[driven.load[i]] = driven.loadW[i];
   }
 
+  /**
+   * Two dofs that are not unknowns and move alike in every state: both held, both driven with
+   * the same weight, or both slaved with the same λ-coefficient to the same masters (a rig point
+   * and its twin on a crack face). Their difference is zero whatever λ and the unknowns are.
+   */
+  boundAlike(a: number, b: number): boolean {
+    if (this.freeOf[a] >= 0 || this.freeOf[b] >= 0) return false;
+    const { load, loadW } = this.driven, S = this.driven.slaves;
+    const ka = this.slaveOf[a], kb = this.slaveOf[b];
+    if (ka >= 0 || kb >= 0) {
+      if (ka < 0 || kb < 0 || !S || S.slaveZ[ka] !== S.slaveZ[kb]) return false;
+      const sa = S.slaveStart[ka], sb = S.slaveStart[kb], len = S.slaveStart[ka + 1] - sa;
+      if (S.slaveStart[kb + 1] - sb !== len) return false;
+      for (let j = 0; j < len; j++) if (S.masterDof[sa + j] !== S.masterDof[sb + j] || S.masterW[sa + j] !== S.masterW[sb + j]) return false;
+      return true;
+    }
+    let wa = 0, wb = 0;
+    for (let i = 0; i < load.length; i++) { if (load[i] === a) wa += loadW[i]; if (load[i] === b) wb += loadW[i]; }
+    return wa === wb;
+  }
+
   /** Full displacement from free values and the load factor. */
   expand(uf: Float64Array, lambda: number, u: Float64Array): void {
     u.fill(0);
@@ -273,7 +294,10 @@ export class System {
       // a slaved face dof changes the tangent on its masters
       else if (k >= 0 && S) for (let j = S.slaveStart[k]; j < S.slaveStart[k + 1]; j++) last[this.freeOf[S.masterDof[j]]] = 1;
     }
-    this.symbolic = analyze(this.kff, { ordering: fillReducingOrder(this.kff, 'auto', {}, last) });
+    const order = fillReducingOrder(this.kff, 'auto', {}, last);
+    let lastFrom = this.nFree;
+    for (let k = 0; k < this.nFree; k++) if (last[order[k]]) { lastFrom = k; break; }
+    this.symbolic = analyze(this.kff, { ordering: order, lastFrom });
     let first = this.nFree;
     for (let i = 0; i < this.nFree; i++) if (last[i] && this.symbolic.iperm[i] < first) first = this.symbolic.iperm[i];
     this.firstPairCol = first;
