@@ -3,7 +3,7 @@
 // W = U + D, REFERENCES.md), and warnings for a load that rises again or a bulk over ft.
 import { describe, expect, it } from 'vitest';
 import type { StepRow } from '../src/fracture/analysis.js';
-import { bulkOverstress, curvePeaks, farDistance, runWarnings, workOfFractureEstimate } from '../src/output/warnings.js';
+import { bulkOverstress, curvePeaks, ENERGY_WARN, farDistance, runWarnings, workOfFractureEstimate, worstEnergyGap } from '../src/output/warnings.js';
 import { summaryOf } from '../src/output/runfiles.js';
 import { fixtureCase, fixtureRun } from './output.fixture.js';
 
@@ -41,6 +41,26 @@ describe('curve peaks (common practice: the peak load is the first maximum)', ()
     expect(p.peak.load_N).toBe(1200);
     expect(p.later).toBeNull();
     expect(runWarnings(fixtureCase(), result(r), null)).toEqual([]);
+  });
+});
+
+describe('energy balance (W = U + D, REFERENCES.md)', () => {
+  it('warns once the work and the stored plus dissipated energy part by more than 5 % at some step', () => {
+    const loads = [0, 1000, 2000, 1500, 800, 400];
+    const base = rows(loads);
+    expect(worstEnergyGap(base)!.share).toBeLessThan(1e-12);
+    expect(runWarnings(fixtureCase(), result(base), null)).toEqual([]);
+    // a snap at step 3: 8 % of the work is not in U + D there, 7 % after
+    const snapped = base.map((r) => (r.step >= 3 ? { ...r, dissipated_Nmm: r.dissipated_Nmm - (r.step === 3 ? 0.08 : 0.07) * r.external_work_Nmm } : r));
+    const g = worstEnergyGap(snapped)!;
+    expect(g.share).toBeCloseTo(0.08, 10);
+    expect(g.share).toBeGreaterThan(ENERGY_WARN);
+    const w = runWarnings(fixtureCase(), result(snapped), null);
+    expect(w).toHaveLength(1);
+    expect(w[0]).toMatch(/^At step 3 the machine's work and the stored plus dissipated energy differ by 8\.0 % of the work/);
+    // 3 % stays below the threshold
+    const small = base.map((r) => ({ ...r, dissipated_Nmm: r.dissipated_Nmm - 0.03 * r.external_work_Nmm }));
+    expect(runWarnings(fixtureCase(), result(small), null)).toEqual([]);
   });
 });
 
