@@ -170,3 +170,29 @@ describe('a split disc', () => {
     expect(worstGap(res)).toBeLessThan(0.12);
   }, 300_000);
 });
+
+describe('a hole beside the path of a crack', () => {
+  // A hole concentrates the stress around it, so a crack passing beside it turns toward it
+  // (common practice); mirrored hole, mirrored turn. The beam's own crack runs straight up the
+  // plane of symmetry x = 220 (within 0.4 mm on this mesh).
+  const xAt = (p: [number, number][], y: number): number => {
+    for (let i = 1; i < p.length; i++) if ((p[i - 1][1] - y) * (p[i][1] - y) <= 0) {
+      const t = (y - p[i - 1][1]) / (p[i][1] - p[i - 1][1] || 1);
+      return p[i - 1][0] + t * (p[i][0] - p[i - 1][0]);
+    }
+    return NaN;
+  };
+  it('turns the crack toward the hole, on either side', async () => {
+    // measured at y = 70 mm: no hole 220.3, hole of 16 mm at x = 240: 223.0, at x = 200: 217.9
+    const xs: number[] = [];
+    for (const hole of [undefined, [240, 55, 8], [200, 55, 8]] as const) {
+      const c = coarseBeam({ target: 0.6, increments: 60, ...(hole ? { hole: [...hole] as [number, number, number] } : {}) });
+      const { res } = await run(c);
+      expect(res.status, res.reason).toBe('complete');
+      xs.push(xAt(res.crackPaths[0] as [number, number][], 70));
+    }
+    const [none, right, left] = xs;
+    expect(right - none).toBeGreaterThan(1.5);
+    expect(none - left).toBeGreaterThan(1.5);
+  }, 120_000);
+});
