@@ -13,6 +13,9 @@
 // faces: the jump j = u⁺ − u⁻ and the mean m = (u⁺ + u⁻)/2. The cohesive force acts on j
 // alone (on j it is just the pair's force, its tangent the pair's 2×2 block), so the means,
 // which S holds together as the uncracked body would, are condensed out too.
+// Where pairs link more than two faces (cracks that join) the jumps are those of a spanning
+// tree of the linked faces, and a pair off the tree opens by B·j, a signed sum of them: its
+// force enters as Bᵀf, its tangent as Bᵀ M B.
 import { factorize, matVec, trailingSchur, type Factor } from '../linalg/index.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
 import { SingularMatrixError } from '../errors.js';
@@ -193,7 +196,7 @@ export class Condensation {
   /**
    * The condensation of sys, or null where it does not apply: no face pairs, a face dof driven
    * or slaved (its force would reach the machine) while the other face of its pair is not
-   * driven alike, a face dof shared by two pairs, too many face dofs, or a bulk that is not held
+   * driven alike, too many face dofs, or a bulk that is not held
    * once the faces are (the full Newton then reports it). A pair whose two faces are driven
    * alike (a crack run through to a load point and its twin) has a jump of zero there, and its
    * forces on the two faces cancel in the machine force, so it counts as held.
