@@ -13,6 +13,9 @@
 // faces: the jump j = u⁺ − u⁻ and the mean m = (u⁺ + u⁻)/2. The cohesive force acts on j
 // alone (on j it is just the pair's force, its tangent the pair's 2×2 block), so the means,
 // which S holds together as the uncracked body would, are condensed out too.
+// Where pairs link more than two faces (cracks that join) the jumps are those of a spanning
+// tree of the linked faces, and a pair off the tree opens by B·j, a signed sum of them: its
+// force enters as Bᵀf, its tangent as Bᵀ M B.
 import { factorize, matVec, trailingSchur, type Factor } from '../linalg/index.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
 import { SingularMatrixError } from '../errors.js';
@@ -64,7 +67,7 @@ function solveDense(A: Float64Array, n: number, d: Float64Array, x: Float64Array
 export class Condensation {
   /** Newton unknowns: the jumps (x and y of each pair, where a face dof is free). */
   readonly nc: number;
-  /** Jump index of each pair's x and y (−1 when both faces are held). */
+  /** Jump index of each pair's x and y where the pair is on its group's tree (else −1). */
   readonly jumpOf: Int32Array;
   /** The bulk condensed onto the jumps (dense, row-major), the λ coupling s and κ̂. */
   readonly SN: Float64Array;
@@ -77,8 +80,14 @@ export class Condensation {
   /** Face dofs (free index, elimination order) and their count. */
   private readonly cFree: Int32Array;
   private readonly n1: number;
-  /** y → q_c: face dof i is ePlus[i]·j + m (its jump eJ[i] with factor eW[i], its mean eM[i], −1 for none). */
-  private readonly eJ: Int32Array; private readonly eW: Float64Array; private readonly eM: Int32Array;
+  /** y → q_c: face dof i is Σ eW[t]·j[eJ[t]] over t in ePtr[i]..ePtr[i+1] plus its mean eM[i] (−1 for none). */
+  private readonly ePtr: Int32Array; private readonly eJ: Int32Array; private readonly eW: Float64Array; private readonly eM: Int32Array;
+  /** Each pair's x or y jump on the jumps: Σ bW[t]·j[bJ[t]] over t in bPtr[2p+c]..; simple[p] when both are a tree jump or zero. */
+  private readonly bPtr: Int32Array; private readonly bJ: Int32Array; private readonly bW: Float64Array;
+  private readonly simple: Uint8Array;
+  /** Each jump's tree pair: the face dof beyond it, the one before it (−1 for a held face), its sign; face residual scratch. */
+  private readonly tChild: Int32Array; private readonly tParent: Int32Array; private readonly tSign: Float64Array;
+  private readonly rFace: Float64Array;
   private readonly nM: number;
   /** First level: S + αI, α, s, k_b (zero on c), k_c, K⁻¹[k_b; 0]. */
   private readonly SA: Float64Array; private readonly alpha: number;
@@ -92,11 +101,21 @@ export class Condensation {
   private readonly gauges = new Map<string, CondensedGauge>();
 
   private constructor(private readonly sys: System, private readonly F: Factor, first: number, alpha: number,
-    lay: { jumpOf: Int32Array; eJ: Int32Array; eW: Float64Array; eM: Int32Array; nJ: number; nM: number }) {
+    lay: { jumpOf: Int32Array; ePtr: Int32Array; eJ: Int32Array; eW: Float64Array; eM: Int32Array;
+      bPtr: Int32Array; bJ: Int32Array; bW: Float64Array; tChild: Int32Array; tParent: Int32Array; tSign: Float64Array;
+      nJ: number; nM: number }) {
     const n = sys.nFree, n1 = n - first;
     this.n1 = n1; this.alpha = alpha;
     this.cFree = sys.sym.perm.slice(first);
-    this.jumpOf = lay.jumpOf; this.eJ = lay.eJ; this.eW = lay.eW; this.eM = lay.eM;
+    this.jumpOf = lay.jumpOf; this.ePtr = lay.ePtr; this.eJ = lay.eJ; this.eW = lay.eW; this.eM = lay.eM;
+    this.bPtr = lay.bPtr; this.bJ = lay.bJ; this.bW = lay.bW;
+    this.tChild = lay.tChild; this.tParent = lay.tParent; this.tSign = lay.tSign; this.rFace = new Float64Array(n1);
+    this.simple = new Uint8Array(lay.jumpOf.length >> 1);
+    for (let p = 0; p < this.simple.length; p++) {
+      let ok = 1;
+      for (let e = 2 * p; e < 2 * p + 2; e++) if (lay.bPtr[e + 1] > lay.bPtr[e] && lay.jumpOf[e] < 0) ok = 0;
+      this.simple[p] = ok;
+    }
     const nJ = lay.nJ, nM = lay.nM;
     this.nc = nJ; this.nM = nM;
     this.SA = new Float64Array(n1 * n1);
@@ -120,19 +139,20 @@ export class Condensation {
     // second level: S_y = Eᵀ S E in the jump and mean coordinates (jumps first)
     const ny = nJ + nM, Sy = new Float64Array(ny * ny), W = new Float64Array(n1 * ny);
     const SA = this.SA;
+    const eP = this.ePtr, eJ = this.eJ, eW = this.eW;
     for (let i = 0; i < n1; i++) {
-      const ji = this.eJ[i], mi = this.eM[i], wi = this.eW[i];
+      const mi = this.eM[i];
       for (let r = 0; r < n1; r++) {
         const v = r === i ? SA[r * n1 + i] - alpha : SA[r * n1 + i];
-        if (ji >= 0) W[r * ny + ji] += wi * v;
+        for (let t = eP[i]; t < eP[i + 1]; t++) W[r * ny + eJ[t]] += eW[t] * v;
         if (mi >= 0) W[r * ny + nJ + mi] += v;
       }
     }
     for (let r = 0; r < n1; r++) {
-      const jr = this.eJ[r], mr = this.eM[r], wr = this.eW[r];
+      const mr = this.eM[r];
       for (let c = 0; c < ny; c++) {
         const v = W[r * ny + c];
-        if (jr >= 0) Sy[jr * ny + c] += wr * v;
+        for (let t = eP[r]; t < eP[r + 1]; t++) Sy[eJ[t] * ny + c] += eW[t] * v;
         if (mr >= 0) Sy[(nJ + mr) * ny + c] += v;
       }
     }
@@ -176,7 +196,7 @@ export class Condensation {
   /**
    * The condensation of sys, or null where it does not apply: no face pairs, a face dof driven
    * or slaved (its force would reach the machine) while the other face of its pair is not
-   * driven alike, a face dof shared by two pairs, too many face dofs, or a bulk that is not held
+   * driven alike, too many face dofs, or a bulk that is not held
    * once the faces are (the full Newton then reports it). A pair whose two faces are driven
    * alike (a crack run through to a load point and its twin) has a jump of zero there, and its
    * forces on the two faces cancel in the machine force, so it counts as held.
@@ -199,60 +219,109 @@ export class Condensation {
     }
     const n1 = n - first;
     if (n1 <= 0 || n1 > MAX_CONDENSED) return null;
-    // coordinates: a jump for each pair's x and y where a face dof is free, and a mean for each
-    // group of face dofs the pairs link (two faces: the jump splits half and half about their
-    // mean; a dof shared by several pairs where cracks join: it is the mean, and the others lie
-    // one jump from it). Groups of other shapes, and a shared dof with a held partner, do not apply.
+    // coordinates: the face dofs the pairs link, with a held face as one node "ground" of value
+    // zero, form groups; each group takes a spanning tree, a jump coordinate for each tree pair
+    // and, unless it holds ground, a mean. Two faces split their jump half and half about the
+    // mean; in a larger group the root (the dof on most pairs) is the mean and every other dof
+    // lies the jumps of its tree path from it. A pair off the tree (a cycle, as where a crack
+    // joins another's face: the junction dof, its twin and the joining copy pair with each
+    // other) opens by the signed sum of the tree jumps round its cycle.
     const posOf = new Int32Array(n).fill(-1);
     for (let q = first; q < n; q++) posOf[sym.perm[q]] = q - first;
-    const ends = (p: number, c: number): [number, number] => {
+    const G = n1, ne = 2 * np;
+    const endA = new Int32Array(ne).fill(-1), endB = new Int32Array(ne).fill(-1);
+    const deg = new Int32Array(n1 + 1);
+    for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
       const fp = sys.freeOf[2 * P.plus[p] + c], fm = sys.freeOf[2 * P.minus[p] + c];
-      return [fp >= 0 ? posOf[fp] : -1, fm >= 0 ? posOf[fm] : -1];
-    };
-    const deg = new Int32Array(n1), half = new Int32Array(n1), root = new Int32Array(n1);
-    for (let i = 0; i < n1; i++) root[i] = i;
-    const find = (i: number): number => { while (root[i] !== i) i = root[i] = root[root[i]]; return i; };
-    for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
-      const [ip, im] = ends(p, c);
-      if (ip >= 0 && im >= 0) { deg[ip]++; deg[im]++; root[find(ip)] = find(im); } else if (ip >= 0) half[ip]++; else if (im >= 0) half[im]++;
-    }
-    // each group: its dofs, links and the dof every link touches (its centre when it has more than one link)
-    const gDofs = new Int32Array(n1), gLinks = new Int32Array(n1), centre = new Int32Array(n1).fill(-1);
-    for (let i = 0; i < n1; i++) {
-      if (half[i] > 1 || (half[i] > 0 && deg[i] > 0)) return null;
-      if (deg[i] > 0) { const r = find(i); gDofs[r]++; gLinks[r] += deg[i]; }
-    }
-    for (let i = 0; i < n1; i++) {
-      if (deg[i] === 0) continue;
-      const r = find(i), links = gLinks[r] / 2;
-      if (links !== gDofs[r] - 1) return null;
-      if (links > 1 && deg[i] === links) centre[r] = i;
-    }
-    for (let i = 0; i < n1; i++) if (deg[i] > 0 && gDofs[find(i)] > 2 && centre[find(i)] < 0) return null;
-    const jumpOf = new Int32Array(2 * np).fill(-1), eJ = new Int32Array(n1).fill(-1), eM = new Int32Array(n1).fill(-1), eW = new Float64Array(n1);
-    const meanOf = new Int32Array(n1).fill(-1);
-    let nJ = 0, nM = 0;
-    for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
-      const [ip, im] = ends(p, c);
+      const ip = fp >= 0 ? posOf[fp] : -1, im = fm >= 0 ? posOf[fm] : -1;
       if (ip < 0 && im < 0) continue;
-      const j = nJ++;
-      jumpOf[2 * p + c] = j;
-      if (ip >= 0 && im >= 0) {
-        const r = find(ip);
-        const m = meanOf[r] >= 0 ? meanOf[r] : (meanOf[r] = nM++);
-        const o = centre[r];
-        if (o < 0) {
-          eJ[ip] = j; eW[ip] = 0.5; eM[ip] = m;
-          eJ[im] = j; eW[im] = -0.5; eM[im] = m;
-        } else {
-          // u⁺ − u⁻ = j with the centre at the mean
-          eM[o] = m;
-          if (ip === o) { eJ[im] = j; eW[im] = -1; eM[im] = m; } else { eJ[ip] = j; eW[ip] = 1; eM[ip] = m; }
+      const e = 2 * p + c, a = ip >= 0 ? ip : G, b = im >= 0 ? im : G;
+      endA[e] = a; endB[e] = b; deg[a]++; deg[b]++;
+    }
+    const adjPtr = new Int32Array(n1 + 2);
+    for (let i = 0; i <= n1; i++) adjPtr[i + 1] = adjPtr[i] + deg[i];
+    const adj = new Int32Array(adjPtr[n1 + 1]), fill = adjPtr.slice(0, n1 + 1);
+    for (let e = 0; e < ne; e++) if (endA[e] >= 0) { adj[fill[endA[e]]++] = e; adj[fill[endB[e]]++] = e; }
+    // breadth-first spanning trees, ground's first, then each group from its dof on most pairs
+    const comp = new Int32Array(n1 + 1).fill(-1), parentEdge = new Int32Array(n1 + 1).fill(-1);
+    const inTree = new Uint8Array(ne), order: number[] = [], compSize: number[] = [], compRoot: number[] = [];
+    const grow = (root: number): void => {
+      const id = compSize.length, head = order.length;
+      comp[root] = id; order.push(root);
+      for (let h = head; h < order.length; h++) {
+        const i = order[h];
+        for (let t = adjPtr[i]; t < adjPtr[i + 1]; t++) {
+          const e = adj[t], o = endA[e] === i ? endB[e] : endA[e];
+          if (comp[o] >= 0) continue;
+          comp[o] = id; parentEdge[o] = e; inTree[e] = 1; order.push(o);
         }
-      } else if (ip >= 0) { eJ[ip] = j; eW[ip] = 1; } else { eJ[im] = j; eW[im] = -1; }
+      }
+      compSize.push(order.length - head); compRoot.push(root);
+    };
+    if (deg[G] > 0) grow(G);
+    for (;;) {
+      let best = -1;
+      for (let i = 0; i < n1; i++) if (deg[i] > 0 && comp[i] < 0 && (best < 0 || deg[i] > deg[best])) best = i;
+      if (best < 0) break;
+      grow(best);
+    }
+    // jumps in the pairs' order, a group's mean where its first pair is met
+    const jumpOf = new Int32Array(ne).fill(-1), eM = new Int32Array(n1).fill(-1);
+    const meanOfComp = new Int32Array(compSize.length).fill(-1);
+    let nJ = 0, nM = 0;
+    for (let e = 0; e < ne; e++) {
+      if (endA[e] < 0) continue;
+      const k = comp[endA[e]];
+      if (compRoot[k] !== G && meanOfComp[k] < 0) meanOfComp[k] = nM++;
+      if (inTree[e]) jumpOf[e] = nJ++;
+    }
+    // y → q_c: each face dof's tree path (jump, weight) from its group's root
+    const path: { j: number[]; w: number[] }[] = new Array(n1 + 1);
+    path[G] = { j: [], w: [] };
+    for (const i of order) {
+      const e = parentEdge[i];
+      if (e < 0) { path[i] = { j: [], w: [] }; continue; }
+      const up = endA[e] === i ? endB[e] : endA[e], k = comp[i];
+      if (compRoot[k] !== G && compSize[k] === 2) {
+        path[i] = { j: [jumpOf[e]], w: [endA[e] === i ? 0.5 : -0.5] };
+        path[up] = { j: [jumpOf[e]], w: [endA[e] === i ? -0.5 : 0.5] };
+      } else path[i] = { j: [...path[up].j, jumpOf[e]], w: [...path[up].w, endA[e] === i ? 1 : -1] };
+    }
+    const ePtr = new Int32Array(n1 + 1);
+    for (let i = 0; i < n1; i++) ePtr[i + 1] = ePtr[i] + (comp[i] >= 0 ? path[i].j.length : 0);
+    const eJ = new Int32Array(ePtr[n1]), eW = new Float64Array(ePtr[n1]);
+    for (let i = 0; i < n1; i++) {
+      if (comp[i] < 0) continue;
+      eJ.set(path[i].j, ePtr[i]); eW.set(path[i].w, ePtr[i]);
+      if (compRoot[comp[i]] !== G) eM[i] = meanOfComp[comp[i]];
+    }
+    // each pair's jump on the coordinates: u_a − u_b (one tree jump, or its cycle's signed sum)
+    const bPtr = new Int32Array(ne + 1), bJ: number[] = [], bW: number[] = [], acc = new Float64Array(nJ);
+    for (let e = 0; e < ne; e++) {
+      if (endA[e] >= 0 && inTree[e]) { bJ.push(jumpOf[e]); bW.push(1); } else if (endA[e] >= 0) {
+        const pa = path[endA[e]], pb = path[endB[e]];
+        for (let t = 0; t < pa.j.length; t++) acc[pa.j[t]] += pa.w[t];
+        for (let t = 0; t < pb.j.length; t++) acc[pb.j[t]] -= pb.w[t];
+        const touched = [...pa.j, ...pb.j].sort((x, y) => x - y);
+        for (let t = 0; t < touched.length; t++) {
+          const j = touched[t];
+          if (t > 0 && touched[t - 1] === j) continue;
+          if (acc[j] !== 0) { bJ.push(j); bW.push(acc[j]); }
+          acc[j] = 0;
+        }
+      }
+      bPtr[e + 1] = bJ.length;
     }
     // trailing dofs of no face (the ordering may put some there) are means of their own
-    for (let i = 0; i < n1; i++) if (eJ[i] < 0 && eM[i] < 0) eM[i] = nM++;
+    for (let i = 0; i < n1; i++) if (comp[i] < 0) eM[i] = nM++;
+    const tChild = new Int32Array(nJ), tParent = new Int32Array(nJ), tSign = new Float64Array(nJ);
+    for (let i = 0; i < n1; i++) {
+      const e = parentEdge[i];
+      if (e < 0) continue;
+      const up = endA[e] === i ? endB[e] : endA[e], j = jumpOf[e];
+      tChild[j] = i; tParent[j] = up === G ? -1 : up; tSign[j] = endA[e] === i ? 1 : -1;
+    }
+    const lay = { jumpOf, ePtr, eJ, eW, eM, bPtr, bJ: Int32Array.from(bJ), bW: Float64Array.from(bW), tChild, tParent, tSign, nJ, nM };
     // the bulk's free–free stiffness, with α added on the trailing diagonal so that it is
     // positive definite even where the faces alone join the pieces of the specimen
     const K = sys.stiffnessOfBulk();
@@ -265,7 +334,7 @@ export class Condensation {
     if (!(alpha > 0)) return null;
     for (const t of diag) K.values[t] += alpha;
     try {
-      return new Condensation(sys, factorize(K, sym), first, alpha, { jumpOf, eJ, eW, eM, nJ, nM });
+      return new Condensation(sys, factorize(K, sym), first, alpha, lay);
     } catch (e) {
       if (e instanceof SingularMatrixError) return null;
       throw e;
@@ -283,7 +352,7 @@ export class Condensation {
   private toY(v: Float64Array): Float64Array {
     const y = new Float64Array(this.nc + this.nM);
     for (let i = 0; i < this.n1; i++) {
-      if (this.eJ[i] >= 0) y[this.eJ[i]] += this.eW[i] * v[i];
+      for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) y[this.eJ[t]] += this.eW[t] * v[i];
       if (this.eM[i] >= 0) y[this.nc + this.eM[i]] += v[i];
     }
     return y;
@@ -348,7 +417,7 @@ export class Condensation {
     const qc = this.qcWork;
     for (let i = 0; i < n1; i++) {
       let v = 0;
-      if (this.eJ[i] >= 0) v += this.eW[i] * yJ[this.eJ[i]];
+      for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) v += this.eW[t] * yJ[this.eJ[t]];
       const m = this.eM[i];
       if (m >= 0) {
         let t = -lambda * this.zM[m];
@@ -388,6 +457,7 @@ export class Condensation {
     // on a jump the pair's force and its 2×2 tangent enter as they are
     const sys = this.sys, J = this.jumpOf, np = J.length >> 1, M = sys.m4;
     for (let p = 0; p < np; p++) {
+      if (!this.simple[p]) { this.cyclePair(p, y, coh, kappa, kappaTrial, tangent, floor, secant); continue; }
       const jx = J[2 * p], jy = J[2 * p + 1];
       if (jx < 0 && jy < 0) continue;
       const fx = sys.pairResponse(p, jx >= 0 ? y[jx] : 0, jy >= 0 ? y[jy] : 0, coh, kappa, kappaTrial, tangent, floor, secant);
@@ -398,9 +468,37 @@ export class Condensation {
       if (jx >= 0) { T[jx * nc + jx] += M[0]; if (jy >= 0) T[jx * nc + jy] += M[1]; }
       if (jy >= 0) { T[jy * nc + jy] += M[3]; if (jx >= 0) T[jy * nc + jx] += M[2]; }
     }
+    // the out-of-balance on each face dof, as the full iterations measure it: the jump of a tree
+    // pair carries the sum over the faces beyond it, and a group's forces sum to zero
+    const rf = this.rFace, tC = this.tChild, tP = this.tParent, tS = this.tSign;
+    rf.fill(0);
+    for (let j = 0; j < nc; j++) { const v = tS[j] * r[j]; rf[tC[j]] += v; if (tP[j] >= 0) rf[tP[j]] -= v; }
     let rmax = 0;
-    for (let i = 0; i < nc; i++) { const av = Math.abs(r[i]); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
+    for (let i = 0; i < this.n1; i++) { const av = Math.abs(rf[i]); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
     return { rmax, F };
+  }
+
+  /**
+   * A pair off its group's tree: its jump is a signed sum of tree jumps B·y, so its force enters
+   * the residual as Bᵀf and its 2×2 tangent the tangent as Bᵀ M B.
+   */
+  private cyclePair(p: number, y: Float64Array, coh: CohesiveParams, kappa: Float64Array, kappaTrial: Float64Array,
+    tangent: boolean, floor: number, secant: boolean): void {
+    const bP = this.bPtr, bJ = this.bJ, bW = this.bW, r = this.r, T = this.T, nc = this.nc, sys = this.sys, M = sys.m4;
+    const x0 = bP[2 * p], x1 = bP[2 * p + 1], y1 = bP[2 * p + 2];
+    let dx = 0, dy = 0;
+    for (let t = x0; t < x1; t++) dx += bW[t] * y[bJ[t]];
+    for (let t = x1; t < y1; t++) dy += bW[t] * y[bJ[t]];
+    const fx = sys.pairResponse(p, dx, dy, coh, kappa, kappaTrial, tangent, floor, secant);
+    const fy = sys.pairFy;
+    for (let t = x0; t < x1; t++) r[bJ[t]] += bW[t] * fx;
+    for (let t = x1; t < y1; t++) r[bJ[t]] += bW[t] * fy;
+    if (!tangent) return;
+    // rows from x (x0..x1) and y (x1..y1) against columns likewise: M[0] xx, M[1] xy, M[2] yx, M[3] yy
+    for (let s = x0; s < y1; s++) {
+      const o = bJ[s] * nc, ws = bW[s], row = s < x1 ? 0 : 2;
+      for (let t = x0; t < y1; t++) T[o + bJ[t]] += ws * bW[t] * M[row + (t < x1 ? 0 : 1)];
+    }
   }
 
   /** LDLᵀ of the tangent T in place; throws on a zero pivot. */
@@ -411,7 +509,7 @@ export class Condensation {
 
   /** A free index on the faces of jump j (for the message). */
   private faceOfJump(j: number): number {
-    for (let i = 0; i < this.n1; i++) if (this.eJ[i] === j) return this.cFree[i];
+    for (let i = 0; i < this.n1; i++) for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) if (this.eJ[t] === j) return this.cFree[i];
     return -1;
   }
 
