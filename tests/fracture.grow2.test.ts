@@ -8,7 +8,7 @@ import { parseCase } from '../src/case/index.js';
 import { coarseBeam } from './support/beam.js';
 
 describe('crack growth of order 2 in a notched beam', () => {
-  it('the crack runs up the plane of symmetry (common practice), the peak within 1.5 % of order 1 on a fine prescribed path, energy balanced within 1 % at every step (energy balance, definition of GF)', async () => {
+  it('the crack runs up the plane of symmetry (common practice), the peak within 1 % of order 1 on a fine prescribed path, energy balanced within 1 % at every step (energy balance, definition of GF)', async () => {
     // measured: order 2 on 6 mm tips 2005.0 N, tip 1.3 mm off the plane, balance 0.76 % at its
     // worst step (seeds 2, 3: 0.16 %, 0.54 %; 1.28 % before the whole line ahead of the tip was
     // refined at each growth); the fine order-1 reference (0.5 mm tips, prescribed path) 1997.9 N
@@ -26,7 +26,7 @@ describe('crack growth of order 2 in a notched beam', () => {
     f.tips.splice(0);
     f.addCohesiveCut([220, 30], [220, 80]);
     const fine = await f.run(() => {});
-    expect(Math.abs(res.peak.load_N / fine.peak.load_N - 1)).toBeLessThan(0.015);
+    expect(Math.abs(res.peak.load_N / fine.peak.load_N - 1)).toBeLessThan(0.01);
     // what is left is the refinement of cells beside the line (the spaces before and after a
     // mesh change are not nested); the next test meshes the ligament at the tip size instead
     for (const r of res.rows.slice(1)) expect(Math.abs(r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm)).toBeLessThan(0.01 * r.external_work_Nmm);
