@@ -4,8 +4,8 @@
 import { describe, expect, it } from 'vitest';
 import { Analysis } from '../src/fracture/analysis.js';
 import { meshCase } from '../src/run.js';
-import { parseCase } from '../src/case/index.js';
 import { coarseBeam } from './support/beam.js';
+import { SLIT_W, slitPlate } from './support/slit.js';
 
 describe('crack growth of order 2 in a notched beam', () => {
   it('the crack runs up the plane of symmetry (common practice), the peak within 1 % of order 1 on a fine prescribed path, energy balanced within 1 % at every step (energy balance, definition of GF)', async () => {
@@ -49,27 +49,16 @@ describe('a cohesive crack of order 2 out of a slanted slit (Erdogan & Sih 1963)
   // the first segment follows the maximum tangential stress kink of K_I and K_II from the
   // interaction integral on each cell's projection (vertex, midpoint and mean values);
   // K_I = σ√(πa) sin²β, K_II = σ√(πa) sin β cos β for a central slit at β to the load
-  const W = 160, HALF = 10;
+  const W = SLIT_W;
   for (const beta of [30, 60]) {
     it(`β = ${beta}°: both first segments within 1° of the kink on 2.5 mm tip cells`, async () => {
       // measured: 30°: +0.15°, −0.13°; 60°: +0.64°, +0.43° (vertex values alone gave +0.90°, +0.31° at 60°)
       const b = beta * Math.PI / 180, ux = Math.sin(b), uy = Math.cos(b);
-      const c = parseCase(`
-format: 1
-title: slanted slit
-units: mm-N-MPa
-thickness: 10
-geometry:
-  outline: [[0,0],[${W},0],[${W},${W}],[0,${W}]]
-  notches: [{from: [${W / 2 - HALF * ux}, ${W / 2 - HALF * uy}], to: [${W / 2 + HALF * ux}, ${W / 2 + HALF * uy}], width: 0}]
-material: {E: 30000, nu: 0.2, ft: 3, GF: 0.03, softening: linear}
-supports: [{along: [[0,0],[${W},0]], fix: y}, {at: [0,0], fix: x}]
-loads: [{along: [[0,${W}],[${W},${W}]], direction: [0, 1]}]
-control: {by: displacement, target: 0.0001, increments: 1}
-crack: {start: notch-tips, growthStep: 2, averagingRadius: 3}
-mesh: {size: 16, tipSize: 2.5, refineRadius: 8, seed: 2, order: 2}
-output: {frames: []}
-`, 'slit.yaml');
+      const c = slitPlate(beta, {
+        control: '{by: displacement, target: 0.0001, increments: 1}',
+        crack: '{start: notch-tips, growthStep: 2, averagingRadius: 3}',
+        mesh: '{size: 16, tipSize: 2.5, refineRadius: 8, seed: 2, order: 2}',
+      });
       const a = new Analysis(c, meshCase(c).mesh);
       const res = await a.run(() => {});
       expect(res.status, res.reason).toBe('complete');

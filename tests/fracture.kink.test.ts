@@ -5,31 +5,19 @@
 // 4 mm is the chord from the slit tip to the point 4 mm along the crack, which is also the mean
 // direction of the segments weighted by their length over those 4 mm.
 import { describe, expect, it } from 'vitest';
-import { parseCase } from '../src/case/index.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { meshCase } from '../src/run.js';
+import { SLIT_W, slitPlate } from './support/slit.js';
 import { mtsKink } from '../src/fracture/sif.js';
 
-const W = 160, HALF = 10;
+const W = SLIT_W;
 
 function slitCase(betaDeg: number, size: number, tip: number, seed: number) {
-  const b = betaDeg * Math.PI / 180, ux = Math.sin(b), uy = Math.cos(b), cx = W / 2, cy = W / 2;
-  return parseCase(`
-format: 1
-title: slanted slit
-units: mm-N-MPa
-thickness: 10
-geometry:
-  outline: [[0,0],[${W},0],[${W},${W}],[0,${W}]]
-  notches: [{from: [${cx - HALF * ux}, ${cy - HALF * uy}], to: [${cx + HALF * ux}, ${cy + HALF * uy}], width: 0}]
-material: {E: 30000, nu: 0.2, ft: 3, GF: 0.03, softening: linear}
-supports: [{along: [[0,0],[${W},0]], fix: y}, {at: [0,0], fix: x}]
-loads: [{along: [[0,${W}],[${W},${W}]], direction: [0, 1]}]
-control: {by: displacement, target: 0.0125, increments: 13, stopAtLoadFraction: 0.3}
-crack: {start: notch-tips, growthStep: ${2 * tip}, averagingRadius: ${3 * tip}}
-mesh: {size: ${size}, tipSize: ${tip}, refineRadius: ${8 * tip}, seed: ${seed}}
-output: {frames: []}
-`, 'slit.yaml');
+  return slitPlate(betaDeg, {
+    control: '{by: displacement, target: 0.0125, increments: 13, stopAtLoadFraction: 0.3}',
+    crack: `{start: notch-tips, growthStep: ${2 * tip}, averagingRadius: ${3 * tip}}`,
+    mesh: `{size: ${size}, tipSize: ${tip}, refineRadius: ${8 * tip}, seed: ${seed}}`,
+  });
 }
 
 /** Kink (deg) of the chord from the slit tip to the point 4 mm along each cohesive crack, relative to the slit. */

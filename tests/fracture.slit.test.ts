@@ -3,33 +3,19 @@
 // with K_I = σ√(πa) sin²β, K_II = σ√(πa) sin β cos β; further out the crack turns
 // perpendicular to the load (REFERENCES.md, Erdogan & Sih 1963).
 import { describe, expect, it } from 'vitest';
-import { parseCase } from '../src/case/index.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { meshCase } from '../src/run.js';
+import { SLIT_HALF, SLIT_W, slitPlate } from './support/slit.js';
 
-const W = 160, HALF = 10;
+const W = SLIT_W, HALF = SLIT_HALF;
 
 function slitCase(betaDeg: number) {
-  const b = betaDeg * Math.PI / 180;
   // slit direction at β from the load axis (y)
-  const ux = Math.sin(b), uy = Math.cos(b), cx = W / 2, cy = W / 2;
-  const from = [cx - HALF * ux, cy - HALF * uy], to = [cx + HALF * ux, cy + HALF * uy];
-  return parseCase(`
-format: 1
-title: slanted slit
-units: mm-N-MPa
-thickness: 10
-geometry:
-  outline: [[0,0],[${W},0],[${W},${W}],[0,${W}]]
-  notches: [{from: [${from}], to: [${to}], width: 0}]
-material: {E: 30000, nu: 0.2, ft: 3, GF: 0.03, softening: linear}
-supports: [{along: [[0,0],[${W},0]], fix: y}, {at: [0,0], fix: x}]
-loads: [{along: [[0,${W}],[${W},${W}]], direction: [0, 1]}]
-control: {by: displacement, target: 0.0125, increments: 13, stopAtLoadFraction: 0.3}
-crack: {start: notch-tips, growthStep: 2, averagingRadius: 3}
-mesh: {size: 10, tipSize: 0.75, refineRadius: 8, seed: 2}
-output: {frames: []}
-`, 'slit.yaml');
+  return slitPlate(betaDeg, {
+    control: '{by: displacement, target: 0.0125, increments: 13, stopAtLoadFraction: 0.3}',
+    crack: '{start: notch-tips, growthStep: 2, averagingRadius: 3}',
+    mesh: '{size: 10, tipSize: 0.75, refineRadius: 8, seed: 2}',
+  });
 }
 
 const mts = (betaDeg: number) => {
