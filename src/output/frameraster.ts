@@ -19,7 +19,13 @@ import { GlyphText } from './glyphs.js';
 const WHITE: Rgb = [255, 255, 255];
 const INK = rgb(INK_COLOR), CAPTION = rgb(CAPTION_COLOR);
 /** The layers every frame of a run shares, drawn from SVG once. */
-const SHARED = new Set(['title', 'colorbar', 'damagebar', 'inset', 'scalebar']);
+const SHARED = new Set(['title', 'colorbar', 'inset', 'scalebar']);
+/**
+ * The damage key, an overlay of its own: only frames with cohesive segments have it, and it
+ * touches no other shared layer, so the rest is rendered once a run rather than once with it and
+ * once without.
+ */
+const DAMAGE_KEY = new Set(['damagebar']);
 /** A page of an animation: indices into the run's palette, width × height of them. */
 export interface AnimationPage { ix: Uint8Array; width: number; height: number }
 
@@ -40,7 +46,8 @@ export class FrameRaster {
 
   /**
    * The raw pixels of a field picture (the layout of fieldSvg at widthPx); sharedKey: a name for
-   * its shared layers, the same for pictures whose shared layers are the same (default: their SVG).
+   * its shared layers, the same for pictures whose shared layers (the damage key apart) are the
+   * same (default: their SVG).
    */
   async pixels(p: FieldPicture, sharedKey?: string): Promise<{ data: Uint8Array; width: number; height: number }> {
     const L = fieldLayout(p), u = L.u, cv = this.canvas;
@@ -105,15 +112,8 @@ export class FrameRaster {
     }
 
     // what every frame shares, from SVG once
-    // (under the caller's key when it has one: building the SVG only to look it up costs about 2 ms a frame)
-    const key = sharedKey ?? fieldSvg(p, SHARED);
-    let o = this.shared.get(key);
-    if (!o) {
-      o = overlayOf(await sharp(Buffer.from(fieldSvg(p, SHARED)), { density: 72, limitInputPixels: false }).ensureAlpha().raw().toBuffer());
-      if (this.shared.size >= 4) this.shared.clear(); // a run's frames have one or two kinds (with and without a damage key)
-      this.shared.set(key, o);
-    }
-    cv.overlay(o);
+    cv.overlay(await this.sharedOverlay(p, SHARED, sharedKey));
+    if (p.cohesive?.length) cv.overlay(await this.sharedOverlay(p, DAMAGE_KEY, sharedKey === undefined ? undefined : `${sharedKey}|damage key`));
 
     // this state in the inset: the curve so far, dashed guides and a dot
     if (p.inset) {
@@ -141,6 +141,21 @@ export class FrameRaster {
       L.captionLines.forEach((line, i) => this.glyphs!.draw(cv, L.pad, L.capY + (i + 0.8) * 22 * u, line, CAPTION));
     }
     return { data: cv.px, width: W, height: H };
+  }
+
+  /**
+   * Some shared layers as an overlay, rendered from SVG the first time they are met
+   * (under the caller's key when it has one: building the SVG only to look it up costs about 2 ms a frame).
+   */
+  private async sharedOverlay(p: FieldPicture, layers: Set<string>, key?: string): Promise<Overlay> {
+    const k = key ?? fieldSvg(p, layers);
+    let o = this.shared.get(k);
+    if (!o) {
+      o = overlayOf(await sharp(Buffer.from(fieldSvg(p, layers)), { density: 72, limitInputPixels: false }).ensureAlpha().raw().toBuffer());
+      if (this.shared.size >= 4) this.shared.clear(); // a run's frames have one kind, and the damage key from the first cohesive segment on
+      this.shared.set(k, o);
+    }
+    return o;
   }
 
   /**

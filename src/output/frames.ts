@@ -220,10 +220,10 @@ export function framePicture(c: CaseModel, d: StepData, rows: StepRow[], plan: F
 }
 
 /**
- * What tells apart the shared layers (title, colour bar, damage key, the inset's whole curve and
- * axes, scale bar) of two frames of one plan: only whether a damage key is drawn, and the size.
+ * What tells apart the shared layers (title, colour bar, the inset's whole curve and axes, scale
+ * bar) of two frames of one plan: only the size (the damage key is an overlay of its own).
  */
-const sharedLayersKey = (p: FieldPicture): string => `${p.widthPx}|${p.cohesive?.length ? 1 : 0}|${p.caption?.length ?? 0}`;
+const sharedLayersKey = (p: FieldPicture): string => `${p.widthPx}|${p.caption?.length ?? 0}`;
 
 /** The SVG picture of one stored state. */
 export function frameSvg(c: CaseModel, d: StepData, rows: StepRow[], plan: FramePlan): string {
