@@ -82,3 +82,24 @@ describe('pngPalette', () => {
     expect(pngPalette(Uint8Array.from([1, 2, 3]))).toBeNull();
   });
 });
+
+describe('frame raster shared layers', () => {
+  it('lays the damage key over frames with cohesive segments only, the same whether the other shared layers were met before or not', async () => {
+    const { FrameRaster } = await import('../src/output/frameraster.js');
+    const plain = { mesh, values: Float64Array.from([0.2, 0.9]), valueLabel: 'σ₁ / ft', title: 'Two cells', widthPx: 600 };
+    const withKey = { ...plain, cohesive: [{ x1: 100, y1: 0, x2: 100, y2: 30, damage: 0.6 }] };
+    const r = new FrameRaster();
+    const a = Uint8Array.from((await r.pixels(plain, 'k')).data);
+    const b = Uint8Array.from((await r.pixels(withKey, 'k')).data);
+    const a2 = Uint8Array.from((await r.pixels(plain, 'k')).data);
+    expect(a2).toEqual(a);
+    // the damage key's words and colours change the foot of the page (below the plate, above the caption)
+    const { fieldLayout } = await import('../src/output/field.js');
+    const L = fieldLayout(withKey), W = Math.ceil(L.W);
+    let differ = 0;
+    for (let i = 3 * W * Math.ceil(L.footY); i < 3 * W * Math.floor(L.capY); i++) if (a[i] !== b[i]) differ++;
+    expect(differ).toBeGreaterThan(100);
+    // drawn fresh (its SVG as the key) the picture with the key is the same
+    expect(Uint8Array.from((await new FrameRaster().pixels(withKey)).data)).toEqual(b);
+  });
+});
