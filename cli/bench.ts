@@ -1,8 +1,8 @@
 // npm run bench: timings of mesh generation, assembly, ordering + factorization and solve on
 // plates of about 10k, 50k, 100k and 200k dofs (both fill-reducing orderings side by side, and the
 // SuiteSparse supernodal Cholesky on the same matrix where installed, in CPU time), of a
-// crack-growth run of the demo beam and of the double-edge-notched panel (condensed and not), of an elastic run with stress intensity factors (about 5k
-// dofs) and of the ceramic bend bar in the brittle mode, run with all its files to separation
+// crack-growth run of the demo beam and of the double-edge-notched panel (condensed and not), of
+// an elastic run with stress intensity factors (about 5k dofs) and of the ceramic bend bar in the brittle mode, run with all its files to separation
 // (--no-sif skips these two, --no-plates the plates), and of the checks and meshing of large
 // hole, outline and probe counts.
 // npm run bench -- --validation: only the checks and meshing of large hole, outline and probe counts.
@@ -371,7 +371,11 @@ const opt = (name: string, d: number) => { const i = args.indexOf(name); return 
 const ai = args.indexOf('--against');
 const fitOnly = args.includes('--fit-only');
 const withFit = fitOnly || args.includes('--fit');
-if (args.includes('--frames')) {
+if (args.includes('--help') || args.includes('-h')) {
+  // the usage is this file's opening comment, kept in one place
+  const src = readFileSync(fileURLToPath(new URL('../../cli/bench.ts', import.meta.url)), 'utf8');
+  console.log(src.slice(0, src.indexOf('\nimport ')).replace(/^\/\/ ?/gm, ''));
+} else if (args.includes('--frames')) {
   await benchFrames(repeat, ai >= 0 ? args[ai + 1] : undefined);
 } else if (args.includes('--order')) {
   benchOrder(repeat);
