@@ -1,8 +1,8 @@
 // npm run bench: timings of mesh generation, assembly, ordering + factorization and solve on
 // plates of about 10k, 50k, 100k and 200k dofs (both fill-reducing orderings side by side, and the
 // SuiteSparse supernodal Cholesky on the same matrix where installed, in CPU time), of a
-// crack-growth run of the demo beam, of an elastic run with stress intensity factors (about 5k
-// dofs) and of the ceramic bend bar in the brittle mode, run with all its files to separation
+// crack-growth run of the demo beam and of the double-edge-notched panel (condensed and not), of
+// an elastic run with stress intensity factors (about 5k dofs) and of the ceramic bend bar in the brittle mode, run with all its files to separation
 // (--no-sif skips these two, --no-plates the plates), and of the checks and meshing of large
 // hole, outline and probe counts.
 // npm run bench -- --validation: only the checks and meshing of large hole, outline and probe counts.
@@ -10,7 +10,9 @@
 // npm run bench -- --matrix FILE.mtx: factorize and solve a given SPD matrix with both orderings
 // and, where the Debian packages are installed, the SuiteSparse supernodal Cholesky on the same file,
 // round by round; with --against DIR also another build's solver on the same file.
-// npm run bench -- --against DIR [--fit]: the demo beam (and its 4× finer bulk) by this build and another, side by side;
+// npm run bench -- --join: only the double-edge-notched panel (two cracks join), condensed Newton against
+// { condense: false } in the same run (also part of the default run unless --no-growth).
+// npm run bench -- --against DIR [--fit]: the demo beam (its 4× finer bulk, the double-edge-notched panel) by this build and another, side by side;
 // --fit adds a three-parameter fit of the fit demo by each (--fit-only: the fits alone).
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // npm run bench -- --frames [--against DIR]: the demo's analysis against its pictures, in CPU time (see bench-frames.ts).
@@ -251,9 +253,46 @@ async function brittle(repeat: number): Promise<void> {
   console.log(`ceramic bend bar (lefm, frames, animation and report): total ${median(total).toFixed(1)} s (median of ${repeat}); ${note}`);
 }
 
+/** The double-edge-notched panel example without pictures: two cracks that meet, so the condensation runs across their junction. */
+function denPanel(): string {
+  return readFileSync(fileURLToPath(new URL('../../cases/den-tension-example.yaml', import.meta.url)), 'utf8')
+    .replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+}
+
+/** Steps, iterations, peak, last tip and crack length of a run: what two runs of one case should share. */
+function runSummary(res: Awaited<ReturnType<Analysis['run']>>, iters: number): string {
+  const last = res.rows[res.rows.length - 1];
+  const tip = [...res.rows].reverse().find((row) => row.tip_x_mm !== null);
+  return `${res.rows.length - 1} steps, ${iters} iterations, peak ${res.peak.load_N.toFixed(2)} N, tip [${tip?.tip_x_mm?.toFixed(2)}, ${tip?.tip_y_mm?.toFixed(2)}] mm, crack ${last.crack_length_mm.toFixed(2)} mm`;
+}
+
 /**
- * The demo beam to 5 % of its peak, and the same beam with a bulk mesh four times finer (same
- * tip cells), run alternately by this build and by another build of rupta (a folder holding its
+ * The double-edge-notched panel by this build with the Newton on the condensed crack faces and
+ * with `{ condense: false }` (all free unknowns), run alternately: CPU-time medians and their
+ * ratio, what condensation buys once two cracks have joined.
+ */
+async function joined(repeat: number): Promise<void> {
+  const c = parseCase(denPanel(), 'den-tension-example.yaml');
+  const t = { on: [] as number[], off: [] as number[] };
+  const out: Record<string, string> = {};
+  for (let r = 0; r < repeat; r++) {
+    for (const who of ['off', 'on'] as const) {
+      const t0 = cpuSeconds();
+      const a = new Analysis(c, generateMesh(buildDomain(c), c.mesh), { condense: who === 'on' });
+      let iters = 0;
+      const res = await a.run((e) => { iters += e.row.iterations; });
+      t[who].push(cpuSeconds() - t0);
+      out[who] = `${runSummary(res, iters)}, ${a.growthLog.length} growth events, ${res.status}`;
+    }
+  }
+  const mo = median(t.on), mx = median(t.off);
+  console.log(`double-edge-notched panel (two cracks join), CPU seconds, medians of ${repeat}, run alternately: condensed ${mo.toFixed(2)} s, condense: false ${mx.toFixed(2)} s, ratio ×${(mo / mx).toFixed(2)}`);
+  console.log(`  condensed:       ${out.on}\n  condense: false: ${out.off}`);
+}
+
+/**
+ * The demo beam to 5 % of its peak, the same beam with a bulk mesh four times finer (same
+ * tip cells) and the double-edge-notched panel (two cracks join), run alternately by this build and by another build of rupta (a folder holding its
  * compiled .build/), so both meet the same load on this shared machine. Times are the process's
  * CPU time (user + system) per run; the ratios are of the medians.
  */
@@ -271,6 +310,7 @@ async function against(dir: string, repeat: number): Promise<void> {
   const variants = [
     ['demo beam', demo],
     ['demo beam, bulk 4× finer', demo.replace(/^mesh:.*$/m, 'mesh: {size: 5, tipSize: 2, refineRadius: 20, coarsen: true, seed: 1, lloyd: 8}')],
+    ['double-edge-notched panel (two cracks join)', denPanel()],
   ] as const;
   console.log(`this build against ${root} (CPU seconds, medians of ${repeat}, run alternately)`);
   const cpu = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
@@ -285,9 +325,7 @@ async function against(dir: string, repeat: number): Promise<void> {
         let iters = 0;
         const res = await a.run((e) => { iters += e.row.iterations; });
         t[who].push(cpu() - t0);
-        const last = res.rows[res.rows.length - 1];
-        const tip = [...res.rows].reverse().find((row) => row.tip_x_mm !== null);
-        out[who] = `${res.rows.length - 1} steps, ${iters} iterations, peak ${res.peak.load_N.toFixed(2)} N, tip [${tip?.tip_x_mm?.toFixed(2)}, ${tip?.tip_y_mm?.toFixed(2)}] mm, crack ${last.crack_length_mm.toFixed(2)} mm`;
+        out[who] = runSummary(res, iters);
       }
     }
     const mo = median(t.ours), mx = median(t.other);
@@ -333,7 +371,11 @@ const opt = (name: string, d: number) => { const i = args.indexOf(name); return 
 const ai = args.indexOf('--against');
 const fitOnly = args.includes('--fit-only');
 const withFit = fitOnly || args.includes('--fit');
-if (args.includes('--frames')) {
+if (args.includes('--help') || args.includes('-h')) {
+  // the usage is this file's opening comment, kept in one place
+  const src = readFileSync(fileURLToPath(new URL('../../cli/bench.ts', import.meta.url)), 'utf8');
+  console.log(src.slice(0, src.indexOf('\nimport ')).replace(/^\/\/ ?/gm, ''));
+} else if (args.includes('--frames')) {
   await benchFrames(repeat, ai >= 0 ? args[ai + 1] : undefined);
 } else if (args.includes('--order')) {
   benchOrder(repeat);
@@ -354,6 +396,8 @@ if (args.includes('--frames')) {
   validationBench();
 } else if (args.includes('--sif')) {
   await sifElastic(repeat);
+} else if (args.includes('--join')) {
+  await joined(repeat);
 } else {
   console.log(`rupta benchmark (medians of ${repeat} runs; this machine is shared, compare ratios)`);
   if (!args.includes('--no-plates')) {
@@ -362,7 +406,7 @@ if (args.includes('--frames')) {
     for (const d of [10_000, 50_000, 100_000, 200_000]) elastic(d, repeat, driver);
   }
   if (!args.includes('--no-sif')) { await sifElastic(repeat); await brittle(Math.min(repeat, 2)); }
-  if (!args.includes('--no-growth')) await growth(Math.min(repeat, 2));
+  if (!args.includes('--no-growth')) { await growth(Math.min(repeat, 2)); await joined(repeat); }
   validationBench();
   benchOrder(repeat);
   await benchGrowthOrders(repeat);

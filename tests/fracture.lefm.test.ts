@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { parseCase } from '../src/case/index.js';
 import { LefmAnalysis } from '../src/fracture/lefm.js';
 import { meshCase } from '../src/run.js';
+import { slitPlate } from './support/slit.js';
 import { describeCase } from '../src/case/describe.js';
 import { mtsKink } from '../src/fracture/sif.js';
 import { rootSlitLength } from '../src/fracture/lefm.js';
@@ -43,23 +44,13 @@ describe('crack.model lefm: ceramic bend bar (template example)', () => {
 
 describe('crack.model lefm: slanted central slit under remote tension', () => {
   it('both tips of the point-symmetric problem grow together, first along the MTS kink (Erdogan & Sih 1963), then alike', async () => {
-    const W = 160, a = 10, b = 45 * Math.PI / 180;
-    const c = parseCase(`
-format: 1
-title: slanted slit, brittle
-units: mm-N-MPa
-thickness: 1
-geometry:
-  outline: [[0,0],[${W},0],[${W},${W}],[0,${W}]]
-  notches: [{from: [${80 - a * Math.sin(b)}, ${80 - a * Math.cos(b)}], to: [${80 + a * Math.sin(b)}, ${80 + a * Math.cos(b)}], width: 0}]
-material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: 1}
-supports: [{along: [[0,0],[${W},0]], fix: y}, {at: [0,0], fix: x}]
-loads: [{along: [[0,${W}],[${W},${W}]], direction: [0, 1]}]
-control: {by: displacement, target: 1, increments: 10}
-crack: {model: lefm, growthStep: 1.5}
-mesh: {size: 16, tipSize: 0.5, refineRadius: 6, seed: 3}
-output: {frames: []}
-`, 'slit-lefm.yaml');
+    const W = 160, b = 45 * Math.PI / 180;
+    const c = slitPlate(b * 180 / Math.PI, {
+      thickness: 1, material: '{E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: 1}',
+      control: '{by: displacement, target: 1, increments: 10}',
+      crack: '{model: lefm, growthStep: 1.5}',
+      mesh: '{size: 16, tipSize: 0.5, refineRadius: 6, seed: 3}',
+    });
     const an = new LefmAnalysis(c, meshCase(c).mesh);
     an.stopRequested = () => an.growthLog.length >= 8;
     const res = await an.run(() => {});
@@ -87,23 +78,13 @@ output: {frames: []}
     // angular factor of the shear stress ahead of the parent tip, which vanishes at the MTS
     // angle (from memory). The chord that sets the tip frame once ran back past the kink into
     // the slit: measured K_II/K_I = 0.58 and 0.63 at the two 0.8 mm kinks, against about 0.01.
-    const W = 160, a = 10, b = 30 * Math.PI / 180;
-    const c = parseCase(`
-format: 1
-title: slanted slit, short kinks
-units: mm-N-MPa
-thickness: 1
-geometry:
-  outline: [[0,0],[${W},0],[${W},${W}],[0,${W}]]
-  notches: [{from: [${80 - a * Math.sin(b)}, ${80 - a * Math.cos(b)}], to: [${80 + a * Math.sin(b)}, ${80 + a * Math.cos(b)}], width: 0}]
-material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: 1}
-supports: [{along: [[0,0],[${W},0]], fix: y}, {at: [0,0], fix: x}]
-loads: [{along: [[0,${W}],[${W},${W}]], direction: [0, 1]}]
-control: {by: displacement, target: 1, increments: 10}
-crack: {model: lefm, growthStep: 0.75}
-mesh: {size: 10, tipSize: 0.5, refineRadius: 4, seed: 1}
-output: {frames: []}
-`, 'slit-kink-lefm.yaml');
+    const W = 160, b = 30 * Math.PI / 180;
+    const c = slitPlate(b * 180 / Math.PI, {
+      thickness: 1, material: '{E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: 1}',
+      control: '{by: displacement, target: 1, increments: 10}',
+      crack: '{model: lefm, growthStep: 0.75}',
+      mesh: '{size: 10, tipSize: 0.5, refineRadius: 4, seed: 1}',
+    });
     const an = new LefmAnalysis(c, meshCase(c).mesh);
     an.stopRequested = () => an.growthLog.length >= 3;
     await an.run(() => {});

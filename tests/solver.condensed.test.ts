@@ -7,11 +7,22 @@ import { describe, expect, it } from 'vitest';
 import { Matrix, solve as denseSolve } from 'ml-matrix';
 import { analyze, factorize, fillReducingOrder, toDense, trailingSchur } from '../src/linalg/index.js';
 import { randomDominant } from '../src/linalg/samples.js';
-import { Analysis } from '../src/fracture/analysis.js';
+import { Analysis, type AnalysisResult } from '../src/fracture/analysis.js';
 import { meshCase } from '../src/run.js';
 import { readFileSync } from 'node:fs';
 import { parseCase } from '../src/case/index.js';
 import { coarseBeam } from './support/beam.js';
+
+/** The condensed run (a) against the full Newton (b): condensed, complete, the same rows and iterations. */
+function expectSameCurve(a: { res: AnalysisResult; condensed: boolean | null }, b: { res: AnalysisResult }): void {
+  expect(a.condensed).toBe(true);
+  expect(a.res.status).toBe('complete');
+  expect(a.res.rows.length).toBe(b.res.rows.length);
+  for (let i = 0; i < a.res.rows.length; i++) {
+    expect(a.res.rows[i].iterations).toBe(b.res.rows[i].iterations);
+    expect(a.res.rows[i].load_N).toBeCloseTo(b.res.rows[i].load_N, 4);
+  }
+}
 
 describe('condensation onto the crack faces', () => {
   it('the trailing block of L D Lᵀ is the Schur complement A_cc − A_cb A_bb⁻¹ A_bc (dense block elimination)', () => {
@@ -68,13 +79,7 @@ describe('condensation onto the crack faces', () => {
     }
     const [a, b] = runs;
     expect(a.tips).toContain('crack');
-    expect(a.condensed).toBe(true);
-    expect(a.res.status).toBe('complete');
-    expect(a.res.rows.length).toBe(b.res.rows.length);
-    for (let i = 0; i < a.res.rows.length; i++) {
-      expect(a.res.rows[i].iterations).toBe(b.res.rows[i].iterations);
-      expect(a.res.rows[i].load_N).toBeCloseTo(b.res.rows[i].load_N, 4);
-    }
+    expectSameCurve(a, b);
   });
 
   it('a crack cut through to the load point condenses too (the point and its twin driven alike) and gives the curve of all unknowns', async () => {
@@ -87,12 +92,6 @@ describe('condensation onto the crack faces', () => {
       runs.push({ res: await a.run(() => {}), condensed: a.condensedFaces });
     }
     const [a, b] = runs;
-    expect(a.condensed).toBe(true);
-    expect(a.res.status).toBe('complete');
-    expect(a.res.rows.length).toBe(b.res.rows.length);
-    for (let i = 0; i < a.res.rows.length; i++) {
-      expect(a.res.rows[i].iterations).toBe(b.res.rows[i].iterations);
-      expect(a.res.rows[i].load_N).toBeCloseTo(b.res.rows[i].load_N, 4);
-    }
+    expectSameCurve(a, b);
   });
 });
