@@ -7,24 +7,12 @@ import { Analysis } from '../src/fracture/analysis.js';
 import { makeLaw } from '../src/cohesive/laws.js';
 import { penaltyFor } from '../src/cohesive/interface.js';
 import { gridMesh } from './support/grid.js';
+import { BAR, barCase as sharedBar } from './support/bar.js';
 
-const L = 100, H = 10, T = 10, E = 30000, FT = 3;
+const { L, H, T, E, FT } = BAR;
 
 function barCase(law: string, GF: number, target: number, by = 'cmod') {
-  return parseCase(`
-format: 1
-title: cohesive bar
-units: mm-N-MPa
-thickness: ${T}
-geometry: {outline: [[0,0],[${L},0],[${L},${H}],[0,${H}]]}
-material: {E: ${E}, nu: 0.2, ft: ${FT}, GF: ${GF}, softening: ${law}}
-supports: [{along: [[0,0],[0,${H}]], fix: x}, {at: [0,0], fix: y}]
-loads: [{along: [[${L},0],[${L},${H}]], direction: [1, 0]}]
-control: {by: ${by}, gauge: {from: [${L / 2 - 1}, 0], to: [${L / 2 + 1}, 0]}, target: ${target}, increments: 80, stopAtLoadFraction: 0}
-crack: {start: [[0, 0]], growthStep: 1, averagingRadius: 2}
-mesh: {size: 1, tipSize: 1, refineRadius: 1, coarsen: false}
-output: {frames: []}
-`, 'bar.yaml');
+  return sharedBar(law, GF, { target, increments: 80, gaugeHalf: 1, by, mesh: '{size: 1, tipSize: 1, refineRadius: 1, coarsen: false}' });
 }
 
 async function runBar(law: 'linear' | 'bilinear' | 'exponential', GF: number, by = 'cmod') {

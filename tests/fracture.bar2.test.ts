@@ -2,30 +2,17 @@
 // model; Hillerborg, Modéer, Petersson 1976), δ = σL/E + w(σ), with the faces' opening
 // quadratic along each segment and the traction taken at the segment's three Newton–Cotes points.
 import { describe, expect, it } from 'vitest';
-import { parseCase } from '../src/case/index.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { makeLaw } from '../src/cohesive/laws.js';
 import { penaltyFor } from '../src/cohesive/interface.js';
 import { gridMesh } from './support/grid.js';
+import { BAR, barCase } from './support/bar.js';
 
-const L = 100, H = 10, T = 10, E = 30000, FT = 3;
+const { L, H, T, E, FT } = BAR;
 
 async function runBar(law: 'linear' | 'bilinear' | 'exponential', GF: number, nx: number, ny: number) {
   const sl = makeLaw(law, FT, GF);
-  const c = parseCase(`
-format: 1
-title: cohesive bar
-units: mm-N-MPa
-thickness: ${T}
-geometry: {outline: [[0,0],[${L},0],[${L},${H}],[0,${H}]]}
-material: {E: ${E}, nu: 0.2, ft: ${FT}, GF: ${GF}, softening: ${law}}
-supports: [{along: [[0,0],[0,${H}]], fix: x}, {at: [0,0], fix: y}]
-loads: [{along: [[${L},0],[${L},${H}]], direction: [1, 0]}]
-control: {by: cmod, gauge: {from: [${L / 2 - 10}, 0], to: [${L / 2 + 10}, 0]}, target: ${sl.wc * 1.02}, increments: 40, stopAtLoadFraction: 0}
-crack: {start: [[0, 0]], growthStep: 1, averagingRadius: 2}
-mesh: {size: 10, tipSize: 10, refineRadius: 10, coarsen: false}
-output: {frames: []}
-`, 'bar.yaml');
+  const c = barCase(law, GF, { target: sl.wc * 1.02, increments: 40, gaugeHalf: 10, mesh: '{size: 10, tipSize: 10, refineRadius: 10, coarsen: false}' });
   c.mesh.order = 2;
   const a = new Analysis(c, gridMesh(0, 0, L, H, nx, ny));
   a.tips.splice(0);
