@@ -252,7 +252,8 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
       writeFileAtomic(`${base}.png`, png);
       // the frame itself: a smaller copy would save little on a palette PNG and cost a resize and an encode
       const uri = `data:image/png;base64,${png.toString('base64')}`;
-      thumbs.push({ step: k, thumb: uri.includes('http') ? await pngDataUri(sharp(png)) : uri, page: pages ? await raster.page(ANIMATION_WIDTH, palette) : undefined });
+      const pagePic = pages ? framePicture(c, d, rows, plan, Math.min(ANIMATION_WIDTH, c.output.pngWidth)) : null;
+      thumbs.push({ step: k, thumb: uri.includes('http') ? await pngDataUri(sharp(png)) : uri, page: pagePic ? await raster.page(pagePic, palette!, sharedLayersKey(pagePic)) : undefined });
     } else thumbs.push({ step: k, thumb: await pngDataUri(sharp(await svgToPngBuffer(svg!, STEPPER_WIDTH))) });
   }
   return thumbs;

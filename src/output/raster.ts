@@ -2,7 +2,10 @@
 // share edges tile without seams or overlap), strokes as the union of capsules around their
 // segments (round caps and joins, edge coverage from the distance to the segment), painted once per
 // stroke with its colour and opacity so overlapping pieces do not darken. Integer blending, so the
-// same drawing gives the same bytes.
+// same drawing gives the same bytes. With a palette, the canvas holds one palette index a pixel
+// instead of RGB: fills write the index of their colour, and a blend takes the entry nearest to
+// the blended colour, found once for each (entry under it, colour, opacity) and kept, so a frame
+// needs no look-up pass and its PNG rows are the canvas itself.
 
 export type Rgb = readonly [number, number, number];
 
@@ -15,25 +18,68 @@ export function rgb(hex: string): Rgb {
 export class Canvas {
   width = 0;
   height = 0;
-  /** Three bytes a pixel, rows top to bottom. */
+  /** Three bytes a pixel, rows top to bottom (RGB mode). */
   px = new Uint8Array(0);
+  /** One palette index a pixel, rows top to bottom (index mode). */
+  ix = new Uint8Array(0);
+  /** The palette of index mode, null in RGB mode. */
+  mix: PaletteMix | null = null;
   /** Coverage of the stroke being built, 0..1 a pixel; zero outside [bx0, bx1) × [by0, by1). */
   private cov = new Float32Array(0);
   private bx0 = 0; private by0 = 0; private bx1 = 0; private by1 = 0;
   // scanline crossings, reused
   private xs = new Float64Array(64);
 
-  /** A page of w × h px in one colour (buffers are kept when the size repeats). */
-  reset(w: number, h: number, bg: Rgb): void {
+  /**
+   * A page of w × h px in one colour (buffers are kept when the size repeats); with mix, in index
+   * mode: palette indices drawn by the mix's blends.
+   */
+  reset(w: number, h: number, bg: Rgb, mix: PaletteMix | null = null): void {
     if (w !== this.width || h !== this.height) {
       this.width = w; this.height = h;
-      this.px = new Uint8Array(3 * w * h);
+      this.px = new Uint8Array(0); this.ix = new Uint8Array(0);
       this.cov = new Float32Array(w * h);
     }
-    const p = this.px;
-    for (let i = 0; i < 3; i++) p[i] = bg[i];
-    for (let filled = 3; filled < p.length; filled *= 2) p.copyWithin(filled, 0, Math.min(filled, p.length - filled));
+    this.mix = mix;
+    if (mix) {
+      if (this.ix.length !== w * h) this.ix = new Uint8Array(w * h);
+      this.ix.fill(mix.ixOf(bg));
+    } else {
+      if (this.px.length !== 3 * w * h) this.px = new Uint8Array(3 * w * h);
+      fillRgb(this.px, 0, w * h, bg);
+    }
     this.bx0 = w; this.by0 = h; this.bx1 = 0; this.by1 = 0;
+  }
+
+  /** Pixels c0..c1 (inclusive, row-major indices) in colour c. */
+  private span(i0: number, i1: number, c: Rgb, ci: number): void {
+    if (this.mix) this.ix.fill(ci, i0, i1 + 1);
+    else for (let k = 3 * i0, e = 3 * i1; k <= e; k += 3) { this.px[k] = c[0]; this.px[k + 1] = c[1]; this.px[k + 2] = c[2]; }
+  }
+
+  /** Every row from r on in colour c. */
+  fillRows(r: number, c: Rgb): void {
+    const i0 = Math.max(0, r) * this.width, n = this.width * this.height;
+    if (i0 >= n) return;
+    if (this.mix) this.ix.fill(this.mix.ixOf(c), i0);
+    else fillRgb(this.px, i0, n, c);
+  }
+
+  private mixC: Rgb | null = null;
+  private mixT: Int16Array = new Int16Array(0);
+
+  /** Lay colour c at coverage a (0..255) over pixel i. */
+  mixAt(i: number, c: Rgb, a: number): void {
+    const m = this.mix;
+    if (m) {
+      if (c !== this.mixC) { this.mixT = m.table(c); this.mixC = c; }
+      this.ix[i] = m.mix(this.mixT, this.ix[i], c, a);
+      return;
+    }
+    const p = this.px, k = 3 * i, b = 255 - a;
+    p[k] = (p[k] * b + c[0] * a + 127) / 255 | 0;
+    p[k + 1] = (p[k + 1] * b + c[1] * a + 127) / 255 | 0;
+    p[k + 2] = (p[k + 2] * b + c[2] * a + 127) / 255 | 0;
   }
 
   /** Fill a polygon (flat x, y screen points; even–odd rule) without anti-aliasing. */
@@ -44,7 +90,7 @@ export class Canvas {
     for (let q = from; q < to; q++) { const v = y[idx[q]]; if (v < ymin) ymin = v; if (v > ymax) ymax = v; }
     const r0 = Math.max(0, Math.ceil(ymin - 0.5)), r1 = Math.min(this.height - 1, Math.floor(ymax - 0.5));
     if (this.xs.length < n) this.xs = new Float64Array(2 * n);
-    const xs = this.xs, W = this.width, p = this.px;
+    const xs = this.xs, W = this.width, ci = this.mix ? this.mix.ixOf(c) : 0;
     for (let r = r0; r <= r1; r++) {
       const yc = r + 0.5;
       let m = 0;
@@ -57,7 +103,7 @@ export class Canvas {
       for (let i = 1; i < m; i++) { const v = xs[i]; let j = i - 1; while (j >= 0 && xs[j] > v) { xs[j + 1] = xs[j]; j--; } xs[j + 1] = v; }
       for (let i = 0; i + 1 < m; i += 2) {
         const c0 = Math.max(0, Math.ceil(xs[i] - 0.5)), c1 = Math.min(W - 1, Math.ceil(xs[i + 1] - 0.5) - 1);
-        for (let k = 3 * (r * W + c0), e = 3 * (r * W + c1); k <= e; k += 3) { p[k] = c[0]; p[k + 1] = c[1]; p[k + 2] = c[2]; }
+        if (c1 >= c0) this.span(r * W + c0, r * W + c1, c, ci);
       }
     }
   }
@@ -152,7 +198,21 @@ export class Canvas {
 
   /** Paint the stroke built so far in colour c at the given opacity, and start a new one. */
   paint(c: Rgb, opacity = 1): void {
-    const cov = this.cov, p = this.px, W = this.width;
+    const cov = this.cov, p = this.px, W = this.width, m = this.mix;
+    if (m) {
+      const ix = this.ix, t = m.table(c), f = 255 * opacity;
+      for (let r = this.by0; r < this.by1; r++) {
+        for (let i = r * W + this.bx0, e = r * W + this.bx1; i < e; i++) {
+          const v = cov[i];
+          if (v <= 0) continue;
+          cov[i] = 0;
+          const a = Math.round(f * (v > 1 ? 1 : v));
+          if (a > 0) ix[i] = m.mix(t, ix[i], c, a);
+        }
+      }
+      this.bx0 = this.width; this.by0 = this.height; this.bx1 = 0; this.by1 = 0;
+      return;
+    }
     for (let r = this.by0; r < this.by1; r++) {
       for (let i = r * W + this.bx0, e = r * W + this.bx1; i < e; i++) {
         const v = cov[i];
@@ -169,7 +229,22 @@ export class Canvas {
 
   /** Lay a sparse RGBA overlay (pixel indices and their four bytes, not premultiplied) over the page. */
   overlay(o: Overlay): void {
-    const p = this.px, { at, rgba } = o;
+    const p = this.px, { at, rgba } = o, m = this.mix;
+    if (m) {
+      // each overlay pixel keeps the entry it last lay on and the blend it gave: frames differ little under their text
+      let memo = o.memo;
+      if (!memo || memo.mix !== m) memo = o.memo = { mix: m, under: new Int16Array(at.length).fill(-1), res: new Uint8Array(at.length) };
+      const ix = this.ix, under = memo.under, res = memo.res, P = m.palette;
+      for (let j = 0; j < at.length; j++) {
+        const i = at[j], d = ix[i];
+        if (under[j] === d) { ix[i] = res[j]; continue; }
+        const a = rgba[4 * j + 3], b = 255 - a, q = 3 * d;
+        const v = m.nearest(
+          (P[q] * b + rgba[4 * j] * a + 127) / 255 | 0, (P[q + 1] * b + rgba[4 * j + 1] * a + 127) / 255 | 0, (P[q + 2] * b + rgba[4 * j + 2] * a + 127) / 255 | 0);
+        under[j] = d; res[j] = v; ix[i] = v;
+      }
+      return;
+    }
     for (let j = 0; j < at.length; j++) {
       const k = 3 * at[j], a = rgba[4 * j + 3], b = 255 - a;
       p[k] = (p[k] * b + rgba[4 * j] * a + 127) / 255 | 0;
@@ -177,16 +252,72 @@ export class Canvas {
       p[k + 2] = (p[k + 2] * b + rgba[4 * j + 2] * a + 127) / 255 | 0;
     }
   }
+}
 
-  /** Copy RGB rows (w = this width) in from row r on. */
-  rows(src: Uint8Array, r: number): void {
-    const n = Math.min(src.length, this.px.length - 3 * r * this.width);
-    if (n > 0) this.px.set(src.subarray(0, n), 3 * r * this.width);
+/** The drawn pixels of an RGBA picture: their indices and colours (memo: index mode's blends, see Canvas.overlay). */
+export interface Overlay { at: Int32Array; rgba: Uint8Array; memo?: { mix: PaletteMix; under: Int16Array; res: Uint8Array } }
+
+/** Pixels i0..i1 (exclusive) of an RGB buffer in colour c, by doubling copies. */
+function fillRgb(p: Uint8Array, i0: number, i1: number, c: Rgb): void {
+  if (i1 <= i0) return;
+  const k0 = 3 * i0, e = 3 * i1;
+  p[k0] = c[0]; p[k0 + 1] = c[1]; p[k0 + 2] = c[2];
+  for (let filled = 3; filled < e - k0; filled *= 2) p.copyWithin(k0 + filled, k0, k0 + Math.min(filled, e - k0 - filled));
+}
+
+/**
+ * Blends within a fixed palette (at most 256 entries): the entry nearest to a colour, and to an
+ * entry overlaid by a colour at some coverage, each searched once and kept.
+ */
+export class PaletteMix {
+  private near = new Map<number, number>();
+  private tables = new Map<number, Int16Array>();
+  constructor(readonly palette: Uint8Array) {
+    const n = palette.length / 3;
+    if (n < 1 || n > 256 || n % 1 !== 0) throw new Error(`PaletteMix: a palette of ${n} colours`);
+  }
+
+  /** The entry nearest to (r, g, b), weighted as toPalette's search (the first of equals). */
+  nearest(r: number, g: number, b: number): number {
+    const key = r | (g << 8) | (b << 16);
+    let j = this.near.get(key);
+    if (j === undefined) { j = nearestEntry(this.palette, r, g, b); this.near.set(key, j); }
+    return j;
+  }
+
+  ixOf(c: Rgb): number { return this.nearest(c[0], c[1], c[2]); }
+
+  /** The blends of colour c over every entry: [entry << 8 | coverage] → entry, -1 until met. */
+  table(c: Rgb): Int16Array {
+    const key = c[0] | (c[1] << 8) | (c[2] << 16);
+    let t = this.tables.get(key);
+    if (!t) { t = new Int16Array(1 << 16).fill(-1); this.tables.set(key, t); }
+    return t;
+  }
+
+  /** Entry d overlaid by colour c at coverage a (0..255), through c's table t. */
+  mix(t: Int16Array, d: number, c: Rgb, a: number): number {
+    const k = (d << 8) | a;
+    let v = t[k];
+    if (v < 0) {
+      const P = this.palette, q = 3 * d, b = 255 - a;
+      v = t[k] = this.nearest((P[q] * b + c[0] * a + 127) / 255 | 0, (P[q + 1] * b + c[1] * a + 127) / 255 | 0, (P[q + 2] * b + c[2] * a + 127) / 255 | 0);
+    }
+    return v;
   }
 }
 
-/** The drawn pixels of an RGBA picture: their indices and colours. */
-export interface Overlay { at: Int32Array; rgba: Uint8Array }
+/** The palette entry nearest to (r, g, b). */
+function nearestEntry(palette: Uint8Array, r: number, g: number, b: number): number {
+  let best = 0, bd = Infinity;
+  for (let q = 0, n = palette.length / 3; q < n; q++) {
+    const dr = palette[3 * q] - r, dg = palette[3 * q + 1] - g, db = palette[3 * q + 2] - b;
+    // weights of the eye's sensitivity (common practice for colour distance in RGB)
+    const d = 2 * dr * dr + 4 * dg * dg + 3 * db * db;
+    if (d < bd) { bd = d; best = q; }
+  }
+  return best;
+}
 
 /** The pixels of an RGBA buffer that are not fully transparent. */
 export function overlayOf(data: Uint8Array): Overlay {
@@ -240,16 +371,7 @@ export function toPalette(px: Uint8Array, palette: Uint8Array, lut: PaletteLut, 
     for (let q = n - 1; q >= 0; q--) lut.exact.set(palette[3 * q] | (palette[3 * q + 1] << 8) | (palette[3 * q + 2] << 16), q);
   }
   const exact = lut.exact, index = lut.index, known = lut.known;
-  const nearest = (r: number, g: number, b: number): number => {
-    let best = 0, bd = Infinity;
-    for (let q = 0; q < n; q++) {
-      const dr = palette[3 * q] - r, dg = palette[3 * q + 1] - g, db = palette[3 * q + 2] - b;
-      // weights of the eye's sensitivity (common practice for colour distance in RGB)
-      const d = 2 * dr * dr + 4 * dg * dg + 3 * db * db;
-      if (d < bd) { bd = d; best = q; }
-    }
-    return best;
-  };
+  const nearest = (r: number, g: number, b: number): number => nearestEntry(palette, r, g, b);
   // a colour not met before: its palette entry, or the entry nearest to its cell's centre
   const learn = (key: number): number => {
     let j = exact.get(key);
@@ -288,6 +410,18 @@ export function indexedPng(px: Uint8Array, width: number, height: number, palett
     if (r > 0 && bytes.compare(bytes, (r - 1) * n, r * n, r * n, (r + 1) * n) === 0) rows.copyWithin(r * m + 1, (r - 1) * m + 1, r * m);
     else toPalette(px.subarray(r * n, (r + 1) * n), palette, lut, rows.subarray(r * m + 1, (r + 1) * m));
   }
+  return pngOfRows(rows, width, height, palette, deflate);
+}
+
+/** Palette indices (width × height, rows top to bottom) as an indexed PNG, rows unfiltered. */
+export function pngOfIndices(ix: Uint8Array, width: number, height: number, palette: Uint8Array, deflate: (b: Uint8Array) => Uint8Array, scratch?: Uint8Array): Buffer {
+  const m = width + 1, rows = scratch && scratch.length === m * height ? scratch : new Uint8Array(m * height);
+  for (let r = 0; r < height; r++) { rows[r * m] = 0; rows.set(ix.subarray(r * width, (r + 1) * width), r * m + 1); }
+  return pngOfRows(rows, width, height, palette, deflate);
+}
+
+/** The PNG of filtered rows (a filter byte, then the row's indices) of an indexed picture. */
+function pngOfRows(rows: Uint8Array, width: number, height: number, palette: Uint8Array, deflate: (b: Uint8Array) => Uint8Array): Buffer {
   const head = Buffer.alloc(13);
   head.writeUInt32BE(width, 0); head.writeUInt32BE(height, 4);
   head[8] = 8; head[9] = 3; // 8 bits, indexed colour
