@@ -24,9 +24,13 @@ export class Canvas {
   ix = new Uint8Array(0);
   /** The palette of index mode, null in RGB mode. */
   mix: PaletteMix | null = null;
-  /** Coverage of the stroke being built, 0..1 a pixel; zero outside [bx0, bx1) × [by0, by1). */
+  /** Coverage of the stroke being built, 0..1 a pixel; zero but at the pixels listed in touched. */
   private cov = new Float32Array(0);
-  private bx0 = 0; private by0 = 0; private bx1 = 0; private by1 = 0;
+  /** The pixels the stroke being built covers, nt of them: paint visits these alone. */
+  private touched = new Int32Array(0);
+  private nt = 0;
+  // the clipped box of the piece being added: columns [c0, c1), rows [r0, r1)
+  private c0 = 0; private r0 = 0; private c1 = 0; private r1 = 0;
   // scanline crossings, reused
   private xs = new Float64Array(64);
 
@@ -39,6 +43,7 @@ export class Canvas {
       this.width = w; this.height = h;
       this.px = new Uint8Array(0); this.ix = new Uint8Array(0);
       this.cov = new Float32Array(w * h);
+      this.touched = new Int32Array(w * h);
     }
     this.mix = mix;
     if (mix) {
@@ -48,7 +53,8 @@ export class Canvas {
       if (this.px.length !== 3 * w * h) this.px = new Uint8Array(3 * w * h);
       fillRgb(this.px, 0, w * h, bg);
     }
-    this.bx0 = w; this.by0 = h; this.bx1 = 0; this.by1 = 0;
+    for (let j = 0; j < this.nt; j++) this.cov[this.touched[j]] = 0; // a stroke left unpainted
+    this.nt = 0;
   }
 
   /** Pixels c0..c1 (inclusive, row-major indices) in colour c. */
@@ -115,19 +121,17 @@ export class Canvas {
     this.fillPolygon(x, y, idx, 0, n, c);
   }
 
-  private grow(x0: number, y0: number, x1: number, y1: number): [number, number, number, number] {
-    const c0 = Math.max(0, Math.floor(x0)), r0 = Math.max(0, Math.floor(y0));
-    const c1 = Math.min(this.width, Math.ceil(x1) + 1), r1 = Math.min(this.height, Math.ceil(y1) + 1);
-    if (c0 < this.bx0) this.bx0 = c0; if (r0 < this.by0) this.by0 = r0;
-    if (c1 > this.bx1) this.bx1 = c1; if (r1 > this.by1) this.by1 = r1;
-    return [c0, r0, c1, r1];
+  private clip(x0: number, y0: number, x1: number, y1: number): void {
+    this.c0 = Math.max(0, Math.floor(x0)); this.r0 = Math.max(0, Math.floor(y0));
+    this.c1 = Math.min(this.width, Math.ceil(x1) + 1); this.r1 = Math.min(this.height, Math.ceil(y1) + 1);
   }
 
   /** Add a segment of width w (px) with round ends to the stroke being built. */
   segment(xa: number, ya: number, xb: number, yb: number, w: number): void {
     const h = w / 2 + 0.5, h2 = h * h, top = Math.min(1, w);
-    const [c0, r0, c1, r1] = this.grow(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
-    const dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width;
+    this.clip(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
+    const { c0, r0, c1, r1 } = this, dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width, touched = this.touched;
+    let nt = this.nt;
     // on each row, only the columns within h of the segment's line (a pixel farther away is not
     // covered): a slanted thin stroke then visits a band instead of its whole box
     const ady = Math.abs(dy), band = ady > 1e-9 * Math.sqrt(L2) ? (h * Math.sqrt(L2)) / ady + 1e-6 : Infinity;
@@ -144,10 +148,11 @@ export class Canvas {
         t = t < 0 ? 0 : t > 1 ? 1 : t;
         const ex = px - t * dx, ey = py - t * dy, d2 = ex * ex + ey * ey;
         if (d2 >= h2) continue; // not covered: no root to take
-        const v = Math.min(top, h - Math.sqrt(d2));
-        if (v > cov[r * W + c]) cov[r * W + c] = v;
+        const v = Math.min(top, h - Math.sqrt(d2)), i = r * W + c, was = cov[i];
+        if (v > was) { if (was === 0) touched[nt++] = i; cov[i] = v; }
       }
     }
+    this.nt = nt;
   }
 
   /** Add a polyline (flat points; closed loops repeat their first point). */
@@ -177,54 +182,45 @@ export class Canvas {
 
   /** Add a disc of radius r. */
   disc(cx: number, cy: number, r: number): void {
-    const [c0, r0, c1, r1] = this.grow(cx - r - 1, cy - r - 1, cx + r + 1, cy + r + 1);
-    const cov = this.cov, W = this.width;
-    for (let y = r0; y < r1; y++) for (let x = c0; x < c1; x++) {
-      const v = Math.min(1, r + 0.5 - Math.hypot(x + 0.5 - cx, y + 0.5 - cy));
-      if (v > cov[y * W + x]) cov[y * W + x] = v;
-    }
+    this.clip(cx - r - 1, cy - r - 1, cx + r + 1, cy + r + 1);
+    for (let y = this.r0; y < this.r1; y++) for (let x = this.c0; x < this.c1; x++) this.cover(y * this.width + x, Math.min(1, r + 0.5 - Math.hypot(x + 0.5 - cx, y + 0.5 - cy)));
   }
 
   /** Add a circle's outline of width w at radius r. */
   ring(cx: number, cy: number, r: number, w: number): void {
     const h = w / 2 + 0.5, top = Math.min(1, w);
-    const [c0, r0, c1, r1] = this.grow(cx - r - h, cy - r - h, cx + r + h, cy + r + h);
-    const cov = this.cov, W = this.width;
-    for (let y = r0; y < r1; y++) for (let x = c0; x < c1; x++) {
-      const v = Math.min(top, h - Math.abs(Math.hypot(x + 0.5 - cx, y + 0.5 - cy) - r));
-      if (v > cov[y * W + x]) cov[y * W + x] = v;
-    }
+    this.clip(cx - r - h, cy - r - h, cx + r + h, cy + r + h);
+    for (let y = this.r0; y < this.r1; y++) for (let x = this.c0; x < this.c1; x++) this.cover(y * this.width + x, Math.min(top, h - Math.abs(Math.hypot(x + 0.5 - cx, y + 0.5 - cy) - r)));
+  }
+
+  /** Raise pixel i's coverage to v. */
+  private cover(i: number, v: number): void {
+    const was = this.cov[i];
+    if (v > was) { if (was === 0) this.touched[this.nt++] = i; this.cov[i] = v; }
   }
 
   /** Paint the stroke built so far in colour c at the given opacity, and start a new one. */
   paint(c: Rgb, opacity = 1): void {
-    const cov = this.cov, p = this.px, W = this.width, m = this.mix;
+    const cov = this.cov, p = this.px, m = this.mix, touched = this.touched, nt = this.nt;
+    this.nt = 0;
     if (m) {
       const ix = this.ix, t = m.table(c), f = 255 * opacity;
-      for (let r = this.by0; r < this.by1; r++) {
-        for (let i = r * W + this.bx0, e = r * W + this.bx1; i < e; i++) {
-          const v = cov[i];
-          if (v <= 0) continue;
-          cov[i] = 0;
-          const a = Math.round(f * (v > 1 ? 1 : v));
-          if (a > 0) ix[i] = m.mix(t, ix[i], c, a);
-        }
+      for (let j = 0; j < nt; j++) {
+        const i = touched[j], v = cov[i];
+        cov[i] = 0;
+        const a = Math.round(f * (v > 1 ? 1 : v));
+        if (a > 0) ix[i] = m.mix(t, ix[i], c, a);
       }
-      this.bx0 = this.width; this.by0 = this.height; this.bx1 = 0; this.by1 = 0;
       return;
     }
-    for (let r = this.by0; r < this.by1; r++) {
-      for (let i = r * W + this.bx0, e = r * W + this.bx1; i < e; i++) {
-        const v = cov[i];
-        if (v <= 0) continue;
-        cov[i] = 0;
-        const a = Math.round(255 * opacity * (v > 1 ? 1 : v)), b = 255 - a, k = 3 * i;
-        p[k] = (p[k] * b + c[0] * a + 127) / 255 | 0;
-        p[k + 1] = (p[k + 1] * b + c[1] * a + 127) / 255 | 0;
-        p[k + 2] = (p[k + 2] * b + c[2] * a + 127) / 255 | 0;
-      }
+    for (let j = 0; j < nt; j++) {
+      const i = touched[j], v = cov[i];
+      cov[i] = 0;
+      const a = Math.round(255 * opacity * (v > 1 ? 1 : v)), b = 255 - a, k = 3 * i;
+      p[k] = (p[k] * b + c[0] * a + 127) / 255 | 0;
+      p[k + 1] = (p[k + 1] * b + c[1] * a + 127) / 255 | 0;
+      p[k + 2] = (p[k + 2] * b + c[2] * a + 127) / 255 | 0;
     }
-    this.bx0 = this.width; this.by0 = this.height; this.bx1 = 0; this.by1 = 0;
   }
 
   /** Lay a sparse RGBA overlay (pixel indices and their four bytes, not premultiplied) over the page. */
@@ -265,6 +261,9 @@ function fillRgb(p: Uint8Array, i0: number, i1: number, c: Rgb): void {
   for (let filled = 3; filled < e - k0; filled *= 2) p.copyWithin(k0 + filled, k0, k0 + Math.min(filled, e - k0 - filled));
 }
 
+/** Steps of coverage in the palette's blends (at most 63: see PaletteMix.table). */
+const MIX_LEVELS = 32;
+
 /**
  * Blends within a fixed palette (at most 256 entries): the entry nearest to a colour, and to an
  * entry overlaid by a colour at some coverage, each searched once and kept.
@@ -287,21 +286,25 @@ export class PaletteMix {
 
   ixOf(c: Rgb): number { return this.nearest(c[0], c[1], c[2]); }
 
-  /** The blends of colour c over every entry: [entry << 8 | coverage] → entry, -1 until met. */
+  /** The blends of colour c over every entry: [entry << 6 | coverage level] → entry, -1 until met. */
   table(c: Rgb): Int16Array {
     const key = c[0] | (c[1] << 8) | (c[2] << 16);
     let t = this.tables.get(key);
-    if (!t) { t = new Int16Array(1 << 16).fill(-1); this.tables.set(key, t); }
+    if (!t) { t = new Int16Array(256 << 6).fill(-1); this.tables.set(key, t); }
     return t;
   }
 
-  /** Entry d overlaid by colour c at coverage a (0..255), through c's table t. */
+  /**
+   * Entry d overlaid by colour c at coverage a (0..255), through c's table t. The coverage is
+   * taken in MIX_LEVELS steps: finer steps than the palette's colours can tell apart, and each
+   * blend is searched once a run rather than once for each of 256 coverages.
+   */
   mix(t: Int16Array, d: number, c: Rgb, a: number): number {
-    const k = (d << 8) | a;
+    const l = (a * MIX_LEVELS + 127) / 255 | 0, k = (d << 6) | l;
     let v = t[k];
     if (v < 0) {
-      const P = this.palette, q = 3 * d, b = 255 - a;
-      v = t[k] = this.nearest((P[q] * b + c[0] * a + 127) / 255 | 0, (P[q + 1] * b + c[1] * a + 127) / 255 | 0, (P[q + 2] * b + c[2] * a + 127) / 255 | 0);
+      const P = this.palette, q = 3 * d, w = Math.round((255 * l) / MIX_LEVELS), b = 255 - w;
+      v = t[k] = this.nearest((P[q] * b + c[0] * w + 127) / 255 | 0, (P[q + 1] * b + c[1] * w + 127) / 255 | 0, (P[q + 2] * b + c[2] * w + 127) / 255 | 0);
     }
     return v;
   }
