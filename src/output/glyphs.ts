@@ -9,7 +9,7 @@ import type { Canvas, Rgb } from './raster.js';
 import { svgDocument, text } from './svg.js';
 
 /** Copies of a character in the run its advance is measured from. */
-const RUN = 32;
+const RUN = 8;
 /** Sub-pixel offsets a glyph is rendered at (quarters of a pixel). */
 const PHASES = 4;
 
