@@ -131,6 +131,7 @@ export class Canvas {
     const h = w / 2 + 0.5, h2 = h * h, top = Math.min(1, w);
     this.clip(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
     const { c0, r0, c1, r1 } = this, dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width, touched = this.touched;
+    const inv = L2 > 0 ? 1 / L2 : 0;
     let nt = this.nt;
     // on each row, only the columns within h of the segment's line (a pixel farther away is not
     // covered): a slanted thin stroke then visits a band instead of its whole box
@@ -142,9 +143,10 @@ export class Canvas {
         const mid = xa + (py * dx) / dy - 0.5; // the column whose centre lies on the line
         cA = Math.max(c0, Math.floor(mid - band)); cB = Math.min(c1, Math.ceil(mid + band) + 1);
       }
-      for (let c = cA; c < cB; c++) {
-        const px = c + 0.5 - xa;
-        let t = L2 > 0 ? (px * dx + py * dy) / L2 : 0;
+      // the pixel centre's offset from the start and its projection on the segment, stepped along the row
+      let px = cA + 0.5 - xa, dot = px * dx + py * dy;
+      for (let c = cA; c < cB; c++, px += 1, dot += dx) {
+        let t = dot * inv;
         t = t < 0 ? 0 : t > 1 ? 1 : t;
         const ex = px - t * dx, ey = py - t * dy, d2 = ex * ex + ey * ey;
         if (d2 >= h2) continue; // not covered: no root to take
