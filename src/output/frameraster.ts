@@ -209,6 +209,13 @@ export class FrameRaster {
    * An animation's page: the picture (at the page's width) drawn as indices into the palette at
    * its own size, so no resize and no look-up of blended colours (sharedKey: see pixels).
    */
+  /** The PNG frame drawn last, as an animation's page (for frames no wider than the animation). */
+  framePage(): AnimationPage {
+    const cv = this.canvas;
+    if (!cv.mix) throw new Error('framePage: the last frame was not drawn in a palette');
+    return { ix: cv.ix.slice(), width: cv.width, height: cv.height };
+  }
+
   async page(p: FieldPicture, palette: Uint8Array, sharedKey?: string): Promise<AnimationPage> {
     const { width, height } = await this.draw(this.pageCanvas, p, sharedKey, this.mixOf(palette));
     return { ix: this.pageCanvas.ix.slice(), width, height };
