@@ -9,12 +9,15 @@
 const SLOTS = 8192;
 const TABLE = new Int32Array(3 * SLOTS);
 let gen = 0;
+let OUT = new Uint8Array(0);
 
 /** LZW codes of a frame's indices (the GIF variant: clear and end codes, widths up to 12 bits). */
 export function lzw(ix: Uint8Array, minSize: number): Uint8Array {
   const clear = 1 << minSize, end = clear + 1;
-  // at most one code of at most 12 bits per index, and the clears between: 2 bytes an index is room enough
-  const out = new Uint8Array(2 * ix.length + 16);
+  // at most one code of at most 12 bits per index, and the clears between: 2 bytes an index is
+  // room enough (a buffer kept from call to call: the pages of an animation are of one size)
+  if (OUT.length < 2 * ix.length + 16) OUT = new Uint8Array(2 * ix.length + 16);
+  const out = OUT;
   // the bit writer's state in plain locals, written out inline at each code (a closure over
   // them cost more than the coding itself)
   let o = 0, acc = 0, bits = 0, size = minSize + 1, next = end + 1;
@@ -59,7 +62,8 @@ export function lzw(ix: Uint8Array, minSize: number): Uint8Array {
 function changeBox(f: Uint8Array, prev: Uint8Array, width: number, height: number): [number, number, number, number] {
   let x0 = width, y0 = height, x1 = -1, y1 = -1;
   for (let y = 0, r = 0; y < height; y++, r += width) {
-    // the first and last change of the row, each searched from its own end
+    // the first and last change of the row, each searched from its own end (rows alike compared at once)
+    if (Buffer.compare(f.subarray(r, r + width), prev.subarray(r, r + width)) === 0) continue;
     let a = 0;
     while (a < width && f[r + a] === prev[r + a]) a++;
     if (a === width) continue;
@@ -71,9 +75,16 @@ function changeBox(f: Uint8Array, prev: Uint8Array, width: number, height: numbe
   return x1 < 0 ? [0, 0, 0, 0] : [x0, y0, x1, y1];
 }
 
-/** The w × h box at (x0, y0) of a frame's indices; with the frame before, its unchanged pixels as T (plain locals: this loop runs over every page's box). */
+let BOX = new Uint8Array(0);
+
+/**
+ * The w × h box at (x0, y0) of a frame's indices; with the frame before, its unchanged pixels as
+ * T (plain locals: this loop runs over every page's box). In a buffer kept from call to call,
+ * valid until the next.
+ */
 function boxOf(f: Uint8Array, prev: Uint8Array | null, width: number, x0: number, y0: number, w: number, h: number, T: number): Uint8Array {
-  const sub = new Uint8Array(w * h);
+  if (BOX.length < w * h) BOX = new Uint8Array(w * h);
+  const sub = BOX.subarray(0, w * h);
   for (let y = 0, o = 0; y < h; y++) {
     const i0 = (y + y0) * width + x0;
     if (prev === null) { sub.set(f.subarray(i0, i0 + w), o); o += w; continue; }
