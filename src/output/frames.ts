@@ -296,15 +296,14 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
   const here = new FrameRaster();
   let pixels = Infinity; // of all PNG frames together
   if (c.output.frames.includes('png')) {
-    // one palette for every frame, quantised once from the last frame; with GIF pages, from the
-    // last page: its text and shared layers are then rendered once for the pages and the palette,
-    // and the quantiser has a third of the pixels to read (measured on the demo: a mean colour
-    // error of 0.53 against 0.45 of 255 over the frames)
-    const last = plan.steps[plan.steps.length - 1]!, w = c.output.animation === 'gif' ? Math.min(ANIMATION_WIDTH, c.output.pngWidth) : c.output.pngWidth;
-    const pic = framePicture(c, stepsRead.get(plan)?.get(last) ?? readStep(dir, last), readCurveRows(dir), plan, w);
+    // one palette for every frame, quantised once from the last frame at the frames' size (from
+    // the last GIF page, a third of the pixels, it saved about 30 ms but lacked blends of the mesh
+    // lines over dark cells that earlier frames need: they came out grey)
+    const last = plan.steps[plan.steps.length - 1]!;
+    const pic = framePicture(c, stepsRead.get(plan)?.get(last) ?? readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth);
     const q = await here.palette(pic, sharedLayersKey(pic));
     plan.palette = Array.from(q.palette);
-    pixels = q.width * q.height * (c.output.pngWidth / w) ** 2 * plan.steps.length;
+    pixels = q.width * q.height * plan.steps.length;
   }
   if (opt.prune) for (const k of storedSteps(framesDir)) if (!chosen.has(k)) removeFile(join(framesDir, `${stepName(k)}.bin`));
   const compiled = import.meta.url.endsWith('.js');

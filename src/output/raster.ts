@@ -128,7 +128,7 @@ export class Canvas {
 
   /** Add a segment of width w (px) with round ends to the stroke being built. */
   segment(xa: number, ya: number, xb: number, yb: number, w: number): void {
-    const h = w / 2 + 0.5, h2 = h * h, top = Math.min(1, w);
+    const h = w / 2 + 0.5, h2 = h * h, top = Math.min(1, w), in2 = h > top ? (h - top) * (h - top) : -1; // within √in2: fully covered
     this.clip(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
     const { c0, r0, c1, r1 } = this, dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width, touched = this.touched;
     const inv = L2 > 0 ? 1 / L2 : 0;
@@ -150,7 +150,7 @@ export class Canvas {
         t = t < 0 ? 0 : t > 1 ? 1 : t;
         const ex = px - t * dx, ey = py - t * dy, d2 = ex * ex + ey * ey;
         if (d2 >= h2) continue; // not covered: no root to take
-        const v = Math.min(top, h - Math.sqrt(d2)), i = r * W + c, was = cov[i];
+        const v = d2 <= in2 ? top : Math.min(top, h - Math.sqrt(d2)), i = r * W + c, was = cov[i];
         if (v > was) { if (was === 0) touched[nt++] = i; cov[i] = v; }
       }
     }
@@ -206,12 +206,15 @@ export class Canvas {
     const cov = this.cov, p = this.px, m = this.mix, touched = this.touched, nt = this.nt;
     this.nt = 0;
     if (m) {
-      const ix = this.ix, t = m.table(c), f = 255 * opacity;
+      // the coverage straight to its level (see PaletteMix.mix), the table looked up here
+      const ix = this.ix, t = m.table(c), f = MIX_LEVELS * opacity;
       for (let j = 0; j < nt; j++) {
         const i = touched[j], v = cov[i];
         cov[i] = 0;
-        const a = Math.round(f * (v > 1 ? 1 : v));
-        if (a > 0) ix[i] = m.mix(t, ix[i], c, a);
+        const l = (f * (v > 1 ? 1 : v) + 0.5) | 0;
+        if (l === 0) continue;
+        const d = ix[i], e = t[(d << 6) | l];
+        ix[i] = e >= 0 ? e : m.mixLevel(t, d, c, l);
       }
       return;
     }
@@ -302,7 +305,12 @@ export class PaletteMix {
    * blend is searched once a run rather than once for each of 256 coverages.
    */
   mix(t: Int16Array, d: number, c: Rgb, a: number): number {
-    const l = (a * MIX_LEVELS + 127) / 255 | 0, k = (d << 6) | l;
+    return this.mixLevel(t, d, c, (a * MIX_LEVELS + 127) / 255 | 0);
+  }
+
+  /** Entry d overlaid by colour c at coverage level l (0..MIX_LEVELS), through c's table t. */
+  mixLevel(t: Int16Array, d: number, c: Rgb, l: number): number {
+    const k = (d << 6) | l;
     let v = t[k];
     if (v < 0) {
       const P = this.palette, q = 3 * d, w = Math.round((255 * l) / MIX_LEVELS), b = 255 - w;
