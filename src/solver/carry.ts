@@ -38,6 +38,8 @@ export function carryBulk(last: BulkRecord, mesh: PolyMesh, vertexId: Int32Array
   for (let i = 0; i < oldOf.length; i++) if (oldOf[i] > maxId) maxId = oldOf[i];
   for (let i = 0; i < nv; i++) if (vertexId[i] > maxId) maxId = vertexId[i];
   const oldCompact = compactOfStable(oldOf, maxId + 1), newCompact = compactOfStable(vertexId, maxId + 1);
+  const toNew = new Int32Array(oldOf.length);
+  for (let i = 0; i < oldOf.length; i++) toNew[i] = newCompact[oldOf[i]];
 
   // the blocks (cells, then pairs) around each dirty vertex, in block order
   const aroundPtr = new Int32Array(nv + 1);
@@ -79,7 +81,7 @@ export function carryBulk(last: BulkRecord, mesh: PolyMesh, vertexId: Int32Array
       for (let c = 0; c < 2; c++) {
         const w0 = rowPtr[2 * v + c], oq = old.rowPtr[o + c], len = old.rowPtr[o + c + 1] - oq;
         for (let q = 0; q < len; q++) {
-          const oc = old.colIdx[oq + q], nw = newCompact[oldOf[oc >> 1]];
+          const oc = old.colIdx[oq + q], nw = toNew[oc >> 1];
           if (nw < 0) throw new RangeError(`a neighbour of vertex ${vertexId[v]} is gone although the vertex is not dirty`);
           const col = 2 * nw + (oc & 1), val = old.values[oq + q];
           let t = w0 + q;

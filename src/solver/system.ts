@@ -421,7 +421,7 @@ function faceIds(pairs: PairGeom, vertexId: Int32Array): Int32Array {
   return f;
 }
 
-/** Counters of the last carried assembly (rows assembled afresh, rows in all), for the benchmark's notes. */
+/** Rows assembled afresh and rows in all, summed over the carried assemblies of this process (tests read them). */
 export const carryStats = { fresh: 0, rows: 0 };
 
 /**
