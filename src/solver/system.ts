@@ -122,7 +122,7 @@ export class System {
           }
           elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
           K = Ke.slice(0, m * m);
-          kept!.set(key, { ...cellIdentity(mesh, reuse.vertexId, s, e), Ke: K });
+          kept!.set(key, cachedCell(mesh, reuse.vertexId, s, e, K));
         } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
         for (let k = 0; k < m * m; k++) vals[map[o + k]] += K[k];
       }
@@ -414,6 +414,12 @@ export function sameCell(hit: CellIdentity, mesh: PolyMesh, vertexId: Int32Array
   return true;
 }
 
+/** A cache entry as one object literal (one shape for all entries, which the identity checks read often). */
+function cachedCell(mesh: PolyMesh, vertexId: Int32Array, s: number, e: number, Ke: Float64Array): CellIdentity & { Ke: Float64Array } {
+  const { verts, xy } = cellIdentity(mesh, vertexId, s, e);
+  return { verts, xy, Ke };
+}
+
 /** Stable ids of the face-pair vertices. */
 function faceIds(pairs: PairGeom, vertexId: Int32Array): Int32Array {
   const f = new Int32Array(2 * pairs.plus.length);
@@ -448,7 +454,7 @@ function carryFrom(reuse: ElementReuse, mesh: PolyMesh, D: Float64Array, t: numb
     if (hit && sameCell(hit, mesh, vid, s, e)) { Kc[c] = hit.Ke; continue; }
     elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
     Kc[c] = Ke.slice(0, m * m);
-    fresh.set(key, { ...cellIdentity(mesh, vid, s, e), Ke: Kc[c] });
+    fresh.set(key, cachedCell(mesh, vid, s, e, Kc[c]));
     for (let k = s; k < e; k++) dirty[mesh.cellVerts[k]] = 1;
   }
   // vertices of cells gone (or changed) since the last topology, and the faces of both
