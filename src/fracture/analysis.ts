@@ -17,7 +17,7 @@ import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { buildDomain, type Domain } from '../geometry/domain.js';
-import { strengthOf } from '../study/field.js';
+import { strengthOf } from '../cohesive/strength.js';
 import { softeningJump, overshootLimit } from './criterion.js';
 import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';

@@ -208,3 +208,20 @@ export function faceKink(path: readonly number[], twins: readonly number[], beta
   const c = Math.cos(th), s = Math.sin(th);
   return [c * t.dx - s * t.dy, s * t.dx + c * t.dy];
 }
+
+/**
+ * The growth direction steered toward weaker material: among directions within ±maxTurn of
+ * the one the stress asks for (g), the one with the largest σθθ(δ)/ft ahead, where σθθ(δ) is
+ * taken in the mode-I angular form cos³(δ/2) of the maximum tangential stress criterion
+ * (Erdogan & Sih 1963) and ft is read half a growth step ahead.
+ */
+export function weakestDirection(ftAt: (x: number, y: number) => number, x: number, y: number, gx: number, gy: number, reach: number, maxTurn: number): [number, number] {
+  const a0 = Math.atan2(gy, gx);
+  let best = -Infinity, bx = gx, by = gy;
+  for (let k = -6; k <= 6; k++) {
+    const d = (k / 6) * maxTurn, a = a0 + d, cx = Math.cos(a), cy = Math.sin(a);
+    const score = Math.cos(d / 2) ** 3 / ftAt(x + 0.5 * reach * cx, y + 0.5 * reach * cy);
+    if (score > best) { best = score; bx = cx; by = cy; }
+  }
+  return [bx, by];
+}
