@@ -5,7 +5,7 @@
 // decomposition of the covariance matrix", Mathematical Geology 19, 1987), then read anywhere
 // by bilinear interpolation. ft = mean·(1 + CoV·Y) (normal) or exp(μ + s·Y) (lognormal, with
 // the mean and CoV asked). Seeded: the same seed gives the same field. Growth reads it at the
-// tips.
+// tips; each cohesive face pair softens with the ft read at its place (Equations.pairCoh).
 import type { CaseModel } from '../case/model.js';
 import { prng, normalStream } from '../mesh/prng.js';
 

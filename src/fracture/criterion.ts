@@ -1,6 +1,7 @@
 // Crack-tip check: the major principal stress averaged over a disc around the tip,
 // weighted toward the material ahead of it, against the tensile strength.
 import type { PolyMesh } from '../mesh/polymesh.js';
+import type { SofteningLaw } from '../cohesive/laws.js';
 
 export interface TipStress { s1: number; sxx: number; syy: number; sxy: number; weight: number }
 
@@ -153,19 +154,28 @@ export function overshootLimit(insertAt: number): number { return Math.max(1.05,
 /**
  * Largest softening of any cohesive point between the committed (kap) and trial (kapTrial)
  * histories, as a fraction of ft; the step that takes a point over its peak counts ten
- * times, so the peak load is caught. l0 = ft/penalty is the end of the intact branch.
+ * times, so the peak load is caught. l0 = ft/penalty is the end of the intact branch. With
+ * `laws` (each pair's own, where the strength varies) a pair's drop counts against its own ft.
  */
-export function softeningJump(kap: Float64Array, kapTrial: Float64Array, ft: number, penalty: number, stress: (w: number) => number): number {
-  const l0 = ft / penalty;
-  const tau = (k: number) => (k <= l0 ? penalty * k : stress(k - l0));
+export function softeningJump(kap: Float64Array, kapTrial: Float64Array, ft: number, penalty: number, stress: (w: number) => number,
+  laws: readonly { law: SofteningLaw }[] | null = null): number {
   let worst = 0;
   for (let p = 0; p < kap.length; p++) {
     const k0 = kap[p], k1 = kapTrial[p];
-    if (k1 <= l0 || k1 <= k0) continue;
-    const drop = k0 <= l0 ? 10 * (ft - tau(k1)) : tau(k0) - tau(k1);
-    if (drop > worst) worst = drop;
+    if (k1 <= k0) continue;
+    const law = laws ? laws[p].law : null;
+    const d = law ? softeningDrop(k0, k1, law.ft, penalty, law.stress) / law.ft : softeningDrop(k0, k1, ft, penalty, stress);
+    if (d > worst) worst = d;
   }
-  return worst / ft;
+  return laws ? worst : worst / ft;
+}
+
+/** Fall of the traction (MPa) of a point whose history grows from k0 to k1 (ten times the fall below ft when it passes its peak). */
+function softeningDrop(k0: number, k1: number, ft: number, penalty: number, stress: (w: number) => number): number {
+  const l0 = ft / penalty;
+  if (k1 <= l0) return 0;
+  // k1 > l0: on the softening branch
+  return k0 <= l0 ? 10 * (ft - stress(k1 - l0)) : stress(k0 - l0) - stress(k1 - l0);
 }
 
 /** Largest turn of a grown crack per growth step (rad). */
