@@ -2,7 +2,9 @@
 // supports, loads and this state's part of the inset on our own canvas (raster.ts); the text and
 // the parts every frame of a run shares (title, colour bar, keys, scale bar, inset axes and the
 // whole curve) rendered from SVG once and laid over each frame; the caption, the only text that
-// changes, rendered as a strip of its own. sharp only renders that text and encodes the PNG.
+// changes, from glyphs rendered once. With the run's palette (quantised by sharp from one frame
+// drawn in RGB), frames and the animation's pages are drawn as palette indices and written as
+// PNG rows and GIF pages without a look-up pass; sharp renders the text and quantises.
 
 import sharp from 'sharp';
 import { cellCount } from '../mesh/polymesh.js';
