@@ -140,8 +140,10 @@ export class Canvas {
       const py = r + 0.5 - ya;
       let cA = c0, cB = c1;
       if (band !== Infinity) {
-        const mid = xa + (py * dx) / dy - 0.5; // the column whose centre lies on the line
-        cA = Math.max(c0, Math.floor(mid - band)); cB = Math.min(c1, Math.ceil(mid + band) + 1);
+        // the column whose centre lies on the line; a column k away lies k·|dy|/L from it, so
+        // only those less than band away can be covered
+        const mid = xa + (py * dx) / dy - 0.5;
+        cA = Math.max(c0, Math.ceil(mid - band)); cB = Math.min(c1, Math.floor(mid + band) + 1);
       }
       // the pixel centre's offset from the start and its projection on the segment, stepped along the row
       let px = cA + 0.5 - xa, dot = px * dx + py * dy;
