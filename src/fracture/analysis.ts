@@ -41,6 +41,8 @@ export interface AnalysisOptions {
   checkpointEvery?: number;
   /** Newton on the bulk condensed onto the crack faces (default true); false iterates on all free unknowns (tests compare the two). */
   condense?: boolean;
+  /** A new topology copies the bulk rows its growth left alone (default true); false assembles every topology in full (tests compare the two). */
+  carryRows?: boolean;
 }
 
 export interface AnalysisResult {
@@ -139,6 +141,7 @@ export class Analysis {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
     this.eqReleased = (s.released ?? []).join(',');
+    if (this.opt.carryRows === false) this.elements.last = null;
     // with a strength field each face pair softens with the ft at its place
     const local = this.ftAt ? { coh: this.coh, ftAt: this.ftAt } : null;
     this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2(), s.mid, local);
