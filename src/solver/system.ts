@@ -2,7 +2,7 @@
 // iteration, supports eliminated, the load points driven by one load factor λ.
 // u_full = u_free (scattered) + λ·w on the load dofs + 0 on the supports.
 import type { PolyMesh } from '../mesh/polymesh.js';
-import { ElementWork, elementStiffness } from '../vem/element.js';
+import { ElementWork, elementStiffness, DEFAULT_STABILISATION, type Stabilisation } from '../vem/element.js';
 import {
   patternFromBlocks, assemblyMap, blockMapOffsets, matrixOnPattern, matVec, submatrix, submatrixInto,
   analyze, factorize, factorizeTrailing, fillReducingOrder, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
@@ -34,6 +34,8 @@ export interface DrivenDofs {
  */
 export class ElementCache<E extends CellIdentity = CellIdentity & { Ke: Float64Array }> {
   entries = new Map<number, E>();
+  /** The order-1 stabilisation its matrices are built with (vem/element.ts). */
+  constructor(readonly stabilisation: Stabilisation = DEFAULT_STABILISATION) {}
 }
 
 /** What a cached cell is known by: its vertices' stable ids and coordinates, in cell order. */
@@ -96,7 +98,7 @@ export class System {
     const map = assemblyMap(pattern, blockStart, blockDofs);
     const off = blockMapOffsets(blockStart);
     this.kBulk = matrixOnPattern(pattern);
-    const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn);
+    const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn), stab = reuse?.cache.stabilisation ?? DEFAULT_STABILISATION;
     const vals = this.kBulk.values;
     const kept = reuse ? new Map<number, CellIdentity & { Ke: Float64Array }>() : null;
     for (let c = 0; c < nc; c++) {
@@ -111,10 +113,10 @@ export class System {
           kept!.set(key, hit);
           continue;
         }
-        elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+        elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work, stab);
         K = Ke.slice(0, m * m);
         kept!.set(key, { ...cellIdentity(mesh, reuse.vertexId, s, e), Ke: K });
-      } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+      } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work, stab);
       for (let k = 0; k < m * m; k++) vals[map[o + k]] += K[k];
     }
     if (reuse) reuse.cache.entries = kept!;
