@@ -11,6 +11,7 @@ import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
+import type { Stabilisation } from '../vem/element.js';
 import { vertexBearings, contactUpdate2 } from '../solver/contact2.js';
 import { RunStopped } from '../errors.js';
 import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
@@ -41,6 +42,8 @@ export interface AnalysisOptions {
   checkpointEvery?: number;
   /** Newton on the bulk condensed onto the crack faces (default true); false iterates on all free unknowns (tests compare the two). */
   condense?: boolean;
+  /** Order-1 stabilisation (vem/element.ts; default the vertex form): measurements compare the two. */
+  stabilisation?: Stabilisation;
   /** A new topology copies the bulk rows its growth left alone (default true); false assembles every topology in full (tests compare the two). */
   carryRows?: boolean;
 }
@@ -79,7 +82,7 @@ export class Analysis {
   private eqReleased = '';
   private eq!: Equations;
   /** Element stiffnesses of the cells a growth left unchanged, reused by the next topology. */
-  private readonly elements = new ElementCache();
+  private readonly elements: ElementCache;
   /** The same for order 2 (condensed cells on the node mesh and their projections). */
   private readonly cells2: Cell2Cache = new ElementCache<Cell2>();
   /** The mesh or the cracks changed since the equations were built. */
@@ -101,6 +104,7 @@ export class Analysis {
 
   constructor(readonly c: CaseModel, initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
     this.wm = WorkMesh.fromPolyMesh(initial);
+    this.elements = new ElementCache(opt.stabilisation);
     for (let v = 0; v < this.wm.vertexCount; v++) this.wm.pinned[v] = 1;
     this.D = elasticMatrix(c.material.E, c.material.nu, c.model);
     this.ftAt = strengthOf(c);

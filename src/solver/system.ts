@@ -2,7 +2,7 @@
 // iteration, supports eliminated, the load points driven by one load factor λ.
 // u_full = u_free (scattered) + λ·w on the load dofs + 0 on the supports.
 import type { PolyMesh } from '../mesh/polymesh.js';
-import { ElementWork, elementStiffness } from '../vem/element.js';
+import { ElementWork, elementStiffness, DEFAULT_STABILISATION, type Stabilisation } from '../vem/element.js';
 import {
   patternFromBlocks, assemblyMap, findEntry, blockMapOffsets, matrixOnPattern, matVec, submatrix, submatrixInto,
   analyze, factorize, factorizeTrailing, fillReducingOrder, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
@@ -37,6 +37,8 @@ export class ElementCache<E extends CellIdentity = CellIdentity & { Ke: Float64A
   entries = new Map<number, E>();
   /** The bulk matrix of the last System built on these entries (order 1), and its face vertices (stable ids). */
   last: (BulkRecord & { faces: Int32Array }) | null = null;
+  /** The order-1 stabilisation its matrices are built with (vem/element.ts). */
+  constructor(readonly stabilisation: Stabilisation = DEFAULT_STABILISATION) {}
 }
 
 /** What a cached cell is known by: its vertices' stable ids and coordinates, in cell order. */
@@ -107,7 +109,7 @@ export class System {
       const map = assemblyMap(pattern, blockStart, blockDofs);
       const off = blockMapOffsets(blockStart);
       this.kBulk = matrixOnPattern(pattern);
-      const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn);
+      const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn), stab = reuse?.cache.stabilisation ?? DEFAULT_STABILISATION;
       const vals = this.kBulk.values;
       const kept = reuse ? new Map<number, CellIdentity & { Ke: Float64Array }>() : null;
       for (let c = 0; c < nc; c++) {
@@ -122,10 +124,10 @@ export class System {
             kept!.set(key, hit);
             continue;
           }
-          elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+          elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work, stab);
           K = Ke.slice(0, m * m);
           kept!.set(key, cachedCell(mesh, reuse.vertexId, s, e, K));
-        } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+        } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work, stab);
         for (let k = 0; k < m * m; k++) vals[map[o + k]] += K[k];
       }
       if (reuse) reuse.cache.entries = kept!;
@@ -448,13 +450,13 @@ function carryFrom(reuse: ElementReuse, mesh: PolyMesh, D: Float64Array, t: numb
   const gone = (e: CellIdentity) => { for (let k = 0; k < e.verts.length; k++) { const v = at(e.verts[k]); if (v >= 0) dirty[v] = 1; } };
   // the cache is updated in place (a new map per topology costs more than the few changes)
   const fresh = new Map<number, CellIdentity & { Ke: Float64Array }>(), present = new Uint8Array(maxKey + 1);
-  const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn);
+  const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn), stab = reuse?.cache.stabilisation ?? DEFAULT_STABILISATION;
   for (let c = 0; c < nc; c++) {
     const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
     const key = reuse.cellKey[c], hit = old.get(key);
     present[key] = 1;
     if (hit && sameCell(hit, mesh, vid, s, e)) { Kc[c] = hit.Ke; continue; }
-    elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
+    elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work, stab);
     Kc[c] = Ke.slice(0, m * m);
     fresh.set(key, cachedCell(mesh, vid, s, e, Kc[c]));
     for (let k = s; k < e; k++) dirty[mesh.cellVerts[k]] = 1;
