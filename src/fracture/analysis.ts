@@ -538,7 +538,6 @@ export class Analysis {
         this.attempts.tried++;
         const step = this.advance(at, target);
         if (step === null) this.attempts.cut++;
-        if (process.env.RUPTA_STEPTRACE) console.error(`trace ${at.step} ${target} ${at.frac} ${step === null ? 'cut' : 'ok'} it=${this.measure.iterations} soft=${this.measure.softening.toFixed(4)}`);
         if (step === null) continue;
         if ('end' in step) { reason = step.end; break; }
         const ev = this.converged(at, step.kind, step.target, start);
