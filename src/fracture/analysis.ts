@@ -17,7 +17,7 @@ import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { buildDomain, type Domain } from '../geometry/domain.js';
-import { strengthOf } from '../study/field.js';
+import { strengthOf } from '../cohesive/strength.js';
 import { softeningJump, overshootLimit } from './criterion.js';
 import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
@@ -145,7 +145,9 @@ export class Analysis {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
     this.eqReleased = (s.released ?? []).join(',');
-    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2(), s.mid);
+    // with a strength field each face pair softens with the ft at its place
+    const local = this.ftAt ? { coh: this.coh, ftAt: this.ftAt } : null;
+    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2(), s.mid, local);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
@@ -255,7 +257,7 @@ export class Analysis {
   /** Largest softening of any cohesive point in the trial state, as a fraction of ft. */
   private softening(): number {
     const law = this.coh.law;
-    return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w));
+    return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w), this.eq.pairCoh);
   }
 
   private stepMode(): StepMode { return this.opt.steps ?? this.c.control.steps ?? 'fixed'; }

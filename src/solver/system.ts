@@ -68,6 +68,8 @@ export class System {
   private readonly pairOff: Int32Array;
   private readonly nCellBlocks: number;
   private readonly tr = new Float64Array(6);
+  /** Each pair's own interface where the strength varies over the specimen (set by the caller); null: the one passed in. */
+  pairCoh: readonly CohesiveParams[] | null = null;
   /** The 2×2 tangent of the last pairResponse. */
   readonly m4 = new Float64Array(4);
   readonly zLoad: Float64Array;
@@ -258,7 +260,7 @@ export class System {
     const nx = P.nx[p], ny = P.ny[p], A = P.area[p];
     // local frame: n and t = (ny, −nx)
     const w = dx * nx + dy * ny, s = dx * ny - dy * nx;
-    kappaTrial[p] = cohesivePoint(coh, w, s, kappa[p], tr);
+    kappaTrial[p] = cohesivePoint(this.pairCoh ? this.pairCoh[p] : coh, w, s, kappa[p], tr);
     const fx = A * (tr[0] * nx + tr[1] * ny);
     this.pairFy = A * (tr[0] * ny - tr[1] * nx);
     if (!wantTangent) return fx;
