@@ -56,6 +56,18 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
       expect(worstGap(res)).toBeLessThan(0.025);
     }, 120_000);
   }
+
+  it('with the boundary stabilisation, under which a cell keeps its stiffness when a neighbour\'s refinement adds a vertex to its edge, the balance (definition of GF) closes within 1 % (crack.start: notch-tips)', async () => {
+    // measured 0.40 % (1.50 % with the vertex form above): the rim's refinement no longer
+    // stiffens or softens the cells next to it (DEVELOPERS.md, known gaps)
+    const c = coarseBeam({ target: 0.6, increments: 60, hole: HOLE, start: 'notch-tips' });
+    const a = new Analysis(c, meshCase(c).mesh, { stabilisation: 'boundary' });
+    const res = await a.run(() => {});
+    expect(res.status, res.reason).toBe('complete');
+    expect(a.tips.some((t) => !t.active && t.end === 'hole')).toBe(true);
+    expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(curvePeaks(res.rows).peak.load_N));
+    expect(worstGap(res)).toBeLessThan(0.01);
+  }, 120_000);
 });
 
 /** Distance from a point to a polyline. */

@@ -11,6 +11,7 @@ import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
+import type { Stabilisation } from '../vem/element.js';
 import { vertexBearings, contactUpdate2 } from '../solver/contact2.js';
 import { RunStopped } from '../errors.js';
 import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
@@ -43,6 +44,10 @@ export interface AnalysisOptions {
   condense?: boolean;
   /** Step lengths, over the case's `control.steps`: 'fixed' on the case's increments, 'adaptive' from Newton's iterations, the softening, the tips' readiness and the curve near a peak (tests and benchmarks compare the two). */
   steps?: StepMode;
+  /** Order-1 stabilisation (vem/element.ts; default the vertex form): measurements compare the two. */
+  stabilisation?: Stabilisation;
+  /** A new topology copies the bulk rows its growth left alone (default true); false assembles every topology in full (tests compare the two). */
+  carryRows?: boolean;
 }
 
 export interface AnalysisResult {
@@ -79,7 +84,7 @@ export class Analysis {
   private eqReleased = '';
   private eq!: Equations;
   /** Element stiffnesses of the cells a growth left unchanged, reused by the next topology. */
-  private readonly elements = new ElementCache();
+  private readonly elements: ElementCache;
   /** The same for order 2 (condensed cells on the node mesh and their projections). */
   private readonly cells2: Cell2Cache = new ElementCache<Cell2>();
   /** The mesh or the cracks changed since the equations were built. */
@@ -105,6 +110,7 @@ export class Analysis {
 
   constructor(readonly c: CaseModel, initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
     this.wm = WorkMesh.fromPolyMesh(initial);
+    this.elements = new ElementCache(opt.stabilisation);
     for (let v = 0; v < this.wm.vertexCount; v++) this.wm.pinned[v] = 1;
     this.D = elasticMatrix(c.material.E, c.material.nu, c.model);
     this.ftAt = strengthOf(c);
@@ -145,6 +151,7 @@ export class Analysis {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
     this.eqReleased = (s.released ?? []).join(',');
+    if (this.opt.carryRows === false) this.elements.last = null;
     // with a strength field each face pair softens with the ft at its place
     const local = this.ftAt ? { coh: this.coh, ftAt: this.ftAt } : null;
     this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2(), s.mid, local);
