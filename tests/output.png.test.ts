@@ -6,8 +6,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { polyMeshFrom } from '../src/mesh/polymesh.js';
 import { fieldSvg } from '../src/output/field.js';
 import { plotSvg } from '../src/output/plot.js';
-import { framesToAnimation, pickFrames, pngPalette, svgToPng, svgWidth } from '../src/output/png.js';
-import { indexedPng, paletteLut } from '../src/output/raster.js';
+import { framesToAnimation, pickFrames, pngColours, pngPalette, svgToPng, svgWidth } from '../src/output/png.js';
+import { coloursOf, indexedPng, paletteLut } from '../src/output/raster.js';
 import { deflateSync } from 'node:zlib';
 
 const dir = mkdtempSync(join(tmpdir(), 'rupta-png-'));
@@ -80,6 +80,22 @@ describe('pngPalette', () => {
     const withAlpha = await sharp(Buffer.from(px), { raw: { width: 2, height: 2, channels: 3 } }).ensureAlpha(0.5).png({ palette: true }).toBuffer();
     expect(pngPalette(withAlpha)).toBeNull(); // a tRNS chunk: colours alone would lose the transparency
     expect(pngPalette(Uint8Array.from([1, 2, 3]))).toBeNull();
+  });
+});
+
+describe('pngColours', () => {
+  it('gives the colours of an indexed PNG in the order its decoded pixels show them, filtered rows or not, and nothing from other PNGs', async () => {
+    const svg = fieldSvg({ mesh, values: Float64Array.from([0.2, 0.9]), valueLabel: 'σ₁ / ft', title: 'Two cells', widthPx: 400 });
+    const { data, info } = await sharp(Buffer.from(svg)).removeAlpha().raw().toBuffer({ resolveWithObject: true });
+    for (const compressionLevel of [0, 9]) {
+      // level 9 lets the encoder pick row filters, level 0 stores the rows as they are
+      const q = await sharp(data, { raw: info }).png({ palette: true, colours: 128, effort: 1, dither: 0, compressionLevel }).toBuffer();
+      const decoded = coloursOf(await sharp(q).removeAlpha().raw().toBuffer());
+      expect(decoded.length).toBeGreaterThan(3 * 4);
+      expect(Array.from(pngColours(q)!)).toEqual(Array.from(decoded));
+      expect(Array.from(pngColours(q, 3)!)).toEqual(Array.from(coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 3)));
+    }
+    expect(pngColours(await sharp(data, { raw: info }).png().toBuffer())).toBeNull();
   });
 });
 

@@ -15,6 +15,7 @@ import {
 } from './field.js';
 import { insetGeometry, INSET_STYLE } from './inset.js';
 import { constants as zlibConstants, deflateSync } from 'node:zlib';
+import { pngColours } from './png.js';
 import { Canvas, coloursOf, overlayOf, PaletteMix, pngOfIndices, rgb, type Overlay, type Rgb } from './raster.js';
 import { GlyphText } from './glyphs.js';
 
@@ -179,9 +180,9 @@ export class FrameRaster {
    */
   async palette(p: FieldPicture, sharedKey?: string): Promise<{ palette: Uint8Array; width: number; height: number }> {
     const { data, width, height } = await this.pixels(p, sharedKey);
-    // stored, not deflated: it is only decoded again here (the same colours, a third less time)
+    // stored, not deflated: only its indices are read again here, and counted rather than decoded to colours
     const q = await sharp(data, { raw: { width, height, channels: 3 } }).png({ ...FRAME_PNG, compressionLevel: 0 }).toBuffer();
-    return { palette: coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 255), width, height };
+    return { palette: pngColours(q, 255) ?? coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 255), width, height };
   }
 
   private mix: PaletteMix | null = null;

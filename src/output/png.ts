@@ -1,6 +1,7 @@
 // Raster output through sharp: SVG to PNG, and PNG frames to an animation.
 
 import { readFileSync } from 'node:fs';
+import { inflateSync } from 'node:zlib';
 import sharp, { type Sharp } from 'sharp';
 import { writeFileAtomic } from './files.js';
 import { coloursOf, paletteLut, toPalette } from './raster.js';
@@ -115,6 +116,57 @@ export function pngPalette(png: Uint8Array): Uint8Array | null {
     o += 12 + n;
   }
   return plte;
+}
+
+/**
+ * The colours of an indexed PNG (8 bits, not interlaced, no transparency) in the order its pixels
+ * first show them, as coloursOf gives for the decoded picture (at most max: the rarest left out),
+ * counted on the indices themselves; null for any other PNG.
+ */
+export function pngColours(png: Uint8Array, max = Infinity): Uint8Array | null {
+  const b = Buffer.from(png.buffer, png.byteOffset, png.byteLength), plte = pngPalette(png);
+  if (!plte || b[24] !== 8 || b[28] !== 0) return null; // bit depth 8, no interlace
+  const width = b.readUInt32BE(16), height = b.readUInt32BE(20), idat: Buffer[] = [];
+  for (let o = 8; o + 12 <= b.length;) {
+    const n = b.readUInt32BE(o), type = b.toString('latin1', o + 4, o + 8);
+    if (type === 'IDAT') idat.push(b.subarray(o + 8, o + 8 + n));
+    else if (type === 'IEND') break;
+    o += 12 + n;
+  }
+  const rows = inflateSync(Buffer.concat(idat)), m = width + 1, np = plte.length / 3;
+  if (rows.length < m * height) return null;
+  // undo the rows' filters (PNG specification, one byte a pixel), counting each index in pixel order
+  const count = new Float64Array(256), order: number[] = [];
+  for (let r = 0; r < height; r++) {
+    const f = rows[r * m], o = r * m + 1, up = o - m;
+    for (let c = 0; c < width; c++) {
+      const left = c > 0 ? rows[o + c - 1] : 0, above = r > 0 ? rows[up + c] : 0, corner = r > 0 && c > 0 ? rows[up + c - 1] : 0;
+      let v = rows[o + c];
+      if (f === 1) v += left;
+      else if (f === 2) v += above;
+      else if (f === 3) v += (left + above) >> 1;
+      else if (f === 4) {
+        const p = left + above - corner, pa = Math.abs(p - left), pb = Math.abs(p - above), pc = Math.abs(p - corner);
+        v += pa <= pb && pa <= pc ? left : pb <= pc ? above : corner;
+      }
+      v &= 255;
+      rows[o + c] = v;
+      if (v >= np) return null;
+      if (count[v]++ === 0) order.push(v);
+    }
+  }
+  // entries of one colour count as one, first shown where the first of them is
+  const key = (q: number): number => (plte[3 * q] << 16) | (plte[3 * q + 1] << 8) | plte[3 * q + 2];
+  const byKey = new Map<number, number>();
+  for (const q of order) byKey.set(key(q), (byKey.get(key(q)) ?? 0) + count[q]);
+  let keys = [...byKey.keys()];
+  if (keys.length > max) {
+    const keep = new Set([...keys].sort((a, c) => byKey.get(c)! - byKey.get(a)! || a - c).slice(0, max));
+    keys = keys.filter((k) => keep.has(k));
+  }
+  const out = new Uint8Array(3 * keys.length);
+  keys.forEach((k, i) => { out[3 * i] = k >> 16; out[3 * i + 1] = (k >> 8) & 255; out[3 * i + 2] = k & 255; });
+  return out;
 }
 
 /** A PNG data URI whose text never contains "http", so a page can be checked for outside addresses by a plain search. */
