@@ -129,8 +129,10 @@ export class Canvas {
   /** Add a segment of width w (px) with round ends to the stroke being built. */
   segment(xa: number, ya: number, xb: number, yb: number, w: number): void {
     const h = w / 2 + 0.5, h2 = h * h, top = Math.min(1, w), in2 = h > top ? (h - top) * (h - top) : -1; // within √in2: fully covered
-    this.clip(Math.min(xa, xb) - h, Math.min(ya, yb) - h, Math.max(xa, xb) + h, Math.max(ya, yb) + h);
-    const { c0, r0, c1, r1 } = this, dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width, touched = this.touched;
+    // only pixels whose centres lie less than h beyond the segment's box can be covered
+    const c0 = Math.max(0, Math.floor(Math.min(xa, xb) - h - 0.5) + 1), c1 = Math.min(this.width, Math.ceil(Math.max(xa, xb) + h - 0.5));
+    const r0 = Math.max(0, Math.floor(Math.min(ya, yb) - h - 0.5) + 1), r1 = Math.min(this.height, Math.ceil(Math.max(ya, yb) + h - 0.5));
+    const dx = xb - xa, dy = yb - ya, L2 = dx * dx + dy * dy, cov = this.cov, W = this.width, touched = this.touched;
     const inv = L2 > 0 ? 1 / L2 : 0;
     let nt = this.nt;
     // on each row, only the columns within h of the segment's line (a pixel farther away is not
