@@ -7,6 +7,8 @@
 // the blended colour, found once for each (entry under it, colour, opacity) and kept, so a frame
 // needs no look-up pass and its PNG rows are the canvas itself.
 
+import * as zlib from 'node:zlib';
+
 export type Rgb = readonly [number, number, number];
 
 /** #rrggbb → [r, g, b]. */
@@ -356,11 +358,13 @@ const CRC_TABLE = (() => {
   for (let n = 0; n < 256; n++) { let c = n; for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1; t[n] = c; }
   return t;
 })();
-function crc32(b: Uint8Array): number {
+function crc32js(b: Uint8Array): number {
   let c = -1;
   for (let i = 0; i < b.length; i++) c = CRC_TABLE[(c ^ b[i]) & 255] ^ (c >>> 8);
   return (c ^ -1) >>> 0;
 }
+// zlib's own (the same CRC) where this Node has it, from 20.15 on: a frame's IDAT in a tenth of the time
+const crc32: (b: Uint8Array) => number = (zlib as { crc32?: (b: Uint8Array) => number }).crc32 ?? crc32js;
 function chunk(type: string, data: Uint8Array): Buffer {
   const out = Buffer.alloc(12 + data.length);
   out.writeUInt32BE(data.length, 0);
