@@ -4,7 +4,6 @@
 // no load). Energy balance at every step: external work = elastic energy + dissipated energy
 // (definition of GF).
 import { describe, expect, it } from 'vitest';
-import { readFileSync } from 'node:fs';
 import { parseCase } from '../src/case/index.js';
 import type { CaseModel } from '../src/case/model.js';
 import { Analysis, type AnalysisResult } from '../src/fracture/analysis.js';
@@ -13,6 +12,7 @@ import { meshCase } from '../src/run.js';
 import { renderTemplate } from '../src/templates/index.js';
 import { curvePeaks, runWarnings } from '../src/output/warnings.js';
 import { coarseBeam } from './support/beam.js';
+import { coarseDen, expectJoinedApart } from './support/den.js';
 
 async function run(c: CaseModel): Promise<{ a: Analysis; res: AnalysisResult }> {
   const a = new Analysis(c, meshCase(c).mesh);
@@ -56,19 +56,19 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
       expect(worstGap(res)).toBeLessThan(0.025);
     }, 120_000);
   }
-});
 
-/** The double-edge-notched panel example on a coarse mesh (notches moved by `offset` mm: the left one down, the right one up). */
-function coarseDen(offset: number): CaseModel {
-  const text = readFileSync(new URL('../cases/den-tension-example.yaml', import.meta.url), 'utf8')
-    .replace(/^mesh:.*$/m, 'mesh: {size: 20, tipSize: 7, refineRadius: 25, seed: 1, lloyd: 6}')
-    .replace(/growthStep: \d+/, 'growthStep: 14').replace(/averagingRadius: \d+/, 'averagingRadius: 21')
-    .replace(/increments: 100/, 'increments: 40').replace(/^output:.*$/m, 'output: {frames: [], animation: none}')
-    .replace('from: [0, 100], to: [25, 100]', `from: [0, ${100 - offset}], to: [25, ${100 - offset}]`)
-    .replace('from: [200, 100], to: [175, 100]', `from: [200, ${100 + offset}], to: [175, ${100 + offset}]`)
-    .replace('gauge: {from: [0, 96], to: [0, 104]}', `gauge: {from: [0, ${96 - offset}], to: [0, ${104 - offset}]}`);
-  return parseCase(text, 'den.yaml');
-}
+  it('with the boundary stabilisation, under which a cell keeps its stiffness when a neighbour\'s refinement adds a vertex to its edge, the balance (definition of GF) closes within 1 % (crack.start: notch-tips)', async () => {
+    // measured 0.40 % (1.50 % with the vertex form above): the rim's refinement no longer
+    // stiffens or softens the cells next to it (DEVELOPERS.md, known gaps)
+    const c = coarseBeam({ target: 0.6, increments: 60, hole: HOLE, start: 'notch-tips' });
+    const a = new Analysis(c, meshCase(c).mesh, { stabilisation: 'boundary' });
+    const res = await a.run(() => {});
+    expect(res.status, res.reason).toBe('complete');
+    expect(a.tips.some((t) => !t.active && t.end === 'hole')).toBe(true);
+    expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(curvePeaks(res.rows).peak.load_N));
+    expect(worstGap(res)).toBeLessThan(0.01);
+  }, 120_000);
+});
 
 /** Distance from a point to a polyline. */
 function toPath(p: [number, number], path: [number, number][]): number {
@@ -125,20 +125,10 @@ describe('two cracks that meet', () => {
   }, 120_000);
 
   it('double-edge-notched tension: the cracks from both notches join and the panel comes apart', async () => {
-    const text = readFileSync(new URL('../cases/den-tension-example.yaml', import.meta.url), 'utf8')
-      .replace(/^mesh:.*$/m, 'mesh: {size: 20, tipSize: 7, refineRadius: 25, seed: 1, lloyd: 6}')
-      .replace(/growthStep: \d+/, 'growthStep: 14').replace(/averagingRadius: \d+/, 'averagingRadius: 21')
-      .replace(/increments: 100/, 'increments: 40').replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
-    const c = parseCase(text, 'den.yaml');
+    const c = coarseDen(0);
     const { a, res } = await run(c);
-    expect(res.status, res.reason).toBe('complete');
     // both tips end on the other crack's faces
-    const grown = a.tips.filter((t) => t.crack >= 0);
-    expect(grown.length).toBe(2);
-    for (const t of grown) { expect(t.active).toBe(false); expect(t.end).toBe('crack'); }
-    const pk = curvePeaks(res.rows);
-    expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
-    expect(pk.later).toBeNull();
+    expectJoinedApart(a, res);
     // measured 0.05 %: checked at the 1 % the beam tests ask of a ligament meshed fine from the start
     expect(worstGap(res)).toBeLessThan(0.01);
   }, 120_000);

@@ -75,10 +75,15 @@ describe('condensation onto the crack faces', () => {
     const runs = [];
     for (const condense of [true, false]) {
       const a = new Analysis(c, meshCase(c).mesh, { condense });
-      runs.push({ res: await a.run(() => {}), condensed: a.condensedFaces, tips: a.tips.map((t) => t.end) });
+      // whether each step's topology ran condensed (null before its first cohesive solve)
+      const perStep: (boolean | null)[] = [];
+      const res = await a.run(() => { perStep.push(a.condensedFaces); });
+      runs.push({ res, condensed: a.condensedFaces, tips: a.tips.map((t) => t.end), perStep });
     }
     const [a, b] = runs;
     expect(a.tips).toContain('crack');
+    // every topology condenses, those after the cracks met included
+    expect(a.perStep).not.toContain(false);
     expectSameCurve(a, b);
   });
 

@@ -1,7 +1,7 @@
 // Seeded draws and the random strength field of a study.
 import { describe, expect, it } from 'vitest';
 import { drawFor, lnGamma, meanCov, sampler, weibullParameters } from '../src/study/samples.js';
-import { fieldAt, gaussianOnGrid, gridFactor, strengthGrid } from '../src/study/field.js';
+import { fieldAt, gaussianOnGrid, gridFactor, strengthGrid } from '../src/cohesive/strength.js';
 import { expandStudy } from '../src/study/expand.js';
 import { studyFromData } from '../src/study/spec.js';
 import { coarseCase } from './study.helpers.js';

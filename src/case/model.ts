@@ -64,7 +64,7 @@ export interface Material {
   strengthField?: StrengthFieldSettings;
 }
 
-/** A seeded Gaussian random field of ft with exponential covariance (src/study/field.ts). */
+/** A seeded Gaussian random field of ft with exponential covariance (src/cohesive/strength.ts). */
 export interface StrengthFieldSettings {
   distribution: 'normal' | 'lognormal';
   /** Coefficient of variation of ft (-). */

@@ -2,7 +2,7 @@
 // branch up to ft, then the softening law in the effective opening, with secant
 // unloading to the origin and a contact penalty against interpenetration.
 
-import type { SofteningLaw } from './laws.js';
+import { makeLaw, type SofteningLaw } from './laws.js';
 
 export interface CohesiveParams {
   law: SofteningLaw;
@@ -10,6 +10,15 @@ export interface CohesiveParams {
   penalty: number;
   /** β (shearWeight) in λ = √(⟨w⟩₊² + β s²). */
   beta: number;
+}
+
+/**
+ * The interface where the material's strength is ft: the same kind of law, penalty and shear
+ * weight, ft in place of the mean and GF kept, so the critical opening follows as the law
+ * defines it (w_c = 2, 3.6 or 5.14·GF/ft).
+ */
+export function atStrength(p: CohesiveParams, ft: number): CohesiveParams {
+  return { law: makeLaw(p.law.kind, ft, p.law.GF), penalty: p.penalty, beta: p.beta };
 }
 
 /**

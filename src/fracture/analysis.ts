@@ -11,13 +11,14 @@ import { elasticMatrix } from '../vem/material.js';
 import { solveStep, type StepState, type NewtonOptions, type ControlKind } from '../solver/newton.js';
 import { selectDriven, withTwins, rigVertices, releaseFrom, bearings, contactUpdate, type Bearing, type Driven } from '../solver/driven.js';
 import { ElementCache } from '../solver/system.js';
+import type { Stabilisation } from '../vem/element.js';
 import { vertexBearings, contactUpdate2 } from '../solver/contact2.js';
 import { RunStopped } from '../errors.js';
 import type { Cell2, Cell2Cache } from '../vem/dofs2.js';
 import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { buildDomain, type Domain } from '../geometry/domain.js';
-import { strengthOf } from '../study/field.js';
+import { strengthOf } from '../cohesive/strength.js';
 import { softeningJump, overshootLimit } from './criterion.js';
 import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
@@ -41,6 +42,10 @@ export interface AnalysisOptions {
   checkpointEvery?: number;
   /** Newton on the bulk condensed onto the crack faces (default true); false iterates on all free unknowns (tests compare the two). */
   condense?: boolean;
+  /** Order-1 stabilisation (vem/element.ts; default the vertex form): measurements compare the two. */
+  stabilisation?: Stabilisation;
+  /** A new topology copies the bulk rows its growth left alone (default true); false assembles every topology in full (tests compare the two). */
+  carryRows?: boolean;
 }
 
 export interface AnalysisResult {
@@ -77,7 +82,7 @@ export class Analysis {
   private eqReleased = '';
   private eq!: Equations;
   /** Element stiffnesses of the cells a growth left unchanged, reused by the next topology. */
-  private readonly elements = new ElementCache();
+  private readonly elements: ElementCache;
   /** The same for order 2 (condensed cells on the node mesh and their projections). */
   private readonly cells2: Cell2Cache = new ElementCache<Cell2>();
   /** The mesh or the cracks changed since the equations were built. */
@@ -99,6 +104,7 @@ export class Analysis {
 
   constructor(readonly c: CaseModel, initial: PolyMesh, private readonly opt: AnalysisOptions = {}) {
     this.wm = WorkMesh.fromPolyMesh(initial);
+    this.elements = new ElementCache(opt.stabilisation);
     for (let v = 0; v < this.wm.vertexCount; v++) this.wm.pinned[v] = 1;
     this.D = elasticMatrix(c.material.E, c.material.nu, c.model);
     this.ftAt = strengthOf(c);
@@ -139,7 +145,10 @@ export class Analysis {
     const s = this.s;
     s.uw = this.wm.extendField(s.uw, 2);
     this.eqReleased = (s.released ?? []).join(',');
-    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2(), s.mid);
+    if (this.opt.carryRows === false) this.elements.last = null;
+    // with a strength field each face pair softens with the ft at its place
+    const local = this.ftAt ? { coh: this.coh, ftAt: this.ftAt } : null;
+    this.eq = new Equations(this.wm, s.cracks, this.rigNow(), this.D, this.c.thickness, s.kappa, s.uw, this.opt.maxDofs, this.elements, this.order2(), s.mid, local);
     const nd = this.eq.dofs;
     if (s.dofs.initial === 0) s.dofs.initial = nd;
     s.dofs.max = Math.max(s.dofs.max, nd);
@@ -249,7 +258,7 @@ export class Analysis {
   /** Largest softening of any cohesive point in the trial state, as a fraction of ft. */
   private softening(): number {
     const law = this.coh.law;
-    return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w));
+    return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w), this.eq.pairCoh);
   }
 
   /** Undo a step attempt: the solution as saved, the trial histories as committed. */

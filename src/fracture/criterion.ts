@@ -1,6 +1,7 @@
 // Crack-tip check: the major principal stress averaged over a disc around the tip,
 // weighted toward the material ahead of it, against the tensile strength.
 import type { PolyMesh } from '../mesh/polymesh.js';
+import type { SofteningLaw } from '../cohesive/laws.js';
 
 export interface TipStress { s1: number; sxx: number; syy: number; sxy: number; weight: number }
 
@@ -153,19 +154,28 @@ export function overshootLimit(insertAt: number): number { return Math.max(1.05,
 /**
  * Largest softening of any cohesive point between the committed (kap) and trial (kapTrial)
  * histories, as a fraction of ft; the step that takes a point over its peak counts ten
- * times, so the peak load is caught. l0 = ft/penalty is the end of the intact branch.
+ * times, so the peak load is caught. l0 = ft/penalty is the end of the intact branch. With
+ * `laws` (each pair's own, where the strength varies) a pair's drop counts against its own ft.
  */
-export function softeningJump(kap: Float64Array, kapTrial: Float64Array, ft: number, penalty: number, stress: (w: number) => number): number {
-  const l0 = ft / penalty;
-  const tau = (k: number) => (k <= l0 ? penalty * k : stress(k - l0));
+export function softeningJump(kap: Float64Array, kapTrial: Float64Array, ft: number, penalty: number, stress: (w: number) => number,
+  laws: readonly { law: SofteningLaw }[] | null = null): number {
   let worst = 0;
   for (let p = 0; p < kap.length; p++) {
     const k0 = kap[p], k1 = kapTrial[p];
-    if (k1 <= l0 || k1 <= k0) continue;
-    const drop = k0 <= l0 ? 10 * (ft - tau(k1)) : tau(k0) - tau(k1);
-    if (drop > worst) worst = drop;
+    if (k1 <= k0) continue;
+    const law = laws ? laws[p].law : null;
+    const d = law ? softeningDrop(k0, k1, law.ft, penalty, law.stress) / law.ft : softeningDrop(k0, k1, ft, penalty, stress);
+    if (d > worst) worst = d;
   }
-  return worst / ft;
+  return laws ? worst : worst / ft;
+}
+
+/** Fall of the traction (MPa) of a point whose history grows from k0 to k1 (ten times the fall below ft when it passes its peak). */
+function softeningDrop(k0: number, k1: number, ft: number, penalty: number, stress: (w: number) => number): number {
+  const l0 = ft / penalty;
+  if (k1 <= l0) return 0;
+  // k1 > l0: on the softening branch
+  return k0 <= l0 ? 10 * (ft - stress(k1 - l0)) : stress(k0 - l0) - stress(k1 - l0);
 }
 
 /** Largest turn of a grown crack per growth step (rad). */
@@ -207,4 +217,21 @@ export function faceKink(path: readonly number[], twins: readonly number[], beta
   const th = Math.abs(ratio) < 1e-12 ? 0 : 2 * Math.atan((1 - Math.sqrt(1 + 8 * ratio * ratio)) / (4 * ratio));
   const c = Math.cos(th), s = Math.sin(th);
   return [c * t.dx - s * t.dy, s * t.dx + c * t.dy];
+}
+
+/**
+ * The growth direction steered toward weaker material: among directions within ±maxTurn of
+ * the one the stress asks for (g), the one with the largest σθθ(δ)/ft ahead, where σθθ(δ) is
+ * taken in the mode-I angular form cos³(δ/2) of the maximum tangential stress criterion
+ * (Erdogan & Sih 1963) and ft is read half a growth step ahead.
+ */
+export function weakestDirection(ftAt: (x: number, y: number) => number, x: number, y: number, gx: number, gy: number, reach: number, maxTurn: number): [number, number] {
+  const a0 = Math.atan2(gy, gx);
+  let best = -Infinity, bx = gx, by = gy;
+  for (let k = -6; k <= 6; k++) {
+    const d = (k / 6) * maxTurn, a = a0 + d, cx = Math.cos(a), cy = Math.sin(a);
+    const score = Math.cos(d / 2) ** 3 / ftAt(x + 0.5 * reach * cx, y + 0.5 * reach * cy);
+    if (score > best) { best = score; bx = cx; by = cy; }
+  }
+  return [bx, by];
 }

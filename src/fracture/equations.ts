@@ -2,7 +2,7 @@
 // the face pairs of the cohesive cracks, and the maps between the displacement vector on
 // stable vertex ids (uw) and the compact (u) and free (uf) vectors of the System.
 import type { PolyMesh } from '../mesh/polymesh.js';
-import { interfaceEnergy, type CohesiveParams } from '../cohesive/interface.js';
+import { interfaceEnergy, atStrength, type CohesiveParams } from '../cohesive/interface.js';
 import { System, type PairGeom, type ElementCache } from '../solver/system.js';
 import { NewtonWork } from '../solver/newton.js';
 import { compactDriven, type Driven } from '../solver/driven.js';
@@ -13,6 +13,9 @@ import type { Crack, MidValues } from './state.js';
 import { nodeMesh, Order2Cells, centroidStresses2, nodeStresses2, type NodeMesh, type Cell2Cache } from '../vem/dofs2.js';
 import { cellAreas, cellStresses, vertexStresses } from '../vem/stress.js';
 import { pairGeometry2, edgeKey, midpointKey } from './interface2.js';
+
+/** The interface of the mean material and the strength at a point, where the case has a random strength field. */
+export interface LocalStrength { coh: CohesiveParams; ftAt: (x: number, y: number) => number }
 
 /** Order 2: the rig on a node mesh (each node's key among the lifted-off points given), and the cells kept from the last topology. */
 export interface Order2Setup { drivenOn: (nm: NodeMesh, key: Float64Array) => Driven; cells?: Cell2Cache }
@@ -29,6 +32,11 @@ export class Equations {
   /** Plus-face vertex (stable id) of each pair, and the pair of a plus-face vertex. */
   readonly pairPlus: number[];
   readonly pairOf: Map<number, number>;
+  /**
+   * Each pair's interface with the ft of the strength field at its plus node (a weak spot
+   * softens sooner and, GF kept, over a longer opening); null without a field: the mean's.
+   */
+  readonly pairCoh: readonly CohesiveParams[] | null = null;
 
   /** Order 2: the node mesh the System is built on (vertices keep their compact ids, midpoints follow). */
   readonly node: NodeMesh | null = null;
@@ -66,9 +74,11 @@ export class Equations {
    * The equations of the work mesh as it is; throws RunStopped above maxDofs. With `order2`
    * the System is of second order on the node mesh (vem/dofs2.ts), driven as order2.drivenOn
    * selects on it, with Simpson face pairs (interface2.ts); unchanged cells come from order2.cells.
+   * With `local` each pair softens with the strength at its place (pairCoh).
    */
   constructor(wm: WorkMesh, cracks: readonly Crack[], driven: Driven, D: Float64Array, thickness: number,
-    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache, order2?: Order2Setup, mid?: MidValues | null) {
+    kappa: ReadonlyMap<number, number>, uw: Float64Array, maxDofs?: number, elements?: ElementCache, order2?: Order2Setup, mid?: MidValues | null,
+    local?: LocalStrength | null) {
     const cp = wm.toPolyMesh();
     this.compact = cp;
     const co = cp.compactOf;
@@ -95,6 +105,11 @@ export class Equations {
     } else {
       this.sys = new System(cp.mesh, D, thickness, geom, compactDriven(driven, co), undefined, elements ? { cache: elements, cellKey: cp.cellOf, vertexId: cp.vertexOf } : undefined);
     }
+    if (local) {
+      const xy = this.sys.mesh.xy, pl = geom.plus;
+      this.pairCoh = Array.from(pl, (n) => atStrength(local.coh, local.ftAt(xy[2 * n], xy[2 * n + 1])));
+      this.sys.pairCoh = this.pairCoh;
+    }
     this.work = new NewtonWork(this.sys);
     this.uf = new Float64Array(this.sys.nFree);
     this.gather(uw, mid);
@@ -103,6 +118,9 @@ export class Equations {
   }
 
   get dofs(): number { return this.sys.nDof; }
+
+  /** The interface of pair p: its own where the strength varies, else coh. */
+  cohOf(p: number, coh: CohesiveParams): CohesiveParams { return this.pairCoh ? this.pairCoh[p] : coh; }
 
   /** Cell areas and centroids of this topology's compact mesh (from the work mesh it was built on), computed once. */
   cellGeometry(wm: WorkMesh): { areas: Float64Array; cent: Float64Array } {
@@ -179,7 +197,7 @@ export class Equations {
       const a = P.plus[p], b = P.minus[p];
       const dx = u[2 * a] - u[2 * b], dy = u[2 * a + 1] - u[2 * b + 1];
       const w = dx * P.nx[p] + dy * P.ny[p], s = dx * P.ny[p] - dy * P.nx[p];
-      const en = interfaceEnergy(coh, w, s, this.kap[p]);
+      const en = interfaceEnergy(this.cohOf(p, coh), w, s, this.kap[p]);
       e += en.stored * P.area[p];
       d += en.dissipated * P.area[p];
     }
@@ -188,9 +206,10 @@ export class Equations {
 
   /** Crack face area (mm²) whose traction has reached ft, and the part of it fully separated (no traction left). */
   faceAreas(coh: CohesiveParams): { reached_mm2: number; separated_mm2: number } {
-    const P = this.sys.pairs, l0 = coh.law.ft / coh.penalty, wc = coh.law.wc;
+    const P = this.sys.pairs;
     let reached = 0, separated = 0;
     for (let p = 0; p < P.plus.length; p++) {
+      const q = this.cohOf(p, coh), l0 = q.law.ft / q.penalty, wc = q.law.wc;
       if (this.kap[p] > l0) reached += P.area[p];
       if (this.kap[p] >= l0 + wc) separated += P.area[p];
     }

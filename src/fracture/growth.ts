@@ -9,7 +9,7 @@ import { WorkMesh } from './workmesh.js';
 import { cutRay, twinAlong, defaultCut } from './cut.js';
 import { refineAround, refineAlong, coarsenAway } from './adapt.js';
 import { segmentHitsBoundary, domainExtent, type Domain } from '../geometry/domain.js';
-import { weakestDirection } from '../study/field.js';
+import { weakestDirection } from './criterion.js';
 import {
   tipStress, growthDirection, hoopDirection, faceKink, limitTurn, MAX_TURN,
   readiness, endPairLoad, frontDistance, type FaceLoad,

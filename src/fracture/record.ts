@@ -26,8 +26,11 @@ export interface StepEvent { row: StepRow; probes: ProbeRow[]; tips: TipRow[]; s
 export type Reached = (v: number) => boolean;
 
 export function reachedFt(eq: Equations, coh: CohesiveParams): Reached {
-  const l0 = coh.law.ft / coh.penalty;
-  return (v) => { const p = eq.pairOf.get(v); return p !== undefined && eq.kap[p] > l0; };
+  const l0 = coh.law.ft / coh.penalty, own = eq.pairCoh;
+  return (v) => {
+    const p = eq.pairOf.get(v);
+    return p !== undefined && eq.kap[p] > (own ? own[p].law.ft / own[p].penalty : l0);
+  };
 }
 
 /**
@@ -58,12 +61,18 @@ export function crackPolylines(cracks: readonly Crack[], wm: WorkMesh): { points
   return cracks.map((k) => ({ kind: k.kind === 'notch' ? 'notch' as const : 'crack' as const, points: k.path.map((v) => [wm.x[v], wm.y[v]] as [number, number]) }));
 }
 
-/** Segments of the cohesive cracks with the mean damage of their two face pairs (histories kap, per pair of pairPlus). */
-export function cohesiveSegments(cracks: readonly Crack[], wm: WorkMesh, coh: CohesiveParams, pairPlus: readonly number[], kap: Float64Array): CohesiveSegment[] {
+/**
+ * Segments of the cohesive cracks with the mean damage of their two face pairs (histories kap,
+ * per pair of pairPlus; each pair's own interface in pairCoh where the strength varies).
+ */
+export function cohesiveSegments(cracks: readonly Crack[], wm: WorkMesh, coh: CohesiveParams, pairPlus: readonly number[], kap: Float64Array,
+  pairCoh: readonly CohesiveParams[] | null = null): CohesiveSegment[] {
   const out: CohesiveSegment[] = [];
-  const l0 = coh.law.ft / coh.penalty, wc = coh.law.wc;
   const dmg = new Map<number, number>();
-  pairPlus.forEach((v, i) => dmg.set(v, Math.min(1, Math.max(0, (kap[i] - l0) / wc))));
+  pairPlus.forEach((v, i) => {
+    const q = pairCoh ? pairCoh[i] : coh, l0 = q.law.ft / q.penalty;
+    dmg.set(v, Math.min(1, Math.max(0, (kap[i] - l0) / q.law.wc)));
+  });
   for (const k of cracks) {
     if (k.kind !== 'cohesive') continue;
     for (let i = 1; i < k.path.length; i++) {
@@ -122,11 +131,11 @@ export function recordStep(r: RecordRoom, step: number, control: number): StepEv
     };
   });
   s.lastProbes = probes;
-  const kap = eq.kap.slice(), pairPlus = eq.pairPlus;
+  const kap = eq.kap.slice(), pairPlus = eq.pairPlus, pairCoh = eq.pairCoh;
   const snapshot = (): Snapshot => ({
     step, mesh: m, u, cellStress: cs, row,
     cracks: crackPolylines(s.cracks, wm),
-    cohesive: cohesiveSegments(s.cracks, wm, coh, pairPlus, kap),
+    cohesive: cohesiveSegments(s.cracks, wm, coh, pairPlus, kap, pairCoh),
   });
   return { row, probes, tips: r.tips, snapshot };
 }

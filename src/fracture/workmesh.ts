@@ -180,23 +180,26 @@ export class WorkMesh {
 
   /** Compact typed mesh for assembly: live cells only, vertices renumbered; maps both ways. */
   toPolyMesh(): { mesh: PolyMesh; vertexOf: Int32Array; compactOf: Int32Array; cellOf: Int32Array } {
-    const nvAll = this.x.length;
+    const nvAll = this.x.length, cells = this.cells;
     const compactOf = new Int32Array(nvAll).fill(-1);
-    const cellIds: number[] = [];
-    let nIdx = 0;
-    this.cells.forEach((vs, c) => { if (vs) { cellIds.push(c); nIdx += vs.length; } });
-    const cellStart = new Int32Array(cellIds.length + 1), cellVerts = new Int32Array(nIdx);
-    const vertexOf: number[] = [];
-    let k = 0;
-    cellIds.forEach((c, i) => {
-      for (const v of this.cells[c]!) {
-        if (compactOf[v] < 0) { compactOf[v] = vertexOf.length; vertexOf.push(v); }
+    let nCells = 0, nIdx = 0;
+    for (let c = 0; c < cells.length; c++) { const vs = cells[c]; if (vs) { nCells++; nIdx += vs.length; } }
+    const cellOf = new Int32Array(nCells), cellStart = new Int32Array(nCells + 1), cellVerts = new Int32Array(nIdx);
+    const order = new Int32Array(nvAll);
+    let k = 0, i = 0, nv = 0;
+    for (let c = 0; c < cells.length; c++) {
+      const vs = cells[c];
+      if (!vs) continue;
+      for (let j = 0; j < vs.length; j++) {
+        const v = vs[j];
+        if (compactOf[v] < 0) { compactOf[v] = nv; order[nv++] = v; }
         cellVerts[k++] = compactOf[v];
       }
-      cellStart[i + 1] = k;
-    });
-    const xy = new Float64Array(2 * vertexOf.length);
-    vertexOf.forEach((v, i) => { xy[2 * i] = this.x[v]; xy[2 * i + 1] = this.y[v]; });
-    return { mesh: { xy, cellStart, cellVerts }, vertexOf: Int32Array.from(vertexOf), compactOf, cellOf: Int32Array.from(cellIds) };
+      cellOf[i++] = c;
+      cellStart[i] = k;
+    }
+    const vertexOf = order.slice(0, nv), xy = new Float64Array(2 * nv);
+    for (let j = 0; j < nv; j++) { xy[2 * j] = this.x[vertexOf[j]]; xy[2 * j + 1] = this.y[vertexOf[j]]; }
+    return { mesh: { xy, cellStart, cellVerts }, vertexOf, compactOf, cellOf };
   }
 }

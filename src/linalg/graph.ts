@@ -21,7 +21,7 @@ export interface CompressedPattern {
 }
 
 /** Whether rows a and b of the pattern hold the same columns. */
-function sameRow(p: CsrPattern, a: number, b: number): boolean {
+export function sameRow(p: CsrPattern, a: number, b: number): boolean {
   const { rowPtr, colIdx } = p;
   const la = rowPtr[a + 1] - rowPtr[a];
   if (la !== rowPtr[b + 1] - rowPtr[b]) return false;

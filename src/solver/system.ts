@@ -2,13 +2,14 @@
 // iteration, supports eliminated, the load points driven by one load factor λ.
 // u_full = u_free (scattered) + λ·w on the load dofs + 0 on the supports.
 import type { PolyMesh } from '../mesh/polymesh.js';
-import { ElementWork, elementStiffness } from '../vem/element.js';
+import { ElementWork, elementStiffness, DEFAULT_STABILISATION, type Stabilisation } from '../vem/element.js';
 import {
-  patternFromBlocks, assemblyMap, blockMapOffsets, matrixOnPattern, matVec, submatrix, submatrixInto,
+  patternFromBlocks, assemblyMap, findEntry, blockMapOffsets, matrixOnPattern, matVec, submatrix, submatrixInto,
   analyze, factorize, factorizeTrailing, fillReducingOrder, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
 } from '../linalg/index.js';
 import { cohesivePoint, type CohesiveParams } from '../cohesive/interface.js';
 import { reducedMatrix, refill, type Reduced, type Slaves } from './reduce.js';
+import { carryBulk, compactOfStable, type BulkRecord } from './carry.js';
 
 /** Crack-face node pair carrying the cohesive law (vertex ids are compact mesh indices here). */
 export interface PairGeom {
@@ -34,6 +35,10 @@ export interface DrivenDofs {
  */
 export class ElementCache<E extends CellIdentity = CellIdentity & { Ke: Float64Array }> {
   entries = new Map<number, E>();
+  /** The bulk matrix of the last System built on these entries (order 1), and its face vertices (stable ids). */
+  last: (BulkRecord & { faces: Int32Array }) | null = null;
+  /** The order-1 stabilisation its matrices are built with (vem/element.ts). */
+  constructor(readonly stabilisation: Stabilisation = DEFAULT_STABILISATION) {}
 }
 
 /** What a cached cell is known by: its vertices' stable ids and coordinates, in cell order. */
@@ -68,6 +73,8 @@ export class System {
   private readonly pairOff: Int32Array;
   private readonly nCellBlocks: number;
   private readonly tr = new Float64Array(6);
+  /** Each pair's own interface where the strength varies over the specimen (set by the caller); null: the one passed in. */
+  pairCoh: readonly CohesiveParams[] | null = null;
   /** The 2×2 tangent of the last pairResponse. */
   readonly m4 = new Float64Array(4);
   readonly zLoad: Float64Array;
@@ -92,35 +99,44 @@ export class System {
       blockDofs[o] = 2 * pairs.plus[p]; blockDofs[o + 1] = 2 * pairs.plus[p] + 1;
       blockDofs[o + 2] = 2 * pairs.minus[p]; blockDofs[o + 3] = 2 * pairs.minus[p] + 1;
     }
-    const pattern = patternFromBlocks(this.nDof, blockStart, blockDofs);
-    const map = assemblyMap(pattern, blockStart, blockDofs);
-    const off = blockMapOffsets(blockStart);
-    this.kBulk = matrixOnPattern(pattern);
-    const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn);
-    const vals = this.kBulk.values;
-    const kept = reuse ? new Map<number, CellIdentity & { Ke: Float64Array }>() : null;
-    for (let c = 0; c < nc; c++) {
-      const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
-      const o = off[c];
-      let K: Float64Array = Ke;
-      if (cells) cells(c, Ke);
-      else if (reuse) {
-        const key = reuse.cellKey[c], hit = reuse.cache.entries.get(key);
-        if (hit && sameCell(hit, mesh, reuse.vertexId, s, e)) {
-          for (let k = 0; k < m * m; k++) vals[map[o + k]] += hit.Ke[k];
-          kept!.set(key, hit);
-          continue;
-        }
-        elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
-        K = Ke.slice(0, m * m);
-        kept!.set(key, { ...cellIdentity(mesh, reuse.vertexId, s, e), Ke: K });
-      } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work);
-      for (let k = 0; k < m * m; k++) vals[map[o + k]] += K[k];
+    const carried = reuse && !cells && reuse.cache.last ? carryFrom(reuse as ElementReuse, mesh, D, t, pairs, maxn) : null;
+    if (carried) {
+      this.kBulk = carried.matrix;
+      this.pairMap = carried.pairMap;
+      this.pairOff = carried.pairOff;
+    } else {
+      const pattern = patternFromBlocks(this.nDof, blockStart, blockDofs);
+      const map = assemblyMap(pattern, blockStart, blockDofs);
+      const off = blockMapOffsets(blockStart);
+      this.kBulk = matrixOnPattern(pattern);
+      const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn), stab = reuse?.cache.stabilisation ?? DEFAULT_STABILISATION;
+      const vals = this.kBulk.values;
+      const kept = reuse ? new Map<number, CellIdentity & { Ke: Float64Array }>() : null;
+      for (let c = 0; c < nc; c++) {
+        const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
+        const o = off[c];
+        let K: Float64Array = Ke;
+        if (cells) cells(c, Ke);
+        else if (reuse) {
+          const key = reuse.cellKey[c], hit = reuse.cache.entries.get(key);
+          if (hit && sameCell(hit, mesh, reuse.vertexId, s, e)) {
+            for (let k = 0; k < m * m; k++) vals[map[o + k]] += hit.Ke[k];
+            kept!.set(key, hit);
+            continue;
+          }
+          elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work, stab);
+          K = Ke.slice(0, m * m);
+          kept!.set(key, cachedCell(mesh, reuse.vertexId, s, e, K));
+        } else elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work, stab);
+        for (let k = 0; k < m * m; k++) vals[map[o + k]] += K[k];
+      }
+      if (reuse) reuse.cache.entries = kept!;
+      this.pairMap = map;
+      this.pairOff = off.subarray(nc);
     }
-    if (reuse) reuse.cache.entries = kept!;
-    this.pairMap = map;
-    this.pairOff = off.subarray(nc);
-    this.kT = matrixOnPattern(pattern);
+    // the next topology copies the rows its growth leaves alone
+    if (reuse && !cells) reuse.cache.last = { matrix: this.kBulk, vertexOf: reuse.vertexId, faces: faceIds(pairs, reuse.vertexId) };
+    this.kT = matrixOnPattern(this.kBulk);
 
     const freeOf = new Int32Array(this.nDof).fill(0);
     for (const d of driven.fixed) freeOf[d] = -1;
@@ -258,7 +274,7 @@ export class System {
     const nx = P.nx[p], ny = P.ny[p], A = P.area[p];
     // local frame: n and t = (ny, −nx)
     const w = dx * nx + dy * ny, s = dx * ny - dy * nx;
-    kappaTrial[p] = cohesivePoint(coh, w, s, kappa[p], tr);
+    kappaTrial[p] = cohesivePoint(this.pairCoh ? this.pairCoh[p] : coh, w, s, kappa[p], tr);
     const fx = A * (tr[0] * nx + tr[1] * ny);
     this.pairFy = A * (tr[0] * ny - tr[1] * nx);
     if (!wantTangent) return fx;
@@ -400,4 +416,66 @@ export function sameCell(hit: CellIdentity, mesh: PolyMesh, vertexId: Int32Array
     if (hit.verts[i] !== vertexId[v] || hit.xy[2 * i] !== mesh.xy[2 * v] || hit.xy[2 * i + 1] !== mesh.xy[2 * v + 1]) return false;
   }
   return true;
+}
+
+/** A cache entry as one object literal (one shape for all entries, which the identity checks read often). */
+function cachedCell(mesh: PolyMesh, vertexId: Int32Array, s: number, e: number, Ke: Float64Array): CellIdentity & { Ke: Float64Array } {
+  const { verts, xy } = cellIdentity(mesh, vertexId, s, e);
+  return { verts, xy, Ke };
+}
+
+/** Stable ids of the face-pair vertices. */
+function faceIds(pairs: PairGeom, vertexId: Int32Array): Int32Array {
+  const f = new Int32Array(2 * pairs.plus.length);
+  for (let p = 0; p < pairs.plus.length; p++) { f[2 * p] = vertexId[pairs.plus[p]]; f[2 * p + 1] = vertexId[pairs.minus[p]]; }
+  return f;
+}
+
+/** Rows assembled afresh and rows in all, summed over the carried assemblies of this process (tests read them). */
+export const carryStats = { fresh: 0, rows: 0 };
+
+/**
+ * The bulk matrix assembled from the cache's last one (carry.ts): element matrices from the
+ * cache where the cell is unchanged, rows afresh around every changed, new or removed cell and
+ * every face pair of either topology; the positions of the face pairs' 4×4 blocks.
+ */
+function carryFrom(reuse: ElementReuse, mesh: PolyMesh, D: Float64Array, t: number, pairs: PairGeom, maxn: number): { matrix: CsrMatrix; pairMap: Int32Array; pairOff: Int32Array } {
+  const last = reuse.cache.last!, nv = mesh.xy.length >> 1, nc = mesh.cellStart.length - 1, np = pairs.plus.length;
+  const vid = reuse.vertexId, old = reuse.cache.entries;
+  const Kc: Float64Array[] = new Array(nc), dirty = new Uint8Array(nv);
+  let maxId = 0, maxKey = 0;
+  for (let i = 0; i < nv; i++) if (vid[i] > maxId) maxId = vid[i];
+  for (let c = 0; c < nc; c++) if (reuse.cellKey[c] > maxKey) maxKey = reuse.cellKey[c];
+  const co = compactOfStable(vid, maxId + 1), at = (id: number) => (id <= maxId ? co[id] : -1);
+  const gone = (e: CellIdentity) => { for (let k = 0; k < e.verts.length; k++) { const v = at(e.verts[k]); if (v >= 0) dirty[v] = 1; } };
+  // the cache is updated in place (a new map per topology costs more than the few changes)
+  const fresh = new Map<number, CellIdentity & { Ke: Float64Array }>(), present = new Uint8Array(maxKey + 1);
+  const Ke = new Float64Array(4 * maxn * maxn), work = new ElementWork(maxn), stab = reuse?.cache.stabilisation ?? DEFAULT_STABILISATION;
+  for (let c = 0; c < nc; c++) {
+    const s = mesh.cellStart[c], e = mesh.cellStart[c + 1], m = 2 * (e - s);
+    const key = reuse.cellKey[c], hit = old.get(key);
+    present[key] = 1;
+    if (hit && sameCell(hit, mesh, vid, s, e)) { Kc[c] = hit.Ke; continue; }
+    elementStiffness(mesh.xy, mesh.cellVerts, s, e, D, t, Ke, work, stab);
+    Kc[c] = Ke.slice(0, m * m);
+    fresh.set(key, cachedCell(mesh, vid, s, e, Kc[c]));
+    for (let k = s; k < e; k++) dirty[mesh.cellVerts[k]] = 1;
+  }
+  // vertices of cells gone (or changed) since the last topology, and the faces of both
+  for (const [key, e] of old) if (key > maxKey || !present[key] || fresh.has(key)) gone(e);
+  for (let k = 0; k < last.faces.length; k++) { const v = at(last.faces[k]); if (v >= 0) dirty[v] = 1; }
+  for (let p = 0; p < np; p++) { dirty[pairs.plus[p]] = 1; dirty[pairs.minus[p]] = 1; }
+  const matrix = carryBulk(last, mesh, vid, Kc, dirty, pairs);
+  for (const key of old.keys()) if (key > maxKey || !present[key]) old.delete(key);
+  for (const [key, e] of fresh) old.set(key, e);
+  let nd = 0;
+  for (let v = 0; v < nv; v++) nd += dirty[v];
+  carryStats.fresh += 2 * nd; carryStats.rows += 2 * nv;
+  const pairMap = new Int32Array(16 * np), pairOff = new Int32Array(np);
+  for (let p = 0; p < np; p++) {
+    pairOff[p] = 16 * p;
+    const d = [2 * pairs.plus[p], 2 * pairs.plus[p] + 1, 2 * pairs.minus[p], 2 * pairs.minus[p] + 1];
+    for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) pairMap[16 * p + 4 * i + j] = findEntry(matrix, d[i], d[j]);
+  }
+  return { matrix, pairMap, pairOff };
 }

@@ -1,7 +1,7 @@
 // Seeded draws of material values: normal, lognormal and two-parameter Weibull, each
 // given by its mean and coefficient of variation. A draw depends only on the study
 // seed, the variant index and the key, so a variant can be rebuilt on its own.
-import { prng } from '../mesh/prng.js';
+import { prng, normalStream } from '../mesh/prng.js';
 import type { Distribution } from './spec.js';
 
 /** A 32-bit seed mixed from whole numbers (an integer hash, so near seeds give unrelated streams). */
@@ -21,18 +21,6 @@ export function textSeed(s: string): number {
   let h = 0x811c9dc5;
   for (let i = 0; i < s.length; i++) h = Math.imul(h ^ s.charCodeAt(i), 0x01000193) >>> 0;
   return h;
-}
-
-/** Standard normal draws by the Box–Muller transform, from a uniform stream. */
-export function normalStream(uniform: () => number): () => number {
-  let spare: number | null = null;
-  return () => {
-    if (spare !== null) { const s = spare; spare = null; return s; }
-    const u1 = 1 - uniform(), u2 = uniform(); // u1 in (0, 1]
-    const r = Math.sqrt(-2 * Math.log(u1)), a = 2 * Math.PI * u2;
-    spare = r * Math.sin(a);
-    return r * Math.cos(a);
-  };
 }
 
 /** ln Γ(x) for x > 0 by the Lanczos approximation (g = 7, nine coefficients). */

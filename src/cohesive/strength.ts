@@ -1,13 +1,13 @@
-// A spatially random tensile strength: a stationary Gaussian field with the exponential
-// covariance C(r) = exp(−r/ℓ), drawn on a regular grid over the specimen by the Cholesky
-// factor of its covariance matrix (the covariance matrix decomposition method; Davis,
-// "Production of conditional simulations via the LU triangular decomposition of the
-// covariance matrix", Mathematical Geology 19, 1987), then read anywhere by bilinear
-// interpolation. ft = mean·(1 + CoV·Y) (normal) or exp(μ + s·Y) (lognormal, with the
-// mean and CoV asked). Seeded: the same seed gives the same field.
+// The spatially random tensile strength of a case (material.strengthField): a stationary
+// Gaussian field with the exponential covariance C(r) = exp(−r/ℓ), drawn on a regular grid
+// over the specimen by the Cholesky factor of its covariance matrix (the covariance matrix
+// decomposition method; Davis, "Production of conditional simulations via the LU triangular
+// decomposition of the covariance matrix", Mathematical Geology 19, 1987), then read anywhere
+// by bilinear interpolation. ft = mean·(1 + CoV·Y) (normal) or exp(μ + s·Y) (lognormal, with
+// the mean and CoV asked). Seeded: the same seed gives the same field. Growth reads it at the
+// tips; each cohesive face pair softens with the ft read at its place (Equations.pairCoh).
 import type { CaseModel } from '../case/model.js';
-import { prng } from '../mesh/prng.js';
-import { normalStream } from './samples.js';
+import { prng, normalStream } from '../mesh/prng.js';
 
 export interface FieldParams {
   distribution?: 'normal' | 'lognormal';
@@ -103,21 +103,4 @@ export function strengthOf(c: CaseModel): ((x: number, y: number) => number) | n
   for (const [x, y] of c.geometry.outline) { x0 = Math.min(x0, x); y0 = Math.min(y0, y); x1 = Math.max(x1, x); y1 = Math.max(y1, y); }
   const f = strengthGrid(p, c.material.ft, { x0, y0, x1, y1 });
   return (x, y) => fieldAt(f, x, y);
-}
-
-/**
- * The growth direction steered toward weaker material: among directions within ±maxTurn of
- * the one the stress asks for (g), the one with the largest σθθ(δ)/ft ahead, where σθθ(δ) is
- * taken in the mode-I angular form cos³(δ/2) of the maximum tangential stress criterion
- * (Erdogan & Sih 1963) and ft is read half a growth step ahead.
- */
-export function weakestDirection(ftAt: (x: number, y: number) => number, x: number, y: number, gx: number, gy: number, reach: number, maxTurn: number): [number, number] {
-  const a0 = Math.atan2(gy, gx);
-  let best = -Infinity, bx = gx, by = gy;
-  for (let k = -6; k <= 6; k++) {
-    const d = (k / 6) * maxTurn, a = a0 + d, cx = Math.cos(a), cy = Math.sin(a);
-    const score = Math.cos(d / 2) ** 3 / ftAt(x + 0.5 * reach * cx, y + 0.5 * reach * cy);
-    if (score > best) { best = score; bx = cx; by = cy; }
-  }
-  return [bx, by];
 }
