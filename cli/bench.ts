@@ -13,13 +13,15 @@
 // npm run bench -- --join: only the double-edge-notched panel (two cracks join), condensed Newton against
 // { condense: false } in the same run (also part of the default run unless --no-growth).
 // npm run bench -- --against DIR [--fit]: the demo beam (its 4× finer bulk, the double-edge-notched panel) by this build and another, side by side;
-// --fit adds a three-parameter fit of the fit demo by each (--fit-only: the fits alone).
+// --fit adds a three-parameter fit of the fit demo by each (--fit-only: the fits alone);
+// --examples runs every cohesive example in cases/ by each instead (steps, iterations, peak, crack ends, energy gap;
+// --case NAME: those whose file name holds NAME); --steps adaptive|fixed sets this build's step control.
 // npm run bench -- --study [--variants N] [--jobs J] [--slurm]: a study's pool (and Slurm) against single runs.
 // npm run bench -- --frames [--against DIR]: the demo's analysis against its pictures, in CPU time (see bench-frames.ts).
 // npm run bench -- --order: error against unknowns and wall time for element orders 1 and 2, and crack growth at both
 // orders on one mesh (also part of the default run).
 // Each figure is the median of --repeat runs (default 3): the machine is shared and noisy.
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -31,6 +33,7 @@ import { Analysis } from '../src/fracture/analysis.js';
 import { DISSECTION_FROM_ROWS, analyze, factorize, readMatrixMarket, writeMatrixMarket, type CsrMatrix, type OrderingMethod } from '../src/linalg/index.js';
 import { benchMatrix, cholmodDriver, cholmodTimes, cpuSeconds, type BenchResult, type ReferenceTiming, type SolverLib } from './bench-matrix.js';
 import { runCase } from '../src/run.js';
+import { worstEnergyGap } from '../src/output/warnings.js';
 import { benchStudy } from './bench-study.js';
 import { benchOrder, benchGrowthOrders } from './bench-order.js';
 import { validationBench } from './bench-validation.js';
@@ -321,7 +324,7 @@ async function against(dir: string, repeat: number): Promise<void> {
       for (const [who, lib] of [['other', other], ['ours', ours]] as const) {
         const c = lib.parseCase(text, 'bench-demo.yaml');
         const t0 = cpu();
-        const a = new lib.Analysis(c, lib.generateMesh(lib.buildDomain(c), c.mesh));
+        const a = new lib.Analysis(c, lib.generateMesh(lib.buildDomain(c), c.mesh), who === 'ours' ? thisSteps : {});
         let iters = 0;
         const res = await a.run((e) => { iters += e.row.iterations; });
         t[who].push(cpu() - t0);
@@ -333,6 +336,62 @@ async function against(dir: string, repeat: number): Promise<void> {
     console.log(`  this:  ${out.ours}\n  other: ${out.other}`);
   }
   if (withFit) await againstFit(root, cpu, repeat);
+}
+
+/**
+ * Every cohesive example in cases/ (pictures off) by this build and another, alternately:
+ * steps, Newton iterations, peak, the crack's end points, the worst energy gap of a step
+ * (share of the work), and CPU-time medians with their ratio. What a change of step control
+ * must keep: the peak within 0.5 % and the crack ends within a tip cell.
+ */
+async function againstExamples(dir: string, repeat: number): Promise<void> {
+  const root = resolve(dir);
+  const load = async (base: string) => ({
+    Analysis: (await import(pathToFileURL(join(base, 'src/fracture/analysis.js')).href)).Analysis as typeof Analysis,
+    parseCase: (await import(pathToFileURL(join(base, 'src/case/index.js')).href)).parseCase as typeof parseCase,
+    buildDomain: (await import(pathToFileURL(join(base, 'src/geometry/domain.js')).href)).buildDomain as typeof buildDomain,
+    generateMesh: (await import(pathToFileURL(join(base, 'src/mesh/generate.js')).href)).generateMesh as typeof generateMesh,
+  });
+  const builds = [['other', await load(join(root, '.build'))], ['this', await load(fileURLToPath(new URL('..', import.meta.url)))]] as const;
+  const folder = fileURLToPath(new URL('../../cases/', import.meta.url));
+  const only = args.indexOf('--case') >= 0 ? args[args.indexOf('--case') + 1] : undefined;
+  const names = readdirSync(folder).filter((f) => f.endsWith('.yaml') && (!only || f.includes(only))).sort();
+  const cpu = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
+  console.log(`examples, this build against ${root} (CPU seconds, medians of ${repeat}, run alternately)`);
+  const ratios: number[] = [];
+  for (const name of names) {
+    const text = readFileSync(join(folder, name), 'utf8').replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+    const probe = builds[1][1].parseCase(text, name);
+    if (!probe.crack || probe.crack.model === 'lefm') continue;
+    const t: Record<string, number[]> = { other: [], this: [] };
+    const say: Record<string, { line: string; peak: number; ends: [number, number][] }> = {};
+    for (let r = 0; r < repeat; r++) {
+      for (const [who, lib] of builds) {
+        const c = lib.parseCase(text, name);
+        const t0 = cpu();
+        const a = new lib.Analysis(c, lib.generateMesh(lib.buildDomain(c), c.mesh), who === 'this' ? thisSteps : {});
+        let iters = 0;
+        const res = await a.run((e) => { iters += e.row.iterations; });
+        t[who]!.push(cpu() - t0);
+        const gap = worstEnergyGap(res.rows);
+        const ends = res.crackPaths.flatMap((p) => (p.length > 1 ? [p[0]!, p[p.length - 1]!] : []));
+        say[who] = {
+          peak: res.peak.load_N, ends,
+          line: `${res.rows.length - 1} steps (${(a as unknown as { attempts?: { tried: number; cut: number } }).attempts?.cut ?? '?'} attempts cut), ${iters} iterations, peak ${res.peak.load_N.toFixed(2)} N at ${res.peak.cmod_mm ?? res.peak.displacement_mm} mm, `
+            + `worst energy gap ${gap ? (100 * gap.share).toFixed(2) : '-'} %, ${res.status}`,
+        };
+      }
+    }
+    const mo = median(t.this!), mx = median(t.other!);
+    ratios.push(mo / mx);
+    const a = say.this!, b = say.other!;
+    let endMove = 0;
+    if (a.ends.length === b.ends.length) for (let i = 0; i < a.ends.length; i++) endMove = Math.max(endMove, Math.hypot(a.ends[i]![0] - b.ends[i]![0], a.ends[i]![1] - b.ends[i]![1]));
+    const tip = builds[1][1].parseCase(text, name).mesh.tipSize;
+    console.log(`${name}: this ${mo.toFixed(2)} s, other ${mx.toFixed(2)} s, ratio ×${(mo / mx).toFixed(2)}; peak ${(100 * (a.peak / b.peak - 1)).toFixed(2)} %, crack ends moved ${a.ends.length === b.ends.length ? `${endMove.toFixed(2)} mm (tip cell ${tip} mm)` : 'n/a (crack count differs)'}`);
+    console.log(`  this:  ${a.line}\n  other: ${b.line}`);
+  }
+  if (ratios.length) console.log(`median CPU ratio over the examples ×${median(ratios).toFixed(2)}`);
 }
 
 /**
@@ -370,6 +429,9 @@ const repeat = ri >= 0 ? Math.max(1, Number(args[ri + 1]) || 3) : 3;
 const opt = (name: string, d: number) => { const i = args.indexOf(name); return i >= 0 ? Math.max(1, Number(args[i + 1]) || d) : d; };
 const ai = args.indexOf('--against');
 const fitOnly = args.includes('--fit-only');
+/** `--steps adaptive|fixed`: this build's step control in --against runs (default: each case's own). */
+const si = args.indexOf('--steps');
+const thisSteps = si >= 0 && (args[si + 1] === 'adaptive' || args[si + 1] === 'fixed') ? { steps: args[si + 1] as 'adaptive' | 'fixed' } : {};
 const withFit = fitOnly || args.includes('--fit');
 if (args.includes('--help') || args.includes('-h')) {
   // the usage is this file's opening comment, kept in one place
@@ -389,7 +451,8 @@ if (args.includes('--help') || args.includes('-h')) {
 } else if (ai >= 0) {
   const dir = args[ai + 1];
   if (!dir) { process.stderr.write('rupta bench: --against needs a folder holding another build of rupta (.build/)\n'); process.exit(2); }
-  await against(dir, repeat);
+  if (args.includes('--examples')) await againstExamples(dir, repeat);
+  else await against(dir, repeat);
 } else if (args.includes('--study')) {
   await benchStudy(opt('--variants', 16), opt('--jobs', 2), args.includes('--slurm'));
 } else if (args.includes('--validation')) {

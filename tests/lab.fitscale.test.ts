@@ -10,11 +10,12 @@ describe('scaling at fixed l_ch', () => {
   // Dimensional analysis of the cohesive crack model (Hillerborg, Modéer, Petersson 1976):
   // with a linear elastic bulk and σ = ft·f(w·ft/GF), the curve of (b²/c·E, b·ft, c·GF) is the
   // curve of (E, ft, GF) with loads × b and openings × c/b; l_ch = E·GF/ft² is the same.
-  for (const softening of ['bilinear', 'exponential'] as const) {
-    it(`the beam with ${softening} softening, cracking through: loads × b, CMOD and displacement × c/b, to round-off`, async () => {
+  // adaptive steps decide from iteration counts and relative measures, so they scale too
+  for (const [softening, steps] of [['bilinear', 'fixed'], ['exponential', 'fixed'], ['bilinear', 'adaptive']] as const) {
+    it(`the beam with ${softening} softening, ${steps} steps, cracking through: loads × b, CMOD and displacement × c/b, to round-off`, async () => {
       const c = loadCase('cases/fit-demo.yaml');
       c.mesh = { ...c.mesh, size: 12.5, tipSize: 3.125 };
-      c.control = { ...c.control, target: 0.2, increments: 12 };
+      c.control = { ...c.control, target: 0.2, increments: 12, steps };
       c.material = { ...c.material, softening };
       const mesh = generateMesh(buildDomain(c), c.mesh);
       const b = 1.15, cf = 0.85, lb = Math.log(b), ll = Math.log(cf / b);

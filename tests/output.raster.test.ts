@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { deflateSync } from 'node:zlib';
 import sharp from 'sharp';
-import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb } from '../src/output/raster.js';
+import { Canvas, coloursOf, indexedPng, overlayOf, PaletteMix, paletteLut, pngOfIndices, rgb } from '../src/output/raster.js';
 
 const at = (c: Canvas, x: number, y: number): number[] => Array.from(c.px.subarray(3 * (y * c.width + x), 3 * (y * c.width + x) + 3));
 
@@ -77,4 +77,44 @@ describe('raster canvas', () => {
     expect(Array.from(back.data.subarray(3, 12))).toEqual([200, 30, 30, 10, 10, 200, 255, 255, 255]);
     expect(Array.from(coloursOf(back.data))).toEqual(Array.from(palette));
   });
+
+  it('draws as palette indices: fills take their colour\'s entry, a stroke\'s blends the entry nearest to the blended colour', async () => {
+    const palette = Uint8Array.from([255, 255, 255, 0, 0, 0, 128, 128, 128, 200, 30, 30, 228, 142, 142]);
+    const c = new Canvas(), rgbc = new Canvas(), mix = new PaletteMix(palette);
+    c.reset(30, 20, [255, 255, 255], mix); rgbc.reset(30, 20, [255, 255, 255]);
+    const x = Float64Array.from([2, 14, 14, 2]), y = Float64Array.from([2, 2, 18, 18]), idx = Int32Array.from([0, 1, 2, 3]);
+    for (const cv of [c, rgbc]) {
+      cv.fillPolygon(x, y, idx, 0, 4, [200, 30, 30]);
+      cv.polyline([20, 2, 20, 18], 3); cv.paint([0, 0, 0], 0.5); // half-transparent black over white: grey
+      cv.polyline([8, 10, 8, 10], 2); cv.paint([255, 255, 255], 0.5); // half-transparent white over red: pink
+    }
+    expect(c.ix[5 * 30 + 5]).toBe(3); // the fill
+    expect(c.ix[0]).toBe(0); // the page
+    expect(c.ix[10 * 30 + 20]).toBe(2); // the grey stroke's middle
+    expect(c.ix[10 * 30 + 8]).toBe(4); // the pink dot's middle
+    // every pixel is the entry nearest to the colour the RGB canvas blends there (common practice:
+    // the eye-weighted distance of toPalette), or one as near within the blends' steps of coverage
+    const near = (r: number, g: number, b: number): number[] => {
+      const d = Array.from({ length: palette.length / 3 }, (_, q) => 2 * (palette[3 * q] - r) ** 2 + 4 * (palette[3 * q + 1] - g) ** 2 + 3 * (palette[3 * q + 2] - b) ** 2);
+      return d.map((v, q) => [v, q]).filter(([v]) => v <= Math.min(...d) * 1.3 + 300).map(([, q]) => q);
+    };
+    for (let i = 0; i < 600; i++) expect(near(rgbc.px[3 * i], rgbc.px[3 * i + 1], rgbc.px[3 * i + 2]), `pixel ${i}`).toContain(c.ix[i]);
+    // the indices written as a PNG decode to the palette's colours
+    const back = await sharp(pngOfIndices(c.ix, 30, 20, palette, (b) => deflateSync(b))).removeAlpha().raw().toBuffer();
+    for (const i of [0, 5 * 30 + 5, 10 * 30 + 20, 10 * 30 + 8]) expect(Array.from(back.subarray(3 * i, 3 * i + 3))).toEqual(Array.from(palette.subarray(3 * c.ix[i], 3 * c.ix[i] + 3)));
+  });
+
+  it('lays an overlay over palette indices, its blends following the entry under each pixel from page to page', () => {
+    const data = new Uint8Array(4 * 2);
+    data.set([0, 0, 0, 128], 0); data.set([0, 0, 0, 255], 4);
+    const o = overlayOf(data), palette = Uint8Array.from([255, 255, 255, 0, 0, 0, 127, 127, 127, 160, 0, 0, 80, 0, 0]);
+    const c = new Canvas(), mix = new PaletteMix(palette);
+    c.reset(2, 1, [255, 255, 255], mix);
+    c.overlay(o);
+    expect(Array.from(c.ix)).toEqual([2, 1]); // half black over white: grey; black
+    c.reset(2, 1, [160, 0, 0], mix); // the page now red
+    c.overlay(o);
+    expect(Array.from(c.ix)).toEqual([4, 1]); // half black over red: dark red, not the grey met before
+  });
 });
+

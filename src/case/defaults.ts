@@ -157,6 +157,7 @@ export function fillDefaults(c: CaseInput, name: string): CaseModel {
       target: c.control.target,
       increments: c.control.increments ?? DEFAULTS.increments,
       stopAtLoadFraction: c.control.stopAtLoadFraction ?? DEFAULTS.stopAtLoadFraction,
+      ...(c.control.steps ? { steps: c.control.steps } : {}),
     },
     mesh,
     probes: (c.probes ?? []).map((p) => ({ name: p.name, at: copy(p.at) })),

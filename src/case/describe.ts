@@ -41,7 +41,7 @@ export function describeCase(c: CaseModel): string {
   const unit = ctl.by === 'force' ? 'N' : 'mm';
   const gauge = ctl.gauge ? `, gauge ${fmtPoint(ctl.gauge.from)}–${fmtPoint(ctl.gauge.to)}${ctl.reading === 'sliding' ? ' (sliding)' : ''}` : '';
   lines.push(c.crack
-    ? `  control    ${ctl.by} to ${fmtNum(ctl.target)} ${unit} in ${ctl.increments} increments${gauge}, `
+    ? `  control    ${ctl.by} to ${fmtNum(ctl.target)} ${unit} in ${ctl.increments} increments${ctl.steps === 'adaptive' ? ' (adaptive steps)' : ''}${gauge}, `
       + (ctl.stopAtLoadFraction > 0 ? `stop below ${fmtNum(100 * ctl.stopAtLoadFraction)} % of peak load` : 'no early stop')
     : `  control    ${ctl.by} to ${fmtNum(ctl.target)} ${unit}${gauge}`);
   if (c.crack) {

@@ -75,7 +75,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   'loads[].share': { what: 'a positive share of the machine force, given on every load or on none (a spreader)', unit: '-', range: { gt: 0 } },
   'loads[].platen': { what: 'one of rocker (a rigid strip that may rotate about its centre), clamped, pressure (a uniform pressure over the strip)' },
 
-  control: { what: 'a mapping {by, gauge, reading, target, increments, stopAtLoadFraction}' },
+  control: { what: 'a mapping {by, gauge, reading, target, increments, stopAtLoadFraction, steps}' },
   'control.by': { what: 'one of displacement, cmod, force' },
   'control.gauge': { what: 'a mapping {from: [x, y], to: [x, y]} or the name of one of gauges' },
   'control.reading': { what: 'one of opening (along the gauge, the CMOD), sliding (across it)' },
@@ -84,6 +84,7 @@ export const FIELDS: Record<string, FieldSpec> = {
   // The unit of the target follows control.by (see unitFor).
   'control.target': { what: POSITIVE, unit: 'mm', range: { gt: 0 } },
   'control.increments': { what: 'a whole number from 1 to 100000', range: { ge: 1, le: 100000, int: true } },
+  'control.steps': { what: 'one of fixed (steps on the increments), adaptive (step lengths from Newton and the softening, up to 4 increments)' },
   'control.stopAtLoadFraction': { what: 'a fraction of the peak load of at least 0 (never stop) and below 1', unit: '-', range: { ge: 0, lt: 1 } },
 
   crack: { what: 'a mapping {start, criterion, growthStep, averagingRadius, insertAt, model}; write crack: {} for all defaults or leave crack out for an elastic analysis' },

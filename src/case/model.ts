@@ -49,6 +49,8 @@ export interface Control {
   target: number;
   increments: number;
   stopAtLoadFraction: number;
+  /** Step lengths: fixed on the increments (when absent) or adaptive (fracture/steps.ts). */
+  steps?: 'fixed' | 'adaptive';
 }
 
 export type Softening = 'linear' | 'bilinear' | 'exponential';

@@ -50,6 +50,7 @@ const control = z.strictObject({
   target: num,
   increments: num.optional(),
   stopAtLoadFraction: num.optional(),
+  steps: z.enum(['fixed', 'adaptive']).optional(),
 });
 
 const crack = z.strictObject({

@@ -24,7 +24,7 @@ import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
-import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING } from './steps.js';
+import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP } from './steps.js';
 import {
   emptyState, save, restore, checkpointState, fromCheckpoint, SOLUTION, GEOMETRY,
   type CrackState, type AnalysisState, type LoopState, type Peak, type Saved,
@@ -42,6 +42,8 @@ export interface AnalysisOptions {
   checkpointEvery?: number;
   /** Newton on the bulk condensed onto the crack faces (default true); false iterates on all free unknowns (tests compare the two). */
   condense?: boolean;
+  /** Step lengths, over the case's `control.steps`: 'fixed' on the case's increments, 'adaptive' from Newton's iterations, the softening, the tips' readiness and the curve near a peak (tests and benchmarks compare the two). */
+  steps?: StepMode;
   /** Order-1 stabilisation (vem/element.ts; default the vertex form): measurements compare the two. */
   stabilisation?: Stabilisation;
   /** A new topology copies the bulk rows its growth left alone (default true); false assembles every topology in full (tests compare the two). */
@@ -91,9 +93,13 @@ export class Analysis {
   private peakLoad = 0;
   /** Newton iterations since the last recorded step. */
   private iterations = 0;
+  /** What the step controller reads of the step just converged (set by advance, read by converged). */
+  private measure: StepMeasure = { iterations: 0, softening: 0, readiness: NaN, grew: false, byOpening: false };
   private readonly probeVerts: number[] = [];
   private readonly fScale: number;
   stopRequested: (() => boolean) | null = null;
+  /** Step attempts of this run (since a restore): all, and those cut back (benchmarks report them). */
+  readonly attempts = { tried: 0, cut: 0 };
   /** ft at a point when the case has a random strength field, else null. */
   private readonly ftAt: ((x: number, y: number) => number) | null;
   /** Set by restore(): the loop goes on from here instead of from the unloaded state. */
@@ -261,6 +267,16 @@ export class Analysis {
     return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w), this.eq.pairCoh);
   }
 
+  private stepMode(): StepMode { return this.opt.steps ?? this.c.control.steps ?? 'fixed'; }
+
+  /** Adaptive steps: the step's solution moved the energy balance by more than ENERGY_STEP of the work (steps.ts `energyJump`). */
+  private balanceMoved(): boolean {
+    const last = this.s.rows[this.s.rows.length - 1];
+    if (this.stepMode() === 'fixed' || !last) return false;
+    const en = this.eq.energies(this.coh, this.eq.kapTrial);
+    return energyJump(last, this.s.W, en.elastic, en.dissipated) > ENERGY_STEP;
+  }
+
   /** Undo a step attempt: the solution as saved, the trial histories as committed. */
   private undo(saved: Solution): void {
     restore(this.s, saved);
@@ -422,9 +438,12 @@ export class Analysis {
     // bearing strips, whose contact rounds come after it)
     const checked = !skipped && !elastic && at.frac > MIN_FRACTION && !at.opening;
     const early = checked && this.driven.strips.length === 0 ? () => this.softening() > 0.05 : undefined;
+    const it0 = this.iterations;
     const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
+    const m: StepMeasure = this.measure = { iterations: this.iterations - it0, softening: r.ok && !elastic ? this.softening() : 0, readiness: NaN, grew: false, byOpening: false };
     if (skipped) at.frac = WHILE_OPENING;
-    if (r.rejected || (r.ok && checked && (this.softening() > 0.05 || tipOvershoot(this.room()) > overshootLimit(this.c.crack!.insertAt ?? 1)))) {
+    const tooFar = (): boolean => m.softening > 0.05 || (m.readiness = tipOvershoot(this.room())) > overshootLimit(this.c.crack!.insertAt ?? 1) || this.balanceMoved();
+    if (r.rejected || (r.ok && checked && tooFar())) {
       this.undo(saved);
       cut(at);
       return null;
@@ -439,6 +458,7 @@ export class Analysis {
       if (V === null && skipped) { at.opening = false; at.frac = AFTER_OPENING; return null; }
       if (V === null) throw new RunStopped(`step ${at.step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
       target = V; kind = 'opening';
+      this.measure.byOpening = true;
     }
     if (elastic) return { kind, target };
     // staggered growth at this control level (or at this crack opening)
@@ -485,9 +505,10 @@ export class Analysis {
     // driven by the opening, the level reached is the gauge reading or the load-point travel
     const level = kind !== 'opening' ? target : ctl.by === 'cmod' ? this.eq.sys.gaugeReading(this.eq.work.u) : this.s.lambda;
     accept(at, level, kind === 'opening');
+    this.measure.grew = s.growthLog.length !== start.growth;
     const ev = this.record(at.step, level);
     this.peakLoad = Math.max(this.peakLoad, Math.abs(ev.row.load_N));
-    settle(at, ev.row);
+    settle(at, ev.row, this.stepMode() === 'fixed' ? undefined : { m: this.measure, rows: this.s.rows, base: ctl.target / ctl.increments });
     return ev;
   }
 
@@ -513,7 +534,7 @@ export class Analysis {
       }
       this.resumeAt = null;
       while (at.inc <= nInc) {
-        const target = propose(at, ctl.target, nInc);
+        const target = propose(at, ctl.target, nInc, elastic ? 'fixed' : this.stepMode());
         if (target === null) continue;
         // let signal handlers run between attempts
         if (this.stopRequested) await new Promise<void>((r) => setImmediate(r));
@@ -523,7 +544,9 @@ export class Analysis {
           break;
         }
         const start = { uw: this.s.uw.slice(), mid: this.s.mid?.u.slice() ?? null, lambda: this.s.lambda, level: at.done, growth: this.s.growthLog.length };
+        this.attempts.tried++;
         const step = this.advance(at, target);
+        if (step === null) this.attempts.cut++;
         if (step === null) continue;
         if ('end' in step) { reason = step.end; break; }
         const ev = this.converged(at, step.kind, step.target, start);

@@ -185,8 +185,8 @@ export class Equations {
     this.pairPlus.forEach((v, i) => kappa.set(v, this.kapTrial[i]));
   }
 
-  /** Elastic energy (bulk and intact faces) and energy dissipated on the faces (N·mm) of the last evaluated state. */
-  energies(coh: CohesiveParams): { elastic: number; dissipated: number } {
+  /** Elastic energy (bulk and intact faces) and energy dissipated on the faces (N·mm) of the last evaluated state, with the histories `kap` (default: the committed ones). */
+  energies(coh: CohesiveParams, kap: Float64Array = this.kap): { elastic: number; dissipated: number } {
     const sys = this.sys, u = this.work.u, f = new Float64Array(sys.nDof);
     sys.internal(u, null, this.kap, this.kapTrial, f, false, 0);
     let e = 0;
@@ -197,7 +197,7 @@ export class Equations {
       const a = P.plus[p], b = P.minus[p];
       const dx = u[2 * a] - u[2 * b], dy = u[2 * a + 1] - u[2 * b + 1];
       const w = dx * P.nx[p] + dy * P.ny[p], s = dx * P.ny[p] - dy * P.nx[p];
-      const en = interfaceEnergy(this.cohOf(p, coh), w, s, this.kap[p]);
+      const en = interfaceEnergy(this.cohOf(p, coh), w, s, kap[p]);
       e += en.stored * P.area[p];
       d += en.dissipated * P.area[p];
     }

@@ -37,6 +37,10 @@ export interface LoopState {
   inc: number; frac: number; done: number; step: number; peak: Peak;
   /** The last step was driven by the crack opening and the case's control value fell: drive the next one so too. */
   opening?: boolean;
+  /** The step under way has been cut at least once (the next one then does not grow). */
+  cut?: boolean;
+  /** Adaptive steps: the largest tip readiness at the end of the last step, before growth (null after a growth or when not measured). */
+  ready?: number | null;
 }
 
 /** The loop's data besides the mesh, keyed by stable vertex ids (never by one topology's numbering). */

@@ -72,28 +72,38 @@ export function bbox(xy: ArrayLike<number>): [number, number, number, number] {
   return [x0, y0, x1, y1];
 }
 
-/** Edges of the mesh once each, and which of them are on the boundary (used by one cell only). */
+/**
+ * Edges of the mesh once each, ordered by their smaller vertex and then the larger, and which of
+ * them are on the boundary (used by one cell only): the cells' sides bucketed by their smaller
+ * vertex (a counting sort), each bucket's few sides sorted in place.
+ */
 function meshEdges(mesh: PolyMesh): { a: Int32Array; b: Int32Array; boundary: Uint8Array } {
   const nv = vertexCount(mesh), nc = cellCount(mesh);
   const { cellStart, cellVerts } = mesh;
-  const keys = new Float64Array(cellVerts.length);
-  for (let c = 0, k = 0; c < nc; c++) {
+  const start = new Int32Array(nv + 1);
+  for (let c = 0; c < nc; c++) {
     const s = cellStart[c], e = cellStart[c + 1];
-    for (let q = s; q < e; q++) {
-      const i = cellVerts[q], j = cellVerts[q + 1 < e ? q + 1 : s];
-      keys[k++] = i < j ? i * nv + j : j * nv + i;
+    for (let q = s; q < e; q++) { const i = cellVerts[q], j = cellVerts[q + 1 < e ? q + 1 : s]; start[(i < j ? i : j) + 1]++; }
+  }
+  for (let v = 0; v < nv; v++) start[v + 1] += start[v];
+  const fill = start.slice(0, nv), other = new Int32Array(start[nv]);
+  for (let c = 0; c < nc; c++) {
+    const s = cellStart[c], e = cellStart[c + 1];
+    for (let q = s; q < e; q++) { const i = cellVerts[q], j = cellVerts[q + 1 < e ? q + 1 : s]; if (i < j) other[fill[i]++] = j; else other[fill[j]++] = i; }
+  }
+  const a = new Int32Array(other.length), b = new Int32Array(other.length), bd = new Uint8Array(other.length);
+  let n = 0;
+  for (let v = 0; v < nv; v++) {
+    const s = start[v], e = start[v + 1];
+    for (let k = s + 1; k < e; k++) { const x = other[k]; let m = k - 1; while (m >= s && other[m] > x) { other[m + 1] = other[m]; m--; } other[m + 1] = x; }
+    for (let k = s; k < e; ) {
+      let m = k + 1;
+      while (m < e && other[m] === other[k]) m++;
+      a[n] = v; b[n] = other[k]; bd[n] = m - k === 1 ? 1 : 0; n++;
+      k = m;
     }
   }
-  keys.sort();
-  const a: number[] = [], b: number[] = [], bd: number[] = [];
-  for (let k = 0; k < keys.length; ) {
-    let m = k + 1;
-    while (m < keys.length && keys[m] === keys[k]) m++;
-    const i = Math.floor(keys[k] / nv);
-    a.push(i); b.push(keys[k] - i * nv); bd.push(m - k === 1 ? 1 : 0);
-    k = m;
-  }
-  return { a: Int32Array.from(a), b: Int32Array.from(b), boundary: Uint8Array.from(bd) };
+  return { a: a.slice(0, n), b: b.slice(0, n), boundary: bd.slice(0, n) };
 }
 
 /** The edges picked by mask joined into polylines (vertex lists), so dashes run on and files stay small. */

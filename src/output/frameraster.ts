@@ -2,7 +2,9 @@
 // supports, loads and this state's part of the inset on our own canvas (raster.ts); the text and
 // the parts every frame of a run shares (title, colour bar, keys, scale bar, inset axes and the
 // whole curve) rendered from SVG once and laid over each frame; the caption, the only text that
-// changes, rendered as a strip of its own. sharp only renders that text and encodes the PNG.
+// changes, from glyphs rendered once. With the run's palette (quantised by sharp from one frame
+// drawn in RGB), frames and the animation's pages are drawn as palette indices and written as
+// PNG rows and GIF pages without a look-up pass; sharp renders the text and quantises.
 
 import sharp from 'sharp';
 import { cellCount } from '../mesh/polymesh.js';
@@ -13,7 +15,7 @@ import {
 } from './field.js';
 import { insetGeometry, INSET_STYLE } from './inset.js';
 import { constants as zlibConstants, deflateSync } from 'node:zlib';
-import { Canvas, coloursOf, indexedPng, overlayOf, paletteLut, rgb, toPalette, type Overlay, type PaletteLut, type Rgb } from './raster.js';
+import { Canvas, coloursOf, overlayOf, PaletteMix, pngOfIndices, rgb, type Overlay, type Rgb } from './raster.js';
 import { GlyphText } from './glyphs.js';
 
 const WHITE: Rgb = [255, 255, 255];
@@ -41,18 +43,27 @@ const FRAME_DEFLATE = { level: 6, strategy: zlibConstants.Z_RLE };
 /** Draws the frames of a run one after another, keeping its buffers and the shared overlay. */
 export class FrameRaster {
   private canvas = new Canvas();
+  /** The animation's pages, drawn at their own size. */
+  private pageCanvas = new Canvas();
   private shared = new Map<string, Overlay>();
-  private glyphs: GlyphText | null = null;
+  /** The caption's glyphs by font size (frames and pages differ). */
+  private glyphs = new Map<number, GlyphText>();
 
   /**
-   * The raw pixels of a field picture (the layout of fieldSvg at widthPx); sharedKey: a name for
-   * its shared layers, the same for pictures whose shared layers (the damage key apart) are the
-   * same (default: their SVG).
+   * The raw RGB pixels of a field picture (the layout of fieldSvg at widthPx); sharedKey: a name
+   * for its shared layers, the same for pictures whose shared layers (the damage key apart) are
+   * the same (default: their SVG).
    */
   async pixels(p: FieldPicture, sharedKey?: string): Promise<{ data: Uint8Array; width: number; height: number }> {
-    const L = fieldLayout(p), u = L.u, cv = this.canvas;
+    const { width, height } = await this.draw(this.canvas, p, sharedKey, null);
+    return { data: this.canvas.px, width, height };
+  }
+
+  /** Draw a field picture on the canvas: in RGB, or with mix as indices into its palette. */
+  private async draw(cv: Canvas, p: FieldPicture, sharedKey: string | undefined, mix: PaletteMix | null): Promise<{ width: number; height: number }> {
+    const L = fieldLayout(p), u = L.u;
     const W = Math.ceil(L.W), H = Math.ceil(L.H);
-    cv.reset(W, H, WHITE);
+    cv.reset(W, H, WHITE, mix);
 
     // cells
     const { cellStart, cellVerts } = p.mesh, nc = cellCount(p.mesh);
@@ -67,7 +78,9 @@ export class FrameRaster {
     const lines = meshLines(p, L);
     for (const l of lines.undeformed) cv.dashed(l, 1 * u, 5 * u, 3.5 * u);
     cv.paint(rgb(UNDEFORMED));
-    for (const l of lines.inner) cv.polyline(l, (p.values ? MESH_ON_VALUES.width : MESH_PLAIN.width) * u);
+    // at least half a pixel wide: thinner, a small page's (an animation's) mesh would fade away
+    const meshW = Math.max(0.5, (p.values ? MESH_ON_VALUES.width : MESH_PLAIN.width) * u);
+    for (const l of lines.inner) cv.polyline(l, meshW);
     if (p.values) cv.paint([0, 0, 0], MESH_ON_VALUES.opacity); else cv.paint(rgb(MESH_PLAIN.color));
     for (const l of lines.outline) cv.polyline(l, 1.3 * u);
     cv.paint(INK);
@@ -135,12 +148,13 @@ export class FrameRaster {
     const top = Math.floor(L.capY);
     if (L.captionLines.length && H > top) {
       const fs = 15 * u;
-      if (this.glyphs?.fontPx !== fs) this.glyphs = new GlyphText(fs);
-      await this.glyphs.prepare(L.captionLines);
-      cv.px.fill(255, 3 * top * W);
-      L.captionLines.forEach((line, i) => this.glyphs!.draw(cv, L.pad, L.capY + (i + 0.8) * 22 * u, line, CAPTION));
+      let g = this.glyphs.get(fs);
+      if (!g) { g = new GlyphText(fs); this.glyphs.set(fs, g); }
+      await g.prepare(L.captionLines);
+      cv.fillRows(top, WHITE);
+      L.captionLines.forEach((line, i) => g.draw(cv, L.pad, L.capY + (i + 0.8) * 22 * u, line, CAPTION));
     }
-    return { data: cv.px, width: W, height: H };
+    return { width: W, height: H };
   }
 
   /**
@@ -165,38 +179,47 @@ export class FrameRaster {
    */
   async palette(p: FieldPicture, sharedKey?: string): Promise<{ palette: Uint8Array; width: number; height: number }> {
     const { data, width, height } = await this.pixels(p, sharedKey);
-    const q = await sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
+    // stored, not deflated: it is only decoded again here (the same colours, a third less time)
+    const q = await sharp(data, { raw: { width, height, channels: 3 } }).png({ ...FRAME_PNG, compressionLevel: 0 }).toBuffer();
     return { palette: coloursOf(await sharp(q).removeAlpha().raw().toBuffer(), 255), width, height };
   }
 
-  private lut: PaletteLut | null = null;
-  private lutFor: Uint8Array | null = null;
+  private mix: PaletteMix | null = null;
   private rows = new Uint8Array(0);
 
-  /** The nearest palette entry of each colour met, kept from frame to frame. */
-  private lutOf(palette: Uint8Array): PaletteLut {
-    if (this.lutFor !== palette || !this.lut) { this.lut = paletteLut(); this.lutFor = palette; }
-    return this.lut;
-  }
-
-  /** A field picture as PNG bytes: indexed against the run's palette when given, else through sharp's quantiser (sharedKey: see pixels). */
-  async png(p: FieldPicture, palette?: Uint8Array, sharedKey?: string): Promise<Buffer> {
-    const { data, width, height } = await this.pixels(p, sharedKey);
-    if (!palette) return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
-    if (this.rows.length !== (width + 1) * height) this.rows = new Uint8Array((width + 1) * height);
-    return indexedPng(data, width, height, palette, this.lutOf(palette), (b) => deflateSync(b, FRAME_DEFLATE), this.rows);
+  /** The blends within the run's palette, kept from frame to frame. */
+  private mixOf(palette: Uint8Array): PaletteMix {
+    if (this.mix?.palette !== palette) this.mix = new PaletteMix(palette);
+    return this.mix;
   }
 
   /**
-   * The picture drawn last, at most width px wide (Lanczos resampling), as indices into the
-   * palette: an animation's page, from the pixels in hand rather than a decoded PNG file.
+   * A field picture as PNG bytes: drawn as indices into the run's palette when given, else in RGB
+   * through sharp's quantiser (sharedKey: see pixels).
    */
-  async page(width: number, palette: Uint8Array): Promise<AnimationPage> {
-    const { width: w0, height: h0, px } = this.canvas;
-    const w = Math.max(1, Math.min(w0, Math.round(width))), h = Math.max(1, Math.round((h0 * w) / w0));
-    const raw = await sharp(px, { raw: { width: w0, height: h0, channels: 3 } })
-      .resize({ width: w, height: h, fit: 'contain', position: 'top', background: '#ffffff', kernel: 'lanczos3' })
-      .flatten({ background: '#ffffff' }).removeAlpha().raw().toBuffer();
-    return { ix: toPalette(raw, palette, this.lutOf(palette)), width: w, height: h };
+  async png(p: FieldPicture, palette?: Uint8Array, sharedKey?: string): Promise<Buffer> {
+    if (!palette) {
+      const { data, width, height } = await this.pixels(p, sharedKey);
+      return sharp(data, { raw: { width, height, channels: 3 } }).png(FRAME_PNG).toBuffer();
+    }
+    const { width, height } = await this.draw(this.canvas, p, sharedKey, this.mixOf(palette));
+    if (this.rows.length !== (width + 1) * height) this.rows = new Uint8Array((width + 1) * height);
+    return pngOfIndices(this.canvas.ix, width, height, palette, (b) => deflateSync(b, FRAME_DEFLATE), this.rows);
+  }
+
+  /**
+   * An animation's page: the picture (at the page's width) drawn as indices into the palette at
+   * its own size, so no resize and no look-up of blended colours (sharedKey: see pixels).
+   */
+  /** The PNG frame drawn last, as an animation's page (for frames no wider than the animation). */
+  framePage(): AnimationPage {
+    const cv = this.canvas;
+    if (!cv.mix) throw new Error('framePage: the last frame was not drawn in a palette');
+    return { ix: cv.ix.slice(), width: cv.width, height: cv.height };
+  }
+
+  async page(p: FieldPicture, palette: Uint8Array, sharedKey?: string): Promise<AnimationPage> {
+    const { width, height } = await this.draw(this.pageCanvas, p, sharedKey, this.mixOf(palette));
+    return { ix: this.pageCanvas.ix.slice(), width, height };
   }
 }

@@ -180,6 +180,7 @@ export function planFrames(dir: string, c: CaseModel): FramePlan | null {
   if (stored.length === 0) return null;
   const steps = evenlySpaced(stored, c.output.maxFrames);
   const data = steps.map((k) => readStep(dir, k));
+  const read = new Map(steps.map((k, i) => [k, data[i]!]));
   // one magnification: the largest displacement of the run (its final state in a test that opens steadily)
   let big = data[data.length - 1], umax = 0;
   for (const d of data) {
@@ -198,8 +199,13 @@ export function planFrames(dir: string, c: CaseModel): FramePlan | null {
     for (let i = 0; i < pos.length; i++) pos[i] = d.mesh.xy[i] + mag * d.u[i];
     grow(bbox(pos));
   }
-  return { steps, magnification: mag, view };
+  const plan: FramePlan = { steps, magnification: mag, view };
+  stepsRead.set(plan, read);
+  return plan;
 }
+
+/** The states a plan was made from, kept for drawing on this thread (a worker's copy of the plan reads its own). */
+const stepsRead = new WeakMap<FramePlan, Map<number, StepData>>();
 
 function readStep(dir: string, step: number): StepData {
   return decodeStep(readFileSync(join(dir, 'frames', `${stepName(step)}.bin`)));
@@ -241,7 +247,7 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
   // the GIF's pages from the pixels in hand (rupta's palette has room for its transparent index)
   const pages = c.output.animation === 'gif' && palette !== undefined && palette.length / 3 <= 255;
   for (const k of steps) {
-    const d = readStep(dir, k);
+    const d = stepsRead.get(plan)?.get(k) ?? readStep(dir, k);
     const base = join(dir, 'frames', stepName(k));
     const svg = c.output.frames.includes('svg') ? frameSvg(c, d, rows, plan) : null;
     if (svg !== null) writeFileAtomic(`${base}.svg`, svg);
@@ -252,7 +258,11 @@ export async function drawFrameSteps(dir: string, plan: FramePlan, steps: number
       writeFileAtomic(`${base}.png`, png);
       // the frame itself: a smaller copy would save little on a palette PNG and cost a resize and an encode
       const uri = `data:image/png;base64,${png.toString('base64')}`;
-      thumbs.push({ step: k, thumb: uri.includes('http') ? await pngDataUri(sharp(png)) : uri, page: pages ? await raster.page(ANIMATION_WIDTH, palette) : undefined });
+      // the GIF's page drawn at its own size (or, no wider than the animation, the frame itself)
+      let page: AnimationPage | undefined;
+      if (pages && c.output.pngWidth <= ANIMATION_WIDTH) page = raster.framePage();
+      else if (pages) { const pp = framePicture(c, d, rows, plan, ANIMATION_WIDTH); page = await raster.page(pp, palette!, sharedLayersKey(pp)); }
+      thumbs.push({ step: k, thumb: uri.includes('http') ? await pngDataUri(sharp(png)) : uri, page });
     } else thumbs.push({ step: k, thumb: await pngDataUri(sharp(await svgToPngBuffer(svg!, STEPPER_WIDTH))) });
   }
   return thumbs;
@@ -286,9 +296,11 @@ export async function drawFrames(dir: string, opt: { workers?: number; prune?: b
   const here = new FrameRaster();
   let pixels = Infinity; // of all PNG frames together
   if (c.output.frames.includes('png')) {
-    // one palette for every frame: quantised once, each frame then only looks its colours up
+    // one palette for every frame, quantised once from the last frame at the frames' size (from
+    // the last GIF page, a third of the pixels, it saved about 30 ms but lacked blends of the mesh
+    // lines over dark cells that earlier frames need: they came out grey)
     const last = plan.steps[plan.steps.length - 1]!;
-    const pic = framePicture(c, readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth);
+    const pic = framePicture(c, stepsRead.get(plan)?.get(last) ?? readStep(dir, last), readCurveRows(dir), plan, c.output.pngWidth);
     const q = await here.palette(pic, sharedLayersKey(pic));
     plan.palette = Array.from(q.palette);
     pixels = q.width * q.height * plan.steps.length;

@@ -9,7 +9,7 @@ import type { Canvas, Rgb } from './raster.js';
 import { svgDocument, text } from './svg.js';
 
 /** Copies of a character in the run its advance is measured from. */
-const RUN = 32;
+const RUN = 8;
 /** Sub-pixel offsets a glyph is rendered at (quarters of a pixel). */
 const PHASES = 4;
 
@@ -77,7 +77,7 @@ export class GlyphText {
 
   /** Draw a prepared line in colour c, starting at x with its baseline at row y (rounded). */
   draw(cv: Canvas, x: number, y: number, line: string, c: Rgb): void {
-    const p = cv.px, W = cv.width, Hc = cv.height, by = Math.round(y);
+    const W = cv.width, Hc = cv.height, by = Math.round(y);
     let pen = x;
     for (const ch of line) {
       const g = this.glyphs.get(ch);
@@ -92,10 +92,7 @@ export class GlyphText {
         for (let xx = 0; xx < g.w; xx++) {
           const col = gx + xx, a = cover[yy * g.w + xx];
           if (a === 0 || col < 0 || col >= W) continue;
-          const q = 3 * (row * W + col), b = 255 - a;
-          p[q] = (p[q] * b + c[0] * a + 127) / 255 | 0;
-          p[q + 1] = (p[q + 1] * b + c[1] * a + 127) / 255 | 0;
-          p[q + 2] = (p[q + 2] * b + c[2] * a + 127) / 255 | 0;
+          cv.mixAt(row * W + col, c, a);
         }
       }
       pen += g.advance;
