@@ -119,6 +119,9 @@ export class LefmAnalysis {
       .filter((t) => !this.dead.has(t.v));
   }
 
+  /** Widest load or support strip (mm). */
+  private get maxWidth(): number { return Math.max(0, ...[...this.c.supports, ...this.c.loads].map((q) => q.width)); }
+
   /** Distance from (x, y) to the nearest load or support. */
   private contactRoom(x: number, y: number): number {
     let room = Infinity;
@@ -131,12 +134,16 @@ export class LefmAnalysis {
     return room;
   }
 
-  /** Grow tip t one step in its MTS direction; 'through' when the crack has left the material. */
-  private growTip(t: TipMeasure): 'grown' | 'through' | 'stopped' {
-    const crack = this.c.crack!, wm = this.wm;
-    const len = Math.min(crack.growthStep, this.contactRoom(t.x, t.y) - this.c.mesh.tipSize);
-    if (len < 0.5 * this.c.mesh.tipSize) { this.dead.add(t.v); return 'stopped'; }
-    const gx = Math.cos(t.kink!), gy = Math.sin(t.kink!);
+  /**
+   * Grow tip t one step in its MTS direction; 'through' when the crack has left the material.
+   * Within a growth step and a tip cell of a load or support the cut runs on to the outline
+   * (through the loaded face, as a cohesive crack runs through to its rig point): the ligament
+   * left there is the compressed zone that the critical state before already broke through.
+   */
+  private growTip(t: TipMeasure, gx = Math.cos(t.kink!), gy = Math.sin(t.kink!)): 'grown' | 'through' | 'stopped' {
+    const crack = this.c.crack!, wm = this.wm, h = this.c.mesh.tipSize;
+    const room = this.contactRoom(t.x, t.y);
+    const len = room < crack.growthStep + h ? room + this.maxWidth / 2 + 2 * h : crack.growthStep;
     const cut = cutRay(wm, t.v, gx, gy, len);
     if (cut.path.length < 2) { this.dead.add(t.v); return 'stopped'; }
     const k = this.cracks[t.crack];
@@ -211,6 +218,11 @@ export class LefmAnalysis {
         for (const k of keq) best = Math.max(best, k);
         if (!(best > 0)) {
           const near = tips.find((t) => t.KI === null);
+          // a tip too near the rig for K to be read: its ligament there is the compressed zone
+          // under the load, which the last critical state already broke through
+          if (near && this.contactRoom(near.x, near.y) < c.crack!.growthStep + c.mesh.tipSize && this.growTip(near, near.dx, near.dy) === 'through') {
+            reason = 'a crack has run through the specimen, which has come apart'; break;
+          }
           reason = near ? `the crack tip at [${near.x.toFixed(3)}, ${near.y.toFixed(3)}] mm has no room left before the outline, a load or a support: the ligament is cut through`
             : 'no crack tip is opened by the load';
           break;
