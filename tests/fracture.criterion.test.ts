@@ -32,6 +32,15 @@ describe('readiness of a tip to lay its next segment (own rule, DEVELOPERS.md)',
     expect(frontDistance(faces, l, x, y, 1.5)).toBe(Infinity);
   });
 
+  it("reads each pair against its own ft where a strength field varies it", () => {
+    // the same κ = 0.0015 mm (1.5 MPa) on a pair of strength 2 MPa is 0.75 of its ft, not 0.5
+    const own = { ...load([0, 0, 0.0015]), pairFt: [3, 3, 2] };
+    expect(endPairLoad(faces, own)).toBeCloseTo(0.75, 12);
+    // the pair on x = 6 (ft 2) has reached 0.9 of its own ft at κ = 0.0018: 2 mm from the tip
+    expect(frontDistance(faces, { ...load([0, 0, 0.0018]), pairFt: [3, 3, 2] }, x, y, 0.9)).toBeCloseTo(2, 12);
+    expect(frontDistance(faces, load([0, 0, 0.0018]), x, y, 0.9)).toBe(Infinity);
+  });
+
   it('lays a first segment at any tensile stress, then by stress only while the front is near', () => {
     const base = { ft, insertAt: 0.9, growthStep: 4 };
     expect(readiness({ ...base, s1: 0.1, faces: null })).toBe(Infinity);

@@ -88,8 +88,13 @@ export interface TipFaces {
   fromEnd: boolean;
 }
 
-/** The cohesive state the checks read: trial history per pair and the pair of a plus-face vertex. */
-export interface FaceLoad { pairOf: ReadonlyMap<number, number>; kap: Float64Array; penalty: number; ft: number }
+/**
+ * The cohesive state the checks read: trial history per pair and the pair of a plus-face vertex;
+ * each pair's own ft where a strength field varies it (pairFt), else the one ft.
+ */
+export interface FaceLoad { pairOf: ReadonlyMap<number, number>; kap: Float64Array; penalty: number; ft: number; pairFt?: ArrayLike<number> }
+
+const ftOfPair = (l: FaceLoad, p: number): number => (l.pairFt ? l.pairFt[p] : l.ft);
 
 /** Traction of the face pair next to the tip over ft, in the trial state (past the peak: more than 1); 0 without pairs. */
 export function endPairLoad(f: TipFaces, l: FaceLoad): number {
@@ -98,7 +103,7 @@ export function endPairLoad(f: TipFaces, l: FaceLoad): number {
     const i = f.fromEnd ? n - 1 - j : j;
     if (f.twins[i] < 0) continue;
     const p = l.pairOf.get(P[i]);
-    return p === undefined ? 0 : l.kap[p] * l.penalty / l.ft;
+    return p === undefined ? 0 : l.kap[p] * l.penalty / ftOfPair(l, p);
   }
   return 0;
 }
@@ -106,14 +111,13 @@ export function endPairLoad(f: TipFaces, l: FaceLoad): number {
 /** Length along the crack from the tip back to the nearest face pair whose traction has reached a·ft (Infinity if none). */
 export function frontDistance(f: TipFaces, l: FaceLoad, x: ArrayLike<number>, y: ArrayLike<number>, a: number): number {
   const P = f.path, n = P.length, fromEnd = f.fromEnd;
-  const reach = a * l.ft / l.penalty;
   let d = 0;
   for (let j = 0; j < n; j++) {
     const i = fromEnd ? n - 1 - j : j;
     if (j > 0) { const q = fromEnd ? P[i + 1] : P[i - 1]; d += Math.hypot(x[P[i]] - x[q], y[P[i]] - y[q]); }
     if (f.twins[i] < 0) continue;
     const p = l.pairOf.get(P[i]);
-    if (p !== undefined && l.kap[p] >= reach) return d;
+    if (p !== undefined && l.kap[p] >= a * ftOfPair(l, p) / l.penalty) return d;
   }
   return Infinity;
 }

@@ -37,6 +37,8 @@ export class Equations {
    * softens sooner and, GF kept, over a longer opening); null without a field: the mean's.
    */
   readonly pairCoh: readonly CohesiveParams[] | null = null;
+  /** Each pair's ft where a strength field varies it (what the growth checks read), else null. */
+  readonly pairFt: Float64Array | null = null;
 
   /** Order 2: the node mesh the System is built on (vertices keep their compact ids, midpoints follow). */
   readonly node: NodeMesh | null = null;
@@ -109,6 +111,7 @@ export class Equations {
       const xy = this.sys.mesh.xy, pl = geom.plus;
       this.pairCoh = Array.from(pl, (n) => atStrength(local.coh, local.ftAt(xy[2 * n], xy[2 * n + 1])));
       this.sys.pairCoh = this.pairCoh;
+      this.pairFt = Float64Array.from(this.pairCoh, (k) => k.law.ft);
     }
     this.work = new NewtonWork(this.sys);
     this.uf = new Float64Array(this.sys.nFree);

@@ -113,7 +113,7 @@ export function tipReadiness(g: GrowthRoom, t: Tip, s1: number): number {
   if (t.crack >= 0) {
     const k = g.s.cracks[t.crack];
     const f = { path: k.path, twins: k.twins, fromEnd: k.path[k.path.length - 1] === t.v };
-    const l: FaceLoad = { pairOf: g.eq.pairOf, kap: g.eq.kapTrial, penalty: g.coh.penalty, ft: g.coh.law.ft };
+    const l: FaceLoad = { pairOf: g.eq.pairOf, kap: g.eq.kapTrial, penalty: g.coh.penalty, ft: g.coh.law.ft, pairFt: g.eq.pairFt ?? undefined };
     faces = { frontDistance: frontDistance(f, l, g.wm.x, g.wm.y, insertAt), endPairLoad: endPairLoad(f, l) };
   }
   return readiness({ s1, ft: g.ftAt ? g.ftAt(g.wm.x[t.v], g.wm.y[t.v]) : g.c.material.ft, insertAt, growthStep: crack.growthStep, faces });
@@ -185,14 +185,16 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
   const clear = keep + 2 * c.mesh.tipSize;
   for (const k of s.cracks) for (const v of k.path) away.push({ x: wm.x[v], y: wm.y[v], r: clear });
   for (const t of s.tips) if (t.active) away.push({ x: wm.x[t.v], y: wm.y[t.v], r: Math.max(clear, c.mesh.refineRadius) });
-  const ft = c.material.ft, rimFt = ft * (crack.insertAt ?? 1), tol = 1e-3 * c.mesh.tipSize;
+  // each cell against its own strength where a field varies it, else the mean
+  const ftMean = c.material.ft, insertAt = crack.insertAt ?? 1, tol = 1e-3 * c.mesh.tipSize;
   const cs = m.cellStart, cv = m.cellVerts, xy = m.xy;
   let best = -1, bestR = 0;
   for (let k = 0; k < cs.length - 1; k++) {
     const sxx = stress[3 * k], syy = stress[3 * k + 1], sxy = stress[3 * k + 2];
     const s1 = (sxx + syy) / 2 + Math.hypot((sxx - syy) / 2, sxy);
-    if (s1 <= bestR * rimFt || s1 < 0.5 * rimFt) continue;
     const x = cent[2 * k], y = cent[2 * k + 1];
+    const ft = g.ftAt ? g.ftAt(x, y) : ftMean, rimFt = insertAt * ft;
+    if (s1 <= bestR * rimFt || s1 < 0.5 * rimFt) continue;
     if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
     let onRim = false;
     for (let j = cs[k]; j < cs[k + 1] && !onRim && rims.length > 0; j++) onRim = ringAt(rims, xy[2 * cv[j]], xy[2 * cv[j] + 1], tol) >= 0;
