@@ -142,23 +142,73 @@ export function tipOvershoot(g: GrowthRoom): number {
  * Where new cracks may start. With `crack.start: anywhere`: anywhere in the material where the
  * stress reaches ft away from the cracks and the rig while no crack is growing (the first
  * crack, and further cracks once every tip has joined a hole, another crack, the outline or a
- * point of the rig, like those a split disc shows beside its bearing strips), but not while a
- * crack is held a tip cell short of a strip.
+ * point of the rig, like those a split disc shows beside its bearing strips); while cracks grow
+ * (`busy`: judged once they have caught up with the control level), only outside their reach
+ * (`shadows`); never while a crack is held a tip cell short of a strip.
  * Whatever the start: on the rim of a hole that a crack has reached, where the stress there
  * reaches the strength (the far side of the hole, so a crack passes through it as in the lab).
  */
-function startsPossible(g: GrowthRoom): boolean {
-  return freeStarts(g) || g.s.tips.some((t) => t.end === 'hole');
+function startsPossible(g: GrowthRoom, busy = false): boolean {
+  return freeStarts(g, busy) || g.s.tips.some((t) => t.end === 'hole');
 }
 
 /**
- * `crack.start: anywhere` and no crack held a tip cell short of a strip: that leaves its
- * halves clamped by the strips, which load them on, so a new crack beside it would be the
- * strips' doing, not the specimen's. A crack run through to a rig point has split the
- * specimen; what the pieces then carry is theirs.
+ * `crack.start: anywhere`, no active tip unless `busy`, and no crack held a tip cell short of a
+ * strip: that leaves its halves clamped by the strips, which load them on, so a new crack
+ * beside it would be the strips' doing, not the specimen's. A crack run through to a rig point
+ * has split the specimen; what the pieces then carry is theirs.
  */
-function freeStarts(g: GrowthRoom): boolean {
-  return g.c.crack!.start === 'anywhere' && !g.s.tips.some((t) => t.active || t.end === 'contact');
+function freeStarts(g: GrowthRoom, busy = false): boolean {
+  return g.c.crack!.start === 'anywhere' && !g.s.tips.some((t) => (t.active && !busy) || t.end === 'contact');
+}
+
+/**
+ * Where no crack starts while others grow (`crack.start: anywhere`), as polylines with the
+ * distance each keeps clear: around every crack grown from a tip (both halves of an interior
+ * start together), within its length of it, and along the line ahead of each active tip, the
+ * half-width of its refined zone out to the outline (that tip's to cut). A crack relieves the
+ * stress around it over a distance of the order of its length (parallel cracks in a stressed
+ * layer space at about their depth: common practice), and the faces of a growing one have yet
+ * to soften, so the stress next to it does not show the relief it is about to give. Null while
+ * a growing crack has no face pair past its peak (a start point included): it relieves nothing
+ * yet, so nowhere can the stress be judged. Empty when no tip is active.
+ */
+function shadows(g: GrowthRoom, clear: number): { xy: number[]; r: number }[] | null {
+  const { wm, s } = g, out: { xy: number[]; r: number }[] = [];
+  if (!s.tips.some((t) => t.active)) return out;
+  const l: FaceLoad = { pairOf: g.eq.pairOf, kap: g.eq.kapTrial, penalty: g.coh.penalty, ft: g.coh.law.ft, pairFt: g.eq.pairFt ?? undefined };
+  const done = new Set<number>();
+  for (const t of s.tips) {
+    if (t.active && t.crack < 0) return null;
+    if (t.crack < 0 || done.has(t.crack)) continue;
+    const p = t.partner !== undefined ? s.tips[t.partner] : null;
+    const halves = p && p.crack >= 0 ? [t.crack, p.crack] : [t.crack];
+    let L = 0, soft = false;
+    const xy: number[] = [];
+    for (const [j, ki] of halves.entries()) {
+      done.add(ki);
+      const k = s.cracks[ki], P = j === 0 && halves.length > 1 ? [...k.path].reverse() : k.path;
+      soft ||= frontDistance({ path: k.path, twins: k.twins, fromEnd: true }, l, wm.x, wm.y, 1) < Infinity;
+      // the halves share the start vertex: the second one's path continues the first one's reversed
+      for (let i = j === 0 ? 0 : 1; i < P.length; i++) {
+        xy.push(wm.x[P[i]], wm.y[P[i]]);
+        const n = xy.length;
+        if (n > 2) L += Math.hypot(xy[n - 2] - xy[n - 4], xy[n - 1] - xy[n - 3]);
+      }
+    }
+    const active = (p ? [t, p] : [t]).filter((q) => q.active);
+    if (active.length > 0 && !soft) return null;
+    out.push({ xy, r: Math.max(clear, L) });
+    for (const q of active) out.push({ xy: ahead(g, q), r: Math.max(clear, g.c.mesh.refineRadius) });
+  }
+  return out;
+}
+
+/** (x, y) lies within r of the polyline (flat xy). */
+function near(x: number, y: number, xy: readonly number[], r: number): boolean {
+  if (xy.length === 2) return Math.hypot(x - xy[0], y - xy[1]) < r;
+  for (let i = 0; i + 3 < xy.length; i += 2) if (segDist2(x, y, xy[i], xy[i + 1], xy[i + 2], xy[i + 3]) < r * r) return true;
+  return false;
 }
 
 /**
@@ -168,9 +218,9 @@ function freeStarts(g: GrowthRoom): boolean {
  * starts at ft. On a reached hole's rim, like a tip's next segment, it is laid intact at
  * insertAt·ft, so its faces take up load gradually.
  */
-function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: number; readiness: number } {
+function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>, busy = false): { cell: number; readiness: number } {
   const { c, wm, s } = g, crack = c.crack!, { m, stress, cent } = f;
-  const free = freeStarts(g);
+  const free = freeStarts(g, busy);
   const reached = new Set<number>();
   for (const t of s.tips) if (t.end === 'hole' && t.hole !== undefined) reached.add(t.hole);
   const rims = [...reached].map((h) => g.holes[h]);
@@ -185,6 +235,7 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
   const clear = keep + 2 * c.mesh.tipSize;
   for (const k of s.cracks) for (const v of k.path) away.push({ x: wm.x[v], y: wm.y[v], r: clear });
   for (const t of s.tips) if (t.active) away.push({ x: wm.x[t.v], y: wm.y[t.v], r: Math.max(clear, c.mesh.refineRadius) });
+  const shade = free ? shadows(g, clear) : [];
   // each cell against its own strength where a field varies it, else the mean
   const ftMean = c.material.ft, insertAt = crack.insertAt ?? 1, tol = 1e-3 * c.mesh.tipSize;
   const cs = m.cellStart, cv = m.cellVerts, xy = m.xy;
@@ -198,7 +249,7 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
     if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
     let onRim = false;
     for (let j = cs[k]; j < cs[k + 1] && !onRim && rims.length > 0; j++) onRim = ringAt(rims, xy[2 * cv[j]], xy[2 * cv[j] + 1], tol) >= 0;
-    if (!free && !onRim) continue;
+    if (!onRim && (!free || shade === null || shade.some((q) => near(x, y, q.xy, q.r)))) continue;
     const r = s1 / (onRim ? rimFt : ft);
     if (r > bestR) { bestR = r; best = k; }
   }
@@ -209,13 +260,14 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>): { cell: nu
  * Start a crack where startCandidate says (see startsPossible): at the boundary vertex of that
  * cell nearest its centre when it touches the outline or a hole (running into the material),
  * else at the vertex nearest to it with two tips running apart; perpendicular to the major
- * principal stress. Returns 1 when a crack started (the mesh is refined around it).
+ * principal stress. Returns 1 when a crack started (the mesh is refined around it). `busy`:
+ * also while cracks grow, outside their reach (startsPossible).
  */
-export function initiate(g: GrowthRoom): number {
+export function initiate(g: GrowthRoom, busy = false): number {
   const { c, wm } = g, crack = c.crack!, tips = g.s.tips;
-  if (!startsPossible(g)) return 0;
+  if (!startsPossible(g, busy)) return 0;
   const f = fields(g), { m, stress, cent, areas } = f;
-  const { cell: best, readiness: r } = startCandidate(g, f);
+  const { cell: best, readiness: r } = startCandidate(g, f, busy);
   if (best < 0 || r < 1) return 0;
   const x = cent[2 * best], y = cent[2 * best + 1];
   let v = -1, bd = Infinity;
@@ -368,6 +420,8 @@ export function grow(g: GrowthRoom): number {
     }
     grown++;
   }
+  // once the growing cracks have caught up with this level, elsewhere where they relieve nothing
+  if (grown === 0 && s.tips.some((t) => t.active)) return initiate(g, true);
   if (grown > 0) {
     const at = s.tips.filter((t) => t.active).map((t) => ahead(g, t));
     if (c.mesh.coarsen && at.length > 0) coarsenAway(wm, at, 2 * c.mesh.refineRadius + 2 * c.mesh.size, rigZone(g));
