@@ -20,6 +20,8 @@ import {
   type CsrMatrix,
   type OrderingMethod,
 } from '../src/linalg/index.js';
+import { parseCase } from '../src/case/index.js';
+import type { CaseModel } from '../src/case/model.js';
 
 export interface BenchResult {
   n: number;
@@ -194,4 +196,26 @@ if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) 
     console.error('usage: bench-matrix FILE | bench-matrix --grid NX NY FILE');
     process.exit(2);
   }
+}
+
+/**
+ * The square plate with an edge notch and a hole whose stiffness the factorization benches
+ * (and the symbolic analysis's tests) use: cells of size h, relaxed `lloyd` times.
+ */
+export function plateCase(h: number, lloyd = 8, seed = 1): CaseModel {
+  return parseCase(`
+format: 1
+title: bench plate
+units: mm-N-MPa
+thickness: 10
+geometry:
+  outline: [[0,0],[1000,0],[1000,1000],[0,1000]]
+  holes: [{circle: {center: [600, 500], radius: 80}}]
+  notches: [{from: [0, 500], to: [250, 500], width: 4}]
+material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1}
+supports: [{along: [[0,0],[1000,0]], fix: y}, {at: [0,0], fix: x}]
+loads: [{along: [[0,1000],[1000,1000]], direction: [0, 1]}]
+control: {target: 0.05}
+mesh: {size: ${h}, tipSize: ${h}, refineRadius: ${h}, lloyd: ${lloyd}, seed: ${seed}}
+`, 'bench-plate.yaml');
 }

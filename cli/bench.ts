@@ -31,7 +31,7 @@ import { buildDomain } from '../src/geometry/domain.js';
 import { generateMesh } from '../src/mesh/generate.js';
 import { Analysis } from '../src/fracture/analysis.js';
 import { DISSECTION_FROM_ROWS, analyze, factorize, readMatrixMarket, writeMatrixMarket, type CsrMatrix, type OrderingMethod } from '../src/linalg/index.js';
-import { benchMatrix, cholmodDriver, cholmodTimes, cpuSeconds, type BenchResult, type ReferenceTiming, type SolverLib } from './bench-matrix.js';
+import { benchMatrix, plateCase, cholmodDriver, cholmodTimes, cpuSeconds, type BenchResult, type ReferenceTiming, type SolverLib } from './bench-matrix.js';
 import { runCase } from '../src/run.js';
 import { worstEnergyGap } from '../src/output/warnings.js';
 import { benchStudy } from './bench-study.js';
@@ -42,23 +42,6 @@ import { benchFrames } from './bench-frames.js';
 const median = (a: number[]) => { const s = [...a].sort((x, y) => x - y); return s[s.length >> 1]; };
 const now = () => performance.now() / 1000;
 
-function plateCase(h: number): CaseModel {
-  return parseCase(`
-format: 1
-title: bench plate
-units: mm-N-MPa
-thickness: 10
-geometry:
-  outline: [[0,0],[1000,0],[1000,1000],[0,1000]]
-  holes: [{circle: {center: [600, 500], radius: 80}}]
-  notches: [{from: [0, 500], to: [250, 500], width: 4}]
-material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1}
-supports: [{along: [[0,0],[1000,0]], fix: y}, {at: [0,0], fix: x}]
-loads: [{along: [[0,1000],[1000,1000]], direction: [0, 1]}]
-control: {target: 0.05}
-mesh: {size: ${h}, tipSize: ${h}, refineRadius: ${h}, lloyd: 8, seed: 1}
-`, 'bench-plate.yaml');
-}
 
 const ORDERINGS: OrderingMethod[] = ['mindegree', 'dissection'];
 const autoPick = (n: number): OrderingMethod => (n >= DISSECTION_FROM_ROWS ? 'dissection' : 'mindegree');

@@ -2,8 +2,7 @@
 // same analysis column by column: no published values, the two must agree entry for entry.
 import { describe, expect, it } from 'vitest';
 import { analyze, factorize, fillReducingOrder, type CsrMatrix, type Symbolic } from '../src/linalg/index.js';
-import { gridStiffnessQ4 } from '../cli/bench-matrix.js';
-import { parseCase } from '../src/case/index.js';
+import { gridStiffnessQ4, plateCase } from '../cli/bench-matrix.js';
 import { buildDomain } from '../src/geometry/domain.js';
 import { generateMesh } from '../src/mesh/generate.js';
 import { Analysis } from '../src/fracture/analysis.js';
@@ -11,21 +10,7 @@ import { rng } from '../src/linalg/samples.js';
 
 /** Stiffness of a Voronoi mesh of a notched plate with a hole (supports eliminated), about 2.4k dofs. */
 function plateStiffness(seed: number): CsrMatrix {
-  const c = parseCase(`
-format: 1
-title: symbolic check plate
-units: mm-N-MPa
-thickness: 10
-geometry:
-  outline: [[0,0],[1000,0],[1000,1000],[0,1000]]
-  holes: [{circle: {center: [600, 500], radius: 80}}]
-  notches: [{from: [0, 500], to: [250, 500], width: 4}]
-material: {E: 30000, nu: 0.2, ft: 3, GF: 0.1}
-supports: [{along: [[0,0],[1000,0]], fix: y}, {at: [0,0], fix: x}]
-loads: [{along: [[0,1000],[1000,1000]], direction: [0, 1]}]
-control: {target: 0.05}
-mesh: {size: 26, tipSize: 26, refineRadius: 26, lloyd: 2, seed: ${seed}}
-`, 'symbolic-plate.yaml');
+  const c = plateCase(26, 2, seed);
   return new Analysis(c, generateMesh(buildDomain(c), c.mesh)).stiffnessMatrix();
 }
 

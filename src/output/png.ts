@@ -4,7 +4,7 @@ import { readFileSync } from 'node:fs';
 import { inflateSync } from 'node:zlib';
 import sharp, { type Sharp } from 'sharp';
 import { writeFileAtomic } from './files.js';
-import { coloursOf, paletteLut, toPalette } from './raster.js';
+import { coloursOf, commonestColours, paletteLut, toPalette } from './raster.js';
 import { gifOf } from './gif.js';
 
 /** The width in px that an SVG document declares (its width attribute, else its viewBox). */
@@ -159,14 +159,7 @@ export function pngColours(png: Uint8Array, max = Infinity): Uint8Array | null {
   const key = (q: number): number => (plte[3 * q] << 16) | (plte[3 * q + 1] << 8) | plte[3 * q + 2];
   const byKey = new Map<number, number>();
   for (const q of order) byKey.set(key(q), (byKey.get(key(q)) ?? 0) + count[q]);
-  let keys = [...byKey.keys()];
-  if (keys.length > max) {
-    const keep = new Set([...keys].sort((a, c) => byKey.get(c)! - byKey.get(a)! || a - c).slice(0, max));
-    keys = keys.filter((k) => keep.has(k));
-  }
-  const out = new Uint8Array(3 * keys.length);
-  keys.forEach((k, i) => { out[3 * i] = k >> 16; out[3 * i + 1] = (k >> 8) & 255; out[3 * i + 2] = k & 255; });
-  return out;
+  return commonestColours(byKey, max);
 }
 
 /** A PNG data URI whose text never contains "http", so a page can be checked for outside addresses by a plain search. */

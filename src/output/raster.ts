@@ -456,6 +456,11 @@ export function coloursOf(px: Uint8Array, max = Infinity): Uint8Array {
     const key = (px[k] << 16) | (px[k + 1] << 8) | px[k + 2];
     count.set(key, (count.get(key) ?? 0) + 1);
   }
+  return commonestColours(count, max);
+}
+
+/** Packed RGB keys (0xRRGGBB) with their pixel counts, in first-seen order, as RGB triples; beyond max, the rarest left out. */
+export function commonestColours(count: ReadonlyMap<number, number>, max: number): Uint8Array {
   let keys = [...count.keys()];
   if (keys.length > max) {
     const keep = new Set([...keys].sort((a, b) => count.get(b)! - count.get(a)! || a - b).slice(0, max));
