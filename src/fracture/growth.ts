@@ -261,12 +261,13 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>, busy = fals
  * cell nearest its centre when it touches the outline or a hole (running into the material),
  * else at the vertex nearest to it with two tips running apart; perpendicular to the major
  * principal stress. Returns 1 when a crack started (the mesh is refined around it). `busy`:
- * also while cracks grow, outside their reach (startsPossible).
+ * also while cracks grow, outside their reach (startsPossible); `state`: the fields of the
+ * current state when the caller has them.
  */
-export function initiate(g: GrowthRoom, busy = false): number {
+export function initiate(g: GrowthRoom, busy = false, state?: ReturnType<typeof fields>): number {
   const { c, wm } = g, crack = c.crack!, tips = g.s.tips;
   if (!startsPossible(g, busy)) return 0;
-  const f = fields(g), { m, stress, cent, areas } = f;
+  const f = state ?? fields(g), { m, stress, cent, areas } = f;
   const { cell: best, readiness: r } = startCandidate(g, f, busy);
   if (best < 0 || r < 1) return 0;
   const x = cent[2 * best], y = cent[2 * best + 1];
@@ -319,7 +320,7 @@ function ringAt(rings: readonly Float64Array[], x: number, y: number, tol: numbe
 export function grow(g: GrowthRoom): number {
   const { c, wm, s } = g, crack = c.crack!;
   if (initiate(g) > 0) return 1;
-  const { m, stress, areas, cent } = fields(g);
+  const f = fields(g), { m, stress, areas, cent } = f;
   // K at the slit tips of the state before any cut of this round (the mesh changes as tips grow)
   let measured: TipMeasure[] | null = null;
   let grown = 0;
@@ -421,7 +422,7 @@ export function grow(g: GrowthRoom): number {
     grown++;
   }
   // once the growing cracks have caught up with this level, elsewhere where they relieve nothing
-  if (grown === 0 && s.tips.some((t) => t.active)) return initiate(g, true);
+  if (grown === 0 && crack.start === 'anywhere' && s.tips.some((t) => t.active)) return initiate(g, true, f);
   if (grown > 0) {
     const at = s.tips.filter((t) => t.active).map((t) => ahead(g, t));
     if (c.mesh.coarsen && at.length > 0) coarsenAway(wm, at, 2 * c.mesh.refineRadius + 2 * c.mesh.size, rigZone(g));
