@@ -51,7 +51,7 @@ control: {by: cmod, gauge: {from: [50, 62], to: [50, 238]}, target: 0.3, increme
     let together = 0;
     const res = await a.run(() => { together = Math.max(together, new Set(a.tips.filter((t) => t.active && t.crack >= 0).map((t) => t.crack)).size); });
     expect(res.status, res.reason).toBe('complete');
-    // one crack from each notch tip, nothing else (measured: both start at step 2)
+    // one crack from each notch tip, nothing else (measured: both start in the same step)
     expect(res.crackPaths.length).toBe(2);
     const starts = res.crackPaths.map((p) => p[0]).sort((p, q) => p[1] - q[1]);
     expect(Math.hypot(starts[0][0] - 20, starts[0][1] - 100)).toBeLessThan(3);
