@@ -2,7 +2,7 @@
 import type { Command } from 'commander';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { loadCase, unitSlipWarnings } from '../src/case/index.js';
+import { loadCase, caseWarnings } from '../src/case/index.js';
 import type { Softening } from '../src/case/model.js';
 import { InputError } from '../src/errors.js';
 import { readLabCurve, type LabColumns, type LabCurve } from '../src/lab/import.js';
@@ -202,7 +202,7 @@ export function registerLabCommands(program: Command): void {
     .addHelpText('after', LAB_FORMAT_HELP)
     .action(async (file: string, o: LabReadOptions & CorrectionOptions & { lab: string[]; series?: string; params?: string; softening?: string; meshSize?: string; increments?: string; maxEvals?: string; seeds?: string; simTimeout?: string; workers?: string; out?: string; force?: boolean; quiet?: boolean; json?: boolean; resume?: boolean }) => {
       const c = loadCase(file);
-      for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
+      for (const w of caseWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
       const labs = o.lab.map((p) => readLabCurve(p, labColumns(o)));
       if (o.series !== undefined && o.series !== 'all' && o.series !== 'mean') throw new InputError(`--series must be all or mean (found "${o.series}")`);
       const { corrections, estimate } = correctionsOf(o);

@@ -2,7 +2,7 @@
 // Exit codes: 0 done, 2 a mistake in the input, 3 a run that stopped early, 1 a fault of ours.
 import { Command, CommanderError } from 'commander';
 import { join } from 'node:path';
-import { loadCase, describeCase, unitSlipWarnings } from '../src/case/index.js';
+import { loadCase, describeCase, caseWarnings } from '../src/case/index.js';
 import { DiskFull, InputError, RunStopped } from '../src/errors.js';
 import { runCase, meshCase } from '../src/run.js';
 import { meshStats } from '../src/mesh/stats.js';
@@ -92,7 +92,7 @@ program
   .option('--no-frames', 'no frames and no animation')
   .action(async (file: string, o: RunFlags & { every?: string; maxFrames?: string; svg?: boolean; frames: boolean }) => {
     const c = loadCase(file);
-    for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
+    for (const w of caseWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
     if (o.every !== undefined) c.output.every = wholeNumber('--every', o.every);
     if (o.maxFrames !== undefined) c.output.maxFrames = wholeNumber('--max-frames', o.maxFrames);
     if (o.svg && !c.output.frames.includes('svg')) c.output.frames = [...c.output.frames, 'svg'];
@@ -117,7 +117,7 @@ program
   .argument('<case>', 'case file (YAML or JSON)')
   .action((file: string) => {
     const c = loadCase(file);
-    for (const w of unitSlipWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
+    for (const w of caseWarnings(c)) process.stderr.write(`rupta: warning: ${w}\n`);
     const { mesh, seconds } = meshCase(c);
     const a = countingAnalysis(c, mesh);
     checkHeldPieces(c, mesh, a.wm);

@@ -6,4 +6,4 @@ export { describeCase, characteristicLength } from './describe.js';
 export { DEFAULTS, DERIVED_DEFAULTS, fillDefaults } from './defaults.js';
 export { FIELDS, mustBe } from './fields.js';
 export { caseSchema, type CaseInput } from './schema.js';
-export { unitSlipWarnings } from './plausible.js';
+export { unitSlipWarnings, settingWarnings, caseWarnings } from './plausible.js';

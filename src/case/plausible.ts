@@ -1,5 +1,6 @@
-// Material values that are valid numbers but look like a unit slip (N/m for N/mm, GPa for
-// MPa, Pa for MPa). They are warned about, not refused: an unusual material may have them.
+// Values that are valid but look like a slip: material values in another unit (N/m for N/mm,
+// GPa for MPa, Pa for MPa), and settings that quietly do less than they seem to. They are
+// warned about, not refused: an unusual case may mean them.
 
 import type { CaseModel } from './model.js';
 
@@ -17,4 +18,19 @@ export function unitSlipWarnings(c: CaseModel): string[] {
   else if (m.ft < 0.02) out.push(`material.ft is ${m.ft} MPa, below any quasi-brittle material's tensile strength: if it was meant in GPa, write ${g(m.ft * 1000)} (MPa)`);
   if (m.E > 0 && m.ft > 0 && m.ft / m.E > 0.01) out.push(`material.ft is ${g(100 * m.ft / m.E)} % of material.E, where quasi-brittle materials have 0.005–0.5 %: check the units of both (MPa)`);
   return out;
+}
+
+/** One sentence per setting that quietly does less than it seems to. */
+export function settingWarnings(c: CaseModel): string[] {
+  const out: string[] = [];
+  const slits = c.geometry.notches.filter((n) => n.width === 0).length;
+  if (c.crack?.start === 'anywhere' && slits > 0 && c.crack.model !== 'lefm') {
+    out.push(`crack.start is anywhere, but the tips of the ${slits} slit notch${slits > 1 ? 'es' : ''} (width 0 mm) are not start places (cells next to a crack are kept clear), so cracks start in cells beside them: use notch-tips to grow them from the tips`);
+  }
+  return out;
+}
+
+/** Every warning a case earns before it runs: unit slips and quiet settings. */
+export function caseWarnings(c: CaseModel): string[] {
+  return [...unitSlipWarnings(c), ...settingWarnings(c)];
 }
