@@ -49,17 +49,23 @@ describe('crack.model lefm: ceramic bend bar (template example)', () => {
   });
 });
 
+/** The brittle run of the slanted central slit (β degrees), stopped after `growths` growths. */
+function lefmSlit(beta: number, growthStep: number, mesh: string, growths: number): LefmAnalysis {
+  const c = slitPlate(beta, {
+    thickness: 1, material: '{E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: 1}',
+    control: '{by: displacement, target: 1, increments: 10}',
+    crack: `{model: lefm, growthStep: ${growthStep}}`,
+    mesh,
+  });
+  const an = new LefmAnalysis(c, meshCase(c).mesh);
+  an.stopRequested = () => an.growthLog.length >= growths;
+  return an;
+}
+
 describe('crack.model lefm: slanted central slit under remote tension', () => {
   it('both tips of the point-symmetric problem grow together, first along the MTS kink (Erdogan & Sih 1963), then alike', async () => {
     const W = 160, b = 45 * Math.PI / 180;
-    const c = slitPlate(b * 180 / Math.PI, {
-      thickness: 1, material: '{E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: 1}',
-      control: '{by: displacement, target: 1, increments: 10}',
-      crack: '{model: lefm, growthStep: 1.5}',
-      mesh: '{size: 16, tipSize: 0.5, refineRadius: 6, seed: 3}',
-    });
-    const an = new LefmAnalysis(c, meshCase(c).mesh);
-    an.stopRequested = () => an.growthLog.length >= 8;
+    const an = lefmSlit(45, 1.5, '{size: 16, tipSize: 0.5, refineRadius: 6, seed: 3}', 8);
     const res = await an.run(() => {});
     expect(res.status).toBe('interrupted');
     const log = an.growthLog;
@@ -86,14 +92,7 @@ describe('crack.model lefm: slanted central slit under remote tension', () => {
     // angle (from memory). The chord that sets the tip frame once ran back past the kink into
     // the slit: measured K_II/K_I = 0.58 and 0.63 at the two 0.8 mm kinks, against about 0.01.
     const W = 160, b = 30 * Math.PI / 180;
-    const c = slitPlate(b * 180 / Math.PI, {
-      thickness: 1, material: '{E: 30000, nu: 0.2, ft: 3, GF: 0.1, KIc: 1}',
-      control: '{by: displacement, target: 1, increments: 10}',
-      crack: '{model: lefm, growthStep: 0.75}',
-      mesh: '{size: 10, tipSize: 0.5, refineRadius: 4, seed: 1}',
-    });
-    const an = new LefmAnalysis(c, meshCase(c).mesh);
-    an.stopRequested = () => an.growthLog.length >= 3;
+    const an = lefmSlit(30, 0.75, '{size: 10, tipSize: 0.5, refineRadius: 4, seed: 1}', 3);
     await an.run(() => {});
     const log = an.growthLog;
     // the slit's two tips first, then the tip of a kink
