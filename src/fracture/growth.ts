@@ -228,10 +228,10 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>, busy = fals
   const away: { x: number; y: number; r: number }[] = [];
   // a support or load along an edge keeps starts out of a band beside that edge (its ends are
   // where the stress concentrates), not out of a disc as wide as the edge is long
-  const band: { a: readonly number[]; b: readonly number[]; r: number }[] = [];
+  const band: { xy: number[]; r: number }[] = [];
   for (const q of [...c.supports, ...c.loads]) {
     if (q.at) away.push({ x: q.at[0], y: q.at[1], r: q.width / 2 + keep });
-    else if (q.along) band.push({ a: q.along[0], b: q.along[1], r: q.width / 2 + keep });
+    else if (q.along) band.push({ xy: [...q.along[0], ...q.along[1]], r: q.width / 2 + keep });
   }
   // the cracks and tips there are: the stress next to them is theirs to relieve; ahead of a
   // growing tip the whole refined zone is its process zone's
@@ -250,7 +250,7 @@ function startCandidate(g: GrowthRoom, f: ReturnType<typeof fields>, busy = fals
     const ft = g.ftAt ? g.ftAt(x, y) : ftMean, rimFt = insertAt * ft;
     if (s1 <= bestR * rimFt || s1 < 0.5 * rimFt) continue;
     if (away.some((a) => Math.hypot(x - a.x, y - a.y) < a.r)) continue;
-    if (band.some((e) => segDist2(x, y, e.a[0], e.a[1], e.b[0], e.b[1]) < e.r * e.r)) continue;
+    if (band.some((e) => near(x, y, e.xy, e.r))) continue;
     let onRim = false;
     for (let j = cs[k]; j < cs[k + 1] && !onRim && rims.length > 0; j++) onRim = ringAt(rims, xy[2 * cv[j]], xy[2 * cv[j] + 1], tol) >= 0;
     if (!onRim && (!free || shade === null || shade.some((q) => near(x, y, q.xy, q.r)))) continue;
