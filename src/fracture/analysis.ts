@@ -19,7 +19,7 @@ import type { CsrMatrix } from '../linalg/index.js';
 import { WorkMesh } from './workmesh.js';
 import { buildDomain, type Domain } from '../geometry/domain.js';
 import { strengthOf } from '../cohesive/strength.js';
-import { softeningJump, overshootLimit } from './criterion.js';
+import { softeningJump, overshootLimit, SOFTENING_LIMIT } from './criterion.js';
 import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
@@ -298,7 +298,7 @@ export class Analysis {
     let dV = 0.02 * V0;
     for (let k = 0; k < 6; k++) {
       const r = this.solveAt('opening', V0 + dV);
-      if (r.ok && (k === 5 || this.softening() <= 0.05)) return V0 + dV;
+      if (r.ok && (k === 5 || this.softening() <= SOFTENING_LIMIT)) return V0 + dV;
       this.undo(saved);
       dV /= 2;
     }
@@ -437,12 +437,12 @@ export class Analysis {
     // the first is asked of the condensed solution already, before the bulk's solve (not with
     // bearing strips, whose contact rounds come after it)
     const checked = !skipped && !elastic && at.frac > MIN_FRACTION && !at.opening;
-    const early = checked && this.driven.strips.length === 0 ? () => this.softening() > 0.05 : undefined;
+    const early = checked && this.driven.strips.length === 0 ? () => this.softening() > SOFTENING_LIMIT : undefined;
     const it0 = this.iterations;
     const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
     const m: StepMeasure = this.measure = { iterations: this.iterations - it0, softening: r.ok && !elastic ? this.softening() : 0, readiness: NaN, grew: false, byOpening: false };
     if (skipped) at.frac = WHILE_OPENING;
-    const tooFar = (): boolean => m.softening > 0.05 || (m.readiness = tipOvershoot(this.room())) > overshootLimit(this.c.crack!.insertAt ?? 1) || this.balanceMoved();
+    const tooFar = (): boolean => m.softening > SOFTENING_LIMIT || (m.readiness = tipOvershoot(this.room())) > overshootLimit(this.c.crack!.insertAt ?? 1) || this.balanceMoved();
     if (r.rejected || (r.ok && checked && tooFar())) {
       this.undo(saved);
       cut(at);

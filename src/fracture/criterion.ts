@@ -155,6 +155,9 @@ export function readiness(r: ReadinessInput): number {
 /** Readiness beyond which a step was too long: the segment laid would start above ft. */
 export function overshootLimit(insertAt: number): number { return Math.max(1.05, 1 / insertAt); }
 
+/** Largest softening a step may bring to any cohesive point, as a fraction of ft: a longer step is cut. */
+export const SOFTENING_LIMIT = 0.05;
+
 /**
  * Largest softening of any cohesive point between the committed (kap) and trial (kapTrial)
  * histories, as a fraction of ft; the step that takes a point over its peak counts ten

@@ -2,15 +2,16 @@
 // control target T in n increments gives the base step T/n. A step is proposed as a fraction
 // `frac` of it, cut in half when it fails or goes too far; when even 1/64 of the base step does
 // not converge, the total crack opening drives the step instead.
-// Adaptive (the default): after a converged step the next one is longer when Newton converged
+// Adaptive (`control.steps: adaptive`): after a converged step the next one is longer when Newton converged
 // quickly and the cohesive points softened little, shorter when not, and short enough near a
 // peak of the curve that the peak between two rows is missed by at most PEAK_MISS of the peak;
 // steps run from MIN_ADAPTIVE to MAX_FRACTION of the base step (cuts go below) and end at T.
-// Fixed: steps end on the increments' levels T·k/n and a cut step is widened back to the whole
+// Fixed (the default): steps end on the increments' levels T·k/n and a cut step is widened back to the whole
 // increment after each converged step.
 // Every decision reads iteration counts and relative measures, so it does not change when the
 // case is scaled (loads by b, lengths of the opening by λ): the fit's shape search relies on it.
 import type { LoopState, StepRow } from './state.js';
+import { SOFTENING_LIMIT } from './criterion.js';
 
 /** Shortest step tried under the case's control, as a fraction of the base step. */
 export const MIN_FRACTION = 1 / 64;
@@ -27,7 +28,7 @@ export const MAX_SHRINK = 0.25;
 /** Newton iterations aimed at per step: fewer let the next step grow, more shrink it. */
 export const AIM_ITERATIONS = 4;
 /** Softening per step aimed at, as a share of its limit (5 % of ft), so that few steps are cut. */
-export const AIM_SOFTENING = 0.8 * 0.05;
+export const AIM_SOFTENING = 0.8 * SOFTENING_LIMIT;
 /** Readiness a tip is aimed to reach at the end of a step, once it comes near (growth at 1, the step is cut past 1.05). */
 export const AIM_READINESS = 1.02;
 /** Largest share of the peak load the curve may rise above its rows between two of them. */
