@@ -3,7 +3,7 @@
 // demo beam run both ways (measured against fixed increments).
 import { describe, expect, it } from 'vitest';
 import {
-  startState, propose, cut, accept, settle, growthFactor, peakStep, readyStep, energyJump,
+  startState, propose, cut, accept, settle, growthFactor, peakStep, readyStep, energyJump, energyGained,
   MIN_FRACTION, MIN_ADAPTIVE, MAX_FRACTION, MAX_GROW, MAX_SHRINK, AIM_READINESS, PEAK_MISS,
   type StepMeasure,
 } from '../src/fracture/steps.js';
@@ -86,6 +86,10 @@ describe('adaptive step control on plain data', () => {
     const last = { external_work_Nmm: 100, elastic_energy_Nmm: 60, dissipated_Nmm: 39 };
     expect(energyJump(last, 110, 65, 44)).toBeCloseTo(0, 12);
     expect(energyJump(last, 110, 64, 44)).toBeCloseTo(1 / 110, 12);
+    // stored plus dissipated may grow by the work done and no more (first law: common practice)
+    expect(energyGained(last, 110, 65, 44)).toBeCloseTo(0, 12);
+    expect(energyGained(last, 110, 66, 44)).toBeCloseTo(1 / 110, 12);
+    expect(energyGained(last, 110, 64, 44)).toBeCloseTo(-1 / 110, 12);
   });
 });
 
