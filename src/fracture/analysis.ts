@@ -452,7 +452,7 @@ export class Analysis {
     const it0 = this.iterations;
     let r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
     // a state holding more energy than the machine put in lies on no loading path: the step failed
-    if (r.ok && !elastic && this.energyCreated()) { this.undo(saved); r = { ok: false, reason: 'the step gained energy' }; }
+    if (r.ok && !elastic && this.energyCreated()) { this.undo(saved); r = { ok: false, reason: 'its solution held more energy than the machine\'s work supplied' }; }
     const m: StepMeasure = this.measure = { iterations: this.iterations - it0, softening: r.ok && !elastic ? this.softening() : 0, readiness: NaN, grew: false, byOpening: false };
     if (skipped) at.frac = WHILE_OPENING;
     const tooFar = (): boolean => m.softening > SOFTENING_LIMIT || (m.readiness = tipOvershoot(this.room())) > overshootLimit(this.c.crack!.insertAt ?? 1) || this.balanceMoved();

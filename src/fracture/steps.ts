@@ -44,8 +44,7 @@ export const ENERGY_STEP = 1e-3;
  * (faces unloading instead of opening on); the work's trapezoid then no longer matches.
  */
 export function energyJump(last: Pick<StepRow, 'external_work_Nmm' | 'elastic_energy_Nmm' | 'dissipated_Nmm'>, W: number, elastic: number, dissipated: number): number {
-  const before = last.external_work_Nmm - last.elastic_energy_Nmm - last.dissipated_Nmm;
-  return Math.abs(W - elastic - dissipated - before) / Math.max(Math.abs(W), Number.MIN_VALUE);
+  return Math.abs(energyGained(last, W, elastic, dissipated));
 }
 
 /**
