@@ -282,7 +282,10 @@ export function initiate(g: GrowthRoom, busy = false, state?: ReturnType<typeof 
     if (d < bd && onOutline(wm, w)) { bd = d; v = w; }
   }
   if (v < 0) v = nearestLive(wm, x, y);
-  const ts = tipStress(m, stress, cent, areas, wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
+  let ts = tipStress(m, stress, cent, areas, wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
+  // a boundary vertex of a cell wider than the averaging disc may have no centre within it: the
+  // disc then reaches that cell's (with no stress, the crack ran along the outline and stopped)
+  if (ts.weight === 0) ts = tipStress(m, stress, cent, areas, wm.x[v], wm.y[v], 0, 0, 1.5 * Math.hypot(wm.x[v] - x, wm.y[v] - y), 0);
   const [dx, dy] = growthDirection(ts, 1, 0);
   g.beforeChange?.();
   if (onOutline(wm, v)) {
