@@ -41,15 +41,19 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
       expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
       expect(pk.later).toBeNull();
       expect(runWarnings(c, res, null)).toEqual([]);
-      // measured 1.50 % (notch tips) and 2.07 % (anywhere): the hole's rim is refined and the
-      // new crack beyond it starts under load, so those mesh changes move some strain energy
-      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.025);
+      // work of the machine = stored + dissipated (definition of GF). Notch tips: the hole on the
+      // line ahead has its rim and far side refined before loading, measured 0.16 % (1.50 % when
+      // only the rim was, the rest refined under load as the cracks beyond it started). Anywhere:
+      // the first crack starts at the notch under load and refines there, measured 2.07 % (1.92 %
+      // at that start, step 2: DEVELOPERS.md, known gaps)
+      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(start === 'notch-tips' ? 0.01 : 0.025);
     }, 120_000);
   }
 
   it('with the boundary stabilisation, under which a cell keeps its stiffness when a neighbour\'s refinement adds a vertex to its edge, the balance (definition of GF) closes within 1 % (crack.start: notch-tips)', async () => {
-    // measured 0.40 % (1.50 % with the vertex form above): the rim's refinement no longer
-    // stiffens or softens the cells next to it (DEVELOPERS.md, known gaps)
+    // measured 0.04 % (0.16 % with the vertex form above; 0.40 % against 1.50 % when only the
+    // rim was refined before loading): the refinement beside a loaded cell no longer stiffens or
+    // softens it (DEVELOPERS.md, known gaps)
     const c = coarseBeam({ target: 0.6, increments: 60, hole: HOLE, start: 'notch-tips' });
     const a = new Analysis(c, meshCase(c).mesh, { stabilisation: 'boundary' });
     const res = await a.run(() => {});
