@@ -41,12 +41,12 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
       expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
       expect(pk.later).toBeNull();
       expect(runWarnings(c, res, null)).toEqual([]);
-      // work of the machine = stored + dissipated (definition of GF). Notch tips: the hole on the
-      // line ahead has its rim and far side refined before loading, measured 0.16 % (1.50 % when
-      // only the rim was, the rest refined under load as the cracks beyond it started). Anywhere:
-      // the first crack starts at the notch under load and refines there, measured 2.07 % (1.92 %
-      // at that start, step 2: DEVELOPERS.md, known gaps)
-      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(start === 'notch-tips' ? 0.01 : 0.025);
+      // work of the machine = stored + dissipated (definition of GF): the hole on the line ahead
+      // of the notch has its rim zone and far side refined before loading (with anywhere, the
+      // notch's line too), measured 0.16 % (notch tips) and 0.75 % (anywhere, at the start from
+      // the notch, step 2); 1.50 % and 2.07 % when only the rim was, the rest refined under load
+      // as the cracks beyond it started
+      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.01);
     }, 120_000);
   }
 

@@ -58,8 +58,9 @@ control: {by: cmod, gauge: {from: [50, 62], to: [50, 238]}, target: 0.3, increme
     for (const t of a.tips) expect(t.end).toBe('outline');
     const pk = curvePeaks(res.rows);
     expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
-    // work of the machine = stored + dissipated (definition of GF): measured 0.99 % (8.5 %
-    // when the second crack waited and then snapped through)
+    // work of the machine = stored + dissipated (definition of GF): measured 0.65 % (0.99 % before
+    // the notches' lines were refined before loading, 8.5 % when the second crack waited and then
+    // snapped through)
     expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.02);
   }, 60_000);
 
@@ -133,8 +134,8 @@ control: {by: cmod, gauge: {from: [10, 60], to: [10, 100]}, target: 0.3, increme
     const second = res.crackPaths[1];
     expect(Math.hypot(second[0][0] - 160, second[0][1] - 20)).toBeLessThan(c.mesh.tipSize);
     // it started in the round where that root first reached ft: below ft in every round before
-    // (measured 0.988 at the step before), at ft within the step control's bound on a start
-    // (overshootLimit: readiness past it cuts the step) in that round (measured 1.008)
+    // (measured 0.987 at the step before), at ft within the step control's bound on a start
+    // (overshootLimit: readiness past it cuts the step) in that round (measured 1.007)
     const at = rounds.findIndex((r) => r.tips === 2);
     expect(at).toBeGreaterThan(0);
     for (const r of rounds.slice(0, at)) expect(r.root).toBeLessThan(1);
@@ -146,15 +147,18 @@ control: {by: cmod, gauge: {from: [10, 60], to: [10, 100]}, target: 0.3, increme
     expect(rounds[at].active0).toBe(true);
     const peak = curvePeaks(res.rows);
     expect(rounds[at].step).toBeLessThan(peak.peak.step);
-    // the deeper crack runs through to the top face; the other arrests short of mid-depth
-    expect(a.tips[0].end).toBe('outline');
+    // the deeper crack runs through to the top face (to the load point there); the other arrests
+    // short of mid-depth (measured: its laid path ends at y = 31 mm)
+    expect(['outline', 'rig']).toContain(a.tips[0].end);
+    expect(Math.max(...res.crackPaths[0].map((p) => p[1]))).toBeGreaterThan(99);
     expect(Math.max(...second.map((p) => p[1]))).toBeLessThan(50);
     // cut through, the beam carries no load (common practice), and the run gives no warning
     expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(peak.peak.load_N));
     expect(peak.later).toBeNull();
     expect(runWarnings(c, res, null)).toEqual([]);
-    // work of the machine = stored + dissipated (definition of GF): measured 2.25 % at step 2,
-    // the first crack's start in loaded material (DEVELOPERS.md, known gaps)
-    expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.03);
+    // work of the machine = stored + dissipated (definition of GF): measured 0.75 % at step 2,
+    // the first crack's start in loaded material (2.25 % before the notches' lines were refined
+    // before loading)
+    expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.01);
   }, 60_000);
 });
