@@ -161,4 +161,31 @@ control: {by: cmod, gauge: {from: [10, 60], to: [10, 100]}, target: 0.3, increme
     // before loading)
     expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.01);
   }, 60_000);
+
+  it('judged on a cell wider than the averaging disc, a start is judged again on finer cells: beside a hole near a strip\'s edge it starts on the rim', async () => {
+    // a tension strip with an edge notch and a hole of 8 mm radius 22 mm from the far edge, on
+    // 10 mm cells: the cell that first reaches ft there spans the ligament between the hole and
+    // the edge, and no cell centre lies within the averaging disc of its boundary vertex nearest
+    // its centre. Before, a tip started there with no stress to steer it, ran along the outline
+    // and stopped at once (a tip without a crack); refined and judged again, the crack starts
+    // on the rim where it runs parallel to the load, where the hoop stress is largest (Kirsch 1898)
+    const c = parseCase(strip(`geometry:
+  outline: [[0, 0], [100, 0], [100, 300], [0, 300]]
+  holes:
+    - {circle: {center: [70, 200], radius: 8}}
+  notches:
+    - {from: [0, 100], to: [20, 100], width: 2}
+loads:
+  - {along: [[0, 300], [100, 300]], direction: [0, 1]}
+control: {by: cmod, gauge: {from: [50, 62], to: [50, 238]}, target: 0.1, increments: 20, stopAtLoadFraction: 0.05}`), 'strip.yaml');
+    const a = new Analysis(c, meshCase(c).mesh);
+    const res = await a.run(() => {});
+    expect(res.status, res.reason).toBe('complete');
+    // every tip that started grew a crack
+    for (const t of a.tips) expect(t.crack).toBeGreaterThanOrEqual(0);
+    // a crack starts on the rim, within 15° of the rim's horizontal diameter (measured 8°, at the side toward the near edge)
+    const rim = res.crackPaths.map((p) => p[0]).filter((p) => Math.abs(Math.hypot(p[0] - 70, p[1] - 200) - 8) < 0.5);
+    expect(rim.length).toBeGreaterThan(0);
+    expect(rim.some((p) => Math.abs(Math.atan2(p[1] - 200, Math.abs(p[0] - 70))) < (15 * Math.PI) / 180)).toBe(true);
+  }, 60_000);
 });

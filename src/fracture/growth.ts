@@ -283,11 +283,17 @@ export function initiate(g: GrowthRoom, busy = false, state?: ReturnType<typeof 
   }
   if (v < 0) v = nearestLive(wm, x, y);
   let ts = tipStress(m, stress, cent, areas, wm.x[v], wm.y[v], 0, 0, crack.averagingRadius, 0);
-  // a boundary vertex of a cell wider than the averaging disc may have no centre within it: the
-  // disc then reaches that cell's (with no stress, the crack ran along the outline and stopped)
-  if (ts.weight === 0) ts = tipStress(m, stress, cent, areas, wm.x[v], wm.y[v], 0, 0, 1.5 * Math.hypot(wm.x[v] - x, wm.y[v] - y), 0);
-  const [dx, dy] = growthDirection(ts, 1, 0);
   g.beforeChange?.();
+  if (ts.weight === 0) {
+    // the start cell is wider than the averaging disc and no cell centre lies within it of the
+    // start vertex, so the stress there says nothing yet: refine around the cell and judge the
+    // start again on the finer cells (started with no stress, the crack was sent along the
+    // outline and stopped at once; judged again, on a tension strip whose 10 mm cells spanned
+    // the ligament beside a hole, it started on the hole's rim)
+    if (refineAround(wm, x, y, c.mesh.refineRadius, c.mesh.tipSize) > 0) return 1;
+    ts = tipStress(m, stress, cent, areas, wm.x[v], wm.y[v], 0, 0, 1.5 * Math.hypot(wm.x[v] - x, wm.y[v] - y), 0);
+  }
+  const [dx, dy] = growthDirection(ts, 1, 0);
   if (onOutline(wm, v)) {
     // from the boundary the crack runs into the material
     const sgn = dx * (x - wm.x[v]) + dy * (y - wm.y[v]) >= 0 ? 1 : -1;
