@@ -55,17 +55,43 @@ describe('four-point shear beam from its defaults (spreader, mouth-sliding contr
 });
 
 describe('four-point shear beam as shipped (template defaults, its own mesh)', () => {
-  it('balances its energy within 1 % at every step (work = stored + dissipated: common practice)', async () => {
-    // measured on seeds 1–5: 0.60 / 0.29 / 0.42 / 0.63 / 0.21 %; on the 10 mm cells it had
-    // before, 1.15 / 0.78 / 1.92 % (seeds 1–3): a cut through a coarse cell beside the inner
-    // load strip, kept as meshed under load, moved 0.6 % of the work in one growth
-    const text = beam4pShear.build({}).replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
-    const c = parseCase(text, 'shear.yaml');
-    expect(c.mesh.size).toBe(8);
-    const res = await new Analysis(c, meshCase(c).mesh).run(() => {});
-    expect(res.status, res.reason).toBe('complete');
-    expect(worstEnergyGap(res.rows)?.share ?? 1).toBeLessThan(0.01);
-  }, 120_000);
+  const text = beam4pShear.build({}).replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+  const runs: Awaited<ReturnType<Analysis['run']>>[] = [];
+  beforeAll(async () => {
+    for (const seed of [1, 2, 3, 4, 5]) {
+      const c = parseCase(text.replace(/seed: \d+/, `seed: ${seed}`), `shear-${seed}.yaml`);
+      expect(c.mesh.size).toBe(8);
+      runs.push(await new Analysis(c, meshCase(c).mesh).run(() => {}));
+    }
+  }, 300_000);
+
+  it('ends its crack within 3 % of the depth across mesh seeds 1–5 (mesh independence of the path: common practice)', () => {
+    // measured x = 192.27 / 192.42 / 192.59 / 191.81 / 192.17 on the top face (seeds 6–8: 191.80 /
+    // 192.84 / 192.63), 5 mm left of the inner load strip (x 195–205); before the cells by the
+    // strip were refined before loading and a tip beside it was no longer drawn onto its corner
+    // or centre, 190.55 / 188.89 / 195.00 / 195.00 / 191.24 (6.1 mm)
+    for (const res of runs) expect(res.status, res.reason).toBe('complete');
+    const ends = runs.map((res) => res.crackPaths[0]!.at(-1)!);
+    for (const e of ends) expect(e[1]).toBeCloseTo(100, 6);
+    const xs = ends.map((e) => e[0]);
+    expect(Math.max(...xs) - Math.min(...xs)).toBeLessThan(0.03 * 100);
+  });
+
+  it('balances its energy within 1 % at every step (work = stored + dissipated: common practice)', () => {
+    // measured on seeds 1–5: 0.04 / 0.42 / 0.10 / 0.13 / 0.09 % (0.60 / 0.29 / 0.42 / 0.63 / 0.21 %
+    // before the cells by the inner load strip were refined before loading); on the 10 mm cells
+    // the template had before, 1.15 / 0.78 / 1.92 % (seeds 1–3): a cut through a coarse cell
+    // beside the inner load strip, kept as meshed under load, moved 0.6 % of the work at once
+    for (const res of runs) expect(worstEnergyGap(res.rows)?.share ?? 1).toBeLessThan(0.01);
+  });
+
+  it('loses its load after the peak without rising again (measured: to 4.8–5.0 % of it)', () => {
+    for (const res of runs) {
+      const pk = curvePeaks(res.rows);
+      expect(pk.later).toBeNull();
+      expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.25 * Math.abs(pk.peak.load_N));
+    }
+  });
 });
 
 describe('four-point shear beam under the boundary stabilisation', () => {
