@@ -21,7 +21,7 @@ import { buildDomain, type Domain } from '../geometry/domain.js';
 import { strengthOf } from '../cohesive/strength.js';
 import { softeningJump, overshootLimit, SOFTENING_LIMIT } from './criterion.js';
 import { Equations, type Order2Setup } from './equations.js';
-import { insertNotchSlits, placeTips, refineNotchLines, refineAtLoads, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
+import { insertNotchSlits, placeTips, refineNotchLines, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
 import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated } from './steps.js';
@@ -321,7 +321,6 @@ export class Analysis {
    */
   private layFirstSegments(firstIncrement: number): void {
     if (refineNotchLines(this.room())) this.dirty = true;
-    if (refineAtLoads(this.room())) this.dirty = true;
     if (!this.s.tips.some((t) => t.active && t.crack < 0)) return;
     const saved = save(this.s, SOLUTION);
     const r = this.solveAt(this.c.control.by, 1e-3 * firstIncrement);

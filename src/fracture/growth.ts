@@ -375,12 +375,14 @@ export function grow(g: GrowthRoom): number {
     // face in one cut, ending on a point of the rig (twinned with it, so both halves bear on
     // it); the compressed zone in front of it is ligament like the rest, its faces in contact.
     // Passing beside the rig, it stops a tip cell short of it. Beside a load strip (outside the
-    // band its width sweeps along the load) it grows on as anywhere else and meets the face
-    // where its own line does: drawn onto the strip, its last cut ended on the strip's corner
-    // or centre as the cells fell (four-point shear beam, DEVELOPERS.md).
+    // band its width sweeps along the load) it runs on straight, as it came, and meets the face
+    // where its own line does: the stress read there turns toward the strip's corner, and drawn
+    // by it the last cut ended on the strip's corner or centre as the cells fell (four-point
+    // shear beam, DEVELOPERS.md).
     const { room, beside } = nearestRig(c, tx, ty);
     let len = crack.growthStep, atRig = false;
-    if (room < crack.growthStep + c.mesh.tipSize && !beside) {
+    if (room < crack.growthStep + c.mesh.tipSize && beside && t.crack >= 0) { gx = t.dx; gy = t.dy; }
+    else if (room < crack.growthStep + c.mesh.tipSize) {
       const aim = rigAim(c, wm, g.rig ?? [], tx, ty, gx, gy, crack.growthStep + 2 * c.mesh.tipSize + maxWidth(c), c.mesh.tipSize);
       if (aim >= 0) {
         atRig = true;
@@ -485,34 +487,6 @@ export function refineNotchLines(g: GrowthRoom): boolean {
     if (h >= 0) changed += refineBeyondHole(g, h, dx, dy);
   }
   return changed > 0;
-}
-
-/**
- * Before loading, the cells within mesh.refineRadius of a load point or strip ahead of a notch
- * (beyond its tip, and near enough to the notch's line that this zone reaches it) go to the tip
- * size: the crack from that notch, straight or curving, ends there, and once loading has begun
- * those cells are kept as meshed (rigZone). Left coarse, the last cuts jumped a cell at a time
- * and the crack met the face where the cells put it (the four-point shear beam, DEVELOPERS.md).
- * Loads behind the notches (a wedge, the pins of a compact tension specimen) or far to the side
- * (the load points of four-point bending), and starts elsewhere, are left alone. Returns
- * whether the mesh changed.
- */
-export function refineAtLoads(g: GrowthRoom): boolean {
-  const { c, wm } = g;
-  if (c.crack?.start !== 'notch-tips') return false;
-  let n = 0;
-  for (const q of c.loads) {
-    if (!q.at) continue;
-    const [x, y] = q.at;
-    const r = c.mesh.refineRadius + q.width / 2;
-    const ahead = c.geometry.notches.some((k) => {
-      const ex = k.to[0] - k.from[0], ey = k.to[1] - k.from[1], L = Math.hypot(ex, ey);
-      const along = ((x - k.to[0]) * ex + (y - k.to[1]) * ey) / L, off = Math.abs((x - k.to[0]) * ey - (y - k.to[1]) * ex) / L;
-      return along > 0 && off <= r;
-    });
-    if (ahead) n += refineAround(wm, x, y, r, c.mesh.tipSize);
-  }
-  return n > 0;
 }
 
 /**

@@ -149,6 +149,23 @@ export function buildDomain(c: CaseModel): Domain {
   for (const n of g.notches) if (n.width > 0) raw.push([n.to[0], n.to[1]]);
   for (const a of at) raw.push(a.p);
 
+  // A load point or strip ahead of a notch (beyond its tip, and within mesh.refineRadius plus
+  // half its width of the notch's line) is meshed at the tip size like the tip: the crack from
+  // the notch, straight or curving, ends there, and once loading has begun the cells at the rig
+  // are kept as meshed. Left coarse, the last cuts jumped a cell at a time and the crack met the
+  // face where the cells put it (the four-point shear beam, DEVELOPERS.md); refined before
+  // loading instead, the points added under a strip were not held by its platen.
+  if (c.crack?.start === 'notch-tips') {
+    for (const q of c.loads) {
+      if (!q.at) continue;
+      const [x, y] = q.at, r = c.mesh.refineRadius + q.width / 2;
+      const ahead = g.notches.some((k) => {
+        const ex = k.to[0] - k.from[0], ey = k.to[1] - k.from[1], L = Math.hypot(ex, ey);
+        return ((x - k.to[0]) * ex + (y - k.to[1]) * ey) / L > 0 && Math.abs((x - k.to[0]) * ey - (y - k.to[1]) * ex) / L <= r;
+      });
+      if (ahead) tips.push([x, y]);
+    }
+  }
   const h = makeSizeField(c.mesh, tips, raw);
   for (const hole of g.holes) {
     if (hole.kind === 'circle') {
