@@ -149,15 +149,16 @@ export function buildDomain(c: CaseModel): Domain {
   for (const n of g.notches) if (n.width > 0) raw.push([n.to[0], n.to[1]]);
   for (const a of at) raw.push(a.p);
 
-  // A load point or strip ahead of a notch (beyond its tip, and within mesh.refineRadius plus
-  // half its width of the notch's line) is meshed at the tip size like the tip: the crack from
-  // the notch, straight or curving, ends there, and once loading has begun the cells at the rig
-  // are kept as meshed. Left coarse, the last cuts jumped a cell at a time and the crack met the
-  // face where the cells put it (the four-point shear beam, DEVELOPERS.md); refined before
-  // loading instead, the points added under a strip were not held by its platen.
+  // A load strip ahead of a notch (beyond its tip, and within mesh.refineRadius plus half its
+  // width of the notch's line) is meshed at the tip size like the tip: the crack from the
+  // notch, straight or curving, ends on it or beside it, and once loading has begun the cells
+  // at the rig are kept as meshed. Left coarse, the last cuts jumped a cell at a time and the
+  // crack met the face where the cells put it (the four-point shear beam, DEVELOPERS.md);
+  // refined before loading instead, the points added under a strip were not held by its
+  // platen. A point load (width 0) draws the crack onto itself whatever the cells.
   if (c.crack?.start === 'notch-tips') {
     for (const q of c.loads) {
-      if (!q.at) continue;
+      if (!q.at || !(q.width > 0)) continue;
       const [x, y] = q.at, r = c.mesh.refineRadius + q.width / 2;
       const ahead = g.notches.some((k) => {
         const ex = k.to[0] - k.from[0], ey = k.to[1] - k.from[1], L = Math.hypot(ex, ey);
