@@ -20,8 +20,12 @@ function slitCase(betaDeg: number, size: number, tip: number, seed: number) {
   });
 }
 
-/** Kink (deg) of the chord from the slit tip to the point 4 mm along each cohesive crack, relative to the slit. */
-async function firstKinks(betaDeg: number, size: number, tip: number, seed: number): Promise<number[]> {
+/**
+ * For each cohesive crack (upper tip first): the kink (deg, relative to the slit) of its first
+ * growth, as the criterion chose it at the slit tip, and of the chord from the slit tip to the
+ * point 4 mm along the crack.
+ */
+async function firstKinks(betaDeg: number, size: number, tip: number, seed: number): Promise<{ first: number; at4: number }[]> {
   const c = slitCase(betaDeg, size, tip, seed);
   const a = new Analysis(c, meshCase(c).mesh);
   const { x, y } = a.wm;
@@ -33,21 +37,26 @@ async function firstKinks(betaDeg: number, size: number, tip: number, seed: numb
   const b = betaDeg * Math.PI / 180, slit = Math.atan2(Math.cos(b), Math.sin(b));
   return cohesive().map((k) => {
     const P = k.path, x0 = x[P[0]], y0 = y[P[0]];
-    let L = 0, px = x0, py = y0;
-    for (let i = 1; i < P.length; i++) {
-      const d = Math.hypot(x[P[i]] - x[P[i - 1]], y[P[i]] - y[P[i - 1]]);
-      if (L + d >= 4) { const f = (4 - L) / d; px = x[P[i - 1]] + f * (x[P[i]] - x[P[i - 1]]); py = y[P[i - 1]] + f * (y[P[i]] - y[P[i - 1]]); break; }
-      L += d;
-    }
     const along = y0 > W / 2 ? slit : slit + Math.PI;
-    const k2 = Math.atan2(py - y0, px - x0) - along;
-    return Math.atan2(Math.sin(k2), Math.cos(k2)) * 180 / Math.PI;
-  });
+    const kinkTo = (s: number) => {
+      let L = 0, px = x0, py = y0;
+      for (let i = 1; i < P.length; i++) {
+        const d = Math.hypot(x[P[i]] - x[P[i - 1]], y[P[i]] - y[P[i - 1]]);
+        if (L + d >= s) { const f = (s - L) / d; px = x[P[i - 1]] + f * (x[P[i]] - x[P[i - 1]]); py = y[P[i - 1]] + f * (y[P[i]] - y[P[i - 1]]); break; }
+        L += d;
+      }
+      const k2 = Math.atan2(py - y0, px - x0) - along;
+      return Math.atan2(Math.sin(k2), Math.cos(k2)) * 180 / Math.PI;
+    };
+    const g = a.growthLog.find((e) => e.first && Math.hypot(e.x - x0, e.y - y0) < 1e-9)!;
+    const k1 = Math.atan2(g.dy, g.dx) - along;
+    return { upper: y0 > W / 2, first: Math.atan2(Math.sin(k1), Math.cos(k1)) * 180 / Math.PI, at4: kinkTo(4) };
+  }).sort((p, q) => Number(q.upper) - Number(p.upper));
 }
 
 describe('kink out of a slanted slit during cohesive growth (Erdogan & Sih 1963)', () => {
   for (const beta of [30, 45, 60]) {
-    it(`β = ${beta}°: both tips, 5 seeds, two mesh sizes, within the tolerance of the MTS kink`, async () => {
+    it(`β = ${beta}°: both tips, 5 seeds, two mesh sizes: first growth along the MTS kink, the first 4 mm within the tolerance of it`, async () => {
       const b = beta * Math.PI / 180;
       const mts = mtsKink(Math.sin(b) ** 2, Math.sin(b) * Math.cos(b)) * 180 / Math.PI;
       // The plate's l_ch = E·G_F/f_t² = 100 mm is ten times the slit's half-length: the cohesive
@@ -58,24 +67,34 @@ describe('kink out of a slanted slit during cohesive growth (Erdogan & Sih 1963)
       // T term, Smith, Ayatollahi & Pavier 2001, turns the kink the same ways; from memory).
       // Measured at 30°: 3.1–6.4° beyond the MTS angle at 4 mm on these meshes, 4.0–5.9° with
       // 0.25 mm tip cells and 0.5 mm steps (it does not shrink with the mesh), 1.1–6.0° with a
-      // slit four times longer and l_ch/a = 0.39 instead of 10 (it is not the cohesive zone),
-      // and traction-free growth with the MTS criterion at every step turns 3.4–7.9° past it at
-      // 4 mm. The issue asks for 5°; 30° is held to 7.5° (DEVELOPERS.md, known gaps).
+      // slit four times longer and l_ch/a = 0.39 instead of 10 (it is not the cohesive zone).
+      // The MTS prediction of the path, the traction-free crack grown by the criterion with K
+      // at every step (brittle mode, both tips together), turns at 4 mm −5.9 to −7.9° (30°),
+      // −0.8 to +1.8° (45°), +5.2 to +7.5° (60°) from the kink on 0.25 mm tip cells and 0.5 mm
+      // steps; on these meshes and steps its chord is not settled (30° −0.4 to −4.6°, 45° +1.0
+      // to +9.3°, 60° +3.6 to +11.8°) and lies −9.5 to +0.9° from the cohesive chord of the same
+      // mesh and seed, so it is no 5° check here. The issue asks for 5°; 30° is held to 7.5°
+      // (DEVELOPERS.md, known gaps).
       const tol = beta === 30 ? 7.5 : 5;
-      const devs: string[] = [];
+      const devs: string[] = [], firsts: string[] = [];
       let sum = 0, n = 0;
       for (const [size, tip] of [[16, 1], [10, 0.75]]) {
         for (let seed = 1; seed <= 5; seed++) {
           const k = await firstKinks(beta, size, tip, seed);
           expect(k.length).toBe(2);
-          const d = k.map((v) => v - mts);
+          const d = k.map((v) => v.at4 - mts), f = k.map((v) => v.first - mts);
           devs.push(d.map((v) => v.toFixed(1)).join('/'));
+          firsts.push(f.map((v) => v.toFixed(1)).join('/'));
           for (const v of d) { sum += v; n++; }
+          // the first growth takes the MTS kink of the K read at the slit tip (Erdogan & Sih
+          // with the central-slit K above; measured −0.2 to +0.4°)
+          for (const v of f) expect(Math.abs(v), `first growth, seed ${seed}, mesh ${size}/${tip}: ${f}`).toBeLessThan(1);
           for (const v of d) expect(Math.abs(v), `seed ${seed}, mesh ${size}/${tip}: ${d}`).toBeLessThan(tol);
           // point symmetry: the two tips take the same turn
           expect(Math.abs(d[0] - d[1]), `seed ${seed}, mesh ${size}/${tip}: ${d}`).toBeLessThan(3);
         }
       }
+      console.log(`β = ${beta}°: first growths against MTS (tip/tip, deg) ${firsts.join(', ')}`);
       console.log(`β = ${beta}°: MTS ${mts.toFixed(1)}°, deviations at 4 mm (tip/tip, deg) ${devs.join(', ')}; mean ${(sum / n).toFixed(2)}`);
       // the turn past the MTS kink follows the sign of T (same sources as above): measured means
       // −4.6° (30°), −0.7° (45°, T = 0), +2.0° (60°); a sign error in the mixity read at the
