@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { Analysis } from '../src/fracture/analysis.js';
 import { meshCase } from '../src/run.js';
-import { SLIT_W, slitPlate } from './support/slit.js';
+import { SLIT_W, chordKink, pathLength, slitPlate } from './support/slit.js';
 import { mtsKink } from '../src/fracture/sif.js';
 
 const W = SLIT_W;
@@ -30,27 +30,15 @@ async function firstKinks(betaDeg: number, size: number, tip: number, seed: numb
   const a = new Analysis(c, meshCase(c).mesh);
   const { x, y } = a.wm;
   const cohesive = () => a.cracks.filter((k) => k.kind === 'cohesive');
-  const length = (p: number[]) => p.slice(1).reduce((L, v, i) => L + Math.hypot(x[v] - x[p[i]], y[v] - y[p[i]]), 0);
   // stop as soon as both cracks are longer than 4 mm
-  a.stopRequested = () => { const k = cohesive(); return k.length === 2 && k.every((q) => length(q.path) >= 4.5); };
+  a.stopRequested = () => { const k = cohesive(); return k.length === 2 && k.every((q) => pathLength(x, y, q.path) >= 4.5); };
   await a.run(() => {});
   const b = betaDeg * Math.PI / 180, slit = Math.atan2(Math.cos(b), Math.sin(b));
   return cohesive().map((k) => {
-    const P = k.path, x0 = x[P[0]], y0 = y[P[0]];
-    const along = y0 > W / 2 ? slit : slit + Math.PI;
-    const kinkTo = (s: number) => {
-      let L = 0, px = x0, py = y0;
-      for (let i = 1; i < P.length; i++) {
-        const d = Math.hypot(x[P[i]] - x[P[i - 1]], y[P[i]] - y[P[i - 1]]);
-        if (L + d >= s) { const f = (s - L) / d; px = x[P[i - 1]] + f * (x[P[i]] - x[P[i - 1]]); py = y[P[i - 1]] + f * (y[P[i]] - y[P[i - 1]]); break; }
-        L += d;
-      }
-      const k2 = Math.atan2(py - y0, px - x0) - along;
-      return Math.atan2(Math.sin(k2), Math.cos(k2)) * 180 / Math.PI;
-    };
+    const x0 = x[k.path[0]], y0 = y[k.path[0]];
     const g = a.growthLog.find((e) => e.first && Math.hypot(e.x - x0, e.y - y0) < 1e-9)!;
-    const k1 = Math.atan2(g.dy, g.dx) - along;
-    return { upper: y0 > W / 2, first: Math.atan2(Math.sin(k1), Math.cos(k1)) * 180 / Math.PI, at4: kinkTo(4) };
+    const k1 = Math.atan2(g.dy, g.dx) - (y0 > W / 2 ? slit : slit + Math.PI);
+    return { upper: y0 > W / 2, first: Math.atan2(Math.sin(k1), Math.cos(k1)) * 180 / Math.PI, at4: chordKink(x, y, k.path, betaDeg, 4) };
   }).sort((p, q) => Number(q.upper) - Number(p.upper));
 }
 
