@@ -42,7 +42,7 @@ async function mtsPath(betaDeg: number, size: number, tip: number, seed: number)
   const a = new LefmAnalysis(c, meshCase(c).mesh);
   a.tie = 1;
   const { x, y } = a.wm, grown = () => a.cracks.filter((k) => k.grown);
-  a.stopRequested = () => { const k = grown(); return k.length === 2 && k.every((q) => pathLength(x, y, q.path) >= 4.5); };
+  a.stopRequested = () => { const k = grown(); return k.length === 2 && k.every((q) => pathLength(x, y, q.path) >= 4); };
   await a.run(() => {});
   return grown().map((k) => ({ upper: y[k.path[0]] > W / 2, at4: chordKink(x, y, k.path, betaDeg, 4), ...pointAlong(x, y, k.path, 4) }))
     .sort((p, q) => Number(q.upper) - Number(p.upper));
@@ -58,8 +58,8 @@ async function firstKinks(betaDeg: number, size: number, tip: number, seed: numb
   const a = new Analysis(c, meshCase(c).mesh);
   const { x, y } = a.wm;
   const cohesive = () => a.cracks.filter((k) => k.kind === 'cohesive');
-  // stop as soon as both cracks are longer than 4 mm
-  a.stopRequested = () => { const k = cohesive(); return k.length === 2 && k.every((q) => pathLength(x, y, q.path) >= 4.5); };
+  // stop as soon as both cracks reach 4 mm (the path laid up to there does not change after)
+  a.stopRequested = () => { const k = cohesive(); return k.length === 2 && k.every((q) => pathLength(x, y, q.path) >= 4); };
   await a.run(() => {});
   const b = betaDeg * Math.PI / 180, slit = Math.atan2(Math.cos(b), Math.sin(b));
   return cohesive().map((k) => {
