@@ -190,24 +190,30 @@ export class Condensation {
     for (let i = 0; i < nM; i++) for (let j = 0; j < nM; j++) this.SMM[i * nM + j] = Sy[(nJ + i) * ny + nJ + j];
     this.wk = new Float64Array(Math.max(nJ, nM));
     if (ldltDense(this.SMM, nM, this.dM, this.wk) >= 0) throw new SingularMatrixError('the faces held together do not hold the specimen', 0);
-    // X = S_MM⁻¹ S_MJ, column by column
-    this.X = new Float64Array(nM * nJ);
-    const col = new Float64Array(nM);
-    for (let j = 0; j < nJ; j++) {
-      for (let i = 0; i < nM; i++) col[i] = Sy[(nJ + i) * ny + j];
-      solveDense(this.SMM, nM, this.dM, col);
-      for (let i = 0; i < nM; i++) this.X[i * nJ + j] = col[i];
+    // X = S_MM⁻¹ S_MJ, all columns at once (row by row, so that the inner loops run along
+    // rows; each entry meets the same operations in the same order as a column's solveDense)
+    const X = this.X = new Float64Array(nM * nJ), A = this.SMM;
+    for (let i = 0; i < nM; i++) X.set(Sy.subarray((nJ + i) * ny, (nJ + i) * ny + nJ), i * nJ);
+    for (let i = 0; i < nM; i++) {
+      const oi = i * nJ;
+      for (let k = 0; k < i; k++) { const a = A[i * nM + k], ok = k * nJ; for (let j = 0; j < nJ; j++) X[oi + j] -= a * X[ok + j]; }
+    }
+    for (let i = 0; i < nM; i++) { const di = this.dM[i], oi = i * nJ; for (let j = 0; j < nJ; j++) X[oi + j] /= di; }
+    for (let i = nM - 1; i > 0; i--) {
+      const oi = i * nJ;
+      for (let k = 0; k < i; k++) { const a = A[i * nM + k], ok = k * nJ; for (let j = 0; j < nJ; j++) X[ok + j] -= a * X[oi + j]; }
     }
     this.zM = sy.slice(nJ);
     solveDense(this.SMM, nM, this.dM, this.zM);
-    // S_N = S_JJ − S_JM X,  s_N = s_J − Xᵀ s_M,  κ_N = κ − s_M·zM
+    // S_N = S_JJ − S_JM X,  s_N = s_J − Xᵀ s_M,  κ_N = κ − s_M·zM (row by row, each entry's sum in the order of m)
     this.SN = new Float64Array(nJ * nJ);
     this.s = new Float64Array(nJ);
     for (let i = 0; i < nJ; i++) {
-      for (let j = 0; j < nJ; j++) {
-        let t = Sy[i * ny + j];
-        for (let m = 0; m < nM; m++) t -= Sy[i * ny + nJ + m] * this.X[m * nJ + j];
-        this.SN[i * nJ + j] = t;
+      const oi = i * nJ, SN = this.SN;
+      SN.set(Sy.subarray(i * ny, i * ny + nJ), oi);
+      for (let m = 0; m < nM; m++) {
+        const a = Sy[i * ny + nJ + m], om = m * nJ;
+        for (let j = 0; j < nJ; j++) SN[oi + j] -= a * X[om + j];
       }
       let t = sy[i];
       for (let m = 0; m < nM; m++) t -= this.X[m * nJ + i] * sy[nJ + m];
