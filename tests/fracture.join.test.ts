@@ -41,15 +41,19 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
       expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
       expect(pk.later).toBeNull();
       expect(runWarnings(c, res, null)).toEqual([]);
-      // measured 1.50 % (notch tips) and 2.07 % (anywhere): the hole's rim is refined and the
-      // new crack beyond it starts under load, so those mesh changes move some strain energy
-      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.025);
+      // work of the machine = stored + dissipated (definition of GF): the hole on the line ahead
+      // of the notch has its rim zone and far side refined before loading (with anywhere, the
+      // notch's line too), measured 0.16 % (notch tips) and 0.75 % (anywhere, at the start from
+      // the notch, step 2); 1.50 % and 2.07 % when only the rim was, the rest refined under load
+      // as the cracks beyond it started
+      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.01);
     }, 120_000);
   }
 
   it('with the boundary stabilisation, under which a cell keeps its stiffness when a neighbour\'s refinement adds a vertex to its edge, the balance (definition of GF) closes within 1 % (crack.start: notch-tips)', async () => {
-    // measured 0.40 % (1.50 % with the vertex form above): the rim's refinement no longer
-    // stiffens or softens the cells next to it (DEVELOPERS.md, known gaps)
+    // measured 0.04 % (0.16 % with the vertex form above; 0.40 % against 1.50 % when only the
+    // rim was refined before loading): the refinement beside a loaded cell no longer stiffens or
+    // softens it (DEVELOPERS.md, known gaps)
     const c = coarseBeam({ target: 0.6, increments: 60, hole: HOLE, start: 'notch-tips' });
     const a = new Analysis(c, meshCase(c).mesh, { stabilisation: 'boundary' });
     const res = await a.run(() => {});
@@ -175,4 +179,57 @@ describe('a hole beside the path of a crack', () => {
     expect(right - none).toBeGreaterThan(1.5);
     expect(none - left).toBeGreaterThan(1.5);
   }, 120_000);
+});
+
+describe('two notches in one beam', () => {
+  // Two sharp slits of unequal depth, 20 mm either side of the load point (equal moment at both):
+  // the crack from the slit with the larger elastic K_I (interaction integral, Yau, Wang & Corten
+  // 1980; checked against Srawley's SENB expression in fracture.sif) runs through and the other
+  // unloads and arrests (common practice: of competing cracks the one releasing more energy runs).
+  // Mirrored depths, mirrored outcome.
+  const beam = (deep: number, shallow: number, crack: boolean): CaseModel => {
+    const c = coarseBeam({ target: 0.6, increments: 60 });
+    c.geometry.notches = [{ from: [deep, 0], to: [deep, 30], width: 0 }, { from: [shallow, 0], to: [shallow, 20], width: 0 }];
+    c.control.gauge = { from: [deep - 1, 0], to: [deep + 1, 0] };
+    if (!crack) delete c.crack;
+    return c;
+  };
+  for (const [deep, shallow] of [[200, 240], [240, 200]]) {
+    it(`the deeper slit (at x = ${deep}) wins, as its K_I says; the shallower one arrests`, async () => {
+      // elastic: K_I at each slit tip (tips.csv rows); measured 0.520 against 0.313 MPa√m (×1.66;
+      // mirrored 0.521 against 0.312)
+      const el = beam(deep, shallow, false);
+      let K: number[] = [];
+      await new Analysis(el, meshCase(el).mesh).run((e) => { if (e.row.step === 1) K = e.tips.map((t) => t.KI_MPa_sqrtm ?? NaN); });
+      expect(K.length).toBe(2);
+      expect(K[0]).toBeGreaterThan(1.3 * K[1]);
+      expect(K[1]).toBeGreaterThan(0);
+      // cohesive: both slits lay their first segments before loading and both grow at first
+      const c = beam(deep, shallow, true);
+      const { a, res } = await run(c);
+      expect(res.status, res.reason).toBe('complete');
+      expect(res.crackPaths.length).toBe(2);
+      const [won, lost] = res.crackPaths;
+      expect(Math.abs(won[0][0] - deep)).toBeLessThan(0.5);
+      expect(Math.abs(lost[0][0] - shallow)).toBeLessThan(0.5);
+      // the deep one runs through to the top face; the other stops a little above its slit
+      // (measured: the whole laid path ends at y = 37.7 mm, mirrored 32.5 mm)
+      expect(a.tips[0].end).toBe('outline');
+      expect(Math.max(...won.map((p) => p[1]))).toBeGreaterThan(95);
+      expect(a.tips[1].active).toBe(true);
+      expect(Math.max(...lost.map((p) => p[1]))).toBeLessThan(50);
+      // it stops while the deep one goes on: more than five growths of the deep crack after its last
+      const log = a.growthLog, lastOfLost = log.map((g, i) => (g.tip === 1 ? i : -1)).reduce((p, q) => Math.max(p, q), -1);
+      expect(lastOfLost).toBeGreaterThanOrEqual(0);
+      expect(log.slice(lastOfLost + 1).filter((g) => g.tip === 0).length).toBeGreaterThan(5);
+      // cut through, the beam carries no load (common practice)
+      const pk = curvePeaks(res.rows);
+      expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
+      expect(pk.later).toBeNull();
+      expect(runWarnings(c, res, null)).toEqual([]);
+      // measured 1.01 % (mirrored 0.80 %): the winning crack turns toward the load point, so its
+      // line ahead sweeps new cells under load
+      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.015);
+    }, 120_000);
+  }
 });

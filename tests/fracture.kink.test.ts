@@ -50,14 +50,17 @@ describe('kink out of a slanted slit during cohesive growth (Erdogan & Sih 1963)
     it(`β = ${beta}°: both tips, 5 seeds, two mesh sizes, within the tolerance of the MTS kink`, async () => {
       const b = beta * Math.PI / 180;
       const mts = mtsKink(Math.sin(b) ** 2, Math.sin(b) * Math.cos(b)) * 180 / Math.PI;
+      // The plate's l_ch = E·G_F/f_t² = 100 mm is ten times the slit's half-length: the cohesive
+      // zone is not small against the crack, outside the domain of MTS, an LEFM criterion.
       // The MTS kink is the direction at the slit tip; 4 mm further on (0.4 of the half-length)
       // the slit's T-stress, σ cos 2β, has turned the crack on past it where T > 0 (β = 30°) and
       // back where T < 0 (β = 60°) (Cotterell & Rice 1980; the generalized MTS criterion with its
       // T term, Smith, Ayatollahi & Pavier 2001, turns the kink the same ways; from memory).
       // Measured at 30°: 3.1–6.4° beyond the MTS angle at 4 mm on these meshes, 4.0–5.9° with
-      // 0.25 mm tip cells and 0.5 mm steps (it does not shrink with the mesh), and traction-free
-      // growth with K at every step turns as far. The issue asks for 5°; 30° is held to 7.5°
-      // (DEVELOPERS.md, known gaps).
+      // 0.25 mm tip cells and 0.5 mm steps (it does not shrink with the mesh), 1.1–6.0° with a
+      // slit four times longer and l_ch/a = 0.39 instead of 10 (it is not the cohesive zone),
+      // and traction-free growth with the MTS criterion at every step turns 3.4–7.9° past it at
+      // 4 mm. The issue asks for 5°; 30° is held to 7.5° (DEVELOPERS.md, known gaps).
       const tol = beta === 30 ? 7.5 : 5;
       const devs: string[] = [];
       let sum = 0, n = 0;

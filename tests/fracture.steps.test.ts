@@ -3,7 +3,7 @@
 // demo beam run both ways (measured against fixed increments).
 import { describe, expect, it } from 'vitest';
 import {
-  startState, propose, cut, accept, settle, growthFactor, peakStep, readyStep, energyJump, softeningWeights,
+  startState, propose, cut, accept, settle, growthFactor, peakStep, readyStep, energyJump, energyGained, energyCreated, softeningWeights,
   MIN_FRACTION, MIN_ADAPTIVE, MAX_FRACTION, MAX_GROW, MAX_SHRINK, AIM_READINESS, AIM_ITERATIONS, PEAK_MISS, CHORD_MISS,
   SETTLE, PASS_SETTLED, SETTLED_BELOW, type StepMeasure,
 } from '../src/fracture/steps.js';
@@ -122,6 +122,14 @@ describe('adaptive step control on plain data', () => {
     const last = { external_work_Nmm: 100, elastic_energy_Nmm: 60, dissipated_Nmm: 39 };
     expect(energyJump(last, 110, 65, 44)).toBeCloseTo(0, 12);
     expect(energyJump(last, 110, 64, 44)).toBeCloseTo(1 / 110, 12);
+    // stored plus dissipated may grow by the work done and no more (first law: common practice)
+    expect(energyGained(last, 110, 65, 44)).toBeCloseTo(0, 12);
+    expect(energyGained(last, 110, 66, 44)).toBeCloseTo(1 / 110, 12);
+    expect(energyGained(last, 110, 64, 44)).toBeCloseTo(-1 / 110, 12);
+    // created: 3 N·mm more than booked is over 1 % of 110, unless the trapezoid's ½|ΔF·Δλ| covers it
+    expect(energyCreated(last, 110, 68, 44, 100, 0.01)).toBe(true);
+    expect(energyCreated(last, 110, 68, 44, 100, 0.05)).toBe(false);
+    expect(energyCreated(last, 110, 65.5, 44, 0, 0.01)).toBe(false);
   });
 });
 

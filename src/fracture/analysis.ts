@@ -21,10 +21,10 @@ import { buildDomain, type Domain } from '../geometry/domain.js';
 import { strengthOf } from '../cohesive/strength.js';
 import { softeningJump, overshootLimit, SOFTENING_LIMIT } from './criterion.js';
 import { Equations, type Order2Setup } from './equations.js';
-import { insertNotchSlits, placeTips, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
+import { insertNotchSlits, placeTips, refineNotchLines, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
-import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, softeningWeights } from './steps.js';
+import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated, softeningWeights } from './steps.js';
 import {
   emptyState, save, restore, checkpointState, fromCheckpoint, SOLUTION, GEOMETRY,
   type CrackState, type AnalysisState, type LoopState, type Peak, type Saved,
@@ -277,6 +277,14 @@ export class Analysis {
     return energyJump(last, this.s.W, en.elastic, en.dissipated) > ENERGY_STEP;
   }
 
+  /** The step's solution holds more energy than the machine's work since `saved` supplies (steps.ts `energyCreated`). */
+  private gainedEnergy(saved: Solution): boolean {
+    const last = this.s.rows[this.s.rows.length - 1];
+    if (!last) return false;
+    const en = this.eq.energies(this.coh, this.eq.kapTrial), s = this.s;
+    return energyCreated(last, s.W, en.elastic, en.dissipated, s.lastF - saved.lastF, s.lastLambda - saved.lastLambda);
+  }
+
   /** Undo a step attempt: the solution as saved, the trial histories as committed. */
   private undo(saved: Solution): void {
     restore(this.s, saved);
@@ -312,6 +320,7 @@ export class Analysis {
    * The field comes from a trial solve at a small control level, undone afterwards.
    */
   private layFirstSegments(firstIncrement: number): void {
+    if (refineNotchLines(this.room())) this.dirty = true;
     if (!this.s.tips.some((t) => t.active && t.crack < 0)) return;
     const saved = save(this.s, SOLUTION);
     const r = this.solveAt(this.c.control.by, 1e-3 * firstIncrement);
@@ -439,7 +448,9 @@ export class Analysis {
     const checked = !skipped && !elastic && at.frac > MIN_FRACTION && !at.opening;
     const early = checked && this.driven.strips.length === 0 ? () => this.softening() > SOFTENING_LIMIT : undefined;
     const it0 = this.iterations;
-    const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
+    let r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
+    // a state holding more energy than the machine put in lies on no loading path: the step failed
+    if (r.ok && !elastic && this.gainedEnergy(saved)) { this.undo(saved); r = { ok: false, reason: 'its solution held more energy than the machine\'s work supplied' }; }
     const m: StepMeasure = this.measure = { iterations: this.iterations - it0, softening: r.ok && !elastic ? this.softening() : 0, readiness: NaN, grew: false, byOpening: false };
     if (skipped) at.frac = WHILE_OPENING;
     const tooFar = (): boolean => m.softening > SOFTENING_LIMIT || (m.readiness = tipOvershoot(this.room())) > overshootLimit(this.c.crack!.insertAt ?? 1) || this.balanceMoved();
