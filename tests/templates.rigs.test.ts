@@ -54,6 +54,40 @@ describe('four-point shear beam from its defaults (spreader, mouth-sliding contr
   });
 });
 
+describe('four-point shear beam as shipped (template defaults, its own mesh)', () => {
+  it('balances its energy within 1 % at every step (work = stored + dissipated: common practice)', async () => {
+    // measured on seeds 1–5: 0.60 / 0.29 / 0.42 / 0.63 / 0.21 %; on the 10 mm cells it had
+    // before, 1.15 / 0.78 / 1.92 % (seeds 1–3): a cut through a coarse cell beside the inner
+    // load strip, kept as meshed under load, moved 0.6 % of the work in one growth
+    const text = beam4pShear.build({}).replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+    const c = parseCase(text, 'shear.yaml');
+    expect(c.mesh.size).toBe(8);
+    const res = await new Analysis(c, meshCase(c).mesh).run(() => {});
+    expect(res.status, res.reason).toBe('complete');
+    expect(worstEnergyGap(res.rows)?.share ?? 1).toBeLessThan(0.01);
+  }, 120_000);
+});
+
+describe('four-point shear beam under the boundary stabilisation', () => {
+  it('never holds more energy than the machine put in, through the separation (first law: common practice)', async () => {
+    // On 10 mm cells the last ligament under the inner load strip once let go in one step:
+    // every face pair past its critical opening, the right-hand piece (held across x only by
+    // the crack) drifting as a mechanism, 915 N·mm dissipated against 807 N·mm of work and the
+    // load from 2.7 kN to 0.1 N. Such a step is now refused and the step driven by the opening.
+    // Measured since: the load falls to 1.8 kN (like the vertex form), stored plus dissipated
+    // at most 0.6 % above the work (a cut under load), worst gap 2.9 %.
+    const text = beam4pShear.build({ 'mesh-size': 10 }).replace(/^output:.*$/m, 'output: {frames: [], animation: none}');
+    const c = parseCase(text, 'shear-boundary.yaml');
+    const res = await new Analysis(c, meshCase(c).mesh, { stabilisation: 'boundary' }).run(() => {});
+    expect(res.status, res.reason).toBe('complete');
+    const end = Math.abs(res.rows.at(-1)!.external_work_Nmm);
+    for (const r of res.rows) {
+      if (!(Math.abs(r.external_work_Nmm) > 1e-3 * end)) continue;
+      expect(r.elastic_energy_Nmm + r.dissipated_Nmm - r.external_work_Nmm, `step ${r.step}`).toBeLessThan(0.01 * Math.abs(r.external_work_Nmm));
+    }
+  }, 120_000);
+});
+
 describe('splitting disc from its defaults (strips on the arc)', () => {
   it('grows both tips of the crack that starts inside it through the centre to both strips, and its load falls to 25 % of the peak', async () => {
     // the shipped mesh (seed 1 started the crack with the second tip cutting the start vertex)

@@ -24,7 +24,7 @@ import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, refineNotchLines, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
-import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP } from './steps.js';
+import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated, softeningWeights } from './steps.js';
 import {
   emptyState, save, restore, checkpointState, fromCheckpoint, SOLUTION, GEOMETRY,
   type CrackState, type AnalysisState, type LoopState, type Peak, type Saved,
@@ -264,7 +264,7 @@ export class Analysis {
   /** Largest softening of any cohesive point in the trial state, as a fraction of ft. */
   private softening(): number {
     const law = this.coh.law;
-    return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w), this.eq.pairCoh);
+    return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w), this.eq.pairCoh, softeningWeights(this.stepMode(), this.s.rows, this.peakLoad));
   }
 
   private stepMode(): StepMode { return this.opt.steps ?? this.c.control.steps ?? 'fixed'; }
@@ -275,6 +275,14 @@ export class Analysis {
     if (this.stepMode() === 'fixed' || !last) return false;
     const en = this.eq.energies(this.coh, this.eq.kapTrial);
     return energyJump(last, this.s.W, en.elastic, en.dissipated) > ENERGY_STEP;
+  }
+
+  /** The step's solution holds more energy than the machine's work since `saved` supplies (steps.ts `energyCreated`). */
+  private gainedEnergy(saved: Solution): boolean {
+    const last = this.s.rows[this.s.rows.length - 1];
+    if (!last) return false;
+    const en = this.eq.energies(this.coh, this.eq.kapTrial), s = this.s;
+    return energyCreated(last, s.W, en.elastic, en.dissipated, s.lastF - saved.lastF, s.lastLambda - saved.lastLambda);
   }
 
   /** Undo a step attempt: the solution as saved, the trial histories as committed. */
@@ -440,7 +448,9 @@ export class Analysis {
     const checked = !skipped && !elastic && at.frac > MIN_FRACTION && !at.opening;
     const early = checked && this.driven.strips.length === 0 ? () => this.softening() > SOFTENING_LIMIT : undefined;
     const it0 = this.iterations;
-    const r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
+    let r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
+    // a state holding more energy than the machine put in lies on no loading path: the step failed
+    if (r.ok && !elastic && this.gainedEnergy(saved)) { this.undo(saved); r = { ok: false, reason: 'its solution held more energy than the machine\'s work supplied' }; }
     const m: StepMeasure = this.measure = { iterations: this.iterations - it0, softening: r.ok && !elastic ? this.softening() : 0, readiness: NaN, grew: false, byOpening: false };
     if (skipped) at.frac = WHILE_OPENING;
     const tooFar = (): boolean => m.softening > SOFTENING_LIMIT || (m.readiness = tipOvershoot(this.room())) > overshootLimit(this.c.crack!.insertAt ?? 1) || this.balanceMoved();
