@@ -145,13 +145,23 @@ describe('a split disc', () => {
     const later = res.crackPaths.slice(2);
     expect(later.length).toBeGreaterThan(0);
     for (const p of later) expect(toPath(p[0], split)).toBeGreaterThan(c.mesh.tipSize);
-    // the halves no longer stand as columns between the strips: measured 49 % of the peak at the
+    // the halves no longer stand as columns between the strips: measured 66 % of the peak at the
     // end of the run, 88-90 % when no crack started after the split (a specimen cracked into
     // pieces carries less: common practice; the issue asks that the load falls after the peak)
     const pk = curvePeaks(res.rows);
     expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.75 * Math.abs(pk.peak.load_N));
-    // measured 9.2 %: the split snaps across the diameter at once (DEVELOPERS.md, known gaps)
+    // measured 7.2 %: the split snaps across the diameter at once (DEVELOPERS.md, known gaps)
     expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.12);
+    // where the gap arises: along a converged quasi-static path on one mesh the machine's work is
+    // the stored plus the dissipated energy (common practice), so a step in which no crack grows
+    // keeps the balance; measured at most 0.03 % of the largest work, against 80 N·mm (7 %) in
+    // the split's step
+    const Wmax = Math.max(...res.rows.map((r) => Math.abs(r.external_work_Nmm)));
+    const gap = (r: (typeof res.rows)[number]): number => r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm;
+    for (let i = 1; i < res.rows.length; i++) {
+      const r0 = res.rows[i - 1], r1 = res.rows[i];
+      if (r1.crack_length_mm === r0.crack_length_mm) expect(Math.abs(gap(r1) - gap(r0)), `step ${r1.step}`).toBeLessThan(1e-3 * Wmax);
+    }
   }, 300_000);
 });
 

@@ -3,10 +3,11 @@
 // demo beam run both ways (measured against fixed increments).
 import { describe, expect, it } from 'vitest';
 import {
-  startState, propose, cut, accept, settle, growthFactor, peakStep, readyStep, energyJump, energyGained, energyCreated,
-  MIN_FRACTION, MIN_ADAPTIVE, MAX_FRACTION, MAX_GROW, MAX_SHRINK, AIM_READINESS, PEAK_MISS,
-  type StepMeasure,
+  startState, propose, cut, accept, settle, growthFactor, peakStep, readyStep, energyJump, energyGained, energyCreated, softeningWeights,
+  MIN_FRACTION, MIN_ADAPTIVE, MAX_FRACTION, MAX_GROW, MAX_SHRINK, AIM_READINESS, AIM_ITERATIONS, PEAK_MISS, CHORD_MISS,
+  SETTLE, PASS_SETTLED, SETTLED_BELOW, type StepMeasure,
 } from '../src/fracture/steps.js';
+import { softeningJump, FULL_WEIGHTS } from '../src/fracture/criterion.js';
 import type { StepRow } from '../src/fracture/state.js';
 import { Analysis, type AnalysisState } from '../src/fracture/analysis.js';
 import { decodeCheckpoint, encodeCheckpoint } from '../src/fracture/checkpoint.js';
@@ -22,8 +23,8 @@ const row = (step: number, control: number, load_N: number): StepRow =>
 describe('adaptive step control on plain data', () => {
   it('grows a step that converged quickly, shrinks one that took many iterations, within the limits', () => {
     expect(growthFactor(quiet(1), false)).toBe(MAX_GROW);
-    expect(growthFactor(quiet(4), false)).toBe(1);
-    expect(growthFactor(quiet(16), false)).toBe(0.5);
+    expect(growthFactor(quiet(AIM_ITERATIONS), false)).toBe(1);
+    expect(growthFactor(quiet(4 * AIM_ITERATIONS), false)).toBe(0.5);
     expect(growthFactor(quiet(400), false)).toBe(MAX_SHRINK);
     // after a cut the next step does not grow
     expect(growthFactor(quiet(1), true)).toBe(1);
@@ -77,6 +78,41 @@ describe('adaptive step control on plain data', () => {
     expect(scaled / l).toBeCloseTo(h, 10);
   });
 
+  it('far below the vertex of a rising curve the step may go half way to it, the chord held to CHORD_MISS', () => {
+    // F = 100 − 100(x − 1)²: F'' = −200, the peak bound alone √(8·PEAK_MISS·100/200)
+    const F = (x: number) => 100 - 100 * (x - 1) ** 2, miss = Math.sqrt(8 * PEAK_MISS * 100 / 200);
+    // rows at 0.1, 0.15, 0.2: the vertex 0.8 ahead; the chord bound √(8·CHORD_MISS·100/200) is the shorter
+    expect(peakStep([row(0, 0.1, F(0.1)), row(1, 0.15, F(0.15)), row(2, 0.2, F(0.2))], 100)).toBeCloseTo(Math.sqrt(8 * CHORD_MISS * 100 / 200), 10);
+    // rows at 0.7, 0.75, 0.8: half the way to the vertex, 0.1, is the shorter
+    expect(peakStep([row(0, 0.7, F(0.7)), row(1, 0.75, F(0.75)), row(2, 0.8, F(0.8))], 100)).toBeCloseTo(0.1, 10);
+    expect(0.1).toBeGreaterThan(miss);
+    // past the vertex (falling), and for a valley ahead, only the peak bound holds
+    const G = (x: number) => 200 - F(x);
+    expect(peakStep([row(0, 1.1, F(1.1)), row(1, 1.15, F(1.15)), row(2, 1.2, F(1.2))], 100)).toBeCloseTo(miss, 10);
+    expect(peakStep([row(0, 0.1, G(0.1)), row(1, 0.15, G(0.15)), row(2, 0.2, G(0.2))], 200)).toBeCloseTo(Math.sqrt(8 * PEAK_MISS * 200 / 200), 10);
+  });
+
+  it('the softening limit relaxes as the zone settles: fresh points count fully, passing points ten times until the load falls from its peak', () => {
+    // linear law ft = 2, wc = 1 (slope 2), penalty 1000: l0 = 0.002
+    const ft = 2, pen = 1000, l0 = ft / pen, stress = (w: number) => Math.max(0, ft - 2 * w);
+    // a point passing its peak, ending 0.01 below ft: ten times that, over ft
+    const passing = [new Float64Array([0]), new Float64Array([l0 + 0.005])] as const;
+    expect(softeningJump(passing[0], passing[1], ft, pen, stress)).toBeCloseTo(10 * 0.01 / ft, 12);
+    expect(softeningJump(passing[0], passing[1], ft, pen, stress, null, { pass: 2, settle: 0 })).toBeCloseTo(2 * 0.01 / ft, 12);
+    // a point at half its strength (D = 0.5) falling by 0.2: 0.1 of ft, over 1 + settle·0.5
+    const half = [new Float64Array([l0 + 0.5]), new Float64Array([l0 + 0.6])] as const;
+    expect(softeningJump(half[0], half[1], ft, pen, stress)).toBeCloseTo(0.1, 12);
+    expect(softeningJump(half[0], half[1], ft, pen, stress, null, { pass: 10, settle: 4 })).toBeCloseTo(0.1 / 3, 12);
+    // fixed steps keep the full weights; adaptive ones relax the passing weight only below SETTLED_BELOW of the peak
+    expect(softeningWeights('fixed', [row(5, 1, 10)], 100)).toEqual(FULL_WEIGHTS);
+    expect(softeningWeights('adaptive', [row(5, 1, 96)], 100)).toEqual({ pass: FULL_WEIGHTS.pass, settle: SETTLE });
+    expect(softeningWeights('adaptive', [row(5, 1, 94)], 100)).toEqual({ pass: PASS_SETTLED, settle: SETTLE });
+    expect(softeningWeights('adaptive', [], 0).pass).toBe(FULL_WEIGHTS.pass);
+    // relative: the same when loads are scaled (the fit's scaling)
+    expect(softeningWeights('adaptive', [row(5, 1, -94 * 3)], -300)).toEqual({ pass: PASS_SETTLED, settle: SETTLE });
+    expect(SETTLED_BELOW).toBeLessThan(1);
+  });
+
   it('a tip near readiness 1 gets a step that takes it to AIM_READINESS; an energy jump is a share of the work', () => {
     // readiness rose 0.8 → 0.9 over 0.01: 0.012 more reaches the aim
     expect(readyStep(0.8, 0.9, 0.01)).toBeCloseTo((AIM_READINESS - 0.9) / 10, 12);
@@ -101,21 +137,23 @@ describe('adaptive steps on a coarse demo beam, measured against fixed increment
   const c = coarseBeam({ increments: 40, target: 0.3 });
   const mesh = () => generateMesh(buildDomain(c), c.mesh);
 
-  it('fewer attempts and Newton iterations, the peak within 0.5 %, the crack end within a tip cell, the energy balance as good (measured against fixed increments)', async () => {
+  it('fewer steps, attempts and Newton iterations, the peak within 0.5 %, the crack end within a tip cell, the energy balance as good (measured against fixed increments)', async () => {
     const runs = await Promise.all((['fixed', 'adaptive'] as const).map(async (steps) => {
       const a = new Analysis(c, mesh(), { steps });
       let iterations = 0;
       const r = await a.run((e) => { iterations += e.row.iterations; });
       expect(r.status, r.reason).toBe('complete');
-      return { r, iterations, attempts: a.attempts.tried, path: r.crackPaths[0]! };
+      return { r, steps: r.rows.length - 1, iterations, attempts: a.attempts.tried, path: r.crackPaths[0]! };
     }));
     const [fixed, adaptive] = runs as [typeof runs[0], typeof runs[0]];
+    // measured: 69 steps against 87, 241 iterations against 387
+    expect(adaptive.steps).toBeLessThan(0.85 * fixed.steps);
     expect(adaptive.attempts).toBeLessThan(fixed.attempts);
     expect(adaptive.iterations).toBeLessThan(0.8 * fixed.iterations);
     expect(Math.abs(adaptive.r.peak.load_N / fixed.r.peak.load_N - 1)).toBeLessThan(0.005);
     const e1 = fixed.path[fixed.path.length - 1]!, e2 = adaptive.path[adaptive.path.length - 1]!;
     expect(Math.hypot(e1[0] - e2[0], e1[1] - e2[1])).toBeLessThan(c.mesh.tipSize);
-    expect(worstEnergyGap(adaptive.r.rows)!.share).toBeLessThanOrEqual(worstEnergyGap(fixed.r.rows)!.share + 1e-3);
+    expect(worstEnergyGap(adaptive.r.rows)!.share).toBeLessThanOrEqual(worstEnergyGap(fixed.r.rows)!.share);
     // rows are not on the increments' levels: some step is longer than one increment
     const len = adaptive.r.rows.slice(1).map((w, i) => w.control - adaptive.r.rows[i]!.control);
     expect(Math.max(...len)).toBeGreaterThan(1.2 * c.control.target / c.control.increments);

@@ -24,7 +24,7 @@ import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, refineNotchLines, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
-import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated } from './steps.js';
+import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated, softeningWeights } from './steps.js';
 import {
   emptyState, save, restore, checkpointState, fromCheckpoint, SOLUTION, GEOMETRY,
   type CrackState, type AnalysisState, type LoopState, type Peak, type Saved,
@@ -264,7 +264,7 @@ export class Analysis {
   /** Largest softening of any cohesive point in the trial state, as a fraction of ft. */
   private softening(): number {
     const law = this.coh.law;
-    return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w), this.eq.pairCoh);
+    return softeningJump(this.eq.kap, this.eq.kapTrial, law.ft, this.coh.penalty, (w) => law.stress(w), this.eq.pairCoh, softeningWeights(this.stepMode(), this.s.rows, this.peakLoad));
   }
 
   private stepMode(): StepMode { return this.opt.steps ?? this.c.control.steps ?? 'fixed'; }

@@ -163,26 +163,39 @@ export const SOFTENING_LIMIT = 0.05;
  * histories, as a fraction of ft; the step that takes a point over its peak counts ten
  * times, so the peak load is caught. l0 = ft/penalty is the end of the intact branch. With
  * `laws` (each pair's own, where the strength varies) a pair's drop counts against its own ft.
+ * `w` relaxes this as a cohesive zone settles (adaptive steps): a point passing its peak counts
+ * w.pass times instead of ten, and a point already softening counts less the more of its
+ * strength it has lost (D, a fraction of ft, before the step): its drop over 1 + w.settle·D.
  */
 export function softeningJump(kap: Float64Array, kapTrial: Float64Array, ft: number, penalty: number, stress: (w: number) => number,
-  laws: readonly { law: SofteningLaw }[] | null = null): number {
+  laws: readonly { law: SofteningLaw }[] | null = null, w: SofteningWeights = FULL_WEIGHTS): number {
   let worst = 0;
   for (let p = 0; p < kap.length; p++) {
     const k0 = kap[p], k1 = kapTrial[p];
     if (k1 <= k0) continue;
     const law = laws ? laws[p].law : null;
-    const d = law ? softeningDrop(k0, k1, law.ft, penalty, law.stress) / law.ft : softeningDrop(k0, k1, ft, penalty, stress);
+    const d = law ? softeningDrop(k0, k1, law.ft, penalty, law.stress, w) / law.ft : softeningDrop(k0, k1, ft, penalty, stress, w);
     if (d > worst) worst = d;
   }
   return laws ? worst : worst / ft;
 }
 
-/** Fall of the traction (MPa) of a point whose history grows from k0 to k1 (ten times the fall below ft when it passes its peak). */
-function softeningDrop(k0: number, k1: number, ft: number, penalty: number, stress: (w: number) => number): number {
+/** How the drops of `softeningJump` count: a point passing its peak `pass` times, one softening already over 1 + settle·D. */
+export interface SofteningWeights { pass: number; settle: number }
+/** The full weights: the peak load is caught, every softening point counts alike. */
+export const FULL_WEIGHTS: SofteningWeights = { pass: 10, settle: 0 };
+
+/**
+ * Fall of the traction (MPa) of a point whose history grows from k0 to k1 (w.pass times the fall
+ * below ft when it passes its peak; over 1 + w.settle·(ft − σ(k0))/ft when it was softening already).
+ */
+function softeningDrop(k0: number, k1: number, ft: number, penalty: number, stress: (w: number) => number, w: SofteningWeights): number {
   const l0 = ft / penalty;
   if (k1 <= l0) return 0;
   // k1 > l0: on the softening branch
-  return k0 <= l0 ? 10 * (ft - stress(k1 - l0)) : stress(k0 - l0) - stress(k1 - l0);
+  if (k0 <= l0) return w.pass * (ft - stress(k1 - l0));
+  const s0 = stress(k0 - l0), drop = s0 - stress(k1 - l0);
+  return w.settle > 0 ? drop / (1 + w.settle * (ft - s0) / ft) : drop;
 }
 
 /** Largest turn of a grown crack per growth step (rad). */

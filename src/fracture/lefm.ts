@@ -36,6 +36,10 @@ export class LefmAnalysis {
   /** Every growth: tip position, direction, and K_I, K_II (MPa√mm) of the critical state. */
   readonly growthLog: { crack: number; x: number; y: number; dx: number; dy: number; KI: number; KII: number }[] = [];
   stopRequested: (() => boolean) | null = null;
+  /** Tips whose equivalent K is within this fraction of the largest grow with it (TIE). At 1 every
+   * opened tip grows at each critical state: the path of the criterion with the tips advancing
+   * together, as in a point-symmetric problem, whichever tip the mesh makes critical first. */
+  tie = TIE;
   private readonly D: Float64Array;
   private readonly driven: Driven;
   private readonly probeVerts: number[] = [];
@@ -254,7 +258,7 @@ export class LefmAnalysis {
         // grow every tip at the critical K (ties: symmetric problems grow both tips)
         let through = false, grown = 0;
         for (let i = 0; i < tips.length; i++) {
-          if (keq[i] < (1 - TIE) * best) continue;
+          if (!(keq[i] > 0) || keq[i] < (1 - this.tie) * best) continue;
           const t = tips[i];
           this.growthLog.push({ crack: t.crack, x: t.x, y: t.y, dx: Math.cos(t.kink!), dy: Math.sin(t.kink!), KI: s * t.KI!, KII: s * t.KII! });
           const r = this.growTip(t);

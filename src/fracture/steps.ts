@@ -5,13 +5,14 @@
 // Adaptive (`control.steps: adaptive`): after a converged step the next one is longer when Newton converged
 // quickly and the cohesive points softened little, shorter when not, and short enough near a
 // peak of the curve that the peak between two rows is missed by at most PEAK_MISS of the peak;
+// the softening limit relaxes as the cohesive zone settles (`softeningWeights`);
 // steps run from MIN_ADAPTIVE to MAX_FRACTION of the base step (cuts go below) and end at T.
 // Fixed (the default): steps end on the increments' levels T·k/n and a cut step is widened back to the whole
 // increment after each converged step.
 // Every decision reads iteration counts and relative measures, so it does not change when the
 // case is scaled (loads by b, lengths of the opening by λ): the fit's shape search relies on it.
 import type { LoopState, StepRow } from './state.js';
-import { SOFTENING_LIMIT } from './criterion.js';
+import { SOFTENING_LIMIT, FULL_WEIGHTS, type SofteningWeights } from './criterion.js';
 
 /** Shortest step tried under the case's control, as a fraction of the base step. */
 export const MIN_FRACTION = 1 / 64;
@@ -26,13 +27,20 @@ export const MIN_ADAPTIVE = 1 / 16;
 export const MAX_GROW = 2;
 export const MAX_SHRINK = 0.25;
 /** Newton iterations aimed at per step: fewer let the next step grow, more shrink it. */
-export const AIM_ITERATIONS = 4;
+export const AIM_ITERATIONS = 6;
 /** Softening per step aimed at, as a share of its limit (5 % of ft), so that few steps are cut. */
 export const AIM_SOFTENING = 0.8 * SOFTENING_LIMIT;
+/** How fast the softening limit relaxes as a point settles (adaptive; criterion.ts `softeningJump`). */
+export const SETTLE = 4;
+/** Weight of a point passing its peak once the curve has fallen below SETTLED_BELOW of its peak (adaptive; 10 until then). */
+export const PASS_SETTLED = 2;
+export const SETTLED_BELOW = 0.95;
 /** Readiness a tip is aimed to reach at the end of a step, once it comes near (growth at 1, the step is cut past 1.05). */
 export const AIM_READINESS = 1.02;
 /** Largest share of the peak load the curve may rise above its rows between two of them. */
 export const PEAK_MISS = 1e-3;
+/** Largest share of the peak load the curve may leave its chord between two rows away from a peak (adaptive). */
+export const CHORD_MISS = 1e-2;
 
 /** Largest change of the energy balance (work − elastic − dissipated) in one step, as a share of the work (adaptive). */
 export const ENERGY_STEP = 1e-3;
@@ -75,6 +83,20 @@ export function energyCreated(last: Pick<StepRow, 'external_work_Nmm' | 'elastic
 }
 
 export type StepMode = 'adaptive' | 'fixed';
+
+/**
+ * How the softening of a step is weighed (criterion.ts `softeningJump`). Fixed: the full
+ * weights. Adaptive: a point that was softening already counts less the more strength it has
+ * lost (SETTLE), and once the last row's load has fallen below SETTLED_BELOW of the peak a
+ * point passing its own peak counts PASS_SETTLED times instead of ten: the ten is there to
+ * catch the peak load, and it comes back should the load rise near the peak again.
+ */
+export function softeningWeights(mode: StepMode, rows: readonly Pick<StepRow, 'load_N'>[], peak: number): SofteningWeights {
+  if (mode === 'fixed') return FULL_WEIGHTS;
+  const last = rows[rows.length - 1];
+  const past = last !== undefined && Math.abs(peak) > 0 && Math.abs(last.load_N) < SETTLED_BELOW * Math.abs(peak);
+  return { pass: past ? PASS_SETTLED : FULL_WEIGHTS.pass, settle: SETTLE };
+}
 
 export function startState(): LoopState {
   return { inc: 1, frac: 1, done: 0, step: 0, peak: { load_N: 0, displacement_mm: 0, cmod_mm: null, step: 0 } };
@@ -141,8 +163,10 @@ export function growthFactor(m: StepMeasure, wasCut: boolean): number {
 /**
  * Longest step (in units of the control level) that keeps the peak between rows: the last
  * three rows' parabola F(level) has curvature F''; a peak between samples h apart is missed by
- * at most |F''|·h²/8, held to PEAK_MISS·|peak|. Infinity while the curve is straight (or fewer
- * than three rows with distinct levels).
+ * at most |F''|·h²/8, held to PEAK_MISS·|peak|. While |F| still rises toward the parabola's
+ * vertex, no peak lies within half the way to it: the step may go that far, the chord then
+ * held to CHORD_MISS·|peak|. Infinity while the curve is straight (or fewer than three rows
+ * with distinct levels).
  */
 export function peakStep(rows: readonly Pick<StepRow, 'control' | 'load_N'>[], peak: number): number {
   const n = rows.length;
@@ -152,7 +176,11 @@ export function peakStep(rows: readonly Pick<StepRow, 'control' | 'load_N'>[], p
   if (!(h1 > 0 && h2 > 0)) return Infinity;
   const curv = 2 * ((c.load_N - b.load_N) / h2 - (b.load_N - a.load_N) / h1) / (h1 + h2);
   if (!(Math.abs(curv) > 0)) return Infinity;
-  return Math.sqrt(8 * PEAK_MISS * Math.abs(peak) / Math.abs(curv));
+  const miss = Math.sqrt(8 * PEAK_MISS * Math.abs(peak) / Math.abs(curv));
+  // the parabola's slope at the last row, and how far ahead its vertex lies when it is a peak of |F|
+  const slope = (c.load_N - b.load_N) / h2 + curv * h2 / 2, ahead = -slope / curv;
+  if (!(ahead > 0 && curv * c.load_N < 0)) return miss;
+  return Math.max(miss, Math.min(ahead / 2, Math.sqrt(8 * CHORD_MISS * Math.abs(peak) / Math.abs(curv))));
 }
 
 /**

@@ -16,6 +16,11 @@
 // Where pairs link more than two faces (cracks that join) the jumps are those of a spanning
 // tree of the linked faces, and a pair off the tree opens by B·j, a signed sum of them: its
 // force enters as Bᵀf, its tangent as Bᵀ M B.
+// A face that is not an unknown (held, driven, or a rig's point that follows λ and its masters
+// as a rocker's strip does) moves by b = λ·z + Σ w·q_M, so the free face paired with it is
+// q = b + j: the map y → q_c is affine, q_c = E y + λ h, with the masters (ordered last) as
+// means of their own. On y the bulk then reads S_y = Eᵀ S E, s_y = Eᵀ(s + S h) and
+// κ_y = κ + 2 s·h + hᵀ S h; the jump stays the pair's own, so the cohesive force is unchanged.
 import { factorize, matVec, trailingSchur, type Factor } from '../linalg/index.js';
 import type { CohesiveParams } from '../cohesive/interface.js';
 import { SingularMatrixError } from '../errors.js';
@@ -23,6 +28,17 @@ import type { System } from './system.js';
 
 /** Largest count of face dofs condensed (dense storage, and the means' LDLᵀ once per topology). */
 export const MAX_CONDENSED = 1200;
+
+/** A face that is not an unknown and moves: λ·z + Σ w·q over free unknowns q. */
+interface Bound { z: number; free: Int32Array; w: Float64Array }
+
+/** The coordinates of the trailing block (see the fields of Condensation). */
+interface Layout {
+  jumpOf: Int32Array; ePtr: Int32Array; eY: Int32Array; eW: Float64Array; h: Float64Array | null;
+  bPtr: Int32Array; bJ: Int32Array; bW: Float64Array;
+  tChild: Int32Array; tSign: Float64Array; tPtr: Int32Array; tIdx: Int32Array; tW: Float64Array; tBeta: Float64Array | null;
+  bound: Map<number, Bound>; nJ: number; nM: number;
+}
 
 /** A gauge as it reads on the jumps. */
 export interface CondensedGauge { gc: Float64Array; gl: number }
@@ -80,36 +96,43 @@ export class Condensation {
   /** Face dofs (free index, elimination order) and their count. */
   private readonly cFree: Int32Array;
   private readonly n1: number;
-  /** y → q_c: face dof i is Σ eW[t]·j[eJ[t]] over t in ePtr[i]..ePtr[i+1] plus its mean eM[i] (−1 for none). */
-  private readonly ePtr: Int32Array; private readonly eJ: Int32Array; private readonly eW: Float64Array; private readonly eM: Int32Array;
+  /** y → q_c: trailing dof i is Σ eW[t]·y[eY[t]] over t in ePtr[i]..ePtr[i+1] (jumps first, then means at nc + m) plus λ·h[i] (h null: all zero). */
+  private readonly ePtr: Int32Array; private readonly eY: Int32Array; private readonly eW: Float64Array; private readonly h: Float64Array | null;
   /** Each pair's x or y jump on the jumps: Σ bW[t]·j[bJ[t]] over t in bPtr[2p+c]..; simple[p] when both are a tree jump or zero. */
   private readonly bPtr: Int32Array; private readonly bJ: Int32Array; private readonly bW: Float64Array;
   private readonly simple: Uint8Array;
-  /** Each jump's tree pair: the face dof beyond it, the one before it (−1 for a held face), its sign; face residual scratch. */
-  private readonly tChild: Int32Array; private readonly tParent: Int32Array; private readonly tSign: Float64Array;
+  /**
+   * Each jump's tree pair: the face dof beyond it and its sign; the trailing dofs the face before
+   * it moves with (tIdx, tW over tPtr[j]..tPtr[j+1]: that face itself, or a bound face's masters);
+   * the jump's change with λ at fixed unknowns (null: none); face residual scratch.
+   */
+  private readonly tChild: Int32Array; private readonly tSign: Float64Array;
+  private readonly tPtr: Int32Array; private readonly tIdx: Int32Array; private readonly tW: Float64Array;
+  private readonly tBeta: Float64Array | null;
   private readonly rFace: Float64Array;
+  /** Faces that are not unknowns and move: full dof → λ-coefficient and (free index, weight) terms. */
+  private readonly bound: Map<number, Bound>;
   private readonly nM: number;
   /** First level: S + αI, α, s, k_b (zero on c), k_c, K⁻¹[k_b; 0]. */
   private readonly SA: Float64Array; private readonly alpha: number;
   private readonly s1: Float64Array; private readonly kb: Float64Array; private readonly kc: Float64Array; private readonly xk: Float64Array;
-  /** Second level: the means' factor, X = S_MM⁻¹ S_MJ (nM × nc), zM = S_MM⁻¹ s_M. */
+  /** Second level: the means' factor, X = S_MM⁻¹ S_MJ (nM × nc), zM = S_MM⁻¹ s_M; the means of a recovered state (scratch). */
   private readonly SMM: Float64Array; private readonly dM: Float64Array;
-  private readonly X: Float64Array; private readonly zM: Float64Array;
+  private readonly X: Float64Array; private readonly zM: Float64Array; private readonly mWork: Float64Array;
   private readonly rhs: Float64Array;
   /** The face dofs of a recovered state (scratch). */
   private readonly qcWork: Float64Array;
   private readonly gauges = new Map<string, CondensedGauge>();
 
   private constructor(private readonly sys: System, private readonly F: Factor, first: number, alpha: number,
-    lay: { jumpOf: Int32Array; ePtr: Int32Array; eJ: Int32Array; eW: Float64Array; eM: Int32Array;
-      bPtr: Int32Array; bJ: Int32Array; bW: Float64Array; tChild: Int32Array; tParent: Int32Array; tSign: Float64Array;
-      nJ: number; nM: number }) {
+    lay: Layout) {
     const n = sys.nFree, n1 = n - first;
     this.n1 = n1; this.alpha = alpha;
     this.cFree = sys.sym.perm.slice(first);
-    this.jumpOf = lay.jumpOf; this.ePtr = lay.ePtr; this.eJ = lay.eJ; this.eW = lay.eW; this.eM = lay.eM;
+    this.jumpOf = lay.jumpOf; this.ePtr = lay.ePtr; this.eY = lay.eY; this.eW = lay.eW; this.h = lay.h;
     this.bPtr = lay.bPtr; this.bJ = lay.bJ; this.bW = lay.bW;
-    this.tChild = lay.tChild; this.tParent = lay.tParent; this.tSign = lay.tSign; this.rFace = new Float64Array(n1);
+    this.tChild = lay.tChild; this.tSign = lay.tSign; this.tPtr = lay.tPtr; this.tIdx = lay.tIdx; this.tW = lay.tW;
+    this.tBeta = lay.tBeta; this.bound = lay.bound; this.rFace = new Float64Array(n1);
     this.simple = new Uint8Array(lay.jumpOf.length >> 1);
     for (let p = 0; p < this.simple.length; p++) {
       let ok = 1;
@@ -139,46 +162,58 @@ export class Condensation {
     // second level: S_y = Eᵀ S E in the jump and mean coordinates (jumps first)
     const ny = nJ + nM, Sy = new Float64Array(ny * ny), W = new Float64Array(n1 * ny);
     const SA = this.SA;
-    const eP = this.ePtr, eJ = this.eJ, eW = this.eW;
+    const eP = this.ePtr, eY = this.eY, eW = this.eW;
     for (let i = 0; i < n1; i++) {
-      const mi = this.eM[i];
       for (let r = 0; r < n1; r++) {
         const v = r === i ? SA[r * n1 + i] - alpha : SA[r * n1 + i];
-        for (let t = eP[i]; t < eP[i + 1]; t++) W[r * ny + eJ[t]] += eW[t] * v;
-        if (mi >= 0) W[r * ny + nJ + mi] += v;
+        for (let t = eP[i]; t < eP[i + 1]; t++) W[r * ny + eY[t]] += eW[t] * v;
       }
     }
     for (let r = 0; r < n1; r++) {
-      const mr = this.eM[r];
       for (let c = 0; c < ny; c++) {
         const v = W[r * ny + c];
-        for (let t = eP[r]; t < eP[r + 1]; t++) Sy[eJ[t] * ny + c] += eW[t] * v;
-        if (mr >= 0) Sy[(nJ + mr) * ny + c] += v;
+        for (let t = eP[r]; t < eP[r + 1]; t++) Sy[eY[t] * ny + c] += eW[t] * v;
       }
     }
-    const sy = this.toY(this.s1);
+    // the bound faces' λ-part: s_y = Eᵀ(s + S h), κ_y = κ + 2 s·h + hᵀ S h
+    let s1h = this.s1;
+    const h = this.h;
+    if (h) {
+      const Sh = this.mulSA(h);
+      s1h = new Float64Array(n1);
+      let sh = 0, hSh = 0;
+      for (let p = 0; p < n1; p++) { Sh[p] -= alpha * h[p]; s1h[p] = this.s1[p] + Sh[p]; sh += this.s1[p] * h[p]; hSh += h[p] * Sh[p]; }
+      kll += 2 * sh + hSh;
+    }
+    const sy = this.toY(s1h);
     this.SMM = new Float64Array(nM * nM); this.dM = new Float64Array(nM);
     for (let i = 0; i < nM; i++) for (let j = 0; j < nM; j++) this.SMM[i * nM + j] = Sy[(nJ + i) * ny + nJ + j];
     this.wk = new Float64Array(Math.max(nJ, nM));
     if (ldltDense(this.SMM, nM, this.dM, this.wk) >= 0) throw new SingularMatrixError('the faces held together do not hold the specimen', 0);
-    // X = S_MM⁻¹ S_MJ, column by column
-    this.X = new Float64Array(nM * nJ);
-    const col = new Float64Array(nM);
-    for (let j = 0; j < nJ; j++) {
-      for (let i = 0; i < nM; i++) col[i] = Sy[(nJ + i) * ny + j];
-      solveDense(this.SMM, nM, this.dM, col);
-      for (let i = 0; i < nM; i++) this.X[i * nJ + j] = col[i];
+    // X = S_MM⁻¹ S_MJ, all columns at once (row by row, so that the inner loops run along
+    // rows; each entry meets the same operations in the same order as a column's solveDense)
+    const X = this.X = new Float64Array(nM * nJ), A = this.SMM;
+    for (let i = 0; i < nM; i++) X.set(Sy.subarray((nJ + i) * ny, (nJ + i) * ny + nJ), i * nJ);
+    for (let i = 0; i < nM; i++) {
+      const oi = i * nJ;
+      for (let k = 0; k < i; k++) { const a = A[i * nM + k], ok = k * nJ; for (let j = 0; j < nJ; j++) X[oi + j] -= a * X[ok + j]; }
+    }
+    for (let i = 0; i < nM; i++) { const di = this.dM[i], oi = i * nJ; for (let j = 0; j < nJ; j++) X[oi + j] /= di; }
+    for (let i = nM - 1; i > 0; i--) {
+      const oi = i * nJ;
+      for (let k = 0; k < i; k++) { const a = A[i * nM + k], ok = k * nJ; for (let j = 0; j < nJ; j++) X[ok + j] -= a * X[oi + j]; }
     }
     this.zM = sy.slice(nJ);
     solveDense(this.SMM, nM, this.dM, this.zM);
-    // S_N = S_JJ − S_JM X,  s_N = s_J − Xᵀ s_M,  κ_N = κ − s_M·zM
+    // S_N = S_JJ − S_JM X,  s_N = s_J − Xᵀ s_M,  κ_N = κ − s_M·zM (row by row, each entry's sum in the order of m)
     this.SN = new Float64Array(nJ * nJ);
     this.s = new Float64Array(nJ);
     for (let i = 0; i < nJ; i++) {
-      for (let j = 0; j < nJ; j++) {
-        let t = Sy[i * ny + j];
-        for (let m = 0; m < nM; m++) t -= Sy[i * ny + nJ + m] * this.X[m * nJ + j];
-        this.SN[i * nJ + j] = t;
+      const oi = i * nJ, SN = this.SN;
+      SN.set(Sy.subarray(i * ny, i * ny + nJ), oi);
+      for (let m = 0; m < nM; m++) {
+        const a = Sy[i * ny + nJ + m], om = m * nJ;
+        for (let j = 0; j < nJ; j++) SN[oi + j] -= a * X[om + j];
       }
       let t = sy[i];
       for (let m = 0; m < nM; m++) t -= this.X[m * nJ + i] * sy[nJ + m];
@@ -191,53 +226,64 @@ export class Condensation {
     this.qTry = new Float64Array(nJ); this.d = new Float64Array(nJ);
     this.rhs = new Float64Array(n);
     this.qcWork = new Float64Array(n1);
+    this.mWork = new Float64Array(nM);
   }
 
   /**
-   * The condensation of sys, or null where it does not apply: no face pairs, a face dof driven
-   * or slaved (its force would reach the machine) while the other face of its pair is not
-   * driven alike, too many face dofs, or a bulk that is not held
-   * once the faces are (the full Newton then reports it). A pair whose two faces are driven
-   * alike (a crack run through to a load point and its twin) has a jump of zero there, and its
-   * forces on the two faces cancel in the machine force, so it counts as held.
+   * The condensation of sys, or null where it does not apply: no face pairs, a pair whose two
+   * faces are both bound (not unknowns) but do not move alike, a bound face whose masters are
+   * faces themselves, a cycle of pairs through bound faces that move apart, too many face dofs,
+   * or a bulk that is not held once the faces are (the full Newton then reports it). A pair
+   * whose two faces move alike (a crack run through to a load point and its twin) has a jump of
+   * zero there, and its forces on the two faces cancel in the machine force, so it counts as held.
    */
   static build(sys: System): Condensation | null {
     const P = sys.pairs, np = P.plus.length;
     if (np === 0) return null;
-    const held = new Uint8Array(sys.nDof);
-    for (const d of sys.driven.fixed) held[d] = 1;
-    for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
-      const a = 2 * P.plus[p] + c, b = 2 * P.minus[p] + c;
-      if (sys.boundAlike(a, b)) held[a] = held[b] = 1;
-    }
-    const sym = sys.sym, n = sys.nFree;
+    const sym = sys.sym, n = sys.nFree, fo = sys.freeOf, ne = 2 * np;
+    const faceDof = (e: number, plus: boolean): number => 2 * (plus ? P.plus[e >> 1] : P.minus[e >> 1]) + (e & 1);
+    // the faces that are not unknowns (as λ·z + Σ w·q), and the trailing block: every free face
+    // dof and every master of a bound face (the ordering puts them all last)
+    const forms = new Map<number, { z: number; free: number[]; w: number[] }>(), alike = new Uint8Array(ne);
     let first = n;
-    for (let p = 0; p < np; p++) for (const v of [P.plus[p], P.minus[p]]) for (let c = 0; c < 2; c++) {
-      const d = 2 * v + c, fi = sys.freeOf[d];
-      if (fi < 0 && !held[d]) return null;
-      if (fi >= 0) first = Math.min(first, sym.iperm[fi]);
+    for (let e = 0; e < ne; e++) {
+      const a = faceDof(e, true), b = faceDof(e, false);
+      if (fo[a] < 0 && fo[b] < 0) {
+        if (!sys.boundAlike(a, b)) return null;
+        alike[e] = 1;
+        continue;
+      }
+      for (const d of [a, b]) {
+        if (fo[d] >= 0) { first = Math.min(first, sym.iperm[fo[d]]); continue; }
+        if (forms.has(d)) continue;
+        const f = sys.boundForm(d);
+        forms.set(d, f);
+        for (const q of f.free) first = Math.min(first, sym.iperm[q]);
+      }
     }
     const n1 = n - first;
     if (n1 <= 0 || n1 > MAX_CONDENSED) return null;
-    // coordinates: the face dofs the pairs link, with a held face as one node "ground" of value
-    // zero, form groups; each group takes a spanning tree, a jump coordinate for each tree pair
-    // and, unless it holds ground, a mean. Two faces split their jump half and half about the
-    // mean; in a larger group the root (the dof on most pairs) is the mean and every other dof
-    // lies the jumps of its tree path from it. A pair off the tree (a cycle, as where a crack
-    // joins another's face: the junction dof, its twin and the joining copy pair with each
-    // other) opens by the signed sum of the tree jumps round its cycle.
+    // coordinates: the face dofs the pairs link, with the bound faces as one node "ground", form
+    // groups; each group takes a spanning tree, a jump coordinate for each tree pair and, unless
+    // it holds ground, a mean. Two faces split their jump half and half about the mean; in a
+    // larger group the root (the dof on most pairs) is the mean and every other dof lies the
+    // jumps of its tree path from it; in a grounded group from the bound face its path starts
+    // at. A pair off the tree (a cycle, as where a crack joins another's face: the junction dof,
+    // its twin and the joining copy pair with each other) opens by the signed sum of the tree
+    // jumps round its cycle.
     const posOf = new Int32Array(n).fill(-1);
     for (let q = first; q < n; q++) posOf[sym.perm[q]] = q - first;
-    const G = n1, ne = 2 * np;
+    const G = n1;
     const endA = new Int32Array(ne).fill(-1), endB = new Int32Array(ne).fill(-1);
     const deg = new Int32Array(n1 + 1);
-    for (let p = 0; p < np; p++) for (let c = 0; c < 2; c++) {
-      const fp = sys.freeOf[2 * P.plus[p] + c], fm = sys.freeOf[2 * P.minus[p] + c];
-      const ip = fp >= 0 ? posOf[fp] : -1, im = fm >= 0 ? posOf[fm] : -1;
-      if (ip < 0 && im < 0) continue;
-      const e = 2 * p + c, a = ip >= 0 ? ip : G, b = im >= 0 ? im : G;
+    for (let e = 0; e < ne; e++) {
+      if (alike[e]) continue;
+      const fp = fo[faceDof(e, true)], fm = fo[faceDof(e, false)];
+      const a = fp >= 0 ? posOf[fp] : G, b = fm >= 0 ? posOf[fm] : G;
       endA[e] = a; endB[e] = b; deg[a]++; deg[b]++;
     }
+    // a bound face moves with its masters, which must be trailing dofs of no face
+    for (const f of forms.values()) for (const q of f.free) if (deg[posOf[q]] > 0) return null;
     const adjPtr = new Int32Array(n1 + 2);
     for (let i = 0; i <= n1; i++) adjPtr[i + 1] = adjPtr[i] + deg[i];
     const adj = new Int32Array(adjPtr[n1 + 1]), fill = adjPtr.slice(0, n1 + 1);
@@ -266,8 +312,7 @@ export class Condensation {
       grow(best);
     }
     // jumps in the pairs' order, a group's mean where its first pair is met
-    const jumpOf = new Int32Array(ne).fill(-1), eM = new Int32Array(n1).fill(-1);
-    const meanOfComp = new Int32Array(compSize.length).fill(-1);
+    const jumpOf = new Int32Array(ne).fill(-1), meanOfComp = new Int32Array(compSize.length).fill(-1);
     let nJ = 0, nM = 0;
     for (let e = 0; e < ne; e++) {
       if (endA[e] < 0) continue;
@@ -275,30 +320,30 @@ export class Condensation {
       if (compRoot[k] !== G && meanOfComp[k] < 0) meanOfComp[k] = nM++;
       if (inTree[e]) jumpOf[e] = nJ++;
     }
-    // y → q_c: each face dof's tree path (jump, weight) from its group's root
+    // y → q_c: each face dof's tree path (jump, weight) from its group's root, and the bound
+    // face its path starts at in a grounded group (−1: none, or one that does not move)
     const path: { j: number[]; w: number[] }[] = new Array(n1 + 1);
     path[G] = { j: [], w: [] };
+    const boundOf = new Int32Array(n1).fill(-1);
+    const moving = (d: number): number => { const f = forms.get(d); return f && (f.z !== 0 || f.free.length > 0) ? d : -1; };
     for (const i of order) {
       const e = parentEdge[i];
       if (e < 0) { path[i] = { j: [], w: [] }; continue; }
       const up = endA[e] === i ? endB[e] : endA[e], k = comp[i];
+      boundOf[i] = up === G ? moving(faceDof(e, endA[e] === G)) : boundOf[up];
       if (compRoot[k] !== G && compSize[k] === 2) {
         path[i] = { j: [jumpOf[e]], w: [endA[e] === i ? 0.5 : -0.5] };
         path[up] = { j: [jumpOf[e]], w: [endA[e] === i ? -0.5 : 0.5] };
       } else path[i] = { j: [...path[up].j, jumpOf[e]], w: [...path[up].w, endA[e] === i ? 1 : -1] };
     }
-    const ePtr = new Int32Array(n1 + 1);
-    for (let i = 0; i < n1; i++) ePtr[i + 1] = ePtr[i] + (comp[i] >= 0 ? path[i].j.length : 0);
-    const eJ = new Int32Array(ePtr[n1]), eW = new Float64Array(ePtr[n1]);
-    for (let i = 0; i < n1; i++) {
-      if (comp[i] < 0) continue;
-      eJ.set(path[i].j, ePtr[i]); eW.set(path[i].w, ePtr[i]);
-      if (compRoot[comp[i]] !== G) eM[i] = meanOfComp[comp[i]];
-    }
-    // each pair's jump on the coordinates: u_a − u_b (one tree jump, or its cycle's signed sum)
+    // each pair's jump on the coordinates: u_a − u_b (one tree jump, or its cycle's signed sum;
+    // the bound faces at the two ends of a cycle must move alike, else it is not on the jumps alone)
     const bPtr = new Int32Array(ne + 1), bJ: number[] = [], bW: number[] = [], acc = new Float64Array(nJ);
     for (let e = 0; e < ne; e++) {
       if (endA[e] >= 0 && inTree[e]) { bJ.push(jumpOf[e]); bW.push(1); } else if (endA[e] >= 0) {
+        const ka = endA[e] === G ? moving(faceDof(e, true)) : boundOf[endA[e]];
+        const kb = endB[e] === G ? moving(faceDof(e, false)) : boundOf[endB[e]];
+        if (ka !== kb && !(ka >= 0 && kb >= 0 && sys.boundAlike(ka, kb))) return null;
         const pa = path[endA[e]], pb = path[endB[e]];
         for (let t = 0; t < pa.j.length; t++) acc[pa.j[t]] += pa.w[t];
         for (let t = 0; t < pb.j.length; t++) acc[pb.j[t]] -= pb.w[t];
@@ -312,16 +357,47 @@ export class Condensation {
       }
       bPtr[e + 1] = bJ.length;
     }
-    // trailing dofs of no face (the ordering may put some there) are means of their own
-    for (let i = 0; i < n1; i++) if (comp[i] < 0) eM[i] = nM++;
-    const tChild = new Int32Array(nJ), tParent = new Int32Array(nJ), tSign = new Float64Array(nJ);
+    // trailing dofs of no face (the ordering may put some there; the bound faces' masters) are means of their own
+    const ownMean = new Int32Array(n1).fill(-1);
+    for (let i = 0; i < n1; i++) if (comp[i] < 0) ownMean[i] = nM++;
+    // E row by row: tree path, the group's (or own) mean, a bound face's masters; h its λ-coefficient
+    const ePtr = new Int32Array(n1 + 1), eY: number[] = [], eW: number[] = [];
+    let h: Float64Array | null = null;
+    for (let i = 0; i < n1; i++) {
+      if (comp[i] >= 0) {
+        eY.push(...path[i].j); eW.push(...path[i].w);
+        if (compRoot[comp[i]] !== G) { eY.push(nJ + meanOfComp[comp[i]]); eW.push(1); }
+        const b = boundOf[i];
+        if (b >= 0) {
+          const f = forms.get(b)!;
+          for (let t = 0; t < f.free.length; t++) { eY.push(nJ + ownMean[posOf[f.free[t]]]); eW.push(f.w[t]); }
+          if (f.z !== 0) (h ??= new Float64Array(n1))[i] = f.z;
+        }
+      } else { eY.push(nJ + ownMean[i]); eW.push(1); }
+      ePtr[i + 1] = eY.length;
+    }
+    // each tree jump: the face beyond it, its sign, what the face before it moves with, its change with λ
+    const tChild = new Int32Array(nJ), tSign = new Float64Array(nJ), tPtr = new Int32Array(nJ + 1);
+    const tIdx: number[] = [], tW: number[] = [], tByJ: { idx: number[]; w: number[] }[] = new Array(nJ);
+    let tBeta: Float64Array | null = null;
     for (let i = 0; i < n1; i++) {
       const e = parentEdge[i];
       if (e < 0) continue;
       const up = endA[e] === i ? endB[e] : endA[e], j = jumpOf[e];
-      tChild[j] = i; tParent[j] = up === G ? -1 : up; tSign[j] = endA[e] === i ? 1 : -1;
+      tChild[j] = i; tSign[j] = endA[e] === i ? 1 : -1;
+      if (up !== G) { tByJ[j] = { idx: [up], w: [1] }; continue; }
+      const b = moving(faceDof(e, endA[e] === G)), f = b >= 0 ? forms.get(b)! : null;
+      tByJ[j] = f ? { idx: f.free.map((q) => posOf[q]), w: f.w } : { idx: [], w: [] };
+      // j = sign·(q_child − b): at fixed unknowns it moves by −sign·z per unit λ
+      if (f && f.z !== 0) (tBeta ??= new Float64Array(nJ))[j] = -tSign[j] * f.z;
     }
-    const lay = { jumpOf, ePtr, eJ, eW, eM, bPtr, bJ: Int32Array.from(bJ), bW: Float64Array.from(bW), tChild, tParent, tSign, nJ, nM };
+    for (let j = 0; j < nJ; j++) { tIdx.push(...tByJ[j].idx); tW.push(...tByJ[j].w); tPtr[j + 1] = tIdx.length; }
+    const bound = new Map<number, Bound>();
+    for (const [d, f] of forms) if (moving(d) >= 0) bound.set(d, { z: f.z, free: Int32Array.from(f.free), w: Float64Array.from(f.w) });
+    const lay: Layout = {
+      jumpOf, ePtr, eY: Int32Array.from(eY), eW: Float64Array.from(eW), h, bPtr, bJ: Int32Array.from(bJ), bW: Float64Array.from(bW),
+      tChild, tSign, tPtr, tIdx: Int32Array.from(tIdx), tW: Float64Array.from(tW), tBeta, bound, nJ, nM,
+    };
     // the bulk's free–free stiffness, with α added on the trailing diagonal so that it is
     // positive definite even where the faces alone join the pieces of the specimen
     const K = sys.stiffnessOfBulk();
@@ -352,8 +428,7 @@ export class Condensation {
   private toY(v: Float64Array): Float64Array {
     const y = new Float64Array(this.nc + this.nM);
     for (let i = 0; i < this.n1; i++) {
-      for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) y[this.eJ[t]] += this.eW[t] * v[i];
-      if (this.eM[i] >= 0) y[this.nc + this.eM[i]] += v[i];
+      for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) y[this.eY[t]] += this.eW[t] * v[i];
     }
     return y;
   }
@@ -364,17 +439,26 @@ export class Condensation {
     return y;
   }
 
-  /** The jumps of a free vector. */
-  gatherC(uf: Float64Array, out = new Float64Array(this.nc)): Float64Array {
-    // j = u⁺ − u⁻ (a held face counts as zero)
+  /** The jumps of a free vector at λ. */
+  gatherC(uf: Float64Array, lambda: number, out = new Float64Array(this.nc)): Float64Array {
+    // j = u⁺ − u⁻ (a held face counts as zero, a bound one moves by λ·z + Σ w·q)
     const P = this.sys.pairs, fo = this.sys.freeOf, J = this.jumpOf;
     for (let p = 0; p < P.plus.length; p++) for (let c = 0; c < 2; c++) {
       const j = J[2 * p + c];
       if (j < 0) continue;
-      const fp = fo[2 * P.plus[p] + c], fm = fo[2 * P.minus[p] + c];
-      out[j] = (fp >= 0 ? uf[fp] : 0) - (fm >= 0 ? uf[fm] : 0);
+      const dp = 2 * P.plus[p] + c, dm = 2 * P.minus[p] + c, fp = fo[dp], fm = fo[dm];
+      out[j] = (fp >= 0 ? uf[fp] : this.boundValue(dp, uf, lambda)) - (fm >= 0 ? uf[fm] : this.boundValue(dm, uf, lambda));
     }
     return out;
+  }
+
+  /** Where a face that is not an unknown stands (0 for one held). */
+  private boundValue(d: number, uf: Float64Array, lambda: number): number {
+    const b = this.bound.get(d);
+    if (!b) return 0;
+    let v = lambda * b.z;
+    for (let t = 0; t < b.free.length; t++) v += b.w[t] * uf[b.free[t]];
+    return v;
   }
 
   /**
@@ -397,6 +481,9 @@ export class Condensation {
       gl1 -= gbx;
       for (let p = 0; p < n1; p++) { g1[p] += Sx[p]; gl1 += Sx[p] * xkc[p]; }
     }
+    // the bound faces' λ-part: ĝ·q_c = ĝ·E y + λ ĝ·h
+    const h = this.h;
+    if (h) for (let p = 0; p < n1; p++) gl1 += g1[p] * h[p];
     // second level: ĝ_N = ĝ_J − Xᵀ ĝ_M, ĝ_λ − zM·ĝ_M
     const gy = this.toY(g1), gc = gy.slice(0, nJ);
     for (let m = 0; m < nM; m++) {
@@ -413,18 +500,17 @@ export class Condensation {
   /** The free unknowns in bulk equilibrium with the jumps yJ at λ (one sparse solve). */
   recover(yJ: Float64Array, lambda: number, uf: Float64Array): void {
     const n1 = this.n1, nJ = this.nc, rhs = this.rhs, SA = this.SA, kb = this.kb;
-    // means: m = −X j − λ zM; faces: q_c = E y
-    const qc = this.qcWork;
+    // means: m = −X j − λ zM; faces: q_c = E y + λ h
+    const qc = this.qcWork, mv = this.mWork, eY = this.eY, eW = this.eW, h = this.h;
+    for (let m = 0; m < this.nM; m++) {
+      let t = -lambda * this.zM[m];
+      for (let j = 0; j < nJ; j++) t -= this.X[m * nJ + j] * yJ[j];
+      mv[m] = t;
+    }
     for (let i = 0; i < n1; i++) {
       let v = 0;
-      for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) v += this.eW[t] * yJ[this.eJ[t]];
-      const m = this.eM[i];
-      if (m >= 0) {
-        let t = -lambda * this.zM[m];
-        for (let j = 0; j < nJ; j++) t -= this.X[m * nJ + j] * yJ[j];
-        v += t;
-      }
-      qc[i] = v;
+      for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) v += eW[t] * (eY[t] < nJ ? yJ[eY[t]] : mv[eY[t] - nJ]);
+      qc[i] = h ? v + lambda * h[i] : v;
     }
     for (let i = 0; i < rhs.length; i++) rhs[i] = -lambda * kb[i];
     for (let p = 0; p < n1; p++) {
@@ -440,10 +526,13 @@ export class Condensation {
 
   /**
    * Residual on the jumps at (y, λ) into r, with the tangent in T when asked (trial histories
-   * into kappaTrial). Returns ‖r‖∞ (Infinity when not finite) and the machine force.
+   * into kappaTrial). Returns ‖r‖∞ (Infinity when not finite), the machine force F at these
+   * unknowns and Fr, the part of it the out-of-balance on jumps that move with λ carries (F − Fr
+   * is F's change with λ at fixed jumps, s·y + κ̂λ: the force control's Newton step is taken on
+   * it, which is the full iterations' step; their test is on F).
    */
   evaluate(y: Float64Array, lambda: number, coh: CohesiveParams, kappa: Float64Array, kappaTrial: Float64Array,
-    tangent: boolean, floor: number, secant: boolean): { rmax: number; F: number } {
+    tangent: boolean, floor: number, secant: boolean): { rmax: number; F: number; Fr: number } {
     const nc = this.nc, SN = this.SN, r = this.r, s = this.s, T = this.T;
     let F = this.kll * lambda;
     for (let i = 0; i < nc; i++) {
@@ -470,12 +559,21 @@ export class Condensation {
     }
     // the out-of-balance on each face dof, as the full iterations measure it: the jump of a tree
     // pair carries the sum over the faces beyond it, and a group's forces sum to zero
-    const rf = this.rFace, tC = this.tChild, tP = this.tParent, tS = this.tSign;
+    // (the face before it, or a bound face's masters by their levers)
+    const rf = this.rFace, tC = this.tChild, tS = this.tSign, tP = this.tPtr, tI = this.tIdx, tW = this.tW;
     rf.fill(0);
-    for (let j = 0; j < nc; j++) { const v = tS[j] * r[j]; rf[tC[j]] += v; if (tP[j] >= 0) rf[tP[j]] -= v; }
+    for (let j = 0; j < nc; j++) {
+      const v = tS[j] * r[j];
+      rf[tC[j]] += v;
+      for (let t = tP[j]; t < tP[j + 1]; t++) rf[tI[t]] -= tW[t] * v;
+    }
     let rmax = 0;
     for (let i = 0; i < this.n1; i++) { const av = Math.abs(rf[i]); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
-    return { rmax, F };
+    // F = ∂Π/∂λ at fixed unknowns: at fixed jumps, plus Σ r·∂j/∂λ
+    let Fr = 0;
+    const beta = this.tBeta;
+    if (beta) for (let j = 0; j < nc; j++) Fr += r[j] * beta[j];
+    return { rmax, F: beta ? F + Fr : F, Fr };
   }
 
   /**
@@ -509,7 +607,7 @@ export class Condensation {
 
   /** A free index on the faces of jump j (for the message). */
   private faceOfJump(j: number): number {
-    for (let i = 0; i < this.n1; i++) for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) if (this.eJ[t] === j) return this.cFree[i];
+    for (let i = 0; i < this.n1; i++) for (let t = this.ePtr[i]; t < this.ePtr[i + 1]; t++) if (this.eY[t] === j) return this.cFree[i];
     return -1;
   }
 

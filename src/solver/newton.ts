@@ -163,8 +163,8 @@ function singular(sys: System, e: SingularMatrixError): string {
 function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa: Float64Array, kappaTrial: Float64Array,
   kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
   const nc = cd.nc, sec = opt.secant ?? false, { r, a, b, qTry, s } = cd;
-  const qc = cd.gatherC(st.uf);
   let lambda = kind === 'displacement' ? target : st.lambda;
+  const qc = cd.gatherC(st.uf, lambda);
   let gc: Float64Array | null = null, gl0 = 0;
   if (kind === 'cmod' || kind === 'opening') {
     const G = cd.gauge(kind, w.gf, (gf) => {
@@ -212,7 +212,9 @@ function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa
     else { gl = gl0; for (let i = 0; i < nc; i++) { ga += gc![i] * a[i]; gb += gc![i] * b[i]; } }
     const den = gl - gb;
     if (!(Math.abs(den) > 0)) return { converged: false, iterations: it, reason: 'the control does not determine the load (check the gauge and the load points)' };
-    const dl = -(g + ga) / den;
+    // force control: the step on F at fixed jumps (s, κ̂ above), the same step as the full
+    // iterations take on F itself (they differ by Fr, a multiple of the residual)
+    const dl = -(g - (kind === 'force' ? res.Fr : 0) + ga) / den;
     // backtracking against a real divergence only, as in the full iterations
     const r0 = Math.max(res.rmax, 100 * opt.tolF);
     let eta = 1, best = Infinity, bestEta = 1, lastEta = 0;

@@ -183,6 +183,23 @@ export class System {
     return wa === wb;
   }
 
+  /**
+   * A dof that is not an unknown as λ·z + Σ w·q over free unknowns q: a support (z = 0, no
+   * terms), a load point (its weight) or a rig's point (its λ-coefficient and masters).
+   */
+  boundForm(d: number): { z: number; free: number[]; w: number[] } {
+    const k = this.slaveOf[d], S = this.driven.slaves;
+    if (k >= 0 && S) {
+      const free: number[] = [], w: number[] = [];
+      for (let j = S.slaveStart[k]; j < S.slaveStart[k + 1]; j++) { free.push(this.freeOf[S.masterDof[j]]); w.push(S.masterW[j]); }
+      return { z: S.slaveZ[k], free, w };
+    }
+    const { load, loadW } = this.driven;
+    let z = 0;
+    for (let i = 0; i < load.length; i++) if (load[i] === d) z += loadW[i];
+    return { z, free: [], w: [] };
+  }
+
   /** Full displacement from free values and the load factor. */
   expand(uf: Float64Array, lambda: number, u: Float64Array): void {
     u.fill(0);

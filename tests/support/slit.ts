@@ -25,3 +25,33 @@ mesh: ${lines.mesh}
 output: {frames: []}
 `, 'slit.yaml');
 }
+
+/**
+ * Kink (deg, −180…180) from the slit of the chord from a crack's first vertex (a slit tip) to the
+ * point s mm along it, relative to the direction the slit runs at that tip.
+ */
+export function chordKink(x: ArrayLike<number>, y: ArrayLike<number>, path: readonly number[], betaDeg: number, s: number): number {
+  const b = betaDeg * Math.PI / 180, slit = Math.atan2(Math.cos(b), Math.sin(b));
+  const x0 = x[path[0]], y0 = y[path[0]], p = pointAlong(x, y, path, s);
+  const k = Math.atan2(p.y - y0, p.x - x0) - (y0 > SLIT_W / 2 ? slit : slit + Math.PI);
+  return Math.atan2(Math.sin(k), Math.cos(k)) * 180 / Math.PI;
+}
+
+/** Length (mm) of a crack path. */
+export function pathLength(x: ArrayLike<number>, y: ArrayLike<number>, path: readonly number[]): number {
+  let L = 0;
+  for (let i = 1; i < path.length; i++) L += Math.hypot(x[path[i]] - x[path[i - 1]], y[path[i]] - y[path[i - 1]]);
+  return L;
+}
+
+/** The point s mm along a crack path from its first vertex (its end if it is shorter). */
+export function pointAlong(x: ArrayLike<number>, y: ArrayLike<number>, path: readonly number[], s: number): { x: number; y: number } {
+  let L = 0, px = x[path[0]], py = y[path[0]];
+  for (let i = 1; i < path.length; i++) {
+    const u = path[i - 1], v = path[i], d = Math.hypot(x[v] - x[u], y[v] - y[u]);
+    px = x[v]; py = y[v];
+    if (L + d >= s) { const f = (s - L) / d; return { x: x[u] + f * (x[v] - x[u]), y: y[u] + f * (y[v] - y[u]) }; }
+    L += d;
+  }
+  return { x: px, y: py };
+}
