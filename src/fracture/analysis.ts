@@ -24,7 +24,7 @@ import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, refineNotchLines, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
-import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated, softeningWeights, released, DISSIPATION_STEP } from './steps.js';
+import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated, softeningWeights, released, lost, DISSIPATION_STEP, REDO_KEEP } from './steps.js';
 import {
   emptyState, save, restore, checkpointState, fromCheckpoint, SOLUTION, GEOMETRY,
   type CrackState, type AnalysisState, type LoopState, type Peak, type Saved,
@@ -400,7 +400,11 @@ export class Analysis {
           const fixed = save(this.s, SOLUTION);
           this.undo(pre);
           const rd = this.solveAt('dissipation', en.dissipated);
-          if (rd.ok) { drive.kind = 'dissipation'; drive.target = en.dissipated; r = rd; } else { this.undo(fixed); this.eq.kapTrial.set(this.eq.kap); this.solveAt(kind, target); }
+          // kept where it loses at most REDO_KEEP of what the re-solve at the fixed level lost
+          // (the machine's work over such a jump is the trapezoid's guess either way)
+          if (rd.ok && Math.abs(lost(en, this.balanceNow(this.eq.kapTrial))) < REDO_KEEP * Math.abs(lost(en, now))) {
+            drive.kind = 'dissipation'; drive.target = en.dissipated; r = rd;
+          } else { this.undo(fixed); this.solveAt(kind, target); }
         }
       }
       if (r.ok && en) en = this.balanceNow(this.eq.kapTrial);

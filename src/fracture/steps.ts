@@ -51,6 +51,9 @@ export const DISSIPATION_STEP = 0.01;
  */
 export const RELEASE_LIMIT = 1e-3;
 
+/** Share of a snapping re-solve's loss of balance that its redo driven by the dissipation may keep and still be taken. */
+export const REDO_KEEP = 0.5;
+
 type Balance = { W: number; elastic: number; dissipated: number };
 
 /**
@@ -61,8 +64,12 @@ type Balance = { W: number; elastic: number; dissipated: number };
  * load) is not a snap.
  */
 export function released(a: Balance, b: Balance): boolean {
-  const lost = (b.W - a.W) - (b.elastic - a.elastic) - (b.dissipated - a.dissipated);
-  return a.elastic - b.elastic > b.dissipated - a.dissipated && lost > RELEASE_LIMIT * Math.max(Math.abs(b.W), Number.MIN_VALUE);
+  return a.elastic - b.elastic > b.dissipated - a.dissipated && lost(a, b) > RELEASE_LIMIT * Math.max(Math.abs(b.W), Number.MIN_VALUE);
+}
+
+/** How far the balance work − stored − dissipated moved from state a to state b (N·mm; positive: energy lost). */
+export function lost(a: Balance, b: Balance): number {
+  return (b.W - a.W) - (b.elastic - a.elastic) - (b.dissipated - a.dissipated);
 }
 
 /** Largest change of the energy balance (work − elastic − dissipated) in one step, as a share of the work (adaptive). */
