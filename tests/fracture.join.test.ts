@@ -150,7 +150,11 @@ describe('a split disc', () => {
     // pieces carries less: common practice; the issue asks that the load falls after the peak)
     const pk = curvePeaks(res.rows);
     expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.75 * Math.abs(pk.peak.load_N));
-    // measured 7.2 %: the split snaps across the diameter at once (DEVELOPERS.md, known gaps)
+    // measured 11.3 %: the split's step creates 80 N·mm as it runs across the diameter at once
+    // (DEVELOPERS.md, known gaps), and the join at step 59, traced as a snap-back by the
+    // dissipation, gives work back to the machine (1677 to 581 N·mm), so that gap weighs more
+    // (7.2 % with the join's re-solve held at the fixed lateral opening, whose +60 N·mm snap
+    // offset part of the split's)
     expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.12);
     // where the gap arises: along a converged quasi-static path on one mesh the machine's work is
     // the stored plus the dissipated energy (common practice), so a step in which no crack grows
