@@ -6,18 +6,13 @@
 import { describe, expect, it } from 'vitest';
 import { parseCase } from '../src/case/index.js';
 import type { CaseModel } from '../src/case/model.js';
-import { Analysis, type AnalysisResult } from '../src/fracture/analysis.js';
+import { Analysis } from '../src/fracture/analysis.js';
 import { pairGeometry } from '../src/fracture/equations.js';
 import { meshCase } from '../src/run.js';
 import { renderTemplate } from '../src/templates/index.js';
-import { curvePeaks, runWarnings, worstEnergyGap } from '../src/output/warnings.js';
 import { coarseBeam } from './support/beam.js';
 import { coarseDen, expectJoinedApart } from './support/den.js';
-
-async function run(c: CaseModel): Promise<{ a: Analysis; res: AnalysisResult }> {
-  const a = new Analysis(c, meshCase(c).mesh);
-  return { a, res: await a.run(() => {}) };
-}
+import { expectBalance, expectLoadFalls, runToEnd } from './support/falls.js';
 
 // the demo beam (coarse) with a hole of 20 mm on the ligament, 20 mm above the notch tip
 const HOLE: [number, number, number] = [220, 60, 10];
@@ -26,7 +21,7 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
   for (const start of ['notch-tips', 'anywhere']) {
     it(`joins the hole, starts again on its far side and loses its load (crack.start: ${start})`, async () => {
       const c = coarseBeam({ target: 0.6, increments: 60, hole: HOLE, start });
-      const { a, res } = await run(c);
+      const { a, res } = await runToEnd(c);
       expect(res.status, res.reason).toBe('complete');
       // the crack from the notch ends on the hole, its tip consumed
       expect(a.tips.some((t) => !t.active && t.end === 'hole')).toBe(true);
@@ -37,16 +32,13 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
       // and runs on toward the top face
       expect(Math.max(...rimStarts.flatMap((p) => p.map((q) => q[1])))).toBeGreaterThan(85);
       // the load falls after the first peak and does not rise again: no warning
-      const pk = curvePeaks(res.rows);
-      expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
-      expect(pk.later).toBeNull();
-      expect(runWarnings(c, res, null)).toEqual([]);
+      expectLoadFalls(res, { below: 0.2, once: true, quiet: c });
       // work of the machine = stored + dissipated (definition of GF): the hole on the line ahead
       // of the notch has its rim zone and far side refined before loading (with anywhere, the
       // notch's line too), measured 0.16 % (notch tips) and 0.75 % (anywhere, at the start from
       // the notch, step 2); 1.50 % and 2.07 % when only the rim was, the rest refined under load
       // as the cracks beyond it started
-      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.01);
+      expectBalance(res, 0.01);
     }, 120_000);
   }
 
@@ -55,12 +47,11 @@ describe('a crack through a hole on the ligament of a notched beam', () => {
     // rim was refined before loading): the refinement beside a loaded cell no longer stiffens or
     // softens it (DEVELOPERS.md, known gaps)
     const c = coarseBeam({ target: 0.6, increments: 60, hole: HOLE, start: 'notch-tips' });
-    const a = new Analysis(c, meshCase(c).mesh, { stabilisation: 'boundary' });
-    const res = await a.run(() => {});
+    const { a, res } = await runToEnd(c, { stabilisation: 'boundary' });
     expect(res.status, res.reason).toBe('complete');
     expect(a.tips.some((t) => !t.active && t.end === 'hole')).toBe(true);
-    expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(curvePeaks(res.rows).peak.load_N));
-    expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.01);
+    expectLoadFalls(res, { below: 0.2 });
+    expectBalance(res, 0.01);
   }, 120_000);
 });
 
@@ -78,7 +69,7 @@ function toPath(p: [number, number], path: [number, number][]): number {
 describe('two cracks that meet', () => {
   it('offset notches (20 mm apart in height): the cracks pass, hook into each other\'s faces and the panel comes apart', async () => {
     const c = coarseDen(10);
-    const { a, res } = await run(c);
+    const { a, res } = await runToEnd(c);
     expect(res.status, res.reason).toBe('complete');
     // before the turn toward a face beside the tip, one crack ran past the other to the far edge
     const grown = a.tips.filter((t) => t.crack >= 0);
@@ -111,20 +102,18 @@ describe('two cracks that meet', () => {
       first += n;
     }
     // a panel cut through carries no load (common practice)
-    const pk = curvePeaks(res.rows);
-    expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
-    expect(pk.later).toBeNull();
+    expectLoadFalls(res, { below: 0.2, once: true });
     // measured 0.28 % (0.35 % when one crack ran past the other): checked at the 1 % of a ligament meshed fine from the start
-    expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.01);
+    expectBalance(res, 0.01);
   }, 120_000);
 
   it('double-edge-notched tension: the cracks from both notches join and the panel comes apart', async () => {
     const c = coarseDen(0);
-    const { a, res } = await run(c);
+    const { a, res } = await runToEnd(c);
     // both tips end on the other crack's faces
     expectJoinedApart(a, res);
     // measured 0.05 %: checked at the 1 % the beam tests ask of a ligament meshed fine from the start
-    expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.01);
+    expectBalance(res, 0.01);
   }, 120_000);
 });
 
@@ -135,7 +124,7 @@ describe('a split disc', () => {
     const text = renderTemplate('disc-splitting', { 'mesh-size': '10', 'tip-size': '3' }).replace(/^output:.*$/m, 'output: {frames: [], animation: none}')
       .replace(/^  target: .*$/m, '  target: 0.04').replace(/^  increments: .*$/m, '  increments: 60');
     const c = parseCase(text, 'disc.yaml');
-    const { a, res } = await run(c);
+    const { a, res } = await runToEnd(c);
     expect(res.status, res.reason).toBe('complete');
     // the split runs from the centre through to both strips (its tips end on points of the rig)
     expect(a.tips[0].end).toBe('rig');
@@ -148,14 +137,13 @@ describe('a split disc', () => {
     // the halves no longer stand as columns between the strips: measured 66 % of the peak at the
     // end of the run, 88-90 % when no crack started after the split (a specimen cracked into
     // pieces carries less: common practice; the issue asks that the load falls after the peak)
-    const pk = curvePeaks(res.rows);
-    expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.75 * Math.abs(pk.peak.load_N));
+    expectLoadFalls(res, { below: 0.75 });
     // measured 11.3 %: the split's step creates 80 N·mm as it runs across the diameter at once
     // (DEVELOPERS.md, known gaps), and the join at step 59, traced as a snap-back by the
     // dissipation, gives work back to the machine (1677 to 581 N·mm), so that gap weighs more
     // (7.2 % with the join's re-solve held at the fixed lateral opening, whose +60 N·mm snap
     // offset part of the split's)
-    expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.12);
+    expectBalance(res, 0.12);
     // where the gap arises: along a converged quasi-static path on one mesh the machine's work is
     // the stored plus the dissipated energy (common practice), so a step in which no crack grows
     // keeps the balance; measured at most 0.03 % of the largest work, against 80 N·mm (7 %) in
@@ -185,7 +173,7 @@ describe('a hole beside the path of a crack', () => {
     const xs: number[] = [];
     for (const hole of [undefined, [240, 55, 8], [200, 55, 8]] as const) {
       const c = coarseBeam({ target: 0.6, increments: 60, ...(hole ? { hole: [...hole] as [number, number, number] } : {}) });
-      const { res } = await run(c);
+      const { res } = await runToEnd(c);
       expect(res.status, res.reason).toBe('complete');
       xs.push(xAt(res.crackPaths[0] as [number, number][], 70));
     }
@@ -220,7 +208,7 @@ describe('two notches in one beam', () => {
       expect(K[1]).toBeGreaterThan(0);
       // cohesive: both slits lay their first segments before loading and both grow at first
       const c = beam(deep, shallow, true);
-      const { a, res } = await run(c);
+      const { a, res } = await runToEnd(c);
       expect(res.status, res.reason).toBe('complete');
       expect(res.crackPaths.length).toBe(2);
       const [won, lost] = res.crackPaths;
@@ -237,13 +225,10 @@ describe('two notches in one beam', () => {
       expect(lastOfLost).toBeGreaterThanOrEqual(0);
       expect(log.slice(lastOfLost + 1).filter((g) => g.tip === 0).length).toBeGreaterThan(5);
       // cut through, the beam carries no load (common practice)
-      const pk = curvePeaks(res.rows);
-      expect(Math.abs(res.rows.at(-1)!.load_N)).toBeLessThan(0.2 * Math.abs(pk.peak.load_N));
-      expect(pk.later).toBeNull();
-      expect(runWarnings(c, res, null)).toEqual([]);
+      expectLoadFalls(res, { below: 0.2, once: true, quiet: c });
       // measured 1.01 % (mirrored 0.80 %): the winning crack turns toward the load point, so its
       // line ahead sweeps new cells under load
-      expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.015);
+      expectBalance(res, 0.015);
     }, 120_000);
   }
 });
