@@ -292,6 +292,13 @@ export class Analysis {
     return energyCreated(last, s.W, en.elastic, en.dissipated, s.lastF - saved.lastF, s.lastLambda - saved.lastLambda);
   }
 
+  /** The solution released energy since the last row (steps.ts `released`), where the dissipation may drive instead. */
+  private snapped(): boolean {
+    const last = this.s.rows[this.s.rows.length - 1];
+    if (!last || this.opt.pathDrive === 'opening' || this.c.control.by === 'force') return false;
+    return released({ W: last.external_work_Nmm, elastic: last.elastic_energy_Nmm, dissipated: last.dissipated_Nmm }, this.balanceNow(this.eq.kapTrial));
+  }
+
   /** Work done, energy stored and dissipated (N·mm) in the last solved state with the histories kap. */
   private balanceNow(kap: Float64Array): { W: number; elastic: number; dissipated: number } {
     const en = this.eq.energies(this.coh, kap);
@@ -514,6 +521,9 @@ export class Analysis {
     let r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
     // a state holding more energy than the machine put in lies on no loading path: the step failed
     if (r.ok && !elastic && this.gainedEnergy(saved)) { this.undo(saved); r = { ok: false, reason: 'its solution held more energy than the machine\'s work supplied' }; }
+    // the shortest step is not judged by its softening: one whose solution releases stored
+    // energy the faces do not dissipate has snapped, and the dissipation drives it instead
+    if (r.ok && !elastic && !checked && !skipped && this.snapped()) { this.undo(saved); r = { ok: false, reason: 'its solution released stored energy the faces did not dissipate' }; }
     const m: StepMeasure = this.measure = { iterations: this.iterations - it0, softening: r.ok && !elastic ? this.softening() : 0, readiness: NaN, grew: false, byOpening: false };
     if (skipped) at.frac = WHILE_OPENING;
     const tooFar = (): boolean => m.softening > SOFTENING_LIMIT || (m.readiness = tipOvershoot(this.room())) > overshootLimit(this.c.crack!.insertAt ?? 1) || this.balanceMoved();
