@@ -27,7 +27,8 @@ async function runBar(law: 'linear' | 'bilinear' | 'exponential', GF: number, by
 
 describe('cohesive bar in tension (Hillerborg fictitious crack model)', () => {
   // Under displacement control the snap-back cannot be followed by the elongation; there the
-  // total crack opening drives the steps where no shorter displacement step converges.
+  // energy the faces dissipate drives the steps where no shorter displacement step converges
+  // (tests/solver.dissipation.test.ts checks that drive, and the total crack opening's).
   const runs = [
     ...(['linear', 'bilinear', 'exponential'] as const).flatMap((law) => [0.1, 0.01].map((GF) => ({ law, GF, by: 'cmod' }))),
     { law: 'exponential' as const, GF: 0.01, by: 'displacement' },

@@ -129,12 +129,21 @@ describe('splitting disc from its defaults (strips on the arc)', () => {
     // (measured: 7 cracks, peak 36453 N, the run stops at 5 % of it)
     expect(res.crackPaths.length).toBeGreaterThan(2);
     expect(res.rows.at(-1)!.load_N).toBeLessThan(0.25 * res.peak.load_N);
-    // energy balance (definition of GF): measured 1.05 % at the split (5.5 % before the line
-    // ahead was refined before loading and the strips' cells kept), 3.36 % at the worst step once
-    // the further cracks snap into the split at once: not the 1 % asked (DEVELOPERS.md)
+    // energy balance (definition of GF): measured 3.15 % at the worst step, all of it the
+    // 12.6 N·mm the split's step (under the peak load) adds as its line is refined under load (a
+    // mesh change, DEVELOPERS.md), weighed against the work after the snap-back, where the load
+    // point backs off (3.36 % at the end of the run with the joins' re-solves held at the fixed
+    // lateral opening)
     expect(worstEnergyGap(res.rows)?.share ?? 0).toBeLessThan(0.04);
+    // past the peak, where the further cracks join the split, every step keeps the balance it
+    // had at the peak within 1 % of the work: the re-solves that would snap at the fixed lateral
+    // opening are driven by the dissipation (Gutiérrez 2004; Verhoosel, Remmers & Gutiérrez
+    // 2009). Measured 0.21 %; 2.01 % with the fixed level (steps 26 and 41: +14.3 and +4.8 N·mm)
+    const gap = (r: (typeof res.rows)[number]): number => r.external_work_Nmm - r.elastic_energy_Nmm - r.dissipated_Nmm;
+    const atPeak = gap(res.rows[res.peak.step]);
+    for (const r of res.rows.slice(res.peak.step + 1)) expect(Math.abs(gap(r) - atPeak), `step ${r.step}`).toBeLessThan(0.01 * Math.abs(r.external_work_Nmm));
     // 240 increments; 200 or 300 let one of them snap through in a single step (22 % gap, the
     // load from 31.6 to 6.5 kN), which the run's warnings then report
     expect(runWarnings(c, res, null)).toEqual([]);
-  }, 120_000);
+  }, 300_000);
 });

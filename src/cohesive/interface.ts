@@ -86,8 +86,35 @@ export function interfaceEnergy(p: CohesiveParams, w: number, s: number, kappa: 
   const contact = w < 0 ? 0.5 * kp * w * w : 0;
   return {
     stored: 0.5 * (tau / k) * lam2 + contact,
-    dissipated: 0.5 * law.ft * l0 + law.energy(k - l0) - 0.5 * tau * k,
+    dissipated: dissipatedAt(law, l0, k, tau),
   };
+}
+
+/** Dissipated energy per unit area (N/mm) at history k ≥ λ0 with τ = τ(k): Ψ(k) − ½ τ(k) k. */
+function dissipatedAt(law: SofteningLaw, l0: number, k: number, tau: number): number {
+  return 0.5 * law.ft * l0 + law.energy(k - l0) - 0.5 * tau * k;
+}
+
+/**
+ * Energy dissipated per unit area (N/mm) by a point driven from history kappa to (w, s):
+ * d(max(kappa, λ, λ0)) (see interfaceEnergy), a function of the opening alone. Writes
+ * ∂d/∂(w, s) into grad: on the loading branch (λ ≥ kappa, λ > λ0) d'(λ)·∂λ/∂(w, s) with
+ * d'(λ) = ½ (τ − τ'λ) ≥ 0, elsewhere zero (an unloading or intact point dissipates nothing).
+ * Summed over the faces it is the constraint of the dissipation-driven path following.
+ */
+export function dissipationPoint(p: CohesiveParams, w: number, s: number, kappa: number, grad: Float64Array): number {
+  const law = p.law, l0 = law.ft / p.penalty;
+  const wp = w > 0 ? w : 0;
+  const lam = Math.sqrt(wp * wp + p.beta * s * s);
+  grad[0] = 0; grad[1] = 0;
+  const k0 = kappa > l0 ? kappa : l0;
+  // at λ = κ (where each converged step leaves a point that was opening) the derivative on
+  // the loading side: the drive asks for more dissipation, and a zero there would stall it
+  if (!(lam >= k0 && lam > l0)) return dissipatedAt(law, l0, k0, k0 === l0 ? law.ft : law.stress(k0 - l0));
+  const u = lam - l0, tau = law.stress(u);
+  const rate = 0.5 * (tau - law.slope(u) * lam) / lam;
+  grad[0] = rate * wp; grad[1] = rate * p.beta * s;
+  return dissipatedAt(law, l0, lam, tau);
 }
 
 /**

@@ -24,7 +24,7 @@ import { Equations, type Order2Setup } from './equations.js';
 import { insertNotchSlits, placeTips, refineNotchLines, cohesiveCut, grow, tipOvershoot, separated, nearestVertex, tipMeasures, tipDirections, type GrowthRoom } from './growth.js';
 import { tipRows, type TipMeasure } from './tips.js';
 import { recordStep, crackPolylines, type StepEvent } from './record.js';
-import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated, softeningWeights } from './steps.js';
+import { startState, propose, cut, accept, settle, MIN_FRACTION, WHILE_OPENING, AFTER_OPENING, type StepMode, type StepMeasure, energyJump, ENERGY_STEP, energyCreated, softeningWeights, released, lost, DISSIPATION_STEP, REDO_KEEP } from './steps.js';
 import {
   emptyState, save, restore, checkpointState, fromCheckpoint, SOLUTION, GEOMETRY,
   type CrackState, type AnalysisState, type LoopState, type Peak, type Saved,
@@ -48,6 +48,13 @@ export interface AnalysisOptions {
   stabilisation?: Stabilisation;
   /** A new topology copies the bulk rows its growth left alone (default true); false assembles every topology in full (tests compare the two). */
   carryRows?: boolean;
+  /**
+   * What drives a step where the case's control cannot (snap-back): 'dissipation' (default),
+   * the energy the faces dissipate, with the growth re-solves that would release energy at a
+   * fixed control level redone at the dissipation before them; 'opening', the total crack
+   * opening Σ A·w alone (tests and measurements compare the two).
+   */
+  pathDrive?: 'dissipation' | 'opening';
 }
 
 export interface AnalysisResult {
@@ -184,7 +191,7 @@ export class Analysis {
   private room(): GrowthRoom { return { c: this.c, wm: this.wm, s: this.s, coh: this.coh, eq: this.eq, D: this.D, ftAt: this.ftAt, rig: this.c.mesh.order === 2 ? [] : this.rig, holes: this.holes, domain: this.domain }; }
 
   private newtonOptions(kind: ControlKind, target: number): NewtonOptions {
-    const tolG = kind === 'force' ? 1e-8 * this.fScale : 1e-9 * Math.max(Math.abs(target), 1e-3);
+    const tolG = kind === 'force' ? 1e-8 * this.fScale : kind === 'dissipation' ? 1e-9 * Math.max(Math.abs(target), 1e-6 * this.fScale) : 1e-9 * Math.max(Math.abs(target), 1e-3);
     return { maxIter: 25, tolF: 1e-7 * this.fScale, tolG, floor: 1e-9 * this.coh.penalty, condense: this.opt.condense };
   }
 
@@ -285,6 +292,19 @@ export class Analysis {
     return energyCreated(last, s.W, en.elastic, en.dissipated, s.lastF - saved.lastF, s.lastLambda - saved.lastLambda);
   }
 
+  /** The solution released energy since the last row (steps.ts `released`), where the dissipation may drive instead. */
+  private snapped(): boolean {
+    const last = this.s.rows[this.s.rows.length - 1];
+    if (!last || this.opt.pathDrive === 'opening' || this.c.control.by === 'force') return false;
+    return released({ W: last.external_work_Nmm, elastic: last.elastic_energy_Nmm, dissipated: last.dissipated_Nmm }, this.balanceNow(this.eq.kapTrial));
+  }
+
+  /** Work done, energy stored and dissipated (N·mm) in the last solved state with the histories kap. */
+  private balanceNow(kap: Float64Array): { W: number; elastic: number; dissipated: number } {
+    const en = this.eq.energies(this.coh, kap);
+    return { W: this.s.W, elastic: en.elastic, dissipated: en.dissipated };
+  }
+
   /** Undo a step attempt: the solution as saved, the trial histories as committed. */
   private undo(saved: Solution): void {
     restore(this.s, saved);
@@ -298,7 +318,7 @@ export class Analysis {
    * converges.
    */
   private openingStep(saved: Solution): number | null {
-    const eq = this.eq;
+    const eq = this.equations();
     if (eq.sys.pairs.plus.length === 0) return null;
     eq.sys.expand(eq.uf, this.s.lambda, eq.work.u);
     const V0 = eq.sys.openingReading(eq.work.u);
@@ -311,6 +331,35 @@ export class Analysis {
       dV /= 2;
     }
     return null;
+  }
+
+  /**
+   * One step driven by the energy the faces dissipate (dissipation-based arc-length control,
+   * Gutiérrez 2004; Verhoosel, Remmers & Gutiérrez 2009): as much beyond the last converged
+   * state as the last step dissipated, at least DISSIPATION_STEP of all dissipated so far, halved while the cohesive stresses
+   * would fall too far in one step. Where nothing softens the constraint has no gradient and
+   * does not converge: then the total crack opening drives (openingStep). Null (state as
+   * saved) when neither converges.
+   */
+  private pathStep(saved: Solution): { kind: ControlKind; target: number } | null {
+    if (this.opt.pathDrive !== 'opening') {
+      const eq = this.equations();
+      if (eq.sys.pairs.plus.length > 0) {
+        eq.sys.expand(eq.uf, this.s.lambda, eq.work.u);
+        const D0 = eq.sys.dissipation(eq.work.u, this.coh, eq.kap);
+        // as much as the last step dissipated, at least DISSIPATION_STEP of all so far
+        const n = this.s.rows.length, last = n >= 2 ? this.s.rows[n - 1].dissipated_Nmm - this.s.rows[n - 2].dissipated_Nmm : 0;
+        let dD = Math.max(DISSIPATION_STEP * D0, last);
+        for (let k = 0; dD > 0 && k < 6; k++) {
+          const r = this.solveAt('dissipation', D0 + dD);
+          if (r.ok && (k === 5 || this.softening() <= SOFTENING_LIMIT)) return { kind: 'dissipation', target: D0 + dD };
+          this.undo(saved);
+          dD /= 2;
+        }
+      }
+    }
+    const V = this.openingStep(saved);
+    return V === null ? null : { kind: 'opening', target: V };
   }
 
   /**
@@ -336,19 +385,40 @@ export class Analysis {
    * growth. Returns '' when done, 'apart' when the specimen has come apart, or why a
    * re-solve failed (mesh and cracks are then as they were).
    */
-  private growAt(kind: ControlKind, target: number, peak: Peak): string {
+  private growAt(drive: { kind: ControlKind; target: number }, peak: Peak): string {
     // the undo snapshot (mesh included) is taken only once growth is about to change something
     let before: ReturnType<typeof save<typeof GEOMETRY[number]>> | null = null;
     const snap = (): void => { before ??= save(this.s, GEOMETRY, this.wm); };
     const maxGrowth = this.opt.maxGrowthPerStep ?? 60;
+    // a re-solve at the case's control level that releases stored energy the faces do not
+    // dissipate has snapped back: it is redone at the dissipation before it (below)
+    const watch = this.opt.pathDrive !== 'opening' && this.c.control.by !== 'force';
+    let en = watch ? this.balanceNow(this.eq.kapTrial) : null;
     for (let g = 0; g < maxGrowth; g++) {
       if (grow({ ...this.room(), beforeChange: snap }) === 0) break;
       this.dirty = true;
-      const r = this.solveAt(kind, target);
+      const { kind, target } = drive;
+      // the state to redo a snap from: the last solution carried onto the new mesh
+      const pre = en && !byPath(kind) ? (this.equations(), save(this.s, SOLUTION)) : null;
+      let r = this.solveAt(kind, target);
+      if (r.ok && pre && en) {
+        const now = this.balanceNow(this.eq.kapTrial);
+        if (released(en, now)) {
+          const fixed = save(this.s, SOLUTION);
+          this.undo(pre);
+          const rd = this.solveAt('dissipation', en.dissipated);
+          // kept where it loses at most REDO_KEEP of what the re-solve at the fixed level lost
+          // (the machine's work over such a jump is the trapezoid's guess either way)
+          if (rd.ok && Math.abs(lost(en, this.balanceNow(this.eq.kapTrial))) < REDO_KEEP * Math.abs(lost(en, now))) {
+            drive.kind = 'dissipation'; drive.target = en.dissipated; r = rd;
+          } else { this.undo(fixed); this.solveAt(kind, target); }
+        }
+      }
+      if (r.ok && en) en = this.balanceNow(this.eq.kapTrial);
       // a crack through to the boundary with little load left: the specimen has come apart
       if (!r.ok && separated(this.s) && Math.abs(this.s.lastF) <= 0.25 * Math.abs(peak.load_N)) return 'apart';
       if (!r.ok) {
-        if (kind === 'opening') return r.reason;
+        if (byPath(drive.kind)) return r.reason;
         restore(this.s, before!, this.wm);
         this.dirty = true;
         return r.reason;
@@ -451,6 +521,9 @@ export class Analysis {
     let r = skipped ? { ok: false, reason: '' } : this.solveAt(kind, target, this.predict(target - at.done), early);
     // a state holding more energy than the machine put in lies on no loading path: the step failed
     if (r.ok && !elastic && this.gainedEnergy(saved)) { this.undo(saved); r = { ok: false, reason: 'its solution held more energy than the machine\'s work supplied' }; }
+    // the shortest step is not judged by its softening: one whose solution releases stored
+    // energy the faces do not dissipate has snapped, and the dissipation drives it instead
+    if (r.ok && !elastic && !checked && !skipped && this.snapped()) { this.undo(saved); r = { ok: false, reason: 'its solution released stored energy the faces did not dissipate' }; }
     const m: StepMeasure = this.measure = { iterations: this.iterations - it0, softening: r.ok && !elastic ? this.softening() : 0, readiness: NaN, grew: false, byOpening: false };
     if (skipped) at.frac = WHILE_OPENING;
     const tooFar = (): boolean => m.softening > SOFTENING_LIMIT || (m.readiness = tipOvershoot(this.room())) > overshootLimit(this.c.crack!.insertAt ?? 1) || this.balanceMoved();
@@ -462,20 +535,22 @@ export class Analysis {
     if (!r.ok) {
       if (!cut(at)) return null;
       if (ctl.by === 'force' && at.peak.load_N > 0) return { end: `the load cannot be raised above ${at.peak.load_N.toFixed(1)} N under force control (peak reached)` };
-      // where the load and the gauge both turn back (snap-back), the total crack opening
-      // still grows: let it drive this step
-      const V = ctl.by === 'force' ? null : this.openingStep(saved);
-      // no opening step either: the case's control has one more go before the run stops
+      // where the load and the gauge both turn back (snap-back), the energy dissipated on the
+      // faces (or their total opening) still grows: let it drive this step
+      const V = ctl.by === 'force' ? null : this.pathStep(saved);
+      // no such step either: the case's control has one more go before the run stops
       if (V === null && skipped) { at.opening = false; at.frac = AFTER_OPENING; return null; }
       if (V === null) throw new RunStopped(`step ${at.step + 1} did not converge at ${ctl.by} ${target.toPrecision(4)} after cutting the increment 6 times: ${r.reason}`);
-      target = V; kind = 'opening';
+      target = V.target; kind = V.kind;
       this.measure.byOpening = true;
     }
     if (elastic) return { kind, target };
-    // staggered growth at this control level (or at this crack opening)
-    const failed = this.growAt(kind, target, at.peak);
+    // staggered growth at this control level (or at this crack opening or dissipation)
+    const drive = { kind, target };
+    const failed = this.growAt(drive, at.peak);
+    if (drive.kind !== kind) { kind = drive.kind; target = drive.target; this.measure.byOpening = true; }
     if (failed === 'apart') return { end: 'a crack has run through the specimen, which has come apart' };
-    if (failed && kind === 'opening') throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew while the crack opening drove the step: ${failed}`);
+    if (failed && byPath(kind)) throw new RunStopped(`step ${at.step + 1} did not converge after the crack grew while the crack ${kind === 'opening' ? 'opening' : 'faces\' dissipation'} drove the step: ${failed}`);
     if (failed) {
       // the growth is undone; undo the step too and come at it again in a shorter one
       // (the equations are rebuilt for the old mesh, with uf and the histories)
@@ -509,13 +584,13 @@ export class Analysis {
   private converged(at: LoopState, kind: ControlKind, target: number, start: { uw: Float64Array; mid: Float64Array | null; lambda: number; level: number; growth: number }): StepEvent {
     const ctl = this.c.control;
     const s = this.s;
-    s.trend = kind !== 'opening' && s.growthLog.length === start.growth && start.uw.length === s.uw.length
+    s.trend = !byPath(kind) && s.growthLog.length === start.growth && start.uw.length === s.uw.length
       ? { du: s.uw.map((v, i) => v - start.uw[i]), dLambda: s.lambda - start.lambda, dLevel: target - start.level } : null;
     if (s.trend && s.mid && start.mid?.length === s.mid.u.length) s.trend.dmid = s.mid.u.map((v, i) => v - start.mid![i]);
     this.eq.commit(this.s.kappa);
-    // driven by the opening, the level reached is the gauge reading or the load-point travel
-    const level = kind !== 'opening' ? target : ctl.by === 'cmod' ? this.eq.sys.gaugeReading(this.eq.work.u) : this.s.lambda;
-    accept(at, level, kind === 'opening');
+    // driven by the opening or the dissipation, the level reached is the gauge reading or the load-point travel
+    const level = !byPath(kind) ? target : ctl.by === 'cmod' ? this.eq.sys.gaugeReading(this.eq.work.u) : this.s.lambda;
+    accept(at, level, byPath(kind), kind === 'dissipation');
     this.measure.grew = s.growthLog.length !== start.growth;
     const ev = this.record(at.step, level);
     this.peakLoad = Math.max(this.peakLoad, Math.abs(ev.row.load_N));
@@ -593,6 +668,9 @@ export class Analysis {
     };
   }
 }
+
+/** The step is driven by a measure of the cracks (a snap-back path), not by the case's control. */
+function byPath(kind: ControlKind): boolean { return kind === 'opening' || kind === 'dissipation'; }
 
 /** The nodes whose key is among the released ones (order 2: vertex stable ids and midpoint keys). */
 function nodesOf(key: Float64Array, released: readonly number[]): number[] {

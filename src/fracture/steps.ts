@@ -42,6 +42,36 @@ export const PEAK_MISS = 1e-3;
 /** Largest share of the peak load the curve may leave its chord between two rows away from a peak (adaptive). */
 export const CHORD_MISS = 1e-2;
 
+/** Dissipation added by a step driven by the faces' dissipation, as a share of the energy dissipated so far. */
+export const DISSIPATION_STEP = 0.01;
+
+/**
+ * Largest share of the work a growth re-solve at a fixed control level may lose from the
+ * balance while releasing stored energy, before it counts as a snap (steps.ts `released`).
+ */
+export const RELEASE_LIMIT = 1e-3;
+
+/** Share of a snapping re-solve's loss of balance that its redo driven by the dissipation may keep and still be taken. */
+export const REDO_KEEP = 0.5;
+
+type Balance = { W: number; elastic: number; dissipated: number };
+
+/**
+ * A re-solve from state a to state b released energy: the stored energy fell by more than the
+ * faces dissipated, and the balance work − stored − dissipated moved by more than RELEASE_LIMIT
+ * of the work (the first law: what the machine supplies is stored or dissipated; common
+ * practice). Energy that the balance gains while the stored energy stays (a mesh change under
+ * load) is not a snap.
+ */
+export function released(a: Balance, b: Balance): boolean {
+  return a.elastic - b.elastic > b.dissipated - a.dissipated && lost(a, b) > RELEASE_LIMIT * Math.max(Math.abs(b.W), Number.MIN_VALUE);
+}
+
+/** How far the balance work − stored − dissipated moved from state a to state b (N·mm; positive: energy lost). */
+export function lost(a: Balance, b: Balance): number {
+  return (b.W - a.W) - (b.elastic - a.elastic) - (b.dissipated - a.dissipated);
+}
+
 /** Largest change of the energy balance (work − elastic − dissipated) in one step, as a share of the work (adaptive). */
 export const ENERGY_STEP = 1e-3;
 
@@ -124,12 +154,15 @@ export function cut(at: LoopState): boolean {
 /**
  * A converged step at `level` of the case's control. Driven by the crack opening, the level
  * reached may lie below the one before (snap-back): the next step is then driven so too.
+ * With `rewind` (driven by the dissipation) the case's control takes over again from the level
+ * reached as soon as a step has raised it (the curve then goes back and comes up again);
+ * without, only once it passes the highest level reached.
  */
-export function accept(at: LoopState, level: number, byOpening: boolean): void {
+export function accept(at: LoopState, level: number, byOpening: boolean, rewind = false): void {
   if (byOpening) {
     at.frac = AFTER_OPENING;
     at.opening = level <= at.done;
-    at.done = Math.max(at.done, level);
+    at.done = rewind ? level : Math.max(at.done, level);
   } else { at.done = level; at.opening = false; }
   at.step++;
 }

@@ -599,6 +599,41 @@ export class Condensation {
     }
   }
 
+  /**
+   * The energy the faces dissipate from the histories kappa at the jumps y, D(y) = Σ A·d
+   * (System.dissipation): a function of the jumps alone, so on them it is exact and does not
+   * depend on λ. With grad (length nc) its gradient on the jumps, overwritten.
+   */
+  dissipation(y: Float64Array, coh: CohesiveParams, kappa: Float64Array, grad: Float64Array | null): number {
+    const sys = this.sys, J = this.jumpOf, np = J.length >> 1, g = sys.dg, bP = this.bPtr, bJ = this.bJ, bW = this.bW;
+    if (grad) grad.fill(0);
+    let D = 0;
+    for (let p = 0; p < np; p++) {
+      if (this.simple[p]) {
+        const jx = J[2 * p], jy = J[2 * p + 1];
+        D += sys.pairDissipation(p, jx >= 0 ? y[jx] : 0, jy >= 0 ? y[jy] : 0, coh, kappa);
+        if (!grad) continue;
+        if (jx >= 0) grad[jx] += g[0];
+        if (jy >= 0) grad[jy] += g[1];
+        continue;
+      }
+      // off the tree: the jump is B·y, the gradient Bᵀ∂d
+      const x0 = bP[2 * p], x1 = bP[2 * p + 1], y1 = bP[2 * p + 2];
+      let dx = 0, dy = 0;
+      for (let t = x0; t < x1; t++) dx += bW[t] * y[bJ[t]];
+      for (let t = x1; t < y1; t++) dy += bW[t] * y[bJ[t]];
+      D += sys.pairDissipation(p, dx, dy, coh, kappa);
+      if (!grad) continue;
+      for (let t = x0; t < x1; t++) grad[bJ[t]] += bW[t] * g[0];
+      for (let t = x1; t < y1; t++) grad[bJ[t]] += bW[t] * g[1];
+    }
+    return D;
+  }
+
+  /** Scratch for the dissipation's gradient on the jumps. */
+  private dGrad: Float64Array | null = null;
+  get dissipationGrad(): Float64Array { return this.dGrad ??= new Float64Array(this.nc); }
+
   /** LDLᵀ of the tangent T in place; throws on a zero pivot. */
   factorT(): void {
     const j = ldltDense(this.T, this.nc, this.d, this.wk);

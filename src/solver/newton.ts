@@ -2,13 +2,16 @@
 // The load factor λ is an unknown beside the free displacements; one scalar constraint
 // closes the system (bordered solve with two back-substitutions per iteration):
 //   displacement: λ = target;  cmod: gauge(u) = target;  force: F(u) = target;
-//   opening: Σ A·w over all crack-face pairs = target (drives a step through a snap-back).
+//   opening: Σ A·w over all crack-face pairs = target (drives a step through a snap-back);
+//   dissipation: energy dissipated on the faces from the committed histories, D(u) = target
+//   (dissipation-based path following: Gutiérrez 2004, Verhoosel, Remmers & Gutiérrez 2009).
+//   D is not linear in u: its gradient is taken afresh at every iteration.
 import type { CohesiveParams } from '../cohesive/interface.js';
 import { SingularMatrixError } from '../errors.js';
 import type { System } from './system.js';
 import { Condensation } from './condensed.js';
 
-export type ControlKind = 'displacement' | 'cmod' | 'force' | 'opening';
+export type ControlKind = 'displacement' | 'cmod' | 'force' | 'opening' | 'dissipation';
 
 export interface StepResult {
   converged: boolean; iterations: number; reason: string;
@@ -67,7 +70,7 @@ function residual(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
   for (let i = 0; i < w.r.length; i++) { const av = Math.abs(w.r[i]); if (av > rmax || av !== av) rmax = av !== av ? Infinity : av; }
   const F = sys.loadForce(w.f);
   const g = kind === 'displacement' ? lambda - target : kind === 'cmod' ? sys.gaugeReading(w.u) - target
-    : kind === 'opening' ? sys.openingReading(w.u) - target : F - target;
+    : kind === 'opening' ? sys.openingReading(w.u) - target : kind === 'dissipation' ? sys.dissipation(w.u, coh!, kappa) - target : F - target;
   return { rmax, g, F };
 }
 
@@ -91,7 +94,8 @@ export function solveStep(sys: System, coh: CohesiveParams | null, kappa: Float6
 function fullStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, kappaTrial: Float64Array,
   kind: ControlKind, target: number, st: StepState, opt: NewtonOptions, w: NewtonWork): StepResult {
   const m = sys.nFree;
-  const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : sys.driven;
+  const { gauge, gaugeW } = kind === 'opening' ? sys.openingGauge : kind === 'dissipation' ? { gauge: sys.openingGauge.gauge, gaugeW: sys.dissipationWeights } : sys.driven;
+  if (kind === 'dissipation' && !coh) return { converged: false, iterations: 0, reason: 'no crack faces to drive the step by their dissipation' };
   if (kind === 'displacement') st.lambda = target;
   const sec = opt.secant ?? false;
   let res = residual(sys, coh, kappa, kappaTrial, kind, target, st.uf, st.lambda, w, true, opt.floor, sec);
@@ -114,6 +118,7 @@ function fullStep(sys: System, coh: CohesiveParams | null, kappa: Float64Array, 
     // constraint gradient (g_f over free dofs, g_λ)
     w.gf.fill(0);
     if (kind === 'displacement') gl = 1;
+    else if (kind === 'dissipation') { sys.dissipation(w.u, coh!, kappa, gaugeW); gl = sys.gaugeGradient(w.gf, w.z, gauge, gaugeW); }
     else if (kind === 'cmod' || kind === 'opening') gl = sys.gaugeGradient(w.gf, w.z, gauge, gaugeW);
     else {
       w.gf.set(w.kfl);
@@ -175,9 +180,11 @@ function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa
     });
     gc = G.gc; gl0 = G.gl;
   }
+  if (kind === 'dissipation') gc = cd.dissipationGrad;
   const constraint = (q: Float64Array, lam: number, F: number): number => {
     if (kind === 'displacement') return lam - target;
     if (kind === 'force') return F - target;
+    if (kind === 'dissipation') return cd.dissipation(q, coh, kappa, null) - target;
     let g = gl0 * lam;
     for (let i = 0; i < nc; i++) g += gc![i] * q[i];
     return g - target;
@@ -209,7 +216,10 @@ function condensedStep(sys: System, cd: Condensation, coh: CohesiveParams, kappa
     let gl: number, ga = 0, gb = 0;
     if (kind === 'displacement') gl = 1;
     else if (kind === 'force') { gl = cd.kll; for (let i = 0; i < nc; i++) { ga += s[i] * a[i]; gb += s[i] * b[i]; } }
-    else { gl = gl0; for (let i = 0; i < nc; i++) { ga += gc![i] * a[i]; gb += gc![i] * b[i]; } }
+    else {
+      // the dissipation's gradient at this iterate (on the jumps only: gl0 stays 0)
+      if (kind === 'dissipation') cd.dissipation(qc, coh, kappa, gc);
+      gl = gl0; for (let i = 0; i < nc; i++) { ga += gc![i] * a[i]; gb += gc![i] * b[i]; } }
     const den = gl - gb;
     if (!(Math.abs(den) > 0)) return { converged: false, iterations: it, reason: 'the control does not determine the load (check the gauge and the load points)' };
     // force control: the step on F at fixed jumps (s, κ̂ above), the same step as the full

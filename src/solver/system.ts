@@ -7,7 +7,7 @@ import {
   patternFromBlocks, assemblyMap, findEntry, blockMapOffsets, matrixOnPattern, matVec, submatrix, submatrixInto,
   analyze, factorize, factorizeTrailing, fillReducingOrder, type CsrMatrix, type SubMatrix, type Symbolic, type Factor,
 } from '../linalg/index.js';
-import { cohesivePoint, type CohesiveParams } from '../cohesive/interface.js';
+import { cohesivePoint, dissipationPoint, type CohesiveParams } from '../cohesive/interface.js';
 import { reducedMatrix, refill, type Reduced, type Slaves } from './reduce.js';
 import { carryBulk, compactOfStable, type BulkRecord } from './carry.js';
 
@@ -309,6 +309,47 @@ export class System {
     M[3] = A * (ny * ny * c00 - nx * ny * (c01 + c10) + nx * nx * c11) + floor * A;
     return fx;
   }
+
+  /** ∂D/∂(dx, dy) of the last pairDissipation. */
+  readonly dg = new Float64Array(2);
+
+  /**
+   * Energy pair p dissipates (N·mm) from its history kappa[p] at the jump (dx, dy) = u⁺ − u⁻,
+   * A·d(max(κ, λ)) (cohesive/interface.ts `dissipationPoint`); its gradient on the jump in dg.
+   */
+  pairDissipation(p: number, dx: number, dy: number, coh: CohesiveParams, kappa: Float64Array): number {
+    const P = this.pairs, nx = P.nx[p], ny = P.ny[p], A = P.area[p], g = this.dg;
+    const w = dx * nx + dy * ny, s = dx * ny - dy * nx;
+    const d = A * dissipationPoint(this.pairCoh ? this.pairCoh[p] : coh, w, s, kappa[p], g);
+    const gw = A * g[0], gs = A * g[1];
+    g[0] = gw * nx + gs * ny; g[1] = gw * ny - gs * nx;
+    return d;
+  }
+
+  /**
+   * The energy the faces dissipate at displacement u from the histories kappa, D(u) = Σ A·d
+   * (N·mm): the constraint of the dissipation-driven steps. With `weights` (the length of
+   * openingGauge's dofs) its gradient on those dofs, for gaugeGradient; zero on every pair
+   * that is intact or unloading.
+   */
+  dissipation(u: Float64Array, coh: CohesiveParams, kappa: Float64Array, weights?: Float64Array): number {
+    const P = this.pairs, g = this.dg;
+    let D = 0;
+    for (let p = 0; p < P.plus.length; p++) {
+      const a = P.plus[p], b = P.minus[p];
+      D += this.pairDissipation(p, u[2 * a] - u[2 * b], u[2 * a + 1] - u[2 * b + 1], coh, kappa);
+      if (!weights) continue;
+      weights[4 * p] = g[0]; weights[4 * p + 1] = g[1]; weights[4 * p + 2] = -g[0]; weights[4 * p + 3] = -g[1];
+    }
+    return D;
+  }
+
+  /** Scratch weights of the dissipation's gradient on openingGauge's dofs (allocated once per topology). */
+  get dissipationWeights(): Float64Array {
+    return this.dissW ??= new Float64Array(4 * this.pairs.plus.length);
+  }
+
+  private dissW: Float64Array | null = null;
 
   /**
    * Ordering and symbolic factorization of the free–free block, once per topology. The free
